@@ -1,0 +1,20 @@
+"""convlib: heat lost (or gained) by pipes, ducts and vessels to the air around them.
+
+The public surface (names are stable; see DEVELOPERS.md):
+
+>>> import convlib as cl
+>>> r = cl.bare_surface(surface_temperature=353.15, air_temperature=293.15, diameter=0.1, length=1.0)
+>>> round(float(r.q_per_length))
+245
+"""
+from . import correlations, geometry, radiation, regimes
+from .correlations import catalog, nusselt
+from .properties import FluidProperties, air, dew_point, fluid_properties
+from .surface import SurfaceResult, bare_surface
+
+__version__ = "0.1.0"
+
+__all__ = [
+    "air", "fluid_properties", "FluidProperties", "dew_point", "nusselt", "catalog", "correlations",
+    "bare_surface", "SurfaceResult", "geometry", "radiation", "regimes", "__version__",
+]

@@ -1,0 +1,316 @@
+"""The correlation registry: one frozen record per published law, dispatch by look-up.
+
+To add a correlation: write its function in ``natural.py`` or ``forced.py``
+and append one :class:`Correlation` record to :data:`REGISTRY`. The test
+suite is parametrized over every record, so a record whose function, ranges
+or metadata are inconsistent fails at once.
+"""
+from __future__ import annotations
+
+import warnings
+from dataclasses import dataclass
+from typing import Callable
+
+import numpy as np
+
+from ..regimes import Flag, summarize_flags
+from . import forced as _f
+from . import natural as _n
+
+__all__ = [
+    "Correlation", "REGISTRY", "GEOMETRIES", "catalog", "get", "methods", "evaluate", "nusselt",
+    "OutOfRangeWarning",
+]
+
+
+class OutOfRangeWarning(UserWarning):
+    """A correlation was evaluated outside its published validity range."""
+
+
+@dataclass(frozen=True)
+class Correlation:
+    """Metadata of one published correlation.
+
+    Ranges are inclusive ``(low, high)`` pairs; ``None`` means the source
+    states no limit on that group. ``accuracy_percent`` is the stated (or, where
+    marked, the customary) scatter band, read as a 95 % band by the studies.
+    """
+
+    key: str
+    geometry: str
+    mode: str  # "natural" or "forced"
+    function: Callable
+    inputs: tuple[str, ...]
+    citation: str
+    doi: str | None = None
+    ra_range: tuple[float, float] | None = None
+    gr_range: tuple[float, float] | None = None
+    re_range: tuple[float, float] | None = None
+    pr_range: tuple[float, float] | None = None
+    extra_ranges: tuple[tuple[str, float, float], ...] = ()
+    accuracy_percent: float = 20.0
+    accuracy_note: str = ""
+    property_temperature: str = "film"  # "film" or "free_stream"
+    fitted_for_air_only: bool = False
+    boundaries: tuple[tuple[str, float, str], ...] = ()  # (group, value, "upper"|"lower" piece owns it)
+    length_scale: str = "diameter"
+    notes: str = ""
+
+    def as_dict(self) -> dict:
+        """Plain record for tables and JSON (no function object)."""
+        out = {k: v for k, v in self.__dict__.items() if k != "function"}
+        out["function"] = f"{self.function.__module__}.{self.function.__name__}"
+        return out
+
+
+_CC_HC = "Churchill & Chu (1975), Int. J. Heat Mass Transfer 18:1049"
+_CC_VP = "Churchill & Chu (1975), Int. J. Heat Mass Transfer 18:1323"
+_POPIEL = " with the slender-cylinder factor of Popiel, Wojtkowiak & Bober (2007), Exp. Therm. Fluid Sci. 32:607"
+_TYPICAL = "no single figure stated by the source; ±20 % is the customary band for free-convection laws (common practice, no source)"
+
+REGISTRY: tuple[Correlation, ...] = (
+    # ---- horizontal cylinder, natural
+    Correlation("churchill_chu", "horizontal_cylinder", "natural", _n.nusselt_horizontal_cylinder_churchill_chu,
+                ("Ra", "Pr"), _CC_HC + ", eq. 4", "10.1016/0017-9310(75)90222-7",
+                ra_range=(1e-5, 1e12), accuracy_note=_TYPICAL),
+    Correlation("churchill_chu_laminar", "horizontal_cylinder", "natural",
+                _n.nusselt_horizontal_cylinder_churchill_chu_laminar, ("Ra", "Pr"), _CC_HC + ", eq. 5",
+                "10.1016/0017-9310(75)90222-7", ra_range=(1e-6, 1e9), accuracy_note=_TYPICAL),
+    Correlation("morgan", "horizontal_cylinder", "natural", _n.nusselt_horizontal_cylinder_morgan, ("Ra",),
+                "Morgan (1975), Advances in Heat Transfer 11:199, Table II", "10.1016/S0065-2717(08)70075-3",
+                ra_range=(1e-10, 1e12), pr_range=(0.6, 1.0), fitted_for_air_only=True,
+                accuracy_note=_TYPICAL,
+                boundaries=(("Ra", 1e-2, "upper"), ("Ra", 1e2, "upper"), ("Ra", 1e4, "upper"), ("Ra", 1e7, "upper")),
+                notes="fitted for air; flagged for other fluids"),
+    Correlation("kuehn_goldstein", "horizontal_cylinder", "natural", _n.nusselt_horizontal_cylinder_kuehn_goldstein,
+                ("Ra", "Pr"), "Kuehn & Goldstein (1976), Int. J. Heat Mass Transfer 19:1127",
+                "10.1016/0017-9310(76)90145-9", ra_range=(1e-7, 1e12), pr_range=(0.5, None),
+                accuracy_note=_TYPICAL, notes="not for low-Pr fluids; Ra range from memory"),
+    # ---- vertical plate, natural (length scale = height)
+    Correlation("churchill_chu", "vertical_plate", "natural", _n.nusselt_vertical_plate_churchill_chu, ("Ra", "Pr"),
+                _CC_VP + ", eq. 6", "10.1016/0017-9310(75)90243-4", ra_range=(1e-1, 1e12),
+                accuracy_note=_TYPICAL, length_scale="height"),
+    Correlation("churchill_chu_laminar", "vertical_plate", "natural",
+                _n.nusselt_vertical_plate_churchill_chu_laminar, ("Ra", "Pr"), _CC_VP + ", eq. 5",
+                "10.1016/0017-9310(75)90243-4", ra_range=(1e-1, 1e9), accuracy_note=_TYPICAL,
+                length_scale="height"),
+    # ---- vertical cylinder, natural (length scale = height)
+    Correlation("churchill_chu", "vertical_cylinder", "natural", _n.nusselt_vertical_cylinder_churchill_chu,
+                ("Ra", "Pr", "diameter_over_length"), _CC_VP + ", eq. 6" + _POPIEL, "10.1016/0017-9310(75)90243-4",
+                ra_range=(1e-1, 1e12), accuracy_note=_TYPICAL, length_scale="height",
+                boundaries=(("thin_cylinder", 35.0, "lower"),),
+                notes="plate law where D/L >= 35/Gr_L^(1/4), otherwise corrected (flagged)"),
+    Correlation("churchill_chu_laminar", "vertical_cylinder", "natural",
+                _n.nusselt_vertical_cylinder_churchill_chu_laminar, ("Ra", "Pr", "diameter_over_length"),
+                _CC_VP + ", eq. 5" + _POPIEL, "10.1016/0017-9310(75)90243-4", ra_range=(1e-1, 1e9),
+                accuracy_note=_TYPICAL, length_scale="height", boundaries=(("thin_cylinder", 35.0, "lower"),)),
+    # ---- horizontal plates, natural (length scale = area / perimeter)
+    Correlation("mcadams", "horizontal_plate_up", "natural", _n.nusselt_horizontal_plate_up_mcadams, ("Ra",),
+                "McAdams (1954), Heat Transmission, 3rd ed., ch. 7", None, ra_range=(1e4, 1e11),
+                pr_range=(0.7, None), accuracy_note=_TYPICAL, boundaries=(("Ra", 1e7, "lower"),),
+                length_scale="area_over_perimeter"),
+    Correlation("vdi", "horizontal_plate_up", "natural", _n.nusselt_horizontal_plate_up_vdi, ("Ra", "Pr"),
+                "VDI Heat Atlas, 2nd ed. (2010), part F2; laminar branch Stewartson (1958), ZAMP 9:276",
+                "10.1007/BF02033031", ra_range=(1e1, 1e12), accuracy_note=_TYPICAL,
+                boundaries=(("Ra_f2", 7e4, "lower"),), length_scale="area_over_perimeter",
+                notes="Ra range from memory"),
+    Correlation("mcadams", "horizontal_plate_down", "natural", _n.nusselt_horizontal_plate_down_mcadams, ("Ra",),
+                "McAdams (1954), Heat Transmission, 3rd ed., ch. 7", None, ra_range=(3e5, 3e10),
+                pr_range=(0.7, None), accuracy_note=_TYPICAL, length_scale="area_over_perimeter"),
+    Correlation("vdi", "horizontal_plate_down", "natural", _n.nusselt_horizontal_plate_down_vdi, ("Ra", "Pr"),
+                "VDI Heat Atlas, 2nd ed. (2010), part F2", None, ra_range=(1e3, 1e10), accuracy_note=_TYPICAL,
+                length_scale="area_over_perimeter", notes="Ra range from memory"),
+    # ---- sphere, natural
+    Correlation("churchill", "sphere", "natural", _n.nusselt_sphere_churchill, ("Ra", "Pr"),
+                "Churchill (1983), Heat Exchanger Design Handbook, section 2.5.7", None,
+                ra_range=(0.0, 1e13), pr_range=(0.7, None), accuracy_note=_TYPICAL),
+    Correlation("yuge", "sphere", "natural", _n.nusselt_sphere_yuge, ("Ra", "Pr"),
+                "Yuge (1960), J. Heat Transfer 82:214", "10.1115/1.3679912", gr_range=(1.0, 1e5),
+                pr_range=(0.6, 1.0), fitted_for_air_only=True, accuracy_note=_TYPICAL),
+    # ---- cylinder in cross-flow, forced
+    Correlation("churchill_bernstein", "cylinder_crossflow", "forced",
+                _f.nusselt_cylinder_crossflow_churchill_bernstein, ("Re", "Pr"),
+                "Churchill & Bernstein (1977), J. Heat Transfer 99:300, eq. 25", "10.1115/1.3450685",
+                re_range=(1e-2, 1e7), extra_ranges=(("RePr", 0.2, np.inf),), accuracy_percent=20.0,
+                accuracy_note="about ±20 % for most data (source, from memory)"),
+    Correlation("hilpert", "cylinder_crossflow", "forced", _f.nusselt_cylinder_crossflow_hilpert, ("Re", "Pr"),
+                "Hilpert (1933), Forsch. Ing.-Wes. 4:215; constants of Knudsen & Katz (1958)",
+                "10.1007/BF02719754", re_range=(0.4, 4e5), pr_range=(0.7, None), accuracy_percent=25.0,
+                accuracy_note="about ±25 % (common practice, no source)",
+                boundaries=(("Re", 4.0, "upper"), ("Re", 40.0, "upper"), ("Re", 4000.0, "upper"),
+                            ("Re", 40000.0, "upper"))),
+    Correlation("zukauskas", "cylinder_crossflow", "forced", _f.nusselt_cylinder_crossflow_zukauskas,
+                ("Re", "Pr", "Pr_s"), "Zukauskas (1972), Advances in Heat Transfer 8:93",
+                "10.1016/S0065-2717(08)70038-8", re_range=(1.0, 1e6), pr_range=(0.7, 500.0),
+                accuracy_percent=25.0, accuracy_note="about ±25 % (common practice, no source)",
+                property_temperature="free_stream",
+                boundaries=(("Re", 40.0, "upper"), ("Re", 1e3, "upper"), ("Re", 2e5, "upper"), ("Pr", 10.0, "lower")),
+                notes="properties at the free stream, Pr_s at the surface"),
+    # ---- sphere in a stream, forced
+    Correlation("whitaker", "sphere_crossflow", "forced", _f.nusselt_sphere_crossflow_whitaker,
+                ("Re", "Pr", "viscosity_ratio"), "Whitaker (1972), AIChE J. 18:361", "10.1002/aic.690180219",
+                re_range=(3.5, 7.6e4), pr_range=(0.71, 380.0), extra_ranges=(("viscosity_ratio", 1.0, 3.2),),
+                accuracy_percent=30.0, accuracy_note="±30 % (source)", property_temperature="free_stream"),
+    # ---- flat plate in parallel flow, forced (length scale = length along the flow)
+    Correlation("laminar", "plate_parallel_flow", "forced", _f.nusselt_plate_parallel_flow_laminar, ("Re", "Pr"),
+                "Pohlhausen (1921), ZAMM 1:115", "10.1002/zamm.19210010205", re_range=(1e2, 5e5),
+                pr_range=(0.6, None), accuracy_percent=10.0,
+                accuracy_note="exact similarity solution; real wind is rarely laminar (common practice, no source)",
+                length_scale="flow_length"),
+    Correlation("mixed_layer", "plate_parallel_flow", "forced", _f.nusselt_plate_parallel_flow_mixed_layer,
+                ("Re", "Pr"), "Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eq. 7.38", None,
+                re_range=(1e2, 1e8), pr_range=(0.6, 60.0), accuracy_percent=25.0,
+                accuracy_note="about ±25 % (common practice, no source)",
+                boundaries=(("Re", 5e5, "lower"),), length_scale="flow_length"),
+)
+
+GEOMETRIES: tuple[str, ...] = tuple(dict.fromkeys(rec.geometry for rec in REGISTRY))
+_LOOKUP: dict[tuple[str, str], Correlation] = {(rec.geometry, rec.key): rec for rec in REGISTRY}
+
+
+def catalog(geometry: str | None = None, mode: str | None = None) -> list[dict]:
+    """List the registry as plain records (optionally for one geometry and mode).
+
+    Examples
+    --------
+    >>> [r["key"] for r in catalog("horizontal_cylinder")]
+    ['churchill_chu', 'churchill_chu_laminar', 'morgan', 'kuehn_goldstein']
+    """
+    return [rec.as_dict() for rec in REGISTRY
+            if (geometry is None or rec.geometry == geometry) and (mode is None or rec.mode == mode)]
+
+
+def methods(geometry: str, mode: str | None = None) -> list[str]:
+    """Keys of the correlations registered for a geometry.
+
+    >>> methods("cylinder_crossflow")
+    ['churchill_bernstein', 'hilpert', 'zukauskas']
+    """
+    _check_geometry(geometry)
+    return [rec.key for rec in REGISTRY if rec.geometry == geometry and (mode is None or rec.mode == mode)]
+
+
+def _check_geometry(geometry: str) -> None:
+    if geometry not in GEOMETRIES:
+        raise ValueError(f"unknown geometry {geometry!r}; choose one of: {', '.join(GEOMETRIES)}")
+
+
+def get(geometry: str, method: str) -> Correlation:
+    """The record for (geometry, method); unknown names raise ``ValueError`` listing the choices."""
+    _check_geometry(geometry)
+    try:
+        return _LOOKUP[(geometry, method)]
+    except KeyError:
+        raise ValueError(f"unknown method {method!r} for geometry {geometry!r}; choose one of: "
+                         f"{', '.join(methods(geometry))}") from None
+
+
+def _outside(value, bounds) -> np.ndarray:
+    low, high = bounds
+    out = np.zeros(np.shape(value), dtype=bool)
+    if low is not None:
+        out |= value < low
+    if high is not None:
+        out |= value > high
+    return out
+
+
+def evaluate(geometry: str, method: str, **groups) -> tuple[np.ndarray, np.ndarray]:
+    """Evaluate a correlation and its validity flags.
+
+    Parameters
+    ----------
+    geometry, method : str
+        Registry keys.
+    **groups : numeric
+        The dimensionless inputs the record names (``Ra``, ``Re``, ``Pr``,
+        ``Pr_s``, ``diameter_over_length``, ``viscosity_ratio``).
+
+    Returns
+    -------
+    nusselt : numpy.ndarray
+        Nusselt number on the record's length scale [-]
+    flags : numpy.ndarray of int
+        Bit mask of :class:`convlib.regimes.Flag` per point.
+    """
+    rec = get(geometry, method)
+    missing = [name for name in rec.inputs if groups.get(name) is None and name not in ("Pr_s", "viscosity_ratio")]
+    if missing:
+        raise ValueError(f"{geometry}/{method} needs {', '.join(missing)}; inputs are {', '.join(rec.inputs)}")
+    args = {name: np.asarray(groups[name], dtype=float) for name in rec.inputs if groups.get(name) is not None}
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        nu = np.asarray(rec.function(**args), dtype=float)
+    shape = nu.shape
+    pr = groups.get("Pr")
+    range_bit = Flag.NATURAL_OUT_OF_RANGE if rec.mode == "natural" else Flag.FORCED_OUT_OF_RANGE
+    flags = np.zeros(shape, dtype=np.int16)
+    if rec.ra_range is not None:
+        flags |= np.where(_outside(np.asarray(groups["Ra"], float), rec.ra_range), range_bit, 0).astype(np.int16)
+    if rec.gr_range is not None:
+        gr = np.asarray(groups["Ra"], float) / np.asarray(pr, float)
+        flags |= np.where(_outside(gr, rec.gr_range), range_bit, 0).astype(np.int16)
+    if rec.re_range is not None:
+        flags |= np.where(_outside(np.asarray(groups["Re"], float), rec.re_range), range_bit, 0).astype(np.int16)
+    if rec.pr_range is not None and pr is not None:
+        flags |= np.where(_outside(np.asarray(pr, float), rec.pr_range), Flag.PRANDTL_OUT_OF_RANGE, 0).astype(np.int16)
+    for name, low, high in rec.extra_ranges:
+        if name == "RePr":
+            value = np.asarray(groups["Re"], float) * np.asarray(pr, float)
+        elif groups.get(name) is None:
+            continue
+        else:
+            value = np.asarray(groups[name], float)
+        bit = Flag.PROPERTY_RATIO_OUT_OF_RANGE if name == "viscosity_ratio" else range_bit
+        flags |= np.where(_outside(value, (low, high)), bit, 0).astype(np.int16)
+    if rec.geometry == "vertical_cylinder":
+        slender = ~_n.thin_cylinder_criterion(groups["Ra"], pr, groups["diameter_over_length"])
+        flags |= np.where(slender, Flag.SLENDER_CYLINDER_CORRECTED, 0).astype(np.int16)
+    bad = ~np.isfinite(nu)
+    if bad.any():
+        # A law evaluated where it has no meaning (e.g. zero Ra in a power law that
+        # needs Ra > 0) returns its limit value 0 and is flagged, never NaN.
+        nu = np.where(bad, 0.0, nu)
+        flags |= np.where(bad, range_bit, 0).astype(np.int16)
+    return np.broadcast_to(nu, flags.shape) if nu.shape != flags.shape else nu, flags
+
+
+def nusselt(geometry: str, method: str, Ra=None, Re=None, Pr=None, Pr_s=None, *, strict: bool = False,
+            full_output: bool = False, **extra):
+    """Nusselt number from the registry, vectorized.
+
+    Parameters
+    ----------
+    geometry : str
+        One of :data:`GEOMETRIES`, e.g. ``"horizontal_cylinder"``.
+    method : str
+        Registry key, e.g. ``"churchill_chu"``; :func:`methods` lists them.
+    Ra, Re, Pr, Pr_s : numeric, optional
+        Dimensionless groups the correlation needs [-].
+    strict : bool
+        Raise ``ValueError`` instead of warning when any point is out of range.
+    full_output : bool
+        Return ``(nusselt, flags)`` with the per-point bit mask.
+    **extra : numeric
+        Further groups some records need (``diameter_over_length``, ``viscosity_ratio``).
+
+    Returns
+    -------
+    numpy.ndarray (or tuple, see ``full_output``)
+
+    Examples
+    --------
+    >>> round(float(nusselt("horizontal_cylinder", "churchill_chu", Ra=1e6, Pr=0.71)), 2)
+    14.54
+    >>> nusselt("horizontal_cylinder", "churchill", Ra=1e6, Pr=0.71)
+    Traceback (most recent call last):
+    ...
+    ValueError: unknown method 'churchill' for geometry 'horizontal_cylinder'; choose one of: churchill_chu, churchill_chu_laminar, morgan, kuehn_goldstein
+    """
+    nu, flags = evaluate(geometry, method, Ra=Ra, Re=Re, Pr=Pr, Pr_s=Pr_s, **extra)
+    if flags.any():
+        text = f"{geometry}/{method}: " + "; ".join(summarize_flags(flags))
+        if strict:
+            raise ValueError(text)
+        if not full_output:
+            warnings.warn(text, OutOfRangeWarning, stacklevel=2)
+    return (nu, flags) if full_output else nu

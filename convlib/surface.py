@@ -1,0 +1,240 @@
+"""Heat exchange of an outer surface at a known temperature with the air around it.
+
+Natural, forced or mixed convection plus grey-body radiation to the
+surroundings and (outdoors) the sky, for every shape of :mod:`convlib.geometry`,
+hot or cold, vectorized over every input.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, fields
+
+import numpy as np
+
+from . import correlations as corr
+from .correlations.mixed import FLOW_DIRECTIONS, combine, default_mixing_exponent
+from .geometry import SHAPES, dimensions
+from .properties import fluid_properties
+from .radiation import outdoor_radiation, solar_gain
+from .regimes import Flag, convection_mode, flow_names, flow_regime, mode_names, summarize_flags
+from .validation import as_array, check_choice
+
+__all__ = ["GRAVITY", "SurfaceResult", "bare_surface"]
+
+#: Standard acceleration of gravity [m/s2] (CGPM 1901, exact by definition).
+GRAVITY = 9.80665
+
+
+@dataclass(frozen=True)
+class SurfaceResult:
+    """Outer-surface heat exchange; every field is an array of the broadcast input shape.
+
+    Heat flows are positive from the surface to the surroundings (a loss) and
+    negative for a surface colder than its surroundings (a gain).
+    """
+
+    surface_temperature: np.ndarray       # [K]
+    air_temperature: np.ndarray           # [K]
+    film_temperature: np.ndarray          # [K]
+    q_per_area: np.ndarray                # net, convection + radiation - solar [W/m2]
+    q_per_length: np.ndarray              # [W/m] of run length (see convlib.geometry)
+    q_total: np.ndarray                   # [W]
+    q_convection_per_length: np.ndarray   # [W/m]
+    q_radiation_per_length: np.ndarray    # [W/m]
+    q_solar_per_length: np.ndarray        # absorbed sun, reduces the loss [W/m]
+    h_convection: np.ndarray              # [W/m2/K]
+    h_radiation: np.ndarray               # q_rad / (Ts - Ta) [W/m2/K]
+    h_natural: np.ndarray                 # natural-convection limit [W/m2/K]
+    h_forced: np.ndarray                  # forced-convection limit, 0 in still air [W/m2/K]
+    nusselt: np.ndarray                   # h_convection * natural length / k_film [-]
+    rayleigh: np.ndarray                  # on the natural length [-]
+    grashof: np.ndarray                   # on the natural length [-]
+    reynolds: np.ndarray                  # on the forced length, 0 in still air [-]
+    prandtl: np.ndarray                   # at film temperature [-]
+    richardson: np.ndarray                # Gr/Re^2 on the forced length, inf in still air [-]
+    regime: np.ndarray                    # convection mode code, see convlib.regimes.MODE_NAMES
+    flow_regime: np.ndarray               # laminar/transitional/turbulent code of the dominant mode
+    warnings: np.ndarray                  # bit mask of convlib.regimes.Flag
+
+    def regime_names(self) -> np.ndarray:
+        """'natural' / 'mixed' / 'forced' per point."""
+        return mode_names(self.regime)
+
+    def flow_regime_names(self) -> np.ndarray:
+        """'laminar' / 'transitional' / 'turbulent' per point."""
+        return flow_names(self.flow_regime)
+
+    def warning_messages(self) -> list[str]:
+        """Readable warnings that occur at any point, with counts."""
+        return summarize_flags(self.warnings)
+
+    def as_dict(self) -> dict[str, np.ndarray]:
+        return {f.name: getattr(self, f.name) for f in fields(self)}
+
+
+def bare_surface(
+    shape: str = "horizontal_cylinder",
+    *,
+    surface_temperature,
+    air_temperature,
+    diameter=None,
+    length=None,
+    height=None,
+    width=None,
+    wind_speed=0.0,
+    emissivity=0.9,
+    surroundings_temperature=None,
+    sky_view_fraction=0.0,
+    sky_temperature=None,
+    solar_irradiance=0.0,
+    solar_absorptivity=None,
+    pressure=101325.0,
+    natural: str | None = None,
+    forced: str | None = None,
+    flow_direction: str = "transverse",
+    mixing_exponent=None,
+    fluid: str = "Air",
+    exact_properties: bool = False,
+    strict: bool = False,
+) -> SurfaceResult:
+    r"""Heat loss (or gain) of a surface at a known temperature.
+
+    Parameters
+    ----------
+    shape : str
+        One of :data:`convlib.geometry.SHAPES`.
+    surface_temperature : numeric
+        Outer surface temperature :math:`T_s` [K].
+    air_temperature : numeric
+        Ambient air temperature :math:`T_a` [K].
+    diameter, length, height, width : numeric
+        Sizes the shape takes [m] (see :mod:`convlib.geometry`).
+    wind_speed : numeric
+        Wind speed [m/s], >= 0; 0 is still air (purely natural convection).
+    emissivity : numeric
+        Long-wave emissivity of the surface [-], 0..1.
+    surroundings_temperature : numeric, optional
+        Temperature of the surroundings (walls, ground) [K]; default the air temperature.
+    sky_view_fraction : numeric
+        Part of the surface's view taken by the sky [-], 0 indoors; outdoors
+        e.g. 0.5 for a horizontal line (:data:`convlib.radiation.SKY_VIEW_FRACTION_TYPICAL`).
+    sky_temperature : numeric, optional
+        Sky temperature [K]; default a clear sky after Swinbank (1963).
+    solar_irradiance : numeric
+        Solar irradiance on the projected area [W/m2], >= 0.
+    solar_absorptivity : numeric, optional
+        Short-wave absorptivity [-]; default the emissivity (grey surface).
+    pressure : numeric
+        Air pressure [Pa] (lower at altitude; natural convection weakens).
+    natural, forced : str, optional
+        Registry keys of the natural and forced correlations; default per shape.
+    flow_direction : {"transverse", "assisting", "opposing"}
+        How buoyancy acts relative to the wind; a horizontal wind is transverse.
+    mixing_exponent : numeric, optional
+        Churchill exponent n of :math:`Nu^n = Nu_F^n \pm Nu_N^n`; default per shape and direction.
+    fluid : str
+        CoolProp fluid around the surface (default air).
+    exact_properties : bool
+        Call CoolProp directly instead of the interpolation table.
+    strict : bool
+        Raise ``ValueError`` if any correlation is evaluated outside its range.
+
+    Returns
+    -------
+    SurfaceResult
+
+    Examples
+    --------
+    A 100 mm horizontal line at 80 degC in still air at 20 degC, emissivity 0.9:
+
+    >>> r = bare_surface(surface_temperature=353.15, air_temperature=293.15, diameter=0.1, length=1.0)
+    >>> round(float(r.q_per_length)), r.regime_names().item()
+    (245, 'natural')
+    """
+    check_choice("shape", shape, SHAPES)
+    check_choice("flow direction", flow_direction, FLOW_DIRECTIONS)
+    info = SHAPES[shape]
+    dims = dimensions(shape, diameter=diameter, length=length, height=height, width=width)
+    ts = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
+    ta = as_array("air_temperature", air_temperature, unit="K", low=0.0, low_inclusive=False)
+    wind = as_array("wind_speed", wind_speed, unit="m/s", low=0.0)
+    eps = as_array("emissivity", emissivity, low=0.0, high=1.0)
+    tsur = ta if surroundings_temperature is None else as_array(
+        "surroundings_temperature", surroundings_temperature, unit="K", low=0.0, low_inclusive=False)
+    absorptivity = eps if solar_absorptivity is None else as_array("solar_absorptivity", solar_absorptivity,
+                                                                   low=0.0, high=1.0)
+    irradiance = as_array("solar_irradiance", solar_irradiance, unit="W/m2", low=0.0)
+    p = as_array("pressure", pressure, unit="Pa", low=0.0, low_inclusive=False)
+    natural = info.default_natural if natural is None else natural
+    forced = info.default_forced if forced is None else forced
+    nat_hot = corr.get(info.natural_geometry, natural)
+    corr.get(info.natural_geometry_cold, natural)  # the law must exist for a cold face too
+    frc = corr.get(info.forced_geometry, forced)
+    n_mix = (default_mixing_exponent(flow_direction, info.round_body) if mixing_exponent is None
+             else as_array("mixing_exponent", mixing_exponent, low=0.0, low_inclusive=False))
+
+    # ---- properties at film temperature (and at the free stream / surface where a law wants them)
+    film = 0.5 * (ts + ta)
+    prop = fluid_properties(fluid, film, pressure=p, exact=exact_properties)
+    delta = ts - ta
+    l_nat, l_frc = dims.natural_length, dims.forced_length
+    buoyancy = GRAVITY * prop.beta * np.abs(delta) / prop.nu ** 2
+    grashof = buoyancy * l_nat ** 3
+    rayleigh = grashof * prop.pr
+
+    # ---- natural convection; a horizontal plate switches law with the sign of the temperature difference
+    extra = {"diameter_over_length": dims.diameter_over_length} if dims.diameter_over_length is not None else {}
+    nu_nat, flags = corr.evaluate(nat_hot.geometry, natural, Ra=rayleigh, Pr=prop.pr, **extra)
+    if info.natural_geometry_cold != info.natural_geometry:
+        nu_cold, flags_cold = corr.evaluate(info.natural_geometry_cold, natural, Ra=rayleigh, Pr=prop.pr)
+        cold = delta < 0
+        nu_nat, flags = np.where(cold, nu_cold, nu_nat), np.where(cold, flags_cold, flags)
+    h_nat = nu_nat * prop.k / l_nat
+
+    # ---- forced convection (free-stream properties and a surface Pr where the law says so)
+    moving = wind > 0
+    if frc.property_temperature == "free_stream":
+        stream = fluid_properties(fluid, ta, pressure=p, exact=exact_properties)
+        wall = fluid_properties(fluid, ts, pressure=p, exact=exact_properties)
+        forced_groups = {"Pr_s": wall.pr, "viscosity_ratio": stream.mu / wall.mu}
+    else:
+        stream, forced_groups = prop, {}
+    reynolds = wind * l_frc / stream.nu
+    nu_frc, flags_frc = corr.evaluate(frc.geometry, forced, Re=np.where(moving, reynolds, 1.0), Pr=stream.pr,
+                                      **{k: v for k, v in forced_groups.items() if k in frc.inputs})
+    h_frc = np.where(moving, nu_frc * stream.k / l_frc, 0.0)
+    flags = flags | np.where(moving, flags_frc, 0)
+
+    # ---- mixed convection (Churchill 1977) on the coefficients
+    h_mix, floored = combine(h_frc, h_nat, n_mix, flow_direction)
+    h_conv = np.where(moving, h_mix, h_nat)
+    flags = flags | np.where(moving & floored, Flag.OPPOSING_FLOW_FLOORED, 0)
+    if nat_hot.fitted_for_air_only and fluid.lower() != "air":
+        flags = flags | Flag.FLUID_NOT_FITTED
+    with np.errstate(divide="ignore", invalid="ignore"):
+        richardson = np.where(moving, buoyancy * l_frc ** 3 / np.where(moving, reynolds, 1.0) ** 2, np.inf)
+    mode = convection_mode(richardson, wind)
+    natural_dominant = richardson >= 1.0
+    flow = np.where(natural_dominant, flow_regime(nat_hot.geometry, rayleigh), flow_regime(frc.geometry, reynolds))
+
+    # ---- radiation and sun
+    h_rad, q_rad = outdoor_radiation(ts, ta, eps, sky_view_fraction=sky_view_fraction,
+                                     sky_temperature=sky_temperature, ground_temperature=tsur)
+    q_sun = solar_gain(absorptivity, irradiance, dims.projected_area) if np.any(irradiance > 0) else 0.0
+
+    q_conv_area = h_conv * delta
+    q_area = q_conv_area + q_rad - np.asarray(q_sun) / dims.area
+    run = dims.run_length
+    out = dict(
+        surface_temperature=ts, air_temperature=ta, film_temperature=film,
+        q_per_area=q_area, q_per_length=q_area * dims.area / run, q_total=q_area * dims.area,
+        q_convection_per_length=q_conv_area * dims.area / run, q_radiation_per_length=q_rad * dims.area / run,
+        q_solar_per_length=np.asarray(q_sun) / run, h_convection=h_conv, h_radiation=h_rad,
+        h_natural=h_nat, h_forced=h_frc, nusselt=h_conv * l_nat / prop.k, rayleigh=rayleigh, grashof=grashof,
+        reynolds=np.where(moving, reynolds, 0.0), prandtl=prop.pr, richardson=richardson, regime=mode,
+        flow_regime=flow.astype(np.int8), warnings=flags.astype(np.int16),
+    )
+    arrays = np.broadcast_arrays(*out.values())
+    result = SurfaceResult(**{k: np.array(v) for k, v in zip(out, arrays)})
+    if strict and result.warnings.any():
+        raise ValueError("; ".join(result.warning_messages()))
+    return result

@@ -1,0 +1,59 @@
+"""The command line end to end, through a subprocess as a user runs it."""
+import json
+import subprocess
+import sys
+
+import pytest
+
+import convlib as cl
+from convlib.cli import load_demo_site
+
+
+def run(*args):
+    return subprocess.run([sys.executable, "-m", "convlib", *args], capture_output=True, text=True, timeout=120)
+
+
+def test_demo_table_lists_every_demo_surface_with_cautions():
+    proc = run("demo")
+    assert proc.returncode == 0, proc.stderr
+    site = load_demo_site()
+    for case in site["surfaces"]:
+        assert case["tag"] in proc.stdout
+    assert "invented" in proc.stdout.lower()
+    assert "Caution" in proc.stdout
+
+
+def test_surface_json_matches_library_with_units_converted():
+    proc = run("surface", "--diameter", "4.5in", "--surface-temperature", "90degC", "--air-temperature", "68degF",
+               "--wind-speed", "2", "--emissivity", "0.8", "--json")
+    assert proc.returncode == 0, proc.stderr
+    row = json.loads(proc.stdout)["results"][0]
+    # 4.5 in = 0.1143 m and 68 degF = 20 degC exactly (definitions of the inch and the Fahrenheit scale)
+    direct = cl.bare_surface(surface_temperature=363.15, air_temperature=293.15, diameter=0.1143, length=1.0,
+                             wind_speed=2.0, emissivity=0.8)
+    assert row["q_per_length_W_per_m"] == pytest.approx(float(direct.q_per_length), rel=1e-9)
+    assert row["air_temperature_degC"] == pytest.approx(20.0, abs=1e-9)
+
+
+@pytest.mark.parametrize("args, field", [
+    (("--diameter", "-3", "--surface-temperature", "90degC", "--air-temperature", "20degC"), "diameter"),
+    (("--diameter", "3 kg", "--surface-temperature", "90degC", "--air-temperature", "20degC"), "diameter"),
+    (("--diameter", "0.1", "--surface-temperature", "90degC", "--air-temperature", "20degC",
+      "--emissivity", "1.4"), "emissivity"),
+    (("--diameter", "0.1", "--air-temperature", "20degC"), "surface-temperature"),
+    (("--diameter", "0.1", "--surface-temperature", "90degC", "--air-temperature", "20degC",
+      "--natural", "nobody"), "churchill_chu"),
+])
+def test_bad_input_exits_2_with_one_line_naming_the_field(args, field):
+    proc = run("surface", *args)
+    assert proc.returncode == 2
+    assert field in proc.stderr
+    assert "Traceback" not in proc.stderr
+
+
+def test_correlations_listing_json_has_every_registry_record():
+    proc = run("correlations", "--json")
+    assert proc.returncode == 0
+    records = json.loads(proc.stdout)
+    assert {(r["geometry"], r["key"]) for r in records} == {(r.geometry, r.key) for r in cl.correlations.REGISTRY}
+    assert all(r["citation"] for r in records)
