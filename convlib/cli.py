@@ -16,7 +16,6 @@ import json
 import sys
 from importlib import resources
 
-import numpy as np
 
 from . import __version__
 from .correlations import catalog

@@ -16,6 +16,7 @@ import numpy as np
 from convlib.validation import as_array, check_choice
 
 __all__ = ["STEFAN_BOLTZMANN", "SKY_MODELS", "SKY_VIEW_FRACTION_TYPICAL", "radiation_coefficient", "net_flux",
+           "effective_coefficient",
            "radiation_flux", "sky_temperature", "outdoor_radiation", "solar_gain"]
 
 #: Stefan-Boltzmann constant [W/m2/K4], CODATA 2018 (exact since the 2019 SI).
@@ -289,13 +290,20 @@ def outdoor_radiation(surface_temperature, air_temperature, emissivity,
     else:
         t_ground = _temperature("ground_temperature", ground_temperature)
     q = net_flux(ts, eps, fraction, t_sky, t_ground)
-    difference = ts - ta
+    h, q = np.broadcast_arrays(effective_coefficient(q, ts, ta, eps), q)
+    return _out(h), _out(q)
+
+
+def effective_coefficient(q, surface_temperature, air_temperature, emissivity):
+    """q / (Ts - Ta) [W/m2/K], and 4*eps*sigma*Ta^3 where Ts == Ta (no input checks).
+
+    See :func:`outdoor_radiation` for why this limit is used.
+    """
+    difference = surface_temperature - air_temperature
     at_air = difference == 0.0
     with np.errstate(divide="ignore", invalid="ignore"):
-        h = np.where(at_air, 4.0 * eps * STEFAN_BOLTZMANN * ta**3,
-                     q / np.where(at_air, 1.0, difference))
-    h, q = np.broadcast_arrays(h, q)
-    return _out(h), _out(q)
+        return np.where(at_air, 4.0 * emissivity * STEFAN_BOLTZMANN * air_temperature**3,
+                        q / np.where(at_air, 1.0, difference))
 
 
 def solar_gain(absorptivity, irradiance, projected_area):

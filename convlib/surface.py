@@ -14,11 +14,11 @@ from . import correlations as corr
 from .correlations.mixed import FLOW_DIRECTIONS, combine, default_mixing_exponent
 from .geometry import SHAPES, dimensions
 from .properties import fluid_properties
-from .radiation import outdoor_radiation, solar_gain
+from .radiation import effective_coefficient, net_flux, sky_temperature as clear_sky_temperature, solar_gain
 from .regimes import Flag, convection_mode, flow_names, flow_regime, mode_names, summarize_flags
 from .validation import as_array, check_choice
 
-__all__ = ["GRAVITY", "SurfaceResult", "bare_surface"]
+__all__ = ["GRAVITY", "SurfaceResult", "OuterSurface", "bare_surface"]
 
 #: Standard acceleration of gravity [m/s2] (CGPM 1901, exact by definition).
 GRAVITY = 9.80665
@@ -69,6 +69,174 @@ class SurfaceResult:
 
     def as_dict(self) -> dict[str, np.ndarray]:
         return {f.name: getattr(self, f.name) for f in fields(self)}
+
+
+#: Per-point inputs of :meth:`OuterSurface.exchange`, in the order solvers pass them.
+_POINT_FIELDS = ("air_temperature", "wind_speed", "emissivity", "surroundings_temperature", "sky_view_fraction",
+                 "sky_temperature", "solar_per_area", "pressure", "mixing_exponent", "natural_length",
+                 "forced_length", "diameter_over_length")
+
+
+@dataclass(frozen=True)
+class OuterSurface:
+    """Everything around an outer surface except its temperature, validated once.
+
+    Built by :meth:`build` from user inputs; :meth:`exchange` then evaluates the
+    heat exchange at any surface temperature (a solver calls it repeatedly,
+    passing per-point arrays so that converged points can be dropped).
+    """
+
+    shape: str
+    natural: str
+    forced: str
+    flow_direction: str
+    fluid: str
+    exact_properties: bool
+    area: np.ndarray                  # exposed area [m2]
+    run_length: np.ndarray            # [m]
+    air_temperature: np.ndarray
+    wind_speed: np.ndarray
+    emissivity: np.ndarray
+    surroundings_temperature: np.ndarray
+    sky_view_fraction: np.ndarray
+    sky_temperature: np.ndarray
+    solar_per_area: np.ndarray        # absorbed sun per exposed area [W/m2]
+    pressure: np.ndarray
+    mixing_exponent: np.ndarray
+    natural_length: np.ndarray
+    forced_length: np.ndarray
+    diameter_over_length: np.ndarray  # D/L of a vertical cylinder, 1 otherwise (unused)
+
+    @classmethod
+    def build(cls, shape="horizontal_cylinder", *, air_temperature, diameter=None, length=None, height=None,
+              width=None, wind_speed=0.0, emissivity=0.9, surroundings_temperature=None, sky_view_fraction=0.0,
+              sky_temperature=None, solar_irradiance=0.0, solar_absorptivity=None, pressure=101325.0,
+              natural=None, forced=None, flow_direction="transverse", mixing_exponent=None, fluid="Air",
+              exact_properties=False) -> "OuterSurface":
+        """Validate the surroundings of a surface; arguments as in :func:`bare_surface`."""
+        check_choice("shape", shape, SHAPES)
+        check_choice("flow direction", flow_direction, FLOW_DIRECTIONS)
+        info = SHAPES[shape]
+        dims = dimensions(shape, diameter=diameter, length=length, height=height, width=width)
+        ta = as_array("air_temperature", air_temperature, unit="K", low=0.0, low_inclusive=False)
+        eps = as_array("emissivity", emissivity, low=0.0, high=1.0)
+        tsur = ta if surroundings_temperature is None else as_array(
+            "surroundings_temperature", surroundings_temperature, unit="K", low=0.0, low_inclusive=False)
+        fraction = as_array("sky_view_fraction", sky_view_fraction, low=0.0, high=1.0)
+        if sky_temperature is None:
+            t_sky = clear_sky_temperature(ta) if np.any(fraction > 0) else ta
+        else:
+            t_sky = as_array("sky_temperature", sky_temperature, unit="K", low=0.0, low_inclusive=False)
+        absorptivity = eps if solar_absorptivity is None else as_array(
+            "solar_absorptivity", solar_absorptivity, low=0.0, high=1.0)
+        irradiance = as_array("solar_irradiance", solar_irradiance, unit="W/m2", low=0.0)
+        natural = info.default_natural if natural is None else natural
+        forced = info.default_forced if forced is None else forced
+        corr.get(info.natural_geometry, natural)
+        corr.get(info.natural_geometry_cold, natural)  # the law must exist for a cold face too
+        corr.get(info.forced_geometry, forced)
+        n_mix = (np.asarray(default_mixing_exponent(flow_direction, info.round_body)) if mixing_exponent is None
+                 else as_array("mixing_exponent", mixing_exponent, low=0.0, low_inclusive=False))
+        ratio = np.asarray(1.0) if dims.diameter_over_length is None else dims.diameter_over_length
+        return cls(
+            shape=shape, natural=natural, forced=forced, flow_direction=flow_direction, fluid=fluid,
+            exact_properties=exact_properties, area=dims.area, run_length=dims.run_length,
+            air_temperature=ta, wind_speed=as_array("wind_speed", wind_speed, unit="m/s", low=0.0), emissivity=eps,
+            surroundings_temperature=tsur, sky_view_fraction=fraction, sky_temperature=np.asarray(t_sky),
+            solar_per_area=np.asarray(solar_gain(absorptivity, irradiance, dims.projected_area)) / dims.area,
+            pressure=as_array("pressure", pressure, unit="Pa", low=0.0, low_inclusive=False),
+            mixing_exponent=n_mix, natural_length=dims.natural_length, forced_length=dims.forced_length,
+            diameter_over_length=ratio,
+        )
+
+    def point_arrays(self) -> tuple[np.ndarray, ...]:
+        """The per-point inputs of :meth:`exchange`, in its argument order."""
+        return tuple(getattr(self, name) for name in _POINT_FIELDS)
+
+    def exchange(self, surface_temperature, *point_arrays) -> dict[str, np.ndarray]:
+        """Heat exchange per unit area at ``surface_temperature`` [K] (no input checks).
+
+        ``point_arrays`` default to :meth:`point_arrays`; a solver passes subsets of them.
+        Returns a dict of arrays: the :class:`SurfaceResult` fields that do not depend
+        on the area (``q_per_area``, ``q_convection_per_area``, ``q_radiation_per_area``, ...).
+        """
+        (ta, wind, eps, tsur, fraction, t_sky, solar, p, n_mix, l_nat, l_frc,
+         ratio) = point_arrays or self.point_arrays()
+        ts = surface_temperature
+        info = SHAPES[self.shape]
+        nat_hot = corr.get(info.natural_geometry, self.natural)
+        frc = corr.get(info.forced_geometry, self.forced)
+
+        # ---- properties at film temperature (and at the free stream / surface where a law wants them)
+        film = 0.5 * (ts + ta)
+        prop = fluid_properties(self.fluid, film, pressure=p, exact=self.exact_properties)
+        delta = ts - ta
+        buoyancy = GRAVITY * prop.beta * np.abs(delta) / prop.nu ** 2
+        grashof = buoyancy * l_nat ** 3
+        rayleigh = grashof * prop.pr
+
+        # ---- natural convection; a horizontal plate switches law with the sign of the temperature difference
+        extra = {"diameter_over_length": ratio} if "diameter_over_length" in nat_hot.inputs else {}
+        nu_nat, flags = corr.evaluate(nat_hot.geometry, self.natural, Ra=rayleigh, Pr=prop.pr, **extra)
+        if info.natural_geometry_cold != info.natural_geometry:
+            nu_cold, flags_cold = corr.evaluate(info.natural_geometry_cold, self.natural, Ra=rayleigh, Pr=prop.pr)
+            cold = delta < 0
+            nu_nat, flags = np.where(cold, nu_cold, nu_nat), np.where(cold, flags_cold, flags)
+        h_nat = nu_nat * prop.k / l_nat
+
+        # ---- forced convection (free-stream properties and a surface Pr where the law says so)
+        moving = wind > 0
+        if frc.property_temperature == "free_stream":
+            stream = fluid_properties(self.fluid, ta, pressure=p, exact=self.exact_properties)
+            wall = fluid_properties(self.fluid, ts, pressure=p, exact=self.exact_properties)
+            forced_groups = {"Pr_s": wall.pr, "viscosity_ratio": stream.mu / wall.mu}
+        else:
+            stream, forced_groups = prop, {}
+        reynolds = wind * l_frc / stream.nu
+        nu_frc, flags_frc = corr.evaluate(frc.geometry, self.forced, Re=np.where(moving, reynolds, 1.0),
+                                          Pr=stream.pr, **{k: v for k, v in forced_groups.items() if k in frc.inputs})
+        h_frc = np.where(moving, nu_frc * stream.k / l_frc, 0.0)
+        flags = flags | np.where(moving, flags_frc, 0)
+
+        # ---- mixed convection (Churchill 1977) on the coefficients
+        h_mix, floored = combine(h_frc, h_nat, n_mix, self.flow_direction)
+        h_conv = np.where(moving, h_mix, h_nat)
+        flags = flags | np.where(moving & floored, Flag.OPPOSING_FLOW_FLOORED, 0)
+        if nat_hot.fitted_for_air_only and self.fluid.lower() != "air":
+            flags = flags | Flag.FLUID_NOT_FITTED
+        with np.errstate(divide="ignore", invalid="ignore"):
+            richardson = np.where(moving, buoyancy * l_frc ** 3 / np.where(moving, reynolds, 1.0) ** 2, np.inf)
+        flow = np.where(richardson >= 1.0, flow_regime(nat_hot.geometry, rayleigh),
+                        flow_regime(frc.geometry, reynolds))
+
+        # ---- radiation to surroundings and sky; absorbed sun
+        q_rad = net_flux(ts, eps, fraction, t_sky, tsur)
+        q_conv = h_conv * delta
+        return dict(
+            surface_temperature=ts, air_temperature=ta, film_temperature=film,
+            q_per_area=q_conv + q_rad - solar, q_convection_per_area=q_conv, q_radiation_per_area=q_rad,
+            q_solar_per_area=solar, h_convection=h_conv, h_radiation=effective_coefficient(q_rad, ts, ta, eps),
+            h_natural=h_nat, h_forced=h_frc, nusselt=h_conv * l_nat / prop.k, rayleigh=rayleigh,
+            grashof=grashof, reynolds=np.where(moving, reynolds, 0.0), prandtl=prop.pr, richardson=richardson,
+            regime=convection_mode(richardson, wind), flow_regime=flow.astype(np.int8),
+            warnings=flags.astype(np.int16),
+        )
+
+    def result(self, fields_per_area: dict[str, np.ndarray]) -> "SurfaceResult":
+        """A :class:`SurfaceResult` from :meth:`exchange` output, adding per-length and total flows."""
+        per_run = self.area / self.run_length
+        out = {k: v for k, v in fields_per_area.items()
+               if k not in ("q_convection_per_area", "q_radiation_per_area", "q_solar_per_area")}
+        out.update(
+            q_per_length=fields_per_area["q_per_area"] * per_run,
+            q_total=fields_per_area["q_per_area"] * self.area,
+            q_convection_per_length=fields_per_area["q_convection_per_area"] * per_run,
+            q_radiation_per_length=fields_per_area["q_radiation_per_area"] * per_run,
+            q_solar_per_length=fields_per_area["q_solar_per_area"] * per_run,
+        )
+        names = [f.name for f in fields(SurfaceResult)]
+        arrays = np.broadcast_arrays(*(out[n] for n in names))
+        return SurfaceResult(**{n: np.array(a) for n, a in zip(names, arrays)})
 
 
 def bare_surface(
@@ -150,91 +318,15 @@ def bare_surface(
     >>> round(float(r.q_per_length)), r.regime_names().item()
     (245, 'natural')
     """
-    check_choice("shape", shape, SHAPES)
-    check_choice("flow direction", flow_direction, FLOW_DIRECTIONS)
-    info = SHAPES[shape]
-    dims = dimensions(shape, diameter=diameter, length=length, height=height, width=width)
+    conditions = OuterSurface.build(
+        shape, air_temperature=air_temperature, diameter=diameter, length=length, height=height, width=width,
+        wind_speed=wind_speed, emissivity=emissivity, surroundings_temperature=surroundings_temperature,
+        sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance,
+        solar_absorptivity=solar_absorptivity, pressure=pressure, natural=natural, forced=forced,
+        flow_direction=flow_direction, mixing_exponent=mixing_exponent, fluid=fluid,
+        exact_properties=exact_properties)
     ts = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
-    ta = as_array("air_temperature", air_temperature, unit="K", low=0.0, low_inclusive=False)
-    wind = as_array("wind_speed", wind_speed, unit="m/s", low=0.0)
-    eps = as_array("emissivity", emissivity, low=0.0, high=1.0)
-    tsur = ta if surroundings_temperature is None else as_array(
-        "surroundings_temperature", surroundings_temperature, unit="K", low=0.0, low_inclusive=False)
-    absorptivity = eps if solar_absorptivity is None else as_array("solar_absorptivity", solar_absorptivity,
-                                                                   low=0.0, high=1.0)
-    irradiance = as_array("solar_irradiance", solar_irradiance, unit="W/m2", low=0.0)
-    p = as_array("pressure", pressure, unit="Pa", low=0.0, low_inclusive=False)
-    natural = info.default_natural if natural is None else natural
-    forced = info.default_forced if forced is None else forced
-    nat_hot = corr.get(info.natural_geometry, natural)
-    corr.get(info.natural_geometry_cold, natural)  # the law must exist for a cold face too
-    frc = corr.get(info.forced_geometry, forced)
-    n_mix = (default_mixing_exponent(flow_direction, info.round_body) if mixing_exponent is None
-             else as_array("mixing_exponent", mixing_exponent, low=0.0, low_inclusive=False))
-
-    # ---- properties at film temperature (and at the free stream / surface where a law wants them)
-    film = 0.5 * (ts + ta)
-    prop = fluid_properties(fluid, film, pressure=p, exact=exact_properties)
-    delta = ts - ta
-    l_nat, l_frc = dims.natural_length, dims.forced_length
-    buoyancy = GRAVITY * prop.beta * np.abs(delta) / prop.nu ** 2
-    grashof = buoyancy * l_nat ** 3
-    rayleigh = grashof * prop.pr
-
-    # ---- natural convection; a horizontal plate switches law with the sign of the temperature difference
-    extra = {"diameter_over_length": dims.diameter_over_length} if dims.diameter_over_length is not None else {}
-    nu_nat, flags = corr.evaluate(nat_hot.geometry, natural, Ra=rayleigh, Pr=prop.pr, **extra)
-    if info.natural_geometry_cold != info.natural_geometry:
-        nu_cold, flags_cold = corr.evaluate(info.natural_geometry_cold, natural, Ra=rayleigh, Pr=prop.pr)
-        cold = delta < 0
-        nu_nat, flags = np.where(cold, nu_cold, nu_nat), np.where(cold, flags_cold, flags)
-    h_nat = nu_nat * prop.k / l_nat
-
-    # ---- forced convection (free-stream properties and a surface Pr where the law says so)
-    moving = wind > 0
-    if frc.property_temperature == "free_stream":
-        stream = fluid_properties(fluid, ta, pressure=p, exact=exact_properties)
-        wall = fluid_properties(fluid, ts, pressure=p, exact=exact_properties)
-        forced_groups = {"Pr_s": wall.pr, "viscosity_ratio": stream.mu / wall.mu}
-    else:
-        stream, forced_groups = prop, {}
-    reynolds = wind * l_frc / stream.nu
-    nu_frc, flags_frc = corr.evaluate(frc.geometry, forced, Re=np.where(moving, reynolds, 1.0), Pr=stream.pr,
-                                      **{k: v for k, v in forced_groups.items() if k in frc.inputs})
-    h_frc = np.where(moving, nu_frc * stream.k / l_frc, 0.0)
-    flags = flags | np.where(moving, flags_frc, 0)
-
-    # ---- mixed convection (Churchill 1977) on the coefficients
-    h_mix, floored = combine(h_frc, h_nat, n_mix, flow_direction)
-    h_conv = np.where(moving, h_mix, h_nat)
-    flags = flags | np.where(moving & floored, Flag.OPPOSING_FLOW_FLOORED, 0)
-    if nat_hot.fitted_for_air_only and fluid.lower() != "air":
-        flags = flags | Flag.FLUID_NOT_FITTED
-    with np.errstate(divide="ignore", invalid="ignore"):
-        richardson = np.where(moving, buoyancy * l_frc ** 3 / np.where(moving, reynolds, 1.0) ** 2, np.inf)
-    mode = convection_mode(richardson, wind)
-    natural_dominant = richardson >= 1.0
-    flow = np.where(natural_dominant, flow_regime(nat_hot.geometry, rayleigh), flow_regime(frc.geometry, reynolds))
-
-    # ---- radiation and sun
-    h_rad, q_rad = outdoor_radiation(ts, ta, eps, sky_view_fraction=sky_view_fraction,
-                                     sky_temperature=sky_temperature, ground_temperature=tsur)
-    q_sun = solar_gain(absorptivity, irradiance, dims.projected_area) if np.any(irradiance > 0) else 0.0
-
-    q_conv_area = h_conv * delta
-    q_area = q_conv_area + q_rad - np.asarray(q_sun) / dims.area
-    run = dims.run_length
-    out = dict(
-        surface_temperature=ts, air_temperature=ta, film_temperature=film,
-        q_per_area=q_area, q_per_length=q_area * dims.area / run, q_total=q_area * dims.area,
-        q_convection_per_length=q_conv_area * dims.area / run, q_radiation_per_length=q_rad * dims.area / run,
-        q_solar_per_length=np.asarray(q_sun) / run, h_convection=h_conv, h_radiation=h_rad,
-        h_natural=h_nat, h_forced=h_frc, nusselt=h_conv * l_nat / prop.k, rayleigh=rayleigh, grashof=grashof,
-        reynolds=np.where(moving, reynolds, 0.0), prandtl=prop.pr, richardson=richardson, regime=mode,
-        flow_regime=flow.astype(np.int8), warnings=flags.astype(np.int16),
-    )
-    arrays = np.broadcast_arrays(*out.values())
-    result = SurfaceResult(**{k: np.array(v) for k, v in zip(out, arrays)})
+    result = conditions.result(conditions.exchange(ts))
     if strict and result.warnings.any():
         raise ValueError("; ".join(result.warning_messages()))
     return result
