@@ -10,6 +10,9 @@ The public surface (names are stable; see DEVELOPERS.md):
 from . import correlations, geometry, radiation, regimes
 from .correlations import catalog, nusselt
 from .properties import FluidProperties, air, dew_point, fluid_properties
+from .conductivity import Conductivity
+from .pipe import Layer, PipeResult, insulated_pipe
+from .pipe_sizes import nominal_pipe
 from .surface import SurfaceResult, bare_surface
 
 __version__ = "0.1.0"
@@ -17,4 +20,5 @@ __version__ = "0.1.0"
 __all__ = [
     "air", "fluid_properties", "FluidProperties", "dew_point", "nusselt", "catalog", "correlations",
     "bare_surface", "SurfaceResult", "geometry", "radiation", "regimes", "__version__",
+    "insulated_pipe", "Layer", "PipeResult", "Conductivity", "nominal_pipe",
 ]

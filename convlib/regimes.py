@@ -60,6 +60,7 @@ class Flag:
     SLENDER_CYLINDER_CORRECTED = 32
     PROPERTY_RATIO_OUT_OF_RANGE = 64
     NOT_CONVERGED = 128
+    CONDUCTIVITY_EXTRAPOLATED = 256
 
 
 FLAG_TEXT = {
@@ -71,6 +72,7 @@ FLAG_TEXT = {
     Flag.SLENDER_CYLINDER_CORRECTED: "slender vertical cylinder: plate law corrected for curvature (Popiel et al. 2007)",
     Flag.PROPERTY_RATIO_OUT_OF_RANGE: "surface-to-stream property ratio outside the correlation's range",
     Flag.NOT_CONVERGED: "surface-temperature solution did not converge",
+    Flag.CONDUCTIVITY_EXTRAPOLATED: "a layer's temperature lies outside its conductivity data (held at the end value)",
 }
 
 

@@ -1,0 +1,77 @@
+"""Standard pipe sizes: nominal pipe size (NPS) and schedule to outer diameter and wall.
+
+Dimensions of ASME B36.10M (welded and seamless wrought steel pipe) and
+B36.19M (stainless, the ``S`` schedules), taken from the tables carried by the
+``fluids`` package (Bell, C., fluids: Fluid dynamics component of the Chemical
+Engineering Design Library, ``fluids.piping``), which cites ASME B36.10M-2004.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+__all__ = ["PipeSize", "nominal_pipe", "SCHEDULES", "nominal_sizes"]
+
+#: Schedules of ASME B36.10M and B36.19M offered here.
+SCHEDULES = ("5", "10", "20", "30", "40", "60", "80", "100", "120", "140", "160", "STD", "XS", "XXS",
+             "5S", "10S", "40S", "80S")
+
+
+@dataclass(frozen=True)
+class PipeSize:
+    """A standard pipe: NPS [-], schedule, outer diameter, wall thickness, inner diameter [m]."""
+
+    nps: float
+    schedule: str
+    outer_diameter: float
+    wall_thickness: float
+    inner_diameter: float
+
+
+def _table(schedule: str):
+    from fluids.piping import schedule_lookup  # a runtime dependency, imported where used
+
+    nps, inner, outer, wall = schedule_lookup[schedule]
+    return nps, inner, outer, wall
+
+
+def nominal_sizes(schedule: str = "40") -> list[float]:
+    """The NPS values available in a schedule.
+
+    >>> nominal_sizes("40")[:4]
+    [0.125, 0.25, 0.375, 0.5]
+    """
+    _check_schedule(schedule)
+    return [float(n) for n in _table(schedule)[0]]
+
+
+def _check_schedule(schedule: str) -> None:
+    if str(schedule) not in SCHEDULES:
+        raise ValueError(f"unknown pipe schedule {schedule!r}; choose one of: {', '.join(SCHEDULES)}")
+
+
+def nominal_pipe(nps: float, schedule: str = "40") -> PipeSize:
+    """Dimensions of NPS ``nps`` in ``schedule`` (ASME B36.10M / B36.19M).
+
+    Examples
+    --------
+    >>> p = nominal_pipe(4, "40")
+    >>> p.outer_diameter, round(p.wall_thickness, 5)
+    (0.1143, 0.00602)
+    >>> nominal_pipe(4.3, "40")
+    Traceback (most recent call last):
+    ...
+    ValueError: NPS 4.3 is not a standard size in schedule 40; nearest: 4, 5
+    """
+    schedule = str(schedule)
+    _check_schedule(schedule)
+    sizes, inner, outer, wall = _table(schedule)
+    try:
+        value = float(nps)
+    except (TypeError, ValueError):
+        raise ValueError(f"NPS must be a number such as 2, 0.75 or 1.5; got {nps!r}") from None
+    for i, n in enumerate(sizes):
+        if abs(n - value) < 1e-9:
+            return PipeSize(float(n), schedule, outer[i] / 1000.0, wall[i] / 1000.0, inner[i] / 1000.0)
+    near = sorted(sizes, key=lambda n: abs(n - value))[:2]
+    raise ValueError(f"NPS {value:g} is not a standard size in schedule {schedule}; nearest: "
+                     f"{', '.join(f'{n:g}' for n in sorted(near))}")
