@@ -2,12 +2,16 @@
 
 Commands
 --------
-``demo``          the demo site's surfaces as a table
-``surface``       one bare surface at a known temperature (values with units, e.g. ``90degC``, ``4.5in``)
+``demo``          the invented demo site: bare surfaces, insulated lines, insulation sizing, annual energy
+``surface``       one bare surface at a known temperature
+``line``          one insulated (or bare) line with a known fluid temperature
+``size``          insulation thickness for a touch, heat-loss or condensation limit
 ``correlations``  the correlation registry
 
-Every command takes ``--json``. Bad input prints one line naming the field
-and exits with status 2.
+Values may carry units (``90degC``, ``4.5in``, ``50mm``, ``10mph``, ``80W/m``);
+plain numbers are SI (kelvin for temperatures). Tables print in ``--units SI``
+(degC, mm, W/m) or ``US`` (degF, in, Btu/h/ft); ``--json`` prints SI values with
+a map of their units. Bad input prints one line naming the field and exits 2.
 """
 from __future__ import annotations
 
@@ -16,33 +20,39 @@ import json
 import sys
 from importlib import resources
 
+import numpy as np
 
 from . import __version__
 from .correlations import catalog
+from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, TOUCH_LIMIT_METAL_JACKET, WeatherBins, annual_energy,
+                     thickness_against_condensation, thickness_for_heat_loss, thickness_for_surface_temperature)
 from .geometry import SHAPES
+from .lines import LineSpec
+from .pipe import Layer, insulated_pipe
+from .pipe_sizes import SCHEDULES, nominal_pipe
 from .surface import bare_surface
-from .units import parse
+from .units import KIND_SI_UNIT, display_unit, from_si, parse
 
 __all__ = ["main", "load_demo_site"]
 
 CAUTION_HOT = ("Caution: surfaces above about 60 degC can burn on contact (ISO 13732-1 gives limits by material "
                "and contact time); local codes and licensed practice govern guarding and insulation.")
-CAUTION_COLD = ("Caution: a surface below the air's dew point gathers condensation (and ice below 0 degC); "
-                "check against the site's design humidity and local practice.")
-TOUCH_WARNING_K = 333.15  # 60 degC: common practice, no source (ISO 13732-1 gives material- and time-dependent limits)
+CAUTION_COLD = ("Caution: a surface colder than the air gathers condensation where it is below the air's dew "
+                "point (and ice below 0 degC); check it against the site's design humidity and local practice.")
 
-# (option, kind, help) for the surface command; kind drives unit parsing.
-_SURFACE_OPTIONS = (
-    ("surface-temperature", "temperature", "outer surface temperature, e.g. 90degC or 363.15 (K)"),
-    ("air-temperature", "temperature", "ambient air temperature, e.g. 20degC"),
-    ("surroundings-temperature", "temperature", "temperature of walls/ground seen by the surface (default: air)"),
-    ("diameter", "length", "outer diameter of a cylinder or sphere, e.g. 4.5in or 0.1143 (m)"),
-    ("length", "length", "cylinder length (vertical: height) or horizontal plate length"),
-    ("height", "length", "vertical plate height"),
-    ("width", "length", "plate width"),
-    ("wind-speed", "speed", "wind speed, e.g. 3 or 10mph (default 0: still air)"),
-    ("pressure", "pressure", "air pressure, e.g. 101325 or 79.5kPa (default 1 atm)"),
-)
+#: Output fields: name -> (column label, quantity kind, format). JSON carries SI values of these.
+FIELDS = {
+    "surface_temperature": ("T_surface", "temperature", "{:.1f}"),
+    "fluid_temperature": ("T_fluid", "temperature", "{:.1f}"),
+    "air_temperature": ("T_air", "temperature", "{:.1f}"),
+    "outer_diameter": ("D_outer", "length", "{:.1f}"),
+    "q_per_length": ("q", "heat_per_length", "{:.1f}"),
+    "q_total": ("Q", "power", "{:.0f}"),
+    "h_convection": ("h_conv", "coefficient", "{:.2f}"),
+    "h_radiation": ("h_rad", "coefficient", "{:.2f}"),
+    "rayleigh": ("Ra", "dimensionless", "{:.3g}"),
+    "reynolds": ("Re", "dimensionless", "{:.3g}"),
+}
 
 
 def load_demo_site() -> dict:
@@ -50,84 +60,81 @@ def load_demo_site() -> dict:
     return json.loads(resources.files("convlib").joinpath("data/demo_site.json").read_text())
 
 
-def _result_row(tag: str, description: str, r) -> dict:
-    return {
-        "tag": tag,
-        "description": description,
-        "surface_temperature_degC": float(r.surface_temperature) - 273.15,
-        "air_temperature_degC": float(r.air_temperature) - 273.15,
-        "q_per_length_W_per_m": float(r.q_per_length),
-        "q_total_W": float(r.q_total),
-        "q_convection_per_length_W_per_m": float(r.q_convection_per_length),
-        "q_radiation_per_length_W_per_m": float(r.q_radiation_per_length),
-        "h_convection_W_per_m2K": float(r.h_convection),
-        "h_radiation_W_per_m2K": float(r.h_radiation),
-        "rayleigh": float(r.rayleigh),
-        "reynolds": float(r.reynolds),
-        "regime": f"{r.regime_names().item()}, {r.flow_regime_names().item()}",
-        "warnings": r.warning_messages(),
-    }
+def _row(tag: str, r, extra_fields=()) -> dict:
+    row = {"tag": tag}
+    for name in ("surface_temperature", *extra_fields, "air_temperature", "q_per_length", "q_total",
+                 "h_convection", "h_radiation", "rayleigh", "reynolds"):
+        row[name] = float(getattr(r, name))
+    row["regime"] = f"{r.regime_names().item()}, {r.flow_regime_names().item()}"
+    row["warnings"] = r.warning_messages()
+    return row
 
 
 def _cautions(rows: list[dict]) -> list[str]:
     out = []
-    if any(row["surface_temperature_degC"] + 273.15 > TOUCH_WARNING_K for row in rows):
+    if any(row["surface_temperature"] > TOUCH_LIMIT_METAL_JACKET for row in rows):
         out.append(CAUTION_HOT)
-    if any(row["surface_temperature_degC"] < row["air_temperature_degC"] for row in rows):
+    if any(row["surface_temperature"] < row["air_temperature"] for row in rows):
         out.append(CAUTION_COLD)
     return out
 
 
-_COLUMNS = (
-    ("tag", "tag", "{}"),
-    ("surface_temperature_degC", "T_s [degC]", "{:.1f}"),
-    ("air_temperature_degC", "T_air [degC]", "{:.1f}"),
-    ("q_per_length_W_per_m", "q [W/m]", "{:.1f}"),
-    ("q_total_W", "Q [W]", "{:.0f}"),
-    ("h_convection_W_per_m2K", "h_conv [W/m2K]", "{:.2f}"),
-    ("h_radiation_W_per_m2K", "h_rad [W/m2K]", "{:.2f}"),
-    ("rayleigh", "Ra [-]", "{:.3g}"),
-    ("reynolds", "Re [-]", "{:.3g}"),
-    ("regime", "regime", "{}"),
-)
-
-
-def _print_table(rows: list[dict], out) -> None:
-    cells = [[fmt.format(row[key]) for key, _, fmt in _COLUMNS] for row in rows]
-    heads = [head for _, head, _ in _COLUMNS]
+def _table(rows: list[dict], units: str, out=sys.stdout) -> None:
+    if not rows:
+        return
+    names = [n for n in rows[0] if n not in ("warnings",)]
+    heads, cells = [], [[] for _ in rows]
+    for name in names:
+        if name in FIELDS:
+            label, kind, fmt = FIELDS[name]
+            unit = display_unit(kind, units)
+            heads.append(f"{label} [{_pretty(unit)}]" if unit else label)
+            for cell, row in zip(cells, rows):
+                cell.append(fmt.format(float(from_si(row[name], kind, unit))))
+        else:
+            heads.append(name)
+            for cell, row in zip(cells, rows):
+                cell.append(str(row[name]))
     widths = [max(len(h), *(len(c[i]) for c in cells)) for i, h in enumerate(heads)]
-    print("  ".join(h.ljust(w) for h, w in zip(heads, widths)), file=out)
+    print("  ".join(h.ljust(w) for h, w in zip(heads, widths)).rstrip(), file=out)
     print("  ".join("-" * w for w in widths), file=out)
     for c in cells:
-        print("  ".join(v.ljust(w) for v, w in zip(c, widths)), file=out)
+        print("  ".join(v.ljust(w) for v, w in zip(c, widths)).rstrip(), file=out)
     for row in rows:
-        for w in row["warnings"]:
+        for w in row.get("warnings", ()):
             print(f"  ! {row['tag']}: {w}", file=out)
 
 
-def _emit(rows: list[dict], args, title: str | None = None) -> None:
-    cautions = _cautions(rows)
+def _pretty(unit: str) -> str:
+    return (unit.replace("degC", "°C").replace("degF", "°F").replace("delta_", "").replace("**2", "²")
+            .replace("hour", "h").replace("foot", "ft").replace("inch", "in"))
+
+
+def _units_map(rows: list[dict]) -> dict:
+    return {n: KIND_SI_UNIT[FIELDS[n][1]] for r in rows[:1] for n in r if n in FIELDS}
+
+
+def _emit(args, sections: list[tuple[str, list[dict]]], cautions: list[str], extra: dict | None = None) -> None:
     if args.json:
-        json.dump({"results": rows, "cautions": cautions, "convlib_version": __version__}, sys.stdout, indent=2)
+        payload = {title: {"results": rows, "units": _units_map(rows)} for title, rows in sections}
+        payload.update(extra or {})
+        payload["cautions"] = cautions
+        payload["convlib_version"] = __version__
+        json.dump(payload, sys.stdout, indent=2)
         print()
         return
-    if title:
-        print(title)
-    _print_table(rows, sys.stdout)
+    for title, rows in sections:
+        print(f"\n{title}")
+        _table(rows, args.units)
+    for line in (extra or {}).get("text", []):
+        print(line)
+    if cautions:
+        print()
     for c in cautions:
         print(c)
 
 
-def _cmd_demo(args) -> int:
-    site = load_demo_site()
-    rows = []
-    for case in site["surfaces"]:
-        inputs = {k: v for k, v in case.items() if k not in ("tag", "description")}
-        rows.append(_result_row(case["tag"], case["description"], bare_surface(**inputs)))
-    _emit(rows, args, title=f"{site['site']}\n{site['note']}\n")
-    return 0
-
-
+# ----------------------------------------------------------------------------- commands
 def _cmd_surface(args) -> int:
     kwargs = {}
     for option, kind, _ in _SURFACE_OPTIONS:
@@ -137,13 +144,161 @@ def _cmd_surface(args) -> int:
     for name in ("emissivity", "sky_view_fraction"):
         if getattr(args, name) is not None:
             kwargs[name] = getattr(args, name)
-    missing = [o for o in ("surface_temperature", "air_temperature") if o not in kwargs]
-    if missing:
-        raise ValueError(f"--{missing[0].replace('_', '-')} is required")
+    for required in ("surface_temperature", "air_temperature"):
+        if required not in kwargs:
+            raise ValueError(f"--{required.replace('_', '-')} is required")
     if args.shape in ("horizontal_cylinder", "vertical_cylinder") and "length" not in kwargs:
         kwargs["length"] = 1.0
-    r = bare_surface(args.shape, natural=args.natural, forced=args.forced, **kwargs)
-    _emit([_result_row(args.tag, "", r)], args)
+    rows = [_row(args.tag, bare_surface(args.shape, natural=args.natural, forced=args.forced, **kwargs))]
+    _emit(args, [("surface", rows)], _cautions(rows))
+    return 0
+
+
+def _parse_layer(text: str, index: int) -> Layer:
+    parts = [p.strip() for p in text.split(",")]
+    if len(parts) not in (2, 3):
+        raise ValueError(f"--layer {text!r}: write THICKNESS,CONDUCTIVITY[,NAME], e.g. 50mm,0.04,mineral wool")
+    thickness = parse(parts[0], "length", f"layer {index} thickness")
+    conductivity = parse(parts[1], "conductivity", f"layer {index} conductivity")
+    return Layer(thickness, conductivity, name=parts[2] if len(parts) == 3 else f"layer {index}")
+
+
+def _pipe_diameter(args) -> float:
+    if (args.nps is None) == (args.pipe_diameter is None):
+        raise ValueError("give the pipe as --nps (with --schedule) or as --pipe-diameter, not both")
+    if args.nps is not None:
+        return nominal_pipe(args.nps, args.schedule).outer_diameter
+    return parse(args.pipe_diameter, "length", "pipe-diameter")
+
+
+def _conditions(args) -> dict:
+    return dict(air_temperature=parse(args.air_temperature, "temperature", "air-temperature"),
+                wind_speed=parse(args.wind_speed, "speed", "wind-speed"),
+                jacket_emissivity=args.jacket_emissivity, sky_view_fraction=args.sky_view_fraction)
+
+
+def _cmd_line(args) -> int:
+    layers = [_parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
+    r = insulated_pipe(_pipe_diameter(args), parse(args.fluid_temperature, "temperature", "fluid-temperature"),
+                       layers, length=parse(args.length, "length", "length"), **_conditions(args))
+    rows = [_row(args.tag, r, ("fluid_temperature", "outer_diameter"))]
+    _emit(args, [("line", rows)], _cautions(rows))
+    return 0
+
+
+def _sizing_rows(tag, result, kind_label) -> dict:
+    return {"tag": tag, "limit on": kind_label,
+            "required thickness [mm]": _mm(result.required_thickness),
+            "commercial thickness [mm]": _mm(result.commercial_thickness),
+            "notes": "; ".join(result.messages) or "-"}
+
+
+def _mm(value) -> str:
+    value = float(value)
+    return "not reachable" if np.isnan(value) else f"{value * 1000:.1f}"
+
+
+def _cmd_size(args) -> int:
+    d = _pipe_diameter(args)
+    tf = parse(args.fluid_temperature, "temperature", "fluid-temperature")
+    k = parse(args.insulation_conductivity, "conductivity", "insulation-conductivity")
+    outer = [_parse_layer(args.jacket, 1)] if args.jacket else []
+    cond = _conditions(args)
+    chosen = [name for name in ("touch_limit", "heat_loss_limit", "relative_humidity") if getattr(args, name)]
+    if len(chosen) != 1:
+        raise ValueError("give exactly one limit: --touch-limit, --heat-loss-limit or --relative-humidity")
+    if args.touch_limit:
+        res = thickness_for_surface_temperature(d, tf, insulation_conductivity=k, outer_layers=outer,
+                                                surface_limit=parse(args.touch_limit, "temperature", "touch-limit"),
+                                                **cond)
+        label = "touch temperature"
+    elif args.heat_loss_limit:
+        res = thickness_for_heat_loss(d, tf, insulation_conductivity=k, outer_layers=outer,
+                                      heat_loss_limit=parse(args.heat_loss_limit, "heat_per_length",
+                                                            "heat-loss-limit"), **cond)
+        label = "heat loss"
+    else:
+        cond.pop("wind_speed")
+        cond.pop("sky_view_fraction")
+        res = thickness_against_condensation(d, tf, insulation_conductivity=k, outer_layers=outer,
+                                             relative_humidity=args.relative_humidity, **cond)
+        label = "condensation"
+    row = _sizing_rows(args.tag, res, label)
+    if args.json:
+        json.dump({"sizing": {**row, "required_thickness_m": _nan_to_none(res.required_thickness),
+                              "commercial_thickness_m": _nan_to_none(res.commercial_thickness),
+                              "achievable": bool(res.achievable)},
+                   "cautions": list(res.cautions), "convlib_version": __version__}, sys.stdout, indent=2)
+        print()
+        return 0
+    _table([row], args.units)
+    for c in res.cautions:
+        print(c)
+    return 0
+
+
+def _nan_to_none(value):
+    value = float(value)
+    return None if np.isnan(value) else value
+
+
+def _cmd_demo(args) -> int:
+    site = load_demo_site()
+    bare = [_row(c["tag"], bare_surface(**{k: v for k, v in c.items() if k not in ("tag", "description")}))
+            for c in site["surfaces"]]
+    lines = [LineSpec(**c) for c in site["insulated_lines"]]
+    insulated = [_row(s.tag, insulated_pipe(**s.pipe_arguments()), ("fluid_temperature",)) for s in lines]
+    design = site["design"]
+    sizing, cautions = [], set(_cautions(bare + insulated))
+    for s in lines:
+        jacket = [layer.layer() for layer in s.layers[1:]]
+        common = dict(insulation_conductivity=design["insulation_conductivity"], outer_layers=jacket,
+                      jacket_emissivity=s.jacket_emissivity)
+        if s.fluid_temperature > s.air_temperature:
+            sun = design["solar_irradiance"] if s.sky_view_fraction > 0 else 0.0
+            res = thickness_for_surface_temperature(s.outer_diameter(), s.fluid_temperature,
+                                                    air_temperature=design["hottest_air_temperature"],
+                                                    surface_limit=design["touch_limit"], solar_irradiance=sun,
+                                                    **common)
+            sizing.append(_sizing_rows(s.tag, res, "touch temperature"))
+            res = thickness_for_heat_loss(s.outer_diameter(), s.fluid_temperature, air_temperature=s.air_temperature,
+                                          heat_loss_limit=design["heat_loss_limit"], wind_speed=s.wind_speed,
+                                          sky_view_fraction=s.sky_view_fraction, **common)
+            sizing.append(_sizing_rows(s.tag, res, "heat loss"))
+            cautions.add(CAUTION_TOUCH)
+        else:
+            res = thickness_against_condensation(s.outer_diameter(), s.fluid_temperature,
+                                                 air_temperature=s.air_temperature,
+                                                 relative_humidity=s.relative_humidity or 0.75,
+                                                 margin=design["condensation_margin"], **common)
+            sizing.append(_sizing_rows(s.tag, res, "condensation"))
+            cautions.add(CAUTION_CONDENSATION)
+    bins = WeatherBins(**site["weather_bins"])
+    price = site["energy"]
+    energy = []
+    for s in lines:
+        args_ = s.pipe_arguments()
+        for key in ("air_temperature", "wind_speed", "length"):
+            args_.pop(key)
+        e = annual_energy(args_.pop("pipe_outer_diameter"), args_.pop("fluid_temperature"), args_.pop("layers"),
+                          bins=bins, length=s.equivalent_length(), energy_price=price["price_per_kwh"],
+                          heating_efficiency=price["heating_efficiency"], cooling_cop=price["cooling_cop"],
+                          co2_per_kwh=price["co2_kg_per_kwh"], **args_)
+        energy.append({"tag": s.tag, "equivalent length [m]": f"{s.equivalent_length():.0f}",
+                       "heat [MWh/yr]": f"{float(e.heat_kwh) / 1000:.2f}",
+                       "purchased [MWh/yr]": f"{float(e.purchased_kwh) / 1000:.2f}",
+                       f"cost [{price['currency']}/yr]": f"{float(e.cost):.0f}",
+                       "CO2 [t/yr]": f"{float(e.co2_kg) / 1000:.2f}"})
+    header = f"{site['site']}\n{site['note']}"
+    if args.json:
+        _emit(args, [("bare_surfaces", bare), ("insulated_lines", insulated)], sorted(cautions),
+              {"sizing": sizing, "annual_energy": energy})
+        return 0
+    print(header)
+    _emit(args, [("Bare surfaces at a known surface temperature", bare),
+                 ("Insulated lines (surface temperature solved)", insulated),
+                 ("Insulation sizing (design conditions of the site)", sizing),
+                 ("Annual energy over the site's weather bins", energy)], sorted(cautions))
     return 0
 
 
@@ -164,6 +319,38 @@ def _cmd_correlations(args) -> int:
     return 0
 
 
+# ----------------------------------------------------------------------------- parser
+# (option, kind, help) for the surface command; kind drives unit parsing.
+_SURFACE_OPTIONS = (
+    ("surface-temperature", "temperature", "outer surface temperature, e.g. 90degC or 363.15 (K)"),
+    ("air-temperature", "temperature", "ambient air temperature, e.g. 20degC"),
+    ("surroundings-temperature", "temperature", "temperature of walls/ground seen by the surface (default: air)"),
+    ("diameter", "length", "outer diameter of a cylinder or sphere, e.g. 4.5in or 0.1143 (m)"),
+    ("length", "length", "cylinder length (vertical: height) or horizontal plate length"),
+    ("height", "length", "vertical plate height"),
+    ("width", "length", "plate width"),
+    ("wind-speed", "speed", "wind speed, e.g. 3 or 10mph (default 0: still air)"),
+    ("pressure", "pressure", "air pressure, e.g. 101325 or 79.5kPa (default 1 atm)"),
+)
+
+
+def _output_options(p) -> None:
+    p.add_argument("--json", action="store_true", help="print JSON (SI values) instead of a table")
+    p.add_argument("--units", choices=("SI", "US"), default="SI", help="units of the printed table (default SI)")
+
+
+def _pipe_options(p) -> None:
+    p.add_argument("--nps", type=float, help="nominal pipe size, e.g. 4 or 0.75")
+    p.add_argument("--schedule", default="40", choices=SCHEDULES, help="pipe schedule (default 40)")
+    p.add_argument("--pipe-diameter", help="pipe outer diameter instead of --nps, e.g. 114.3mm")
+    p.add_argument("--fluid-temperature", required=True, help="fluid temperature, e.g. 180degC")
+    p.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. 20degC")
+    p.add_argument("--wind-speed", default="0", help="wind speed (default 0: still air)")
+    p.add_argument("--jacket-emissivity", type=float, default=0.9, help="emissivity of the outer surface")
+    p.add_argument("--sky-view-fraction", type=float, default=0.0, help="part of the view that is sky (0 indoors)")
+    p.add_argument("--tag", default="line", help="label for the output")
+
+
 def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(prog="convlib", description="Heat loss or gain of pipes, ducts and vessels "
                                      "to the surrounding air.")
@@ -171,7 +358,7 @@ def build_parser() -> argparse.ArgumentParser:
     sub = parser.add_subparsers(dest="command", required=True)
 
     demo = sub.add_parser("demo", help="evaluate the invented demo site")
-    demo.add_argument("--json", action="store_true", help="print JSON instead of a table")
+    _output_options(demo)
     demo.set_defaults(func=_cmd_demo)
 
     surf = sub.add_parser("surface", help="one bare surface at a known temperature")
@@ -183,8 +370,26 @@ def build_parser() -> argparse.ArgumentParser:
     surf.add_argument("--natural", help="natural-convection correlation key (see 'convlib correlations')")
     surf.add_argument("--forced", help="forced-convection correlation key")
     surf.add_argument("--tag", default="case", help="label for the output")
-    surf.add_argument("--json", action="store_true", help="print JSON instead of a table")
+    _output_options(surf)
     surf.set_defaults(func=_cmd_surface)
+
+    line = sub.add_parser("line", help="an insulated or bare line with a known fluid temperature")
+    _pipe_options(line)
+    line.add_argument("--layer", action="append", help="THICKNESS,CONDUCTIVITY[,NAME] from the pipe outwards, "
+                      "e.g. --layer 50mm,0.04,mineral wool --layer 0.7mm,200,jacket")
+    line.add_argument("--length", default="1", help="line length (default 1 m)")
+    _output_options(line)
+    line.set_defaults(func=_cmd_line)
+
+    size = sub.add_parser("size", help="insulation thickness for a limit")
+    _pipe_options(size)
+    size.add_argument("--insulation-conductivity", required=True, help="W/m/K of the insulation to size")
+    size.add_argument("--jacket", help="fixed layer outside it: THICKNESS,CONDUCTIVITY[,NAME]")
+    size.add_argument("--touch-limit", help="highest jacket temperature, e.g. 60degC (give the hottest ambient)")
+    size.add_argument("--heat-loss-limit", help="highest heat flow per metre, e.g. 50 (W/m)")
+    size.add_argument("--relative-humidity", type=float, help="design humidity 0..1: size against condensation")
+    _output_options(size)
+    size.set_defaults(func=_cmd_size)
 
     cat = sub.add_parser("correlations", help="list the correlation registry")
     cat.add_argument("--geometry", help="only this geometry")
@@ -198,7 +403,8 @@ def main(argv=None) -> int:
     try:
         return args.func(args)
     except ValueError as exc:
-        print(f"convlib: error: {exc}", file=sys.stderr)
+        message = str(exc).replace("\n", "; ")
+        print(f"convlib: error: {message}", file=sys.stderr)
         return 2
 
 

@@ -1,11 +1,11 @@
-"""Shapes of exposed surfaces: which sizes they take, their areas and characteristic lengths.
+r"""Shapes of exposed surfaces: which sizes they take, their areas and characteristic lengths.
 
 Conventions (all sizes in metres):
 
 =====================  =================  ==================  ==================  =====================
 shape                  sizes              natural length      forced length       heat per "length" of
 =====================  =================  ==================  ==================  =====================
-horizontal_cylinder    diameter, length   diameter            diameter            length (per metre run)
+horizontal_cylinder    diameter, length*  diameter            diameter            length (per metre run)
 vertical_cylinder      diameter, length   length (height)     diameter            length (height)
 sphere                 diameter           diameter            diameter            diameter
 vertical_plate         height, width      height              width               width
@@ -13,7 +13,7 @@ horizontal_plate_up    length, width      area / perimeter    length            
 horizontal_plate_down  length, width      area / perimeter    length              length
 =====================  =================  ==================  ==================  =====================
 
-A cylinder's area is its side only (ends neglected); a plate's area is the one
+\* default 1 m. A cylinder's area is its side only (ends neglected); a plate's area is the one
 exposed face. Wind is horizontal: across a cylinder or sphere, along a plate.
 """
 from __future__ import annotations
@@ -99,6 +99,8 @@ def dimensions(shape: str, *, diameter=None, length=None, height=None, width=Non
     if extra:
         raise ValueError(f"a {shape.replace('_', ' ')} takes {' and '.join(info.sizes)}; "
                          f"{', '.join(extra)} does not apply")
+    if shape == "horizontal_cylinder" and length is None:
+        given["length"] = 1.0  # per-metre results do not depend on it
     missing = [k for k in info.sizes if given[k] is None]
     if missing:
         raise ValueError(f"a {shape.replace('_', ' ')} needs {' and '.join(missing)} [m]")

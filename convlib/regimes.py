@@ -61,6 +61,9 @@ class Flag:
     PROPERTY_RATIO_OUT_OF_RANGE = 64
     NOT_CONVERGED = 128
     CONDUCTIVITY_EXTRAPOLATED = 256
+    #: Bits that report what was done rather than a loss of validity: they do not make
+    #: ``strict=True`` raise.
+    INFORMATIONAL = SLENDER_CYLINDER_CORRECTED
 
 
 FLAG_TEXT = {
@@ -68,7 +71,7 @@ FLAG_TEXT = {
     Flag.FORCED_OUT_OF_RANGE: "forced-convection correlation used outside its Reynolds range (extrapolated)",
     Flag.PRANDTL_OUT_OF_RANGE: "correlation used outside its Prandtl-number range",
     Flag.FLUID_NOT_FITTED: "correlation was fitted for air only and is used for another fluid",
-    Flag.OPPOSING_FLOW_FLOORED: "opposing buoyancy as strong as the forced flow: no correlation applies; value floored",
+    Flag.OPPOSING_FLOW_FLOORED: "opposing buoyancy close to the forced flow in strength: no correlation applies; value floored",
     Flag.SLENDER_CYLINDER_CORRECTED: "slender vertical cylinder: plate law corrected for curvature (Popiel et al. 2007)",
     Flag.PROPERTY_RATIO_OUT_OF_RANGE: "surface-to-stream property ratio outside the correlation's range",
     Flag.NOT_CONVERGED: "surface-temperature solution did not converge",

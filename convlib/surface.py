@@ -206,8 +206,10 @@ class OuterSurface:
             flags = flags | Flag.FLUID_NOT_FITTED
         with np.errstate(divide="ignore", invalid="ignore"):
             richardson = np.where(moving, buoyancy * l_frc ** 3 / np.where(moving, reynolds, 1.0) ** 2, np.inf)
-        flow = np.where(richardson >= 1.0, flow_regime(nat_hot.geometry, rayleigh),
-                        flow_regime(frc.geometry, reynolds))
+        natural_flow = flow_regime(nat_hot.geometry, rayleigh)
+        if info.natural_geometry_cold != info.natural_geometry:
+            natural_flow = np.where(delta < 0, flow_regime(info.natural_geometry_cold, rayleigh), natural_flow)
+        flow = np.where(richardson >= 1.0, natural_flow, flow_regime(frc.geometry, reynolds))
 
         # ---- radiation to surroundings and sky; absorbed sun
         q_rad = net_flux(ts, eps, fraction, t_sky, tsur)
@@ -327,6 +329,6 @@ def bare_surface(
         exact_properties=exact_properties)
     ts = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
     result = conditions.result(conditions.exchange(ts))
-    if strict and result.warnings.any():
-        raise ValueError("; ".join(result.warning_messages()))
+    if strict and (result.warnings & ~Flag.INFORMATIONAL).any():
+        raise ValueError("; ".join(summarize_flags(result.warnings & ~Flag.INFORMATIONAL)))
     return result

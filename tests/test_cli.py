@@ -27,12 +27,14 @@ def test_surface_json_matches_library_with_units_converted():
     proc = run("surface", "--diameter", "4.5in", "--surface-temperature", "90degC", "--air-temperature", "68degF",
                "--wind-speed", "2", "--emissivity", "0.8", "--json")
     assert proc.returncode == 0, proc.stderr
-    row = json.loads(proc.stdout)["results"][0]
+    payload = json.loads(proc.stdout)["surface"]
+    row = payload["results"][0]
+    assert payload["units"]["q_per_length"] == "W/m"
     # 4.5 in = 0.1143 m and 68 degF = 20 degC exactly (definitions of the inch and the Fahrenheit scale)
     direct = cl.bare_surface(surface_temperature=363.15, air_temperature=293.15, diameter=0.1143, length=1.0,
                              wind_speed=2.0, emissivity=0.8)
-    assert row["q_per_length_W_per_m"] == pytest.approx(float(direct.q_per_length), rel=1e-9)
-    assert row["air_temperature_degC"] == pytest.approx(20.0, abs=1e-9)
+    assert row["q_per_length"] == pytest.approx(float(direct.q_per_length), rel=1e-9)
+    assert row["air_temperature"] == pytest.approx(293.15, abs=1e-9)
 
 
 @pytest.mark.parametrize("args, field", [

@@ -35,9 +35,11 @@ _DEFAULT_EXPONENT = {
     ("opposing", "flat"): 3.0,
 }
 
-#: Where opposing buoyancy equals or exceeds the forced term the formula has no
-#: meaning (the flow separates or reverses). The result is floored at this
-#: fraction of the larger of the two limits and flagged. Project choice, no source.
+#: Opposing flows use |Nu_F^n - Nu_N^n|^(1/n): the stronger mechanism sets the flow
+#: (with no wind the result is purely natural). Where the two are of nearly equal
+#: strength the formula tends to zero, which no data support (the flow separates or
+#: reverses); the result is floored at this fraction of the larger limit and flagged.
+#: Project choice, no source.
 OPPOSING_FLOOR_FRACTION = 0.5
 
 
@@ -81,19 +83,22 @@ def combine(forced, natural, exponent=3.0, direction="transverse"):
     >>> value, floored = combine(30.0, 10.0, exponent=3.0, direction="assisting")
     >>> round(float(value), 3), bool(floored)
     (30.366, False)
-    >>> value, floored = combine(10.0, 12.0, direction="opposing")
+    >>> value, floored = combine(10.0, 10.2, direction="opposing")
     >>> float(value), bool(floored)
-    (6.0, True)
+    (5.1, True)
+    >>> value, floored = combine(0.0, 12.0, direction="opposing")
+    >>> float(value), bool(floored)
+    (12.0, False)
     """
     check_choice("flow direction", direction, FLOW_DIRECTIONS)
     forced = np.asarray(forced, dtype=float)
     natural = np.asarray(natural, dtype=float)
     n = np.asarray(exponent, dtype=float)
     if direction == "opposing":
-        diff = forced ** n - natural ** n
+        # The stronger mechanism sets the flow; the weaker one opposes it. Near equality
+        # the formula tends to zero, which no data support: floor and flag there.
+        value = np.abs(forced ** n - natural ** n) ** (1.0 / n)
         floor = OPPOSING_FLOOR_FRACTION * np.maximum(forced, natural)
-        with np.errstate(invalid="ignore"):
-            value = np.where(diff > 0, np.abs(diff) ** (1.0 / n), 0.0)
         floored = value < floor
         return np.where(floored, floor, value), floored
     value = (forced ** n + natural ** n) ** (1.0 / n)

@@ -98,12 +98,12 @@ REGISTRY: tuple[Correlation, ...] = (
     Correlation("churchill_chu", "vertical_cylinder", "natural", _n.nusselt_vertical_cylinder_churchill_chu,
                 ("Ra", "Pr", "diameter_over_length"), _CC_VP + ", eq. 6" + _POPIEL, "10.1016/0017-9310(75)90243-4",
                 ra_range=(1e-1, 1e12), accuracy_note=_TYPICAL, length_scale="height",
-                boundaries=(("thin_cylinder", 35.0, "lower"),),
+                boundaries=(("thin_cylinder", 35.0, "upper"),),
                 notes="plate law where D/L >= 35/Gr_L^(1/4), otherwise corrected (flagged)"),
     Correlation("churchill_chu_laminar", "vertical_cylinder", "natural",
                 _n.nusselt_vertical_cylinder_churchill_chu_laminar, ("Ra", "Pr", "diameter_over_length"),
                 _CC_VP + ", eq. 5" + _POPIEL, "10.1016/0017-9310(75)90243-4", ra_range=(1e-1, 1e9),
-                accuracy_note=_TYPICAL, length_scale="height", boundaries=(("thin_cylinder", 35.0, "lower"),)),
+                accuracy_note=_TYPICAL, length_scale="height", boundaries=(("thin_cylinder", 35.0, "upper"),)),
     # ---- horizontal plates, natural (length scale = area / perimeter)
     Correlation("mcadams", "horizontal_plate_up", "natural", _n.nusselt_horizontal_plate_up_mcadams, ("Ra",),
                 "McAdams (1954), Heat Transmission, 3rd ed., ch. 7", None, ra_range=(1e4, 1e11),
@@ -240,7 +240,8 @@ def evaluate(geometry: str, method: str, **groups) -> tuple[np.ndarray, np.ndarr
     args = {name: np.asarray(groups[name], dtype=float) for name in rec.inputs if groups.get(name) is not None}
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         nu = np.asarray(rec.function(**args), dtype=float)
-    shape = nu.shape
+    shape = np.broadcast_shapes(nu.shape, *(np.shape(v) for v in groups.values() if v is not None))
+    nu = np.broadcast_to(nu, shape)
     pr = groups.get("Pr")
     range_bit = Flag.NATURAL_OUT_OF_RANGE if rec.mode == "natural" else Flag.FORCED_OUT_OF_RANGE
     flags = np.zeros(shape, dtype=np.int16)
@@ -271,7 +272,7 @@ def evaluate(geometry: str, method: str, **groups) -> tuple[np.ndarray, np.ndarr
         # needs Ra > 0) returns its limit value 0 and is flagged, never NaN.
         nu = np.where(bad, 0.0, nu)
         flags |= np.where(bad, range_bit, 0).astype(np.int16)
-    return np.broadcast_to(nu, flags.shape) if nu.shape != flags.shape else nu, flags
+    return nu, flags
 
 
 def nusselt(geometry: str, method: str, Ra=None, Re=None, Pr=None, Pr_s=None, *, strict: bool = False,
@@ -307,8 +308,8 @@ def nusselt(geometry: str, method: str, Ra=None, Re=None, Pr=None, Pr_s=None, *,
     ValueError: unknown method 'churchill' for geometry 'horizontal_cylinder'; choose one of: churchill_chu, churchill_chu_laminar, morgan, kuehn_goldstein
     """
     nu, flags = evaluate(geometry, method, Ra=Ra, Re=Re, Pr=Pr, Pr_s=Pr_s, **extra)
-    if flags.any():
-        text = f"{geometry}/{method}: " + "; ".join(summarize_flags(flags))
+    if (flags & ~Flag.INFORMATIONAL).any():
+        text = f"{geometry}/{method}: " + "; ".join(summarize_flags(flags & ~Flag.INFORMATIONAL))
         if strict:
             raise ValueError(text)
         if not full_output:

@@ -1,0 +1,87 @@
+"""A line as engineers describe it (tag, NPS or diameter, layers, conditions), validated.
+
+:class:`LineSpec` is the system-level description shared by the command line,
+the demo site, line lists and studies. It turns into keyword arguments of
+:func:`convlib.pipe.insulated_pipe`. SI units, kelvin.
+"""
+from __future__ import annotations
+
+from pydantic import BaseModel, ConfigDict, Field, model_validator
+
+from .design import equivalent_length
+from .pipe import Layer
+from .pipe_sizes import nominal_pipe
+
+__all__ = ["LayerSpec", "LineSpec"]
+
+
+class LayerSpec(BaseModel):
+    """One layer: thickness [m], constant conductivity [W/m/K], name."""
+
+    model_config = ConfigDict(extra="forbid", frozen=True)
+
+    thickness: float = Field(ge=0.0, le=2.0, description="radial thickness [m]")
+    conductivity: float = Field(gt=0.0, le=500.0, description="thermal conductivity [W/m/K]")
+    name: str = "insulation"
+
+    def layer(self) -> Layer:
+        return Layer(self.thickness, self.conductivity, name=self.name)
+
+
+class LineSpec(BaseModel):
+    """A horizontal line with a known fluid temperature.
+
+    Give the pipe either as ``nps`` (+ ``schedule``, ASME B36.10M) or as
+    ``pipe_outer_diameter`` [m], not both.
+
+    Examples
+    --------
+    >>> spec = LineSpec(tag="L1", nps=4, fluid_temperature=453.15, air_temperature=293.15,
+    ...                 layers=[{"thickness": 0.05, "conductivity": 0.04}])
+    >>> spec.outer_diameter()
+    0.1143
+    """
+
+    model_config = ConfigDict(extra="forbid")
+
+    tag: str = Field(min_length=1, max_length=64)
+    description: str = ""
+    nps: float | None = Field(default=None, gt=0.0)
+    schedule: str = "40"
+    pipe_outer_diameter: float | None = Field(default=None, gt=0.0, le=10.0, description="[m]")
+    length: float = Field(default=1.0, gt=0.0, description="[m]")
+    fluid_temperature: float = Field(gt=0.0, description="[K]")
+    layers: list[LayerSpec] = Field(default_factory=list)
+    jacket_emissivity: float = Field(default=0.9, ge=0.0, le=1.0)
+    air_temperature: float = Field(gt=0.0, description="[K]")
+    wind_speed: float = Field(default=0.0, ge=0.0, le=100.0, description="[m/s]")
+    sky_view_fraction: float = Field(default=0.0, ge=0.0, le=1.0)
+    relative_humidity: float | None = Field(default=None, gt=0.0, le=1.0)
+    fittings: dict[str, float] = Field(default_factory=dict)
+
+    @model_validator(mode="after")
+    def _one_diameter(self):
+        if (self.nps is None) == (self.pipe_outer_diameter is None):
+            raise ValueError("give the pipe as nps (with schedule) or as pipe_outer_diameter [m], not both")
+        if self.nps is not None:
+            nominal_pipe(self.nps, self.schedule)  # raises with the nearest sizes
+        equivalent_length(self.length, self.fittings)  # raises on unknown fittings
+        return self
+
+    def outer_diameter(self) -> float:
+        """Outer diameter of the pipe itself [m]."""
+        if self.pipe_outer_diameter is not None:
+            return self.pipe_outer_diameter
+        return nominal_pipe(self.nps, self.schedule).outer_diameter
+
+    def equivalent_length(self) -> float:
+        """Length plus fittings as equivalent metres [m]."""
+        return float(equivalent_length(self.length, self.fittings))
+
+    def pipe_arguments(self) -> dict:
+        """Keyword arguments of :func:`convlib.pipe.insulated_pipe` for this line (``q_total`` over its length)."""
+        return dict(pipe_outer_diameter=self.outer_diameter(), fluid_temperature=self.fluid_temperature,
+                    length=self.length,
+                    layers=[layer.layer() for layer in self.layers], air_temperature=self.air_temperature,
+                    jacket_emissivity=self.jacket_emissivity, wind_speed=self.wind_speed,
+                    sky_view_fraction=self.sky_view_fraction)
