@@ -262,8 +262,71 @@ def bench_bare_surface_cylinder(cfg: Config) -> Row:
     )
 
 
+def bench_insulated_pipe(cfg: Config) -> Row:
+    """convlib.insulated_pipe, two layers, wind + radiation, vs a per-point scipy brentq energy balance."""
+    from CoolProp.CoolProp import PropsSI
+    from scipy.optimize import brentq
+
+    import convlib
+
+    n = cfg.size(200_000)
+    n_ref = cfg.size(500)
+    rng = np.random.default_rng(cfg.seed + 1)
+    d_pipe = rng.uniform(0.02, 0.6, n)
+    t_fluid = rng.uniform(260.0, 600.0, n)
+    t_air = rng.uniform(250.0, 315.0, n)
+    wind = np.where(rng.random(n) < 0.1, 0.0, rng.uniform(0.0, 15.0, n))
+    eps = rng.uniform(0.05, 0.95, n)
+    thick = rng.uniform(0.01, 0.15, n)
+    k_ins = rng.uniform(0.02, 0.1, n)
+    jacket, k_jacket = 0.0008, 50.0
+
+    def vectorized(sl=slice(None)):
+        layers = [convlib.Layer(thick[sl], k_ins[sl]), convlib.Layer(jacket, k_jacket, name="jacket")]
+        return convlib.insulated_pipe(d_pipe[sl], t_fluid[sl], layers, air_temperature=t_air[sl],
+                                      wind_speed=wind[sl], jacket_emissivity=eps[sl],
+                                      sky_view_fraction=SKY_VIEW_FRACTION, pressure=PRESSURE,
+                                      natural="churchill_chu", forced="churchill_bernstein", mixing_exponent=4.0)
+
+    points = list(zip(*(a[:n_ref].tolist() for a in (d_pipe, t_fluid, t_air, wind, eps, thick, k_ins))))
+    ts_ref: list[float] = []
+
+    def scalar_loop():
+        ts_ref.clear()
+        for d, tf, ta, w, e, t, k in points:
+            r1, r2, r3 = d / 2, d / 2 + t, d / 2 + t + jacket
+            resistance = math.log(r2 / r1) / (2 * math.pi * k) + math.log(r3 / r2) / (2 * math.pi * k_jacket)
+
+            def balance(ts):
+                return (tf - ts) / resistance - reference_q_per_length(2 * r3, ts, ta, w, e, PropsSI)[0]
+
+            lo, hi = min(tf, ta, 0.0552 * ta ** 1.5) - 0.5, max(tf, ta) + 0.5
+            ts_ref.append(brentq(balance, lo, hi, xtol=1e-6))
+
+    t_vec, t_ref = time_interleaved([vectorized, scalar_loop], cfg.repeat)
+    head = slice(0, n_ref)
+    diff = np.abs(vectorized(head).surface_temperature - np.array(ts_ref))
+    return Row(
+        name="insulated_pipe",
+        subject=f"convlib.insulated_pipe, 2 layers, {n:,} pts",
+        n_subject=n,
+        timing_subject=t_vec,
+        baseline=f"scalar brentq + PropsSI, {n_ref:,} pts",
+        n_baseline=n_ref,
+        timing_baseline=t_ref,
+        target_rate=3e5,
+        target_note="a guide for this machine class (one core), not a gate",
+        accuracy={
+            "max |surface temperature diff.|, tables vs brentq + exact properties": f"{diff.max():.2e} K  "
+            "(target < 0.02 K)",
+            "median |diff.|": f"{np.median(diff):.2e} K",
+        },
+    )
+
+
 BENCHMARKS: list[Callable[[Config], Row]] = [
     bench_bare_surface_cylinder,
+    bench_insulated_pipe,
 ]
 
 

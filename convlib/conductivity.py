@@ -19,12 +19,13 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 import numpy as np
+from scipy.optimize import elementwise
 
 from .validation import as_array, check_choice
 
 __all__ = ["Conductivity"]
 
-# Dense grid on which the true-form integral U(T) = int k dT is tabulated and inverted.
+# Grid on which the true-form integral U(T) = int k dT is tabulated for a first guess of its inverse.
 _GRID = np.arange(1.0, 3000.0 + 0.25, 0.25)
 FORMS = ("true", "mean")
 
@@ -54,10 +55,15 @@ class Conductivity:
 
     # ---------------------------------------------------------------- constructors
     @classmethod
-    def constant(cls, k: float) -> "Conductivity":
-        """A constant conductivity [W/m/K], > 0."""
-        value = float(as_array("conductivity", k, unit="W/m/K", low=0.0, low_inclusive=False))
+    def constant(cls, k) -> "Conductivity":
+        """A conductivity [W/m/K] > 0 independent of temperature; an array broadcasts over cases."""
+        value = as_array("conductivity", k, unit="W/m/K", low=0.0, low_inclusive=False)
         return cls("constant", coefficients=(value,))
+
+    @property
+    def constant_value(self) -> np.ndarray:
+        """The value of a constant conductivity [W/m/K] (scalar or array over cases)."""
+        return self.coefficients[0]
 
     @classmethod
     def polynomial(cls, coefficients, form: str = "true", valid_range=(200.0, 900.0)) -> "Conductivity":
@@ -94,9 +100,7 @@ class Conductivity:
     @classmethod
     def _with_integral(cls, kind, **kw) -> "Conductivity":
         obj = cls(kind, **kw)
-        k = obj.at(_GRID)
-        integral = np.concatenate([[0.0], np.cumsum(0.5 * (k[1:] + k[:-1]) * np.diff(_GRID))])
-        object.__setattr__(obj, "_integral", integral)
+        object.__setattr__(obj, "_integral", obj._U(_GRID))  # for the first guess of the inverse
         return obj
 
     @classmethod
@@ -113,7 +117,8 @@ class Conductivity:
         """k at temperature T [K] (the data as given, either form)."""
         T = np.asarray(T, dtype=float)
         if self.kind == "constant":
-            return np.full(T.shape, self.coefficients[0])
+            k = self.coefficients[0]
+            return np.broadcast_to(k, np.broadcast_shapes(T.shape, k.shape)).copy()
         clipped = np.clip(T, *self.valid_range)
         if self.kind == "polynomial":
             return np.polynomial.polynomial.polyval(clipped, self.coefficients)
@@ -125,17 +130,34 @@ class Conductivity:
         return np.logical_or.reduce([(np.asarray(t) < low) | (np.asarray(t) > high) for t in temperatures])
 
     def _U(self, T):
-        return np.interp(T, _GRID, self._integral)
+        """Exact integral of k from the low end of the data's range to T [W/m], continued
+        linearly (k held at its end values) outside the range."""
+        T = np.asarray(T, dtype=float)
+        low, high = self.valid_range
+        inside = np.clip(T, low, high)
+        if self.kind == "polynomial":
+            antiderivative = np.polynomial.polynomial.polyint(self.coefficients)
+            body = (np.polynomial.polynomial.polyval(inside, antiderivative)
+                    - np.polynomial.polynomial.polyval(low, antiderivative))
+        else:
+            t, k = np.asarray(self.temperatures), np.asarray(self.values)
+            nodes = np.concatenate([[0.0], np.cumsum(0.5 * (k[1:] + k[:-1]) * np.diff(t))])
+            i = np.clip(np.searchsorted(t, inside, side="right") - 1, 0, t.size - 2)
+            dx = inside - t[i]
+            slope = (k[i + 1] - k[i]) / (t[i + 1] - t[i])
+            body = nodes[i] + k[i] * dx + 0.5 * slope * dx * dx
+        k_low, k_high = self.at(low), self.at(high)
+        return body + k_low * np.minimum(T - low, 0.0) + k_high * np.maximum(T - high, 0.0)
 
     def effective(self, t_in, t_out) -> np.ndarray:
         """Effective conductivity of a layer whose faces are at t_in and t_out [K]."""
         t_in, t_out = np.asarray(t_in, float), np.asarray(t_out, float)
         if self.kind == "constant":
-            return np.full(np.broadcast(t_in, t_out).shape, self.coefficients[0])
+            return self.at(t_in + 0.0 * t_out)
         if self.form == "mean":
             return self.at(0.5 * (t_in + t_out))
         diff = t_in - t_out
-        small = np.abs(diff) < 1e-6
+        small = np.abs(diff) < 1e-6  # no drop: the limit is k itself
         with np.errstate(divide="ignore", invalid="ignore"):
             mean = (self._U(t_in) - self._U(t_out)) / np.where(small, 1.0, diff)
         return np.where(small, self.at(0.5 * (t_in + t_out)), mean)
@@ -147,15 +169,20 @@ class Conductivity:
         if self.kind == "constant":
             return t_in - drop / self.coefficients[0]
         if self.form == "true":
-            return np.interp(self._U(t_in) - drop, self._integral, _GRID)
-        # mean form: solve 2 k(m) (t_in - m) = drop for the mean m by Newton on whole arrays
-        m = t_in - 0.5 * drop / self.at(t_in)
-        for _ in range(50):
-            k = self.at(m)
-            dk = (self.at(m + 0.01) - self.at(m - 0.01)) / 0.02
-            g = 2.0 * k * (t_in - m) - drop
-            step = g / (2.0 * dk * (t_in - m) - 2.0 * k)
-            m = m - step
-            if np.all(np.abs(step) < 1e-10):
-                break
-        return 2.0 * m - t_in
+            target = self._U(t_in) - drop
+            t = np.interp(target, self._integral, _GRID)  # first guess from the tabulated integral
+            for _ in range(20):  # Newton on the exact integral (U' = k > 0): converges in 1-2 steps
+                step = (self._U(t) - target) / self.at(t)
+                t = t - step
+                if np.all(np.abs(step) < 1e-11):
+                    break
+            return t
+        # mean form: solve 2 k(m) (t_in - m) = drop for the layer's mean temperature m, bracketed:
+        # m lies between t_in and t_in - drop / (2 k_min) (k >= k_min everywhere).
+        drop, t_in = np.broadcast_arrays(np.asarray(drop, float), t_in)
+        k_min = float(self.at(np.linspace(*np.clip(self.valid_range, 1.0, 3000.0), 256)).min())
+        far = t_in - drop / (2.0 * k_min) - np.sign(drop) * 1e-6
+        lo, hi = np.minimum(t_in, far), np.maximum(t_in, far)
+        res = elementwise.find_root(lambda m, t, q: 2.0 * self.at(m) * (t - m) - q, (lo, hi), args=(t_in, drop),
+                                    tolerances={"xatol": 1e-10, "xrtol": 0.0})
+        return np.where(drop == 0, t_in, 2.0 * res.x - t_in)

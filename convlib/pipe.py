@@ -175,7 +175,8 @@ def insulated_pipe(
         wall = as_array("pipe_wall_thickness", pipe_wall_thickness, unit="m", low=0.0)
         k_wall = as_array("pipe_conductivity", pipe_conductivity, unit="W/m/K", low=0.0, low_inclusive=False)
         if np.any(2.0 * wall >= d_pipe):
-            raise ValueError("pipe_wall_thickness must be less than half the pipe_outer_diameter")
+            raise ValueError(f"pipe_wall_thickness must be less than half the pipe_outer_diameter; got "
+                             f"{np.max(wall):g} m for a {np.min(d_pipe):g} m pipe")
         r_wall = _drops(0.5 * d_pipe - wall, 0.5 * d_pipe) / k_wall
         r_fixed = r_fixed + r_wall
     drops = [_drops(radii[j], radii[j + 1]) for j in range(len(layers))]
@@ -185,7 +186,7 @@ def insulated_pipe(
     full = lambda a: np.broadcast_to(np.asarray(a, dtype=float), shape)  # noqa: E731
     if all_constant:
         # one lumped resistance: film + wall + layers in series
-        r_inside = r_fixed + sum((d / layer.conductivity.coefficients[0] for d, layer in zip(drops, layers)),
+        r_inside = r_fixed + sum((d / layer.conductivity.constant_value for d, layer in zip(drops, layers)),
                                  np.zeros(()))
         layer_args = ()
     else:
@@ -196,7 +197,7 @@ def insulated_pipe(
 
     def residual(ts, tf_, r_inside_, d_, *rest):
         layer_drops, point = rest[:n_layer_args], rest[n_layer_args:]
-        q_out = outer.exchange(ts, *point)["q_per_area"] * np.pi * d_
+        q_out = outer.exchange(ts, *point, flux_only=True) * np.pi * d_
         if all_constant:
             with np.errstate(divide="ignore", invalid="ignore"):
                 q_in = (tf_ - ts) / r_inside_
@@ -263,7 +264,7 @@ def _stack_flow(ts, tf, r_inside, drops, layers):
     k_min, k_max = [], []
     for layer in layers:
         c = layer.conductivity
-        k = c.at(np.linspace(*np.clip(c.valid_range, 1.0, 3000.0), 64))
+        k = c.constant_value if c.is_constant else c.at(np.linspace(*np.clip(c.valid_range, 1.0, 3000.0), 64))
         k_min.append(k.min())
         k_max.append(k.max())
     r_low = r_inside + sum(d / k for d, k in zip(drops, k_max))
@@ -293,20 +294,24 @@ def _solve_surface(residual, args, outer, tolerance, direct):
     solar = np.broadcast_to(outer.solar_per_area, tf.shape)
     hi = hi + np.where(solar > 0, solar / 2.0, 0.0) + 0.5
     lo = np.maximum(lo - 0.5, 0.5 * lo)
+    tolerances = {"xatol": tolerance, "xrtol": 0.0, "fatol": 0.0, "frtol": 0.0}
     with np.errstate(all="ignore"):
-        # Widen brackets that hold no sign change (rare: strong sun, odd surroundings).
+        res = elementwise.find_root(residual, (lo, hi), args=args, tolerances=tolerances)
+        x, success = np.array(res.x, dtype=float), np.array(res.success, dtype=bool)
+        lo, hi = np.array(lo, dtype=float), np.array(hi, dtype=float)
+        # Widen the few brackets that held no sign change (strong sun, odd surroundings) and retry them.
         for _ in range(6):
-            f_lo, f_hi = residual(lo, *args), residual(hi, *args)
-            bad = (np.sign(f_lo) == np.sign(f_hi)) & ~direct
+            bad = ~success & ~direct
             if not bad.any():
                 break
-            width = hi - lo
-            lo = np.where(bad, np.maximum(lo - width, 0.5 * lo), lo)
-            hi = np.where(bad, hi + width, hi)
-        res = elementwise.find_root(residual, (lo, hi), args=args,
-                                    tolerances={"xatol": tolerance, "xrtol": 0.0, "fatol": 0.0, "frtol": 0.0})
-    ts = np.where(direct, tf, res.x)
-    converged = direct | res.success
+            width = hi[bad] - lo[bad]
+            lo_b, hi_b = np.maximum(lo[bad] - width, 0.5 * lo[bad]), hi[bad] + width
+            lo[bad], hi[bad] = lo_b, hi_b
+            retry = elementwise.find_root(residual, (lo_b, hi_b), args=tuple(a[bad] for a in args),
+                                          tolerances=tolerances)
+            x[bad], success[bad] = retry.x, retry.success
+    ts = np.where(direct, tf, x)
+    converged = direct | success
     if not np.all(converged):
         bad = np.flatnonzero(~converged.ravel())[:3]
         raise ValueError(f"outer surface temperature could not be found at {np.count_nonzero(~converged)} "

@@ -132,9 +132,13 @@ class OuterSurface:
         irradiance = as_array("solar_irradiance", solar_irradiance, unit="W/m2", low=0.0)
         natural = info.default_natural if natural is None else natural
         forced = info.default_forced if forced is None else forced
-        corr.get(info.natural_geometry, natural)
-        corr.get(info.natural_geometry_cold, natural)  # the law must exist for a cold face too
-        corr.get(info.forced_geometry, forced)
+        for field_name, geometry, key in (("natural", info.natural_geometry, natural),
+                                          ("natural", info.natural_geometry_cold, natural),  # a cold face too
+                                          ("forced", info.forced_geometry, forced)):
+            try:
+                corr.get(geometry, key)
+            except ValueError as exc:
+                raise ValueError(f"{field_name}: {exc}") from None
         n_mix = (np.asarray(default_mixing_exponent(flow_direction, info.round_body)) if mixing_exponent is None
                  else as_array("mixing_exponent", mixing_exponent, low=0.0, low_inclusive=False))
         ratio = np.asarray(1.0) if dims.diameter_over_length is None else dims.diameter_over_length
@@ -153,13 +157,16 @@ class OuterSurface:
         """The per-point inputs of :meth:`exchange`, in its argument order."""
         return tuple(getattr(self, name) for name in _POINT_FIELDS)
 
-    def exchange(self, surface_temperature, *point_arrays) -> dict[str, np.ndarray]:
+    def exchange(self, surface_temperature, *point_arrays, flux_only: bool = False):
         """Heat exchange per unit area at ``surface_temperature`` [K] (no input checks).
 
         ``point_arrays`` default to :meth:`point_arrays`; a solver passes subsets of them.
         Returns a dict of arrays: the :class:`SurfaceResult` fields that do not depend
-        on the area (``q_per_area``, ``q_convection_per_area``, ``q_radiation_per_area``, ...).
+        on the area (``q_per_area``, ``q_convection_per_area``, ``q_radiation_per_area``, ...);
+        with ``flux_only`` just the net flux ``q_per_area`` [W/m2] (a solver's residual:
+        no flags, regimes or derived coefficients).
         """
+        check = not flux_only
         (ta, wind, eps, tsur, fraction, t_sky, solar, p, n_mix, l_nat, l_frc,
          ratio) = point_arrays or self.point_arrays()
         ts = surface_temperature
@@ -177,9 +184,10 @@ class OuterSurface:
 
         # ---- natural convection; a horizontal plate switches law with the sign of the temperature difference
         extra = {"diameter_over_length": ratio} if "diameter_over_length" in nat_hot.inputs else {}
-        nu_nat, flags = corr.evaluate(nat_hot.geometry, self.natural, Ra=rayleigh, Pr=prop.pr, **extra)
+        nu_nat, flags = corr.evaluate(nat_hot.geometry, self.natural, Ra=rayleigh, Pr=prop.pr, check=check, **extra)
         if info.natural_geometry_cold != info.natural_geometry:
-            nu_cold, flags_cold = corr.evaluate(info.natural_geometry_cold, self.natural, Ra=rayleigh, Pr=prop.pr)
+            nu_cold, flags_cold = corr.evaluate(info.natural_geometry_cold, self.natural, Ra=rayleigh, Pr=prop.pr,
+                                                check=check)
             cold = delta < 0
             nu_nat, flags = np.where(cold, nu_cold, nu_nat), np.where(cold, flags_cold, flags)
         h_nat = nu_nat * prop.k / l_nat
@@ -194,13 +202,18 @@ class OuterSurface:
             stream, forced_groups = prop, {}
         reynolds = wind * l_frc / stream.nu
         nu_frc, flags_frc = corr.evaluate(frc.geometry, self.forced, Re=np.where(moving, reynolds, 1.0),
-                                          Pr=stream.pr, **{k: v for k, v in forced_groups.items() if k in frc.inputs})
+                                          Pr=stream.pr, check=check,
+                                          **{k: v for k, v in forced_groups.items() if k in frc.inputs})
         h_frc = np.where(moving, nu_frc * stream.k / l_frc, 0.0)
-        flags = flags | np.where(moving, flags_frc, 0)
 
         # ---- mixed convection (Churchill 1977) on the coefficients
         h_mix, floored = combine(h_frc, h_nat, n_mix, self.flow_direction)
         h_conv = np.where(moving, h_mix, h_nat)
+        q_rad = net_flux(ts, eps, fraction, t_sky, tsur)
+        q_conv = h_conv * delta
+        if flux_only:
+            return q_conv + q_rad - solar
+        flags = flags | np.where(moving, flags_frc, 0)
         flags = flags | np.where(moving & floored, Flag.OPPOSING_FLOW_FLOORED, 0)
         if nat_hot.fitted_for_air_only and self.fluid.lower() != "air":
             flags = flags | Flag.FLUID_NOT_FITTED
@@ -211,9 +224,6 @@ class OuterSurface:
             natural_flow = np.where(delta < 0, flow_regime(info.natural_geometry_cold, rayleigh), natural_flow)
         flow = np.where(richardson >= 1.0, natural_flow, flow_regime(frc.geometry, reynolds))
 
-        # ---- radiation to surroundings and sky; absorbed sun
-        q_rad = net_flux(ts, eps, fraction, t_sky, tsur)
-        q_conv = h_conv * delta
         return dict(
             surface_temperature=ts, air_temperature=ta, film_temperature=film,
             q_per_area=q_conv + q_rad - solar, q_convection_per_area=q_conv, q_radiation_per_area=q_rad,

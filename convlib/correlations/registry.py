@@ -215,13 +215,16 @@ def _outside(value, bounds) -> np.ndarray:
     return out
 
 
-def evaluate(geometry: str, method: str, **groups) -> tuple[np.ndarray, np.ndarray]:
+def evaluate(geometry: str, method: str, *, check: bool = True, **groups) -> tuple[np.ndarray, np.ndarray]:
     """Evaluate a correlation and its validity flags.
 
     Parameters
     ----------
     geometry, method : str
         Registry keys.
+    check : bool
+        Compute the validity flags (``False``: all zero; for solver iterations whose
+        final point is checked separately).
     **groups : numeric
         The dimensionless inputs the record names (``Ra``, ``Re``, ``Pr``,
         ``Pr_s``, ``diameter_over_length``, ``viscosity_ratio``).
@@ -245,6 +248,8 @@ def evaluate(geometry: str, method: str, **groups) -> tuple[np.ndarray, np.ndarr
     pr = groups.get("Pr")
     range_bit = Flag.NATURAL_OUT_OF_RANGE if rec.mode == "natural" else Flag.FORCED_OUT_OF_RANGE
     flags = np.zeros(shape, dtype=np.int16)
+    if not check:
+        return np.where(np.isfinite(nu), nu, 0.0), flags
     if rec.ra_range is not None:
         flags |= np.where(_outside(np.asarray(groups["Ra"], float), rec.ra_range), range_bit, 0).astype(np.int16)
     if rec.gr_range is not None:
