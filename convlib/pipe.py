@@ -99,6 +99,7 @@ def insulated_pipe(
     forced=None,
     mixing_exponent=None,
     exact_properties=False,
+    convection_factor=1.0,
     tolerance=1e-6,
 ) -> PipeResult:
     r"""Heat loss (or gain) and outer surface temperature of a horizontal pipe with layers.
@@ -116,7 +117,8 @@ def insulated_pipe(
     jacket_emissivity : numeric
         Emissivity of the outermost surface [-].
     wind_speed, length, surroundings_temperature, sky_view_fraction, sky_temperature,
-    solar_irradiance, solar_absorptivity, pressure, natural, forced, mixing_exponent, exact_properties
+    solar_irradiance, solar_absorptivity, pressure, natural, forced, mixing_exponent, exact_properties,
+    convection_factor
         As in :func:`convlib.surface.bare_surface`.
     pipe_wall_thickness : numeric, optional
         Pipe wall thickness [m]; with ``pipe_conductivity`` adds the wall's resistance.
@@ -157,7 +159,7 @@ def insulated_pipe(
         wind_speed=wind_speed, emissivity=jacket_emissivity, surroundings_temperature=surroundings_temperature,
         sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance,
         solar_absorptivity=solar_absorptivity, pressure=pressure, natural=natural, forced=forced,
-        mixing_exponent=mixing_exponent, exact_properties=exact_properties)
+        mixing_exponent=mixing_exponent, exact_properties=exact_properties, convection_factor=convection_factor)
 
     # ---- fixed resistances [K m/W] inside the layers: inner film and pipe wall
     r_fixed = np.zeros(())
@@ -182,7 +184,9 @@ def insulated_pipe(
     drops = [_drops(radii[j], radii[j + 1]) for j in range(len(layers))]
     all_constant = all(layer.conductivity.is_constant for layer in layers)
 
-    shape = np.broadcast_shapes(tf.shape, d_out.shape, r_fixed.shape, *(o.shape for o in outer.point_arrays()))
+    shape = np.broadcast_shapes(tf.shape, d_out.shape, np.shape(r_fixed), *(o.shape for o in outer.point_arrays()),
+                                *(np.shape(layer.conductivity.constant_value) for layer in layers
+                                  if layer.conductivity.is_constant))
     full = lambda a: np.broadcast_to(np.asarray(a, dtype=float), shape)  # noqa: E731
     if all_constant:
         # one lumped resistance: film + wall + layers in series

@@ -74,7 +74,7 @@ class SurfaceResult:
 #: Per-point inputs of :meth:`OuterSurface.exchange`, in the order solvers pass them.
 _POINT_FIELDS = ("air_temperature", "wind_speed", "emissivity", "surroundings_temperature", "sky_view_fraction",
                  "sky_temperature", "solar_per_area", "pressure", "mixing_exponent", "natural_length",
-                 "forced_length", "diameter_over_length")
+                 "forced_length", "diameter_over_length", "convection_factor")
 
 
 @dataclass(frozen=True)
@@ -106,13 +106,14 @@ class OuterSurface:
     natural_length: np.ndarray
     forced_length: np.ndarray
     diameter_over_length: np.ndarray  # D/L of a vertical cylinder, 1 otherwise (unused)
+    convection_factor: np.ndarray     # multiplier on the convective coefficient (model-form studies)
 
     @classmethod
     def build(cls, shape="horizontal_cylinder", *, air_temperature, diameter=None, length=None, height=None,
               width=None, wind_speed=0.0, emissivity=0.9, surroundings_temperature=None, sky_view_fraction=0.0,
               sky_temperature=None, solar_irradiance=0.0, solar_absorptivity=None, pressure=101325.0,
               natural=None, forced=None, flow_direction="transverse", mixing_exponent=None, fluid="Air",
-              exact_properties=False) -> "OuterSurface":
+              exact_properties=False, convection_factor=1.0) -> "OuterSurface":
         """Validate the surroundings of a surface; arguments as in :func:`bare_surface`."""
         check_choice("shape", shape, SHAPES)
         check_choice("flow direction", flow_direction, FLOW_DIRECTIONS)
@@ -151,6 +152,7 @@ class OuterSurface:
             pressure=as_array("pressure", pressure, unit="Pa", low=0.0, low_inclusive=False),
             mixing_exponent=n_mix, natural_length=dims.natural_length, forced_length=dims.forced_length,
             diameter_over_length=ratio,
+            convection_factor=as_array("convection_factor", convection_factor, low=0.0, low_inclusive=False),
         )
 
     def point_arrays(self) -> tuple[np.ndarray, ...]:
@@ -168,7 +170,7 @@ class OuterSurface:
         """
         check = not flux_only
         (ta, wind, eps, tsur, fraction, t_sky, solar, p, n_mix, l_nat, l_frc,
-         ratio) = point_arrays or self.point_arrays()
+         ratio, factor) = point_arrays or self.point_arrays()
         ts = surface_temperature
         info = SHAPES[self.shape]
         nat_hot = corr.get(info.natural_geometry, self.natural)
@@ -208,7 +210,7 @@ class OuterSurface:
 
         # ---- mixed convection (Churchill 1977) on the coefficients
         h_mix, floored = combine(h_frc, h_nat, n_mix, self.flow_direction)
-        h_conv = np.where(moving, h_mix, h_nat)
+        h_conv = factor * np.where(moving, h_mix, h_nat)
         q_rad = net_flux(ts, eps, fraction, t_sky, tsur)
         q_conv = h_conv * delta
         if flux_only:
@@ -274,6 +276,7 @@ def bare_surface(
     mixing_exponent=None,
     fluid: str = "Air",
     exact_properties: bool = False,
+    convection_factor=1.0,
     strict: bool = False,
 ) -> SurfaceResult:
     r"""Heat loss (or gain) of a surface at a known temperature.
@@ -315,6 +318,9 @@ def bare_surface(
         CoolProp fluid around the surface (default air).
     exact_properties : bool
         Call CoolProp directly instead of the interpolation table.
+    convection_factor : numeric
+        Multiplier on the convective coefficient [-], default 1: the model-form
+        uncertainty of the correlation in sensitivity studies.
     strict : bool
         Raise ``ValueError`` if any correlation is evaluated outside its range.
 
@@ -336,7 +342,7 @@ def bare_surface(
         sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance,
         solar_absorptivity=solar_absorptivity, pressure=pressure, natural=natural, forced=forced,
         flow_direction=flow_direction, mixing_exponent=mixing_exponent, fluid=fluid,
-        exact_properties=exact_properties)
+        exact_properties=exact_properties, convection_factor=convection_factor)
     ts = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
     result = conditions.result(conditions.exchange(ts))
     if strict and (result.warnings & ~Flag.INFORMATIONAL).any():

@@ -1,0 +1,691 @@
+"""Sensitivity studies: a validated spec in, every figure's numbers out.
+
+A :class:`StudySpec` names a base case (a bare surface at a known temperature
+or an insulated line with a known fluid temperature), sweep axes, 2-D maps,
+the correlations to compare, tornado ranges and input uncertainties.
+:func:`run_study` evaluates all of it with vectorized calls of
+:func:`convlib.surface.bare_surface` and :func:`convlib.pipe.insulated_pipe`
+and returns a :class:`StudyResult` that serializes to JSON (no NaN: quantities
+that do not exist are ``None`` and say why).
+
+Uncertainty: each input may carry a distribution (normal, uniform,
+triangular, log-normal). The correlation's own model-form error is either
+a multiplicative factor on the convective coefficient whose 95 % band is the
+correlation's stated accuracy (a published +-figure is read as a 95 % band
+unless its source says otherwise) or a random choice among the applicable
+correlations of the geometry.
+"""
+from __future__ import annotations
+
+import math
+from typing import Callable, Literal
+
+import numpy as np
+from pydantic import BaseModel, ConfigDict, Field, field_validator, model_validator
+
+from . import __version__
+from . import correlations as corr
+from .geometry import SHAPES
+from .pipe import Layer, insulated_pipe
+from .properties import dew_point
+from .regimes import Flag, flow_names, mode_names, summarize_flags
+from .surface import bare_surface
+
+__all__ = [
+    "SCHEMA_VERSION", "INPUTS", "CaseSpec", "SweepAxis", "MapSpec", "TornadoInput", "Distribution",
+    "UncertaintySpec", "StudySpec", "StudyResult", "evaluate_case", "run_study", "axis_values",
+]
+
+SCHEMA_VERSION = 1
+
+#: Numeric inputs a study may sweep, map, tornado or sample: name -> (unit, low, high, kinds it applies to).
+INPUTS: dict[str, tuple[str, float, float, tuple[str, ...]]] = {
+    "diameter": ("m", 1e-4, 10.0, ("bare", "insulated")),
+    "surface_temperature": ("K", 1.0, 2000.0, ("bare",)),
+    "fluid_temperature": ("K", 1.0, 2000.0, ("insulated",)),
+    "air_temperature": ("K", 150.0, 400.0, ("bare", "insulated")),
+    "surroundings_temperature": ("K", 150.0, 1000.0, ("bare", "insulated")),
+    "wind_speed": ("m/s", 0.0, 60.0, ("bare", "insulated")),
+    "emissivity": ("-", 0.0, 1.0, ("bare", "insulated")),
+    "sky_view_fraction": ("-", 0.0, 1.0, ("bare", "insulated")),
+    "solar_irradiance": ("W/m2", 0.0, 1400.0, ("bare", "insulated")),
+    "pressure": ("Pa", 2e4, 2e5, ("bare", "insulated")),
+    "insulation_thickness": ("m", 0.0, 1.0, ("insulated",)),
+    "insulation_conductivity": ("W/m/K", 1e-3, 5.0, ("insulated",)),
+    "convection_factor": ("-", 0.1, 5.0, ("bare", "insulated")),
+}
+
+#: Quantities reported per point; the first is the main output.
+QUANTITIES = ("q_per_length", "surface_temperature", "h_convection", "h_radiation", "nusselt",
+              "q_convection_per_length", "q_radiation_per_length")
+
+
+def _check_input(name: str, kind: str) -> str:
+    if name not in INPUTS:
+        raise ValueError(f"unknown input {name!r}; choose one of: {', '.join(INPUTS)}")
+    if kind not in INPUTS[name][3]:
+        allowed = [k for k, v in INPUTS.items() if kind in v[3]]
+        raise ValueError(f"input {name!r} does not apply to a {kind} case; choose one of: {', '.join(allowed)}")
+    return name
+
+
+class _Model(BaseModel):
+    model_config = ConfigDict(extra="forbid")
+
+
+class CaseSpec(_Model):
+    """The base case. SI units, kelvin.
+
+    ``kind="bare"``: a surface of ``shape`` at ``surface_temperature``.
+    ``kind="insulated"``: a horizontal pipe of outer ``diameter`` carrying fluid at
+    ``fluid_temperature`` under ``insulation_thickness`` of ``insulation_conductivity``
+    (thickness 0: bare pipe) and an optional thin jacket.
+    """
+
+    kind: Literal["bare", "insulated"] = "insulated"
+    shape: str = "horizontal_cylinder"
+    diameter: float = Field(0.1143, gt=0.0, le=10.0, description="outer (bare) or pipe outer (insulated) diameter [m]")
+    length: float = Field(1.0, gt=0.0, description="run length [m]")
+    height: float | None = Field(None, gt=0.0, description="vertical plate height [m]")
+    width: float | None = Field(None, gt=0.0, description="plate width [m]")
+    surface_temperature: float | None = Field(None, gt=0.0, description="[K], bare cases")
+    fluid_temperature: float | None = Field(None, gt=0.0, description="[K], insulated cases")
+    air_temperature: float = Field(293.15, gt=0.0, description="[K]")
+    surroundings_temperature: float | None = Field(None, gt=0.0, description="[K]; default the air temperature")
+    wind_speed: float = Field(0.0, ge=0.0, le=60.0, description="[m/s]")
+    emissivity: float = Field(0.9, ge=0.0, le=1.0, description="outer surface (jacket) emissivity [-]")
+    sky_view_fraction: float = Field(0.0, ge=0.0, le=1.0)
+    solar_irradiance: float = Field(0.0, ge=0.0, le=1400.0, description="[W/m2]")
+    pressure: float = Field(101325.0, ge=2e4, le=2e5, description="[Pa]")
+    relative_humidity: float = Field(0.6, gt=0.0, le=1.0, description="for the dew-point check [-]")
+    insulation_thickness: float = Field(0.05, ge=0.0, le=1.0, description="[m]")
+    insulation_conductivity: float = Field(0.04, gt=0.0, le=5.0, description="[W/m/K]")
+    jacket_thickness: float = Field(0.0, ge=0.0, le=0.05, description="[m], 0 for none")
+    jacket_conductivity: float = Field(50.0, gt=0.0, description="[W/m/K]")
+    convection_factor: float = Field(1.0, ge=0.1, le=5.0, description="multiplier on h_convection [-]")
+    natural: str | None = None
+    forced: str | None = None
+
+    @model_validator(mode="after")
+    def _consistent(self):
+        if self.shape not in SHAPES:
+            raise ValueError(f"unknown shape {self.shape!r}; choose one of: {', '.join(SHAPES)}")
+        if self.kind == "bare" and self.surface_temperature is None:
+            raise ValueError("a bare case needs surface_temperature [K]")
+        if self.kind == "insulated":
+            if self.fluid_temperature is None:
+                raise ValueError("an insulated case needs fluid_temperature [K]")
+            if self.shape != "horizontal_cylinder":
+                raise ValueError("insulated cases are horizontal pipes: shape must be 'horizontal_cylinder'")
+        info = SHAPES[self.shape]
+        for field_name, geometry, key in (("natural", info.natural_geometry, self.natural),
+                                          ("forced", info.forced_geometry, self.forced)):
+            if key is not None:
+                try:
+                    corr.get(geometry, key)
+                except ValueError as exc:
+                    raise ValueError(f"{field_name}: {exc}") from None
+        return self
+
+    @property
+    def natural_geometry(self) -> str:
+        return SHAPES[self.shape].natural_geometry
+
+    @property
+    def forced_geometry(self) -> str:
+        return SHAPES[self.shape].forced_geometry
+
+
+class SweepAxis(_Model):
+    """Values of one input from ``start`` to ``stop`` (``count`` points, linear or log spacing)."""
+
+    input: str
+    start: float
+    stop: float
+    count: int = Field(41, ge=2, le=5000)
+    scale: Literal["linear", "log"] = "linear"
+
+    @model_validator(mode="after")
+    def _range(self):
+        if self.input not in INPUTS:
+            raise ValueError(f"unknown input {self.input!r}; choose one of: {', '.join(INPUTS)}")
+        unit, low, high, _ = INPUTS[self.input]
+        for end in ("start", "stop"):
+            value = getattr(self, end)
+            if not (low <= value <= high):
+                raise ValueError(f"{end} of the {self.input} axis must be between {low:g} and {high:g} {unit}; "
+                                 f"got {value:g}")
+        if self.scale == "log" and min(self.start, self.stop) <= 0:
+            raise ValueError(f"a log axis of {self.input} needs start and stop > 0")
+        return self
+
+
+def axis_values(axis: SweepAxis) -> np.ndarray:
+    """The values of a sweep axis.
+
+    >>> axis_values(SweepAxis(input="wind_speed", start=0, stop=10, count=3)).tolist()
+    [0.0, 5.0, 10.0]
+    """
+    if axis.scale == "log":
+        return np.geomspace(axis.start, axis.stop, axis.count)
+    return np.linspace(axis.start, axis.stop, axis.count)
+
+
+class MapSpec(_Model):
+    """A 2-D map over two inputs."""
+
+    x: SweepAxis
+    y: SweepAxis
+
+    @model_validator(mode="after")
+    def _distinct(self):
+        if self.x.input == self.y.input:
+            raise ValueError(f"a map needs two different inputs; got {self.x.input!r} twice")
+        if self.x.count * self.y.count > 250_000:
+            raise ValueError(f"a map may have at most 250000 points; got {self.x.count} x {self.y.count}")
+        return self
+
+
+class TornadoInput(_Model):
+    """Low and high values of one input for the tornado chart."""
+
+    input: str
+    low: float
+    high: float
+
+    @model_validator(mode="after")
+    def _order(self):
+        if self.input not in INPUTS:
+            raise ValueError(f"unknown input {self.input!r}; choose one of: {', '.join(INPUTS)}")
+        if not self.low < self.high:
+            raise ValueError(f"tornado range of {self.input}: low must be below high; got {self.low:g}, "
+                             f"{self.high:g}")
+        return self
+
+
+class Distribution(_Model):
+    """Uncertainty of one input.
+
+    ``normal``: mean, std; ``uniform``: low, high; ``triangular``: low, mode, high;
+    ``lognormal``: median, sigma (standard deviation of the natural log). Samples are
+    clipped to the input's physical range (the count is reported).
+    """
+
+    input: str
+    kind: Literal["normal", "uniform", "triangular", "lognormal"]
+    mean: float | None = None
+    std: float | None = Field(None, gt=0.0)
+    low: float | None = None
+    high: float | None = None
+    mode: float | None = None
+    median: float | None = Field(None, gt=0.0)
+    sigma: float | None = Field(None, gt=0.0)
+
+    @model_validator(mode="after")
+    def _parameters(self):
+        if self.input not in INPUTS:
+            raise ValueError(f"unknown input {self.input!r}; choose one of: {', '.join(INPUTS)}")
+        needed = {"normal": ("mean", "std"), "uniform": ("low", "high"), "triangular": ("low", "mode", "high"),
+                  "lognormal": ("median", "sigma")}[self.kind]
+        missing = [p for p in needed if getattr(self, p) is None]
+        if missing:
+            raise ValueError(f"a {self.kind} distribution of {self.input} needs {', '.join(missing)}")
+        if self.kind in ("uniform", "triangular") and not self.low < self.high:
+            raise ValueError(f"{self.kind} distribution of {self.input}: low must be below high")
+        if self.kind == "triangular" and not self.low <= self.mode <= self.high:
+            raise ValueError(f"triangular distribution of {self.input}: mode must lie between low and high")
+        return self
+
+    def sample(self, rng: np.random.Generator, n: int) -> np.ndarray:
+        if self.kind == "normal":
+            return rng.normal(self.mean, self.std, n)
+        if self.kind == "uniform":
+            return rng.uniform(self.low, self.high, n)
+        if self.kind == "triangular":
+            return rng.triangular(self.low, self.mode, self.high, n)
+        return self.median * np.exp(rng.normal(0.0, self.sigma, n))
+
+
+class UncertaintySpec(_Model):
+    """Monte Carlo settings."""
+
+    distributions: list[Distribution] = Field(default_factory=list)
+    model_form: Literal["none", "stated_accuracy", "choose_correlation"] = "stated_accuracy"
+    samples: int = Field(20_000, ge=100, le=2_000_000)
+    seed: int = Field(12345, ge=0)
+
+    @field_validator("distributions")
+    @classmethod
+    def _unique(cls, value):
+        names = [d.input for d in value]
+        if len(set(names)) != len(names):
+            raise ValueError(f"each input may have one distribution; repeated: {sorted({n for n in names if names.count(n) > 1})}")
+        return value
+
+
+class StudySpec(_Model):
+    """Everything a study computes, as data (JSON round-trips)."""
+
+    schema_version: int = SCHEMA_VERSION
+    name: str = Field("study", min_length=1, max_length=200)
+    description: str = ""
+    case: CaseSpec
+    sweeps: list[SweepAxis] = Field(default_factory=list, max_length=20)
+    maps: list[MapSpec] = Field(default_factory=list, max_length=6)
+    natural_methods: list[str] | None = Field(None, description="natural correlations to compare; None: all")
+    forced_methods: list[str] | None = Field(None, description="forced correlations to compare; None: all")
+    tornado: list[TornadoInput] = Field(default_factory=list, max_length=30)
+    uncertainty: UncertaintySpec | None = None
+
+    @model_validator(mode="after")
+    def _applicable(self):
+        if self.schema_version != SCHEMA_VERSION:
+            raise ValueError(f"schema_version {self.schema_version} is not supported (this convlib reads "
+                             f"{SCHEMA_VERSION})")
+        kind = self.case.kind
+        for axis in [*self.sweeps, *(m.x for m in self.maps), *(m.y for m in self.maps), *self.tornado,
+                     *(self.uncertainty.distributions if self.uncertainty else [])]:
+            _check_input(axis.input, kind)
+        for names, geometry in ((self.natural_methods, self.case.natural_geometry),
+                                (self.forced_methods, self.case.forced_geometry)):
+            for key in names or ():
+                corr.get(geometry, key)
+        return self
+
+    def compared_methods(self, mode: str) -> list[str]:
+        geometry = self.case.natural_geometry if mode == "natural" else self.case.forced_geometry
+        chosen = self.natural_methods if mode == "natural" else self.forced_methods
+        return list(chosen) if chosen else corr.methods(geometry)
+
+
+# ----------------------------------------------------------------------------- evaluation
+def _defaults(case: CaseSpec) -> tuple[str, str]:
+    info = SHAPES[case.shape]
+    return case.natural or info.default_natural, case.forced or info.default_forced
+
+
+def evaluate_case(case: CaseSpec, natural: str | None = None, forced: str | None = None, **overrides):
+    """Evaluate the case with any inputs replaced by arrays (broadcast together).
+
+    Returns the :class:`convlib.surface.SurfaceResult` (bare) or
+    :class:`convlib.pipe.PipeResult` (insulated).
+
+    Examples
+    --------
+    >>> case = CaseSpec(kind="insulated", diameter=0.1143, fluid_temperature=453.15, air_temperature=293.15)
+    >>> r = evaluate_case(case, wind_speed=np.array([0.0, 5.0]))
+    >>> r.q_per_length.shape
+    (2,)
+    """
+    for name in overrides:
+        _check_input(name, case.kind)
+    values = {name: overrides.get(name, getattr(case, name)) for name in INPUTS if case.kind in INPUTS[name][3]}
+    default_natural, default_forced = _defaults(case)
+    common = dict(air_temperature=values["air_temperature"], wind_speed=values["wind_speed"],
+                  surroundings_temperature=values["surroundings_temperature"],
+                  sky_view_fraction=values["sky_view_fraction"], solar_irradiance=values["solar_irradiance"],
+                  pressure=values["pressure"], convection_factor=values["convection_factor"],
+                  natural=natural or default_natural, forced=forced or default_forced)
+    if case.kind == "bare":
+        sizes = {"diameter": values["diameter"]} if "diameter" in SHAPES[case.shape].sizes else {}
+        for size in ("length", "height", "width"):
+            if size in SHAPES[case.shape].sizes:
+                sizes[size] = getattr(case, size)
+        return bare_surface(case.shape, surface_temperature=values["surface_temperature"],
+                            emissivity=values["emissivity"], **sizes, **common)
+    layers = [Layer(values["insulation_thickness"], values["insulation_conductivity"], name="insulation")]
+    if case.jacket_thickness > 0:
+        layers.append(Layer(case.jacket_thickness, case.jacket_conductivity, name="jacket"))
+    return insulated_pipe(values["diameter"], values["fluid_temperature"], layers, length=case.length,
+                          jacket_emissivity=values["emissivity"], **common)
+
+
+# ----------------------------------------------------------------------------- results
+class Quantities(_Model):
+    """Per-point quantities of one evaluation (lists over the points)."""
+
+    q_per_length: list[float]
+    surface_temperature: list[float]
+    h_convection: list[float]
+    h_radiation: list[float]
+    nusselt: list[float]
+    q_convection_per_length: list[float]
+    q_radiation_per_length: list[float]
+    rayleigh: list[float]
+    reynolds: list[float]
+    richardson: list[float | None]
+    regime: list[int]
+    flow_regime: list[int]
+    warnings: list[int]
+
+
+def _quantities(r) -> Quantities:
+    flat = {name: np.asarray(getattr(r, name), dtype=float).ravel() for name in
+            (*QUANTITIES, "rayleigh", "reynolds")}
+    ri = np.asarray(r.richardson, dtype=float).ravel()
+    return Quantities(**{k: v.tolist() for k, v in flat.items()},
+                      richardson=[None if not math.isfinite(x) else x for x in ri.tolist()],
+                      regime=np.asarray(r.regime).ravel().tolist(),
+                      flow_regime=np.asarray(r.flow_regime).ravel().tolist(),
+                      warnings=np.asarray(r.warnings).ravel().tolist())
+
+
+class MethodCurves(_Model):
+    """One correlation's values along a sweep (or at the base case)."""
+
+    mode: Literal["natural", "forced"]
+    method: str
+    values: Quantities
+    in_range: list[bool]
+
+
+class Spread(_Model):
+    """Disagreement between applicable correlations: (max - min) / median per point.
+
+    ``None`` where fewer than two correlations apply there; ``extrapolated_*`` uses
+    every compared correlation, in range or not.
+    """
+
+    mode: Literal["natural", "forced"]
+    nusselt: list[float | None]
+    q_per_length: list[float | None]
+    applicable_count: list[int]
+    extrapolated_nusselt: list[float | None]
+    extrapolated_q_per_length: list[float | None]
+
+
+class SweepResult(_Model):
+    input: str
+    unit: str
+    values: list[float]
+    default: Quantities                  # default correlations
+    methods: list[MethodCurves]
+    spreads: list[Spread]
+    band_low: list[float]                # q_per_length with the default correlation at -accuracy (95 %)
+    band_high: list[float]
+
+
+class MapResult(_Model):
+    x_input: str
+    y_input: str
+    x: list[float]
+    y: list[float]
+    q_per_length: list[list[float]]      # [y][x]
+    surface_temperature: list[list[float]]
+    richardson: list[list[float | None]]
+    regime: list[list[int]]
+    natural_spread: list[list[float | None]]
+
+
+class TornadoBar(_Model):
+    input: str
+    unit: str
+    low: float
+    high: float
+    q_low: float
+    q_high: float
+    swing: float
+    surface_temperature_low: float
+    surface_temperature_high: float
+
+
+class MonteCarloResult(_Model):
+    samples: int
+    seed: int
+    model_form: str
+    quantity: str
+    mean: float
+    std: float
+    p5: float
+    p50: float
+    p95: float
+    standard_error_mean: float
+    histogram_edges: list[float]
+    histogram_counts: list[int]
+    convergence_n: list[int]
+    convergence_mean: list[float]
+    surface_temperature_p5: float
+    surface_temperature_p50: float
+    surface_temperature_p95: float
+    clipped: dict[str, int]
+
+
+class StudyResult(_Model):
+    """All numbers of a study; JSON round-trips exactly."""
+
+    schema_version: int = SCHEMA_VERSION
+    convlib_version: str = __version__
+    base: Quantities
+    base_methods: list[MethodCurves]
+    base_spreads: list[Spread]
+    dew_point: float
+    warnings: list[str]
+    cautions: list[str]
+    sweeps: list[SweepResult]
+    maps: list[MapResult]
+    tornado: list[TornadoBar]
+    monte_carlo: MonteCarloResult | None
+
+
+# ----------------------------------------------------------------------------- runner
+def _range_ok(flags: np.ndarray) -> np.ndarray:
+    return (np.asarray(flags) & ~Flag.INFORMATIONAL) == 0
+
+
+def _relative_spread(values: np.ndarray, ok: np.ndarray) -> tuple[list, list]:
+    """(max - min) / |median| over axis 0 where ``ok``; ``None`` where fewer than two apply."""
+    count = ok.sum(axis=0)
+    high = np.where(ok, values, -np.inf).max(axis=0)
+    low = np.where(ok, values, np.inf).min(axis=0)
+    median = np.array([np.median(col[m]) if m.sum() else np.nan for col, m in zip(values.T, ok.T)])
+    with np.errstate(all="ignore"):
+        spread = (high - low) / np.abs(median)
+    out = [float(x) if (c >= 2 and math.isfinite(x)) else None for x, c in zip(spread, count)]
+    return out, count.astype(int).tolist()
+
+
+def _compare(spec: StudySpec, **overrides) -> tuple[list[MethodCurves], list[Spread]]:
+    """Every compared correlation at the given points, and the spread per mode.
+
+    The forced correlations are compared only where there is wind.
+    """
+    case = spec.case
+    curves, spreads = [], []
+    bits = {"natural": Flag.NATURAL_OUT_OF_RANGE, "forced": Flag.FORCED_OUT_OF_RANGE}
+    for mode in ("natural", "forced"):
+        nus, qs, oks = [], [], []
+        for key in spec.compared_methods(mode):
+            r = evaluate_case(case, **{mode: key}, **overrides)
+            moving = np.broadcast_to(np.asarray(r.reynolds) > 0, np.shape(r.q_per_length)).ravel()
+            if mode == "forced" and not moving.any():
+                break
+            invalid = bits[mode] | Flag.PRANDTL_OUT_OF_RANGE | Flag.FLUID_NOT_FITTED
+            ok = ((np.asarray(r.warnings) & invalid) == 0).ravel() & (moving if mode == "forced" else True)
+            curves.append(MethodCurves(mode=mode, method=key, values=_quantities(r), in_range=ok.tolist()))
+            nus.append(np.asarray(r.nusselt, dtype=float).ravel())
+            qs.append(np.asarray(r.q_per_length, dtype=float).ravel())
+            oks.append(ok)
+        if not nus:
+            continue
+        nus, qs, oks = np.array(nus), np.array(qs), np.array(oks)
+        every = np.ones_like(oks)
+        nu_spread, count = _relative_spread(nus, oks)
+        spreads.append(Spread(mode=mode, nusselt=nu_spread, q_per_length=_relative_spread(qs, oks)[0],
+                              applicable_count=count, extrapolated_nusselt=_relative_spread(nus, every)[0],
+                              extrapolated_q_per_length=_relative_spread(qs, every)[0]))
+    return curves, spreads
+
+
+def _accuracy(case: CaseSpec) -> float:
+    """Stated accuracy (fraction, read as a 95 % band) of the default correlations: the larger of the two."""
+    natural, forced = _defaults(case)
+    acc = corr.get(case.natural_geometry, natural).accuracy_percent
+    if case.wind_speed > 0:
+        acc = max(acc, corr.get(case.forced_geometry, forced).accuracy_percent)
+    return acc / 100.0
+
+
+def _band(spec: StudySpec, **overrides) -> tuple[np.ndarray, np.ndarray]:
+    """q_per_length with the convective coefficient at (1 - accuracy) and (1 + accuracy): the model-form band."""
+    acc = _accuracy(spec.case)
+    factor = np.asarray(overrides.pop("convection_factor", spec.case.convection_factor))
+    ends = [np.asarray(evaluate_case(spec.case, convection_factor=factor * f, **overrides).q_per_length).ravel()
+            for f in (1.0 - acc, 1.0 + acc)]
+    return np.minimum(*ends), np.maximum(*ends)
+
+
+def _sweep(spec: StudySpec, axis: SweepAxis) -> SweepResult:
+    x = axis_values(axis)
+    default = evaluate_case(spec.case, **{axis.input: x})
+    curves, spreads = _compare(spec, **{axis.input: x})
+    low, high = _band(spec, **{axis.input: x})
+    return SweepResult(input=axis.input, unit=INPUTS[axis.input][0], values=x.tolist(),
+                       default=_quantities(default), methods=curves, spreads=spreads,
+                       band_low=low.tolist(), band_high=high.tolist())
+
+
+def _grid(values: np.ndarray, shape) -> list:
+    return np.asarray(values, dtype=float).reshape(shape).tolist()
+
+
+def _map(spec: StudySpec, m: MapSpec) -> MapResult:
+    x, y = axis_values(m.x), axis_values(m.y)
+    xx, yy = np.meshgrid(x, y)
+    overrides = {m.x.input: xx, m.y.input: yy}
+    r = evaluate_case(spec.case, **overrides)
+    ri = np.asarray(r.richardson, dtype=float)
+    natural_only = spec.model_copy(update={"forced_methods": None})
+    _, spreads = _compare(natural_only, **{k: v.ravel() for k, v in overrides.items()})
+    natural_spread = np.array([np.nan if s is None else s for s in spreads[0].q_per_length]).reshape(xx.shape)
+    return MapResult(
+        x_input=m.x.input, y_input=m.y.input, x=x.tolist(), y=y.tolist(),
+        q_per_length=_grid(r.q_per_length, xx.shape), surface_temperature=_grid(r.surface_temperature, xx.shape),
+        richardson=[[None if not math.isfinite(v) else v for v in row] for row in ri.tolist()],
+        regime=np.asarray(r.regime).reshape(xx.shape).tolist(),
+        natural_spread=[[None if not math.isfinite(v) else v for v in row] for row in natural_spread.tolist()])
+
+
+def _tornado(spec: StudySpec) -> list[TornadoBar]:
+    bars = []
+    for t in spec.tornado:
+        r = evaluate_case(spec.case, **{t.input: np.array([t.low, t.high])})
+        q, ts = np.asarray(r.q_per_length), np.asarray(r.surface_temperature)
+        bars.append(TornadoBar(input=t.input, unit=INPUTS[t.input][0], low=t.low, high=t.high,
+                               q_low=float(q[0]), q_high=float(q[1]), swing=float(abs(q[1] - q[0])),
+                               surface_temperature_low=float(ts[0]), surface_temperature_high=float(ts[1])))
+    return sorted(bars, key=lambda b: b.swing, reverse=True)
+
+
+def _monte_carlo(spec: StudySpec, progress: Callable[[float, str], None] | None) -> MonteCarloResult:
+    u = spec.uncertainty
+    rng = np.random.default_rng(u.seed)
+    n = u.samples
+    overrides, clipped = {}, {}
+    for d in u.distributions:
+        _, low, high, _ = INPUTS[d.input]
+        draw = d.sample(rng, n)
+        outside = (draw < low) | (draw > high)
+        clipped[d.input] = int(outside.sum())
+        overrides[d.input] = np.clip(draw, low, high)
+    case = spec.case
+    overrides = overrides or {"air_temperature": np.full(n, case.air_temperature)}
+    if u.model_form == "stated_accuracy":
+        # factor on the convective coefficient whose 95 % band is the stated accuracy (normal, sd = acc / 1.96)
+        factor = 1.0 + rng.normal(0.0, _accuracy(case) / 1.96, n)
+        overrides["convection_factor"] = np.clip(factor * overrides.get("convection_factor", 1.0), 0.1, 5.0)
+    keys = spec.compared_methods("natural") if u.model_form == "choose_correlation" else [None]
+    choice = rng.integers(0, len(keys), n)
+    q, ts = np.empty(n), np.empty(n)
+    for j, key in enumerate(keys):
+        sel = choice == j
+        if sel.any():
+            r = evaluate_case(case, natural=key, **{k: v[sel] for k, v in overrides.items()})
+            q[sel], ts[sel] = r.q_per_length, r.surface_temperature
+        if progress:
+            progress((j + 1) / len(keys), f"{int(sel.sum())} samples" + (f" with {key}" if key else ""))
+    edges = np.histogram_bin_edges(q, bins=40)
+    counts, _ = np.histogram(q, bins=edges)
+    checkpoints = np.unique(np.geomspace(10, n, 30).astype(int))
+    cumulative = np.cumsum(q)
+    return MonteCarloResult(
+        samples=n, seed=u.seed, model_form=u.model_form, quantity="q_per_length",
+        mean=float(q.mean()), std=float(q.std(ddof=1)), p5=float(np.percentile(q, 5)),
+        p50=float(np.percentile(q, 50)), p95=float(np.percentile(q, 95)),
+        standard_error_mean=float(q.std(ddof=1) / math.sqrt(n)),
+        histogram_edges=edges.tolist(), histogram_counts=counts.tolist(),
+        convergence_n=checkpoints.tolist(), convergence_mean=(cumulative[checkpoints - 1] / checkpoints).tolist(),
+        surface_temperature_p5=float(np.percentile(ts, 5)), surface_temperature_p50=float(np.percentile(ts, 50)),
+        surface_temperature_p95=float(np.percentile(ts, 95)), clipped=clipped)
+
+
+CAUTION_HOT = ("Hot surface: above about 60 degC a touch can burn (ISO 13732-1 and ASTM C1055 set limits by "
+               "material and contact time); local codes and licensed practice govern guarding and insulation.")
+CAUTION_DEW = ("Cold surface below the dew point of the air: condensation (ice below 0 degC) will form; a cold line "
+               "needs insulation with a continuous vapour retarder. Local codes and licensed practice govern.")
+CAUTION_FREEZE = ("Fluid at or below 0 degC or air below freezing: water lines can freeze when flow stops; this "
+                  "estimate is no substitute for draining or heat tracing.")
+
+
+def cautions_for(surface_temperature: float, air_temperature: float, dew: float,
+                 fluid_temperature: float | None = None) -> list[str]:
+    """The safety cautions that apply to one evaluated case."""
+    out = []
+    if surface_temperature > 333.15:  # 60 degC: common practice, no source
+        out.append(CAUTION_HOT)
+    if surface_temperature < dew:
+        out.append(CAUTION_DEW)
+    if air_temperature <= 273.15 or (fluid_temperature is not None and fluid_temperature <= 273.15):
+        out.append(CAUTION_FREEZE)
+    return out
+
+
+def run_study(spec: StudySpec, progress: Callable[[float, str], None] | None = None) -> StudyResult:
+    """Evaluate a study: base case, correlation comparison, sweeps, maps, tornado, Monte Carlo.
+
+    ``progress(fraction, text)`` is called as the work advances. Deterministic for a
+    given spec (seed) and library versions.
+
+    Examples
+    --------
+    >>> spec = StudySpec(case=CaseSpec(kind="bare", surface_temperature=353.15, diameter=0.1),
+    ...                  sweeps=[SweepAxis(input="diameter", start=0.02, stop=0.5, count=5)])
+    >>> res = run_study(spec)
+    >>> len(res.sweeps[0].values), res.base_spreads[0].mode
+    (5, 'natural')
+    """
+    def report(fraction, text):
+        if progress:
+            progress(float(fraction), text)
+
+    case = spec.case
+    report(0.0, "base case")
+    base = evaluate_case(case)
+    base_methods, base_spreads = _compare(spec)
+    dew = float(dew_point(case.air_temperature, case.relative_humidity, case.pressure))
+    ts = float(np.asarray(base.surface_temperature))
+    warnings = summarize_flags(base.warnings)
+    sweeps = []
+    for i, axis in enumerate(spec.sweeps):
+        report(0.1 + 0.3 * i / max(len(spec.sweeps), 1), f"sweep of {axis.input}")
+        sweeps.append(_sweep(spec, axis))
+    maps = []
+    for i, m in enumerate(spec.maps):
+        report(0.4 + 0.2 * i / max(len(spec.maps), 1), f"map of {m.x.input} x {m.y.input}")
+        maps.append(_map(spec, m))
+    report(0.6, "tornado")
+    tornado = _tornado(spec)
+    mc = None
+    if spec.uncertainty is not None:
+        mc = _monte_carlo(spec, lambda f, t: report(0.65 + 0.35 * f, f"Monte Carlo: {t}"))
+    report(1.0, "done")
+    return StudyResult(
+        base=_quantities(base), base_methods=base_methods, base_spreads=base_spreads, dew_point=dew,
+        warnings=warnings,
+        cautions=cautions_for(ts, case.air_temperature, dew,
+                              case.fluid_temperature if case.kind == "insulated" else None),
+        sweeps=sweeps, maps=maps, tornado=tornado, monte_carlo=mc)
+
+
+def describe_base(result: StudyResult) -> dict[str, str]:
+    """Readable regime of the base case."""
+    return {"regime": str(mode_names(result.base.regime[0])), "flow": str(flow_names(result.base.flow_regime[0]))}
