@@ -7,18 +7,20 @@ The public surface (names are stable; see DEVELOPERS.md):
 >>> round(float(r.q_per_length))
 245
 """
-from . import correlations, geometry, radiation, regimes
+__version__ = "0.1.0"
+
+from . import correlations, geometry, radiation, regimes  # noqa: E402
 from .correlations import catalog, nusselt
 from .properties import FluidProperties, air, dew_point, fluid_properties
 from .conductivity import Conductivity
 from .pipe import Layer, PipeResult, insulated_pipe
 from .pipe_sizes import nominal_pipe
 from .surface import SurfaceResult, bare_surface
-
-__version__ = "0.1.0"
+from .study import CaseSpec, StudyResult, StudySpec, run_study
 
 __all__ = [
     "air", "fluid_properties", "FluidProperties", "dew_point", "nusselt", "catalog", "correlations",
     "bare_surface", "SurfaceResult", "geometry", "radiation", "regimes", "__version__",
     "insulated_pipe", "Layer", "PipeResult", "Conductivity", "nominal_pipe",
+    "StudySpec", "CaseSpec", "StudyResult", "run_study",
 ]

@@ -33,7 +33,8 @@ from .surface import bare_surface
 
 __all__ = [
     "SCHEMA_VERSION", "INPUTS", "CaseSpec", "SweepAxis", "MapSpec", "TornadoInput", "Distribution",
-    "UncertaintySpec", "StudySpec", "StudyResult", "evaluate_case", "run_study", "axis_values",
+    "UncertaintySpec", "StudySpec", "StudyResult", "evaluate_case", "run_study", "axis_values", "load_demo_study",
+    "cautions_for",
 ]
 
 SCHEMA_VERSION = 1
@@ -684,6 +685,13 @@ def run_study(spec: StudySpec, progress: Callable[[float, str], None] | None = N
         cautions=cautions_for(ts, case.air_temperature, dew,
                               case.fluid_temperature if case.kind == "insulated" else None),
         sweeps=sweeps, maps=maps, tornado=tornado, monte_carlo=mc)
+
+
+def load_demo_study() -> StudySpec:
+    """The invented demo study shipped with the package (a steam main of the Fernhill demo site)."""
+    from importlib import resources
+
+    return StudySpec.model_validate_json(resources.files("convlib").joinpath("data/demo_study.json").read_text())
 
 
 def describe_base(result: StudyResult) -> dict[str, str]:
