@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import os
 import sys
 from importlib import resources
 
@@ -302,6 +303,95 @@ def _cmd_demo(args) -> int:
     return 0
 
 
+def _progress_bar(fraction: float, text: str) -> None:
+    """A one-line progress bar on stderr (only when stderr is a terminal or CONVLIB_PROGRESS is set)."""
+    if not (sys.stderr.isatty() or os.environ.get("CONVLIB_PROGRESS")):
+        return
+    width = 30
+    filled = int(round(width * min(max(fraction, 0.0), 1.0)))
+    sys.stderr.write(f"\r[{'#' * filled}{'.' * (width - filled)}] {fraction * 100:5.1f} % {text[:40]:<40}")
+    if fraction >= 1.0:
+        sys.stderr.write("\n")
+    sys.stderr.flush()
+
+
+def _load_spec(args):
+    from .study import StudySpec, load_demo_study
+
+    if args.demo == bool(args.study):
+        raise ValueError("give a study file or --demo (the invented demo study), not both")
+    if args.demo:
+        return load_demo_study()
+    try:
+        text = open(args.study, encoding="utf-8").read()
+    except OSError as exc:
+        raise ValueError(f"cannot read study file {args.study}: {exc.strerror}") from None
+    try:
+        return StudySpec.model_validate_json(text)
+    except ValueError as exc:
+        raise ValueError(f"study file {args.study}: {_pydantic_text(exc)}") from None
+
+
+def _pydantic_text(exc) -> str:
+    errors = getattr(exc, "errors", None)
+    if callable(errors):
+        return "; ".join(f"{'.'.join(str(p) for p in e['loc']) or '(file)'}: {e['msg']}" for e in errors())
+    return str(exc)
+
+
+def study_summary(spec, result, units: str = "SI") -> list[str]:
+    """Readable lines summarizing a study result (used by `run` and the report)."""
+    def show(value, kind):
+        unit = display_unit(kind, units)
+        return f"{float(from_si(value, kind, unit)):.4g} {_pretty(unit)}".strip()
+
+    b = result.base
+    lines = [f"{spec.name}", f"  base case: q = {show(b.q_per_length[0], 'heat_per_length')}, "
+             f"surface {show(b.surface_temperature[0], 'temperature')}, h_conv "
+             f"{show(b.h_convection[0], 'coefficient')}, h_rad {show(b.h_radiation[0], 'coefficient')}"]
+    for sp in result.base_spreads:
+        spread = "not available (fewer than two correlations apply)" if sp.q_per_length[0] is None else \
+            f"{sp.q_per_length[0] * 100:.1f} % in q over {sp.applicable_count[0]} {sp.mode} correlations"
+        lines.append(f"  correlation spread ({sp.mode}): {spread}")
+    for bar in result.tornado[:5]:
+        lines.append(f"  tornado: {bar.input} {bar.low:g}..{bar.high:g} {bar.unit}: q "
+                     f"{show(bar.q_low, 'heat_per_length')} .. {show(bar.q_high, 'heat_per_length')}")
+    mc = result.monte_carlo
+    if mc is not None:
+        lines.append(f"  Monte Carlo ({mc.samples} samples, seed {mc.seed}, model form {mc.model_form}): q P5 "
+                     f"{show(mc.p5, 'heat_per_length')}, P50 {show(mc.p50, 'heat_per_length')}, P95 "
+                     f"{show(mc.p95, 'heat_per_length')}")
+    for sweep in result.sweeps:
+        lines.append(f"  sweep of {sweep.input}: {len(sweep.values)} points, q "
+                     f"{show(min(sweep.default.q_per_length), 'heat_per_length')} .. "
+                     f"{show(max(sweep.default.q_per_length), 'heat_per_length')}")
+    lines += [f"  ! {w}" for w in result.warnings]
+    lines += result.cautions
+    return lines
+
+
+def _cmd_run(args) -> int:
+    from .study import run_study
+
+    spec = _load_spec(args)
+    result = run_study(spec, progress=_progress_bar)
+    saved = None
+    if args.save:
+        from . import snapshot
+
+        saved = str(snapshot.save(args.save, spec, result, author=args.author, note=args.note,
+                                  overwrite=args.overwrite))
+    if args.json:
+        json.dump({"spec": spec.model_dump(mode="json"), "result": result.model_dump(mode="json"),
+                   "snapshot": saved}, sys.stdout)
+        print()
+        return 0
+    print("\n".join(study_summary(spec, result, args.units)))
+    if saved:
+        print(f"snapshot saved: {saved}")
+    return 0
+
+
 def _bound(value) -> str:
     return "inf" if value is None else f"{value:g}"
 
@@ -355,7 +445,7 @@ def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(prog="convlib", description="Heat loss or gain of pipes, ducts and vessels "
                                      "to the surrounding air.")
     parser.add_argument("--version", action="version", version=f"convlib {__version__}")
-    sub = parser.add_subparsers(dest="command", required=True)
+    sub = parser.add_subparsers(dest="command", required=True, metavar="COMMAND")
 
     demo = sub.add_parser("demo", help="evaluate the invented demo site")
     _output_options(demo)
@@ -391,6 +481,16 @@ def build_parser() -> argparse.ArgumentParser:
     _output_options(size)
     size.set_defaults(func=_cmd_size)
 
+    run = sub.add_parser("run", help="run a study file (or the demo study) and optionally save a snapshot")
+    run.add_argument("study", nargs="?", help="study file (JSON)")
+    run.add_argument("--demo", action="store_true", help="the invented demo study")
+    run.add_argument("--save", metavar="SNAPSHOT", help="save spec + results + provenance to this JSON file")
+    run.add_argument("--author", default="", help="author recorded in the snapshot")
+    run.add_argument("--note", default="", help="note recorded in the snapshot")
+    run.add_argument("--overwrite", action="store_true", help="replace an existing snapshot file")
+    _output_options(run)
+    run.set_defaults(func=_cmd_run)
+
     cat = sub.add_parser("correlations", help="list the correlation registry")
     cat.add_argument("--geometry", help="only this geometry")
     cat.add_argument("--json", action="store_true")
@@ -399,9 +499,13 @@ def build_parser() -> argparse.ArgumentParser:
 
 
 def main(argv=None) -> int:
-    args = build_parser().parse_args(argv)
+    argv = sys.argv[1:] if argv is None else list(argv)
+    args = build_parser().parse_args(argv or ["demo"])  # no command: the demo site
     try:
         return args.func(args)
+    except BrokenPipeError:  # output piped into e.g. `head`: stop quietly
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return 0
     except ValueError as exc:
         message = str(exc).replace("\n", "; ")
         print(f"convlib: error: {message}", file=sys.stderr)

@@ -12,6 +12,7 @@ governed by the applicable standards, local codes and licensed practice.
 """
 from __future__ import annotations
 
+import dataclasses
 from dataclasses import dataclass
 
 import numpy as np
@@ -223,9 +224,15 @@ def thickness_for_heat_loss(pipe_outer_diameter, fluid_temperature, *, air_tempe
                                   jacket_emissivity=pipe["jacket_emissivity"], wind_speed=pipe["wind_speed"],
                                   sky_view_fraction=pipe["sky_view_fraction"], pressure=pipe["pressure"],
                                   max_thickness=max_thickness, **options)
-    return _size(lambda r: np.abs(r.q_per_length), 1.0, "heat flow [W/m]", "heat-loss limit", pipe,
-                 insulation_conductivity, outer_layers, max_thickness, commercial_thicknesses, options, (),
-                 shape, low_thickness=critical)
+    result = _size(lambda r: np.abs(r.q_per_length), 1.0, "heat flow [W/m]", "heat-loss limit", pipe,
+                   insulation_conductivity, outer_layers, max_thickness, commercial_thicknesses, options, (),
+                   shape, low_thickness=critical)
+    if np.any(critical > 0):
+        worst = float(np.max(critical))
+        note = (f"critical thickness up to {worst * 1000:.1f} mm: a thinner layer of this insulation increases the "
+                f"heat flow of the bare line")
+        result = dataclasses.replace(result, messages=(*result.messages, note))
+    return result
 
 
 def thickness_against_condensation(pipe_outer_diameter, fluid_temperature, *, air_temperature, relative_humidity,
