@@ -17,10 +17,11 @@ from .pipe import Layer, PipeResult, insulated_pipe
 from .pipe_sizes import nominal_pipe
 from .surface import SurfaceResult, bare_surface
 from .study import CaseSpec, StudyResult, StudySpec, run_study
+from . import snapshot  # noqa: E402  (after study: it builds on it)
 
 __all__ = [
     "air", "fluid_properties", "FluidProperties", "dew_point", "nusselt", "catalog", "correlations",
     "bare_surface", "SurfaceResult", "geometry", "radiation", "regimes", "__version__",
     "insulated_pipe", "Layer", "PipeResult", "Conductivity", "nominal_pipe",
-    "StudySpec", "CaseSpec", "StudyResult", "run_study",
+    "StudySpec", "CaseSpec", "StudyResult", "run_study", "snapshot",
 ]

@@ -392,6 +392,30 @@ def _cmd_run(args) -> int:
     return 0
 
 
+def _cmd_verify(args) -> int:
+    from . import snapshot
+
+    report = snapshot.verify(args.snapshot, progress=_progress_bar)
+    if args.json:
+        json.dump({"agrees": report.agrees, "text": report.text()}, sys.stdout, indent=2)
+        print()
+    else:
+        print(report.text())
+    return 0 if report.agrees else 1
+
+
+def _cmd_compare(args) -> int:
+    from . import snapshot
+
+    d = snapshot.diff(args.first, args.second)
+    if args.json:
+        json.dump({"identical": d.identical, "text": d.text()}, sys.stdout, indent=2)
+        print()
+    else:
+        print(d.text())
+    return 0
+
+
 def _bound(value) -> str:
     return "inf" if value is None else f"{value:g}"
 
@@ -491,6 +515,18 @@ def build_parser() -> argparse.ArgumentParser:
     _output_options(run)
     run.set_defaults(func=_cmd_run)
 
+    ver = sub.add_parser("verify", help="re-run a snapshot's study and say whether the numbers still agree "
+                         "(exit 1 if not)")
+    ver.add_argument("snapshot", help="snapshot file (JSON)")
+    ver.add_argument("--json", action="store_true")
+    ver.set_defaults(func=_cmd_verify)
+
+    cmp_ = sub.add_parser("compare", help="changed inputs and results between two snapshots")
+    cmp_.add_argument("first")
+    cmp_.add_argument("second")
+    cmp_.add_argument("--json", action="store_true")
+    cmp_.set_defaults(func=_cmd_compare)
+
     cat = sub.add_parser("correlations", help="list the correlation registry")
     cat.add_argument("--geometry", help="only this geometry")
     cat.add_argument("--json", action="store_true")
@@ -506,7 +542,10 @@ def main(argv=None) -> int:
     except BrokenPipeError:  # output piped into e.g. `head`: stop quietly
         os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
         return 0
-    except ValueError as exc:
+    except FileExistsError as exc:
+        print(f"convlib: error: {exc.args[0] if exc.args else exc} (command line: --overwrite)", file=sys.stderr)
+        return 2
+    except (ValueError, OSError) as exc:
         message = str(exc).replace("\n", "; ")
         print(f"convlib: error: {message}", file=sys.stderr)
         return 2
