@@ -121,6 +121,11 @@ def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, out
     at_max = excess(np.full_like(limit, t_max), limit, *point)
     met_low, achievable = at_low <= 0, at_max <= 0
     required = np.where(met_low, t_low, np.nan)
+    if low_thickness is not None:
+        # the search starts above zero (critical thickness): a bare line that meets the limit needs nothing
+        bare_ok = excess(np.zeros_like(limit), limit, *point) <= 0
+        required = np.where(bare_ok, 0.0, required)
+        met_low, achievable = met_low | bare_ok, achievable | bare_ok
     todo = achievable & ~met_low
     if todo.any():
         res = elementwise.find_root(excess, (t_low[todo], np.full(int(todo.sum()), t_max)),
@@ -128,7 +133,7 @@ def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, out
                                     tolerances={"xatol": 1e-6, "xrtol": 0.0})
         required[todo] = res.x
     index = np.searchsorted(steps, np.where(np.isnan(required), np.inf, required) - 1e-9)
-    commercial = np.where(met_low & (t_low == 0), 0.0, np.where(index < steps.size,
+    commercial = np.where(required == 0, 0.0, np.where(index < steps.size,
                                                                 steps[np.minimum(index, steps.size - 1)], np.nan))
     at_commercial = np.full_like(limit, np.nan)
     has = ~np.isnan(commercial)

@@ -232,9 +232,11 @@ class Distribution(_Model):
         if missing:
             raise ValueError(f"a {self.kind} distribution of {self.input} needs {', '.join(missing)}")
         if self.kind in ("uniform", "triangular") and not self.low < self.high:
-            raise ValueError(f"{self.kind} distribution of {self.input}: low must be below high")
+            raise ValueError(f"{self.kind} distribution of {self.input}: low must be below high; got low "
+                             f"{self.low:g}, high {self.high:g}")
         if self.kind == "triangular" and not self.low <= self.mode <= self.high:
-            raise ValueError(f"triangular distribution of {self.input}: mode must lie between low and high")
+            raise ValueError(f"triangular distribution of {self.input}: mode must lie between low and high; got "
+                             f"mode {self.mode:g} outside {self.low:g}..{self.high:g}")
         return self
 
     def sample(self, rng: np.random.Generator, n: int) -> np.ndarray:
@@ -287,10 +289,13 @@ class StudySpec(_Model):
         for axis in [*self.sweeps, *(m.x for m in self.maps), *(m.y for m in self.maps), *self.tornado,
                      *(self.uncertainty.distributions if self.uncertainty else [])]:
             _check_input(axis.input, kind)
-        for names, geometry in ((self.natural_methods, self.case.natural_geometry),
-                                (self.forced_methods, self.case.forced_geometry)):
+        for field_name, names, geometry in (("natural_methods", self.natural_methods, self.case.natural_geometry),
+                                            ("forced_methods", self.forced_methods, self.case.forced_geometry)):
             for key in names or ():
-                corr.get(geometry, key)
+                try:
+                    corr.get(geometry, key)
+                except ValueError as exc:
+                    raise ValueError(f"{field_name}: {exc}") from None
         return self
 
     def compared_methods(self, mode: str) -> list[str]:
@@ -382,6 +387,10 @@ class MethodCurves(_Model):
 
 class Spread(_Model):
     """Disagreement between applicable correlations: (max - min) / median per point.
+
+    Each correlation of the mode is swapped in with the other mode's default, so in wind
+    the natural spread is that of the combined (mixed) result: the effect of the choice on
+    the answer, not of the laws alone.
 
     ``None`` where fewer than two correlations apply there; ``extrapolated_*`` uses
     every compared correlation, in range or not.
@@ -593,7 +602,8 @@ def _monte_carlo(spec: StudySpec, progress: Callable[[float, str], None] | None)
     if u.model_form == "stated_accuracy":
         # factor on the convective coefficient whose 95 % band is the stated accuracy (normal, sd = acc / 1.96)
         factor = 1.0 + rng.normal(0.0, _accuracy(case) / 1.96, n)
-        overrides["convection_factor"] = np.clip(factor * overrides.get("convection_factor", 1.0), 0.1, 5.0)
+        overrides["convection_factor"] = np.clip(factor * overrides.get("convection_factor", case.convection_factor),
+                                                 0.1, 5.0)
     keys = spec.compared_methods("natural") if u.model_form == "choose_correlation" else [None]
     choice = rng.integers(0, len(keys), n)
     q, ts = np.empty(n), np.empty(n)

@@ -45,7 +45,9 @@ def _registry():
     import pint  # imported on first use: the physics core does not need it
 
     ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
-    ureg.define("MMBtu = 1e6 * Btu")
+    # the International Table Btu (ASHRAE, NIST SP 811), not pint's default ISO Btu
+    ureg.define("Btu = Btu_it")
+    ureg.define("MMBtu = 1e6 * Btu_it")
     return ureg
 
 
@@ -112,15 +114,22 @@ def parse(text, kind: str, field: str) -> float:
     hint = f" (expected e.g. {examples[kind]})" if kind in examples else ""
     s = str(text).strip()
     try:
-        return float(s)
+        value = float(s)
     except ValueError:
-        pass
+        value = None
+    if value is not None:
+        if not np.isfinite(value):
+            raise ValueError(f"{field}: {s!r} is not a finite number")
+        return value
     ureg = _registry()
     import pint
 
     try:
         q = ureg.Quantity(s)
-        return float(q.to(KIND_SI_UNIT[kind]).magnitude)
+        value = float(q.to(KIND_SI_UNIT[kind]).magnitude)
     except (pint.errors.PintError, ValueError, TypeError, AttributeError, AssertionError):
         name = kind.replace("_", " ")
         raise ValueError(f"{field}: {s!r} is not a {name}{hint}") from None
+    if not np.isfinite(value):
+        raise ValueError(f"{field}: {s!r} is not a finite number")
+    return value
