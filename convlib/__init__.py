@@ -18,10 +18,12 @@ from .pipe_sizes import nominal_pipe
 from .surface import SurfaceResult, bare_surface
 from .study import CaseSpec, StudyResult, StudySpec, run_study
 from . import snapshot  # noqa: E402  (after study: it builds on it)
+from .linelist import LineListResult, read_line_list, run_line_list, write_results_csv
 
 __all__ = [
     "air", "fluid_properties", "FluidProperties", "dew_point", "nusselt", "catalog", "correlations",
     "bare_surface", "SurfaceResult", "geometry", "radiation", "regimes", "__version__",
     "insulated_pipe", "Layer", "PipeResult", "Conductivity", "nominal_pipe",
     "StudySpec", "CaseSpec", "StudyResult", "run_study", "snapshot",
+    "run_line_list", "read_line_list", "write_results_csv", "LineListResult",
 ]

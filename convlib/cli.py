@@ -6,6 +6,11 @@ Commands
 ``surface``       one bare surface at a known temperature
 ``line``          one insulated (or bare) line with a known fluid temperature
 ``size``          insulation thickness for a touch, heat-loss or condensation limit
+``run``           a study file (or ``--demo``): sweeps, maps, tornado, Monte Carlo; ``--save`` a snapshot
+``verify``        re-run a snapshot's study and say whether the numbers still agree
+``compare``       changed inputs and results between two snapshots
+``report``        a snapshot as a self-contained HTML page
+``lines``         a CSV line list: every line at once, totals, results to CSV (exit 1 if rows failed)
 ``correlations``  the correlation registry
 
 Values may carry units (``90degC``, ``4.5in``, ``50mm``, ``10mph``, ``80W/m``);
@@ -416,6 +421,78 @@ def _cmd_compare(args) -> int:
     return 0
 
 
+def _weather_bins(args):
+    """Weather bins from --bins FILE.json ({"air_temperature": [...], "wind_speed": [...], "hours": [...]},
+    numbers SI or text with units such as "-5degC"), the demo site's bins with --demo, else None."""
+    if args.bins:
+        try:
+            data = json.loads(open(args.bins, encoding="utf-8").read())
+        except (OSError, json.JSONDecodeError) as exc:
+            raise ValueError(f"cannot read weather bins {args.bins}: {exc}") from None
+        missing = {"air_temperature", "hours"} - set(data)
+        if missing:
+            raise ValueError(f"weather bins {args.bins}: missing {', '.join(sorted(missing))}")
+        air = [parse(v, "temperature", "bins air_temperature") for v in data["air_temperature"]]
+        wind = [parse(v, "speed", "bins wind_speed") for v in data.get("wind_speed", [0.0] * len(air))]
+        return WeatherBins(air, wind, data["hours"])
+    if args.demo:
+        return WeatherBins(**load_demo_site()["weather_bins"])
+    return None
+
+
+_LINE_UNITS = {"length": "m", "equivalent_length": "m", "outer_diameter": "m", "fluid_temperature": "K",
+               "air_temperature": "K", "surface_temperature": "K", "dew_point": "K", "q_per_length": "W/m",
+               "q_total": "W", "operating_hours": "h", "heat_kwh": "kWh", "purchased_kwh": "kWh", "co2_kg": "kg"}
+
+
+def _cmd_lines(args) -> int:
+    from .linelist import demo_lines_path, run_line_list, write_results_csv
+
+    if args.demo == bool(args.input):
+        raise ValueError("give a line-list CSV file or --demo (the invented Fernhill line list), not both")
+    source = demo_lines_path() if args.demo else args.input
+    energy = load_demo_site()["energy"] if args.demo else {}
+    price = args.energy_price if args.energy_price is not None else energy.get("price_per_kwh", 0.0)
+    efficiency = args.heating_efficiency or energy.get("heating_efficiency", 0.85)
+    cop = args.cooling_cop or energy.get("cooling_cop", 3.0)
+    co2 = args.co2_per_kwh if args.co2_per_kwh is not None else energy.get("co2_kg_per_kwh", 0.0)
+    try:
+        result = run_line_list(source, _weather_bins(args), energy_price=price, heating_efficiency=efficiency,
+                               cooling_cop=cop, co2_per_kwh=co2, progress=_progress_bar)
+    except OSError as exc:
+        raise ValueError(f"cannot read line list {args.input}: {exc.strerror}") from None
+    if args.output:
+        write_results_csv(result, args.output)
+    for e in result.errors:
+        print(f"convlib: row {e.row} ({e.tag or 'no tag'}): {e.reason}", file=sys.stderr)
+    if args.json:
+        json.dump({"lines": {"results": result.rows(), "units": _LINE_UNITS},
+                   "errors": [e._asdict() for e in result.errors], "totals": result.totals,
+                   "settings": result.settings, "output": args.output, "cautions": list(result.cautions),
+                   "convlib_version": __version__}, sys.stdout, indent=2)
+        print()
+        return 1 if result.errors else 0
+    rows = []
+    for row in result.rows():
+        flags = [name for name, on in (("touch", row["touch_flag"]), ("condensation", row["condensation_flag"])) if on]
+        rows.append({"tag": row["tag"], "location": row["location"],
+                     "surface_temperature": row["surface_temperature"], "q_per_length": row["q_per_length"],
+                     "q_total": row["q_total"], "heat [MWh/yr]": f"{row['heat_kwh'] / 1000:.2f}",
+                     "cost/yr": f"{row['cost']:.0f}", "flags": ", ".join(flags) or "-",
+                     "warnings": [row["notes"]] if row["notes"] else []})
+    _table(rows, args.units)
+    t = result.totals
+    print(f"\n{t['lines']} lines computed, {t['rows_with_errors']} row(s) with errors; total "
+          f"{t['q_total'] / 1000:.1f} kW, {t['heat_kwh'] / 1000:.1f} MWh/yr, purchased "
+          f"{t['purchased_kwh'] / 1000:.1f} MWh/yr, cost {t['cost']:.0f}/yr, CO2 {t['co2_kg'] / 1000:.1f} t/yr; "
+          f"{t['touch_flags']} touch and {t['condensation_flags']} condensation flag(s) (flags, not verdicts)")
+    if args.output:
+        print(f"results written to {args.output}")
+    for c in result.cautions:
+        print(c)
+    return 1 if result.errors else 0
+
+
 def _bound(value) -> str:
     return "inf" if value is None else f"{value:g}"
 
@@ -526,6 +603,19 @@ def build_parser() -> argparse.ArgumentParser:
     cmp_.add_argument("second")
     cmp_.add_argument("--json", action="store_true")
     cmp_.set_defaults(func=_cmd_compare)
+
+    lines = sub.add_parser("lines", help="compute a CSV line list (every line at once); write results as CSV "
+                           "(exit 1 if rows failed)")
+    lines.add_argument("input", nargs="?", help="line-list CSV (see convlib.linelist for the columns)")
+    lines.add_argument("--demo", action="store_true", help="the invented Fernhill line list, weather and prices")
+    lines.add_argument("-o", "--output", help="write per-line results, errors and totals to this CSV")
+    lines.add_argument("--bins", help="weather bins JSON: air_temperature, wind_speed, hours (outdoor lines)")
+    lines.add_argument("--energy-price", type=float, help="price per purchased kWh (default 0)")
+    lines.add_argument("--heating-efficiency", type=float, help="efficiency of the heat source (default 0.85)")
+    lines.add_argument("--cooling-cop", type=float, help="COP of the chiller (default 3)")
+    lines.add_argument("--co2-per-kwh", type=float, help="kg CO2 per purchased kWh (default 0)")
+    _output_options(lines)
+    lines.set_defaults(func=_cmd_lines)
 
     cat = sub.add_parser("correlations", help="list the correlation registry")
     cat.add_argument("--geometry", help="only this geometry")

@@ -347,7 +347,7 @@ class AnnualEnergy:
     """Annual figures per case (arrays over the cases; the last axis of per-bin arrays is the bin)."""
 
     heat_kwh: np.ndarray          # heat lost (> 0) or gained (< 0) by the line over the year [kWh]
-    purchased_kwh: np.ndarray     # fuel (heat / efficiency) or electricity (gain / COP) [kWh]
+    purchased_kwh: np.ndarray     # hot line: fuel = net loss / efficiency; cold line: electricity = net gain / COP [kWh]
     cost: np.ndarray              # purchased energy x price [currency]
     co2_kg: np.ndarray            # purchased energy x emission factor [kg]
     q_per_length_by_bin: np.ndarray  # [W/m]
@@ -403,7 +403,11 @@ def annual_energy(pipe_outer_diameter, fluid_temperature, layers=(), *, bins: We
                        wind_speed=bins.wind_speed, length=1.0, **pipe_options)
     q = r.q_per_length
     heat_kwh = (q * bins.hours).sum(axis=-1) * length / 1000.0
-    purchased = np.where(heat_kwh >= 0, heat_kwh / eff, -heat_kwh / cop)
+    # The service decides what is bought: a line whose fluid is above the hours-weighted air temperature is a
+    # hot line (heat lost is fuel), otherwise a cold line (heat gained is chiller electricity).
+    mean_air = float(np.sum(bins.air_temperature * bins.hours) / max(float(bins.hours.sum()), 1e-300))
+    hot = np.broadcast_to(tf, case_shape) > mean_air
+    purchased = np.where(hot, np.maximum(heat_kwh, 0.0) / eff, np.maximum(-heat_kwh, 0.0) / cop)
     return AnnualEnergy(heat_kwh=heat_kwh, purchased_kwh=purchased, cost=purchased * price,
                         co2_kg=purchased * co2, q_per_length_by_bin=q)
 

@@ -125,7 +125,7 @@ class OuterSurface:
             "surroundings_temperature", surroundings_temperature, unit="K", low=0.0, low_inclusive=False)
         fraction = as_array("sky_view_fraction", sky_view_fraction, low=0.0, high=1.0)
         if sky_temperature is None:
-            t_sky = clear_sky_temperature(ta) if np.any(fraction > 0) else ta
+            t_sky = np.where(fraction > 0, clear_sky_temperature(ta), ta)  # per point: no cross-talk
         else:
             t_sky = as_array("sky_temperature", sky_temperature, unit="K", low=0.0, low_inclusive=False)
         absorptivity = eps if solar_absorptivity is None else as_array(

@@ -59,3 +59,24 @@ def test_correlations_listing_json_has_every_registry_record():
     records = json.loads(proc.stdout)
     assert {(r["geometry"], r["key"]) for r in records} == {(r.geometry, r.key) for r in cl.correlations.REGISTRY}
     assert all(r["citation"] for r in records)
+
+
+def test_demo_line_list_end_to_end(tmp_path):
+    out = tmp_path / "results.csv"
+    proc = run("lines", "--demo", "-o", str(out))
+    assert proc.returncode == 0, proc.stderr
+    from convlib.linelist import demo_lines_path, read_line_list
+
+    lines, errors = read_line_list(demo_lines_path())
+    assert not errors and all(line.spec.tag in proc.stdout for line in lines)
+    assert out.read_text().count("\n") == len(lines) + 2  # header, lines, TOTAL
+
+
+def test_line_list_with_a_bad_row_exits_1_naming_the_row(tmp_path):
+    src = tmp_path / "lines.csv"
+    src.write_text("tag,nps,length,fluid_temperature[degC],air_temperature[degC],layers[mm]\n"
+                   "A-1,4,10,150,20,50@0.04 wool\n"
+                   "A-2,4.3,10,150,20,50@0.04 wool\n")
+    proc = run("lines", str(src))
+    assert proc.returncode == 1
+    assert "row 3" in proc.stderr and "A-1" in proc.stdout

@@ -1,0 +1,607 @@
+r"""Plant line lists: read a survey of lines from CSV, compute them all at once, write the results.
+
+A line list is a table with one line (pipe run) per row. Columns (case and spaces in
+the header do not matter; ``Fluid temperature [degC]`` reads as ``fluid_temperature[degC]``):
+
+=====================  ========  ======================================================================
+column                 default   meaning [default unit]
+=====================  ========  ======================================================================
+``tag``                required  line identifier, e.g. ``FH-103``
+``description``        ""        free text
+``nps``                --        nominal pipe size: ``4``, ``1.5``, ``1-1/2``, ``3/4`` (ASME B36.10M)
+``schedule``           ``40``    pipe schedule with ``nps``: 40, 80, STD, XS, 10S, ...
+``outer_diameter``     --        outer diameter of the pipe itself [m], instead of ``nps``
+``length``             required  run length [m]
+``fluid_temperature``  required  temperature of the fluid [K]
+``air_temperature``    required  design air temperature around the line [K]
+``relative_humidity``  none      design relative humidity, a fraction 0-1 (or head it ``[%]``)
+``layers``             bare      layers from the pipe outwards, see below
+``location``           indoor    ``indoor`` or ``outdoor``
+``sky_view_fraction``  0 / 0.5   part of the view that is sky [-]; 0 indoors, 0.5 outdoors
+``wind_speed``         0         design wind speed [m/s]
+``jacket_emissivity``  0.9       long-wave emissivity of the outer surface [-]
+``operating_hours``    8760      hours per year the line is hot or cold [h] (no unit suffix)
+``valve`` ...          0         number of fittings: ``valve``, ``flange_pair``, ``support``,
+                                 ``elbow``, ``strainer`` (:data:`convlib.design.FITTING_EQUIVALENT_LENGTH`)
+=====================  ========  ======================================================================
+
+Give each line ``nps`` or ``outer_diameter``, not both. Columns with an empty header are ignored; an
+unknown column is an error for the whole file (a misspelt column must not go unnoticed).
+
+**Units.** Plain numbers are SI, kelvin for temperatures. A unit in brackets after the column name
+applies to the plain numbers of that column: ``fluid_temperature[degC]``, ``air_temperature[°F]``,
+``outer_diameter[mm]``, ``length[ft]``, ``wind_speed[km/h]``, ``relative_humidity[%]``, ``layers[mm]``
+(thicknesses). A unit in a cell wins: ``6 in``, ``90 degC``. Conversions by :mod:`convlib.units` (pint).
+
+**Layers.** ``THICKNESS@CONDUCTIVITY NAME`` per layer (conductivity in W/m/K, name optional),
+separated by ``;``, from the pipe outwards; empty, ``bare`` or ``none``: a bare pipe. With
+``layers[mm]``: ``80@0.045 mineral wool; 0.7@200 aluminium jacket``; without it ``80mm@0.045 ...``.
+
+**Rows.** Row numbers are those of the file (header = row 1; blank lines count, and are skipped).
+A row that fails validation becomes a :class:`RowError` naming the column and the problem; the
+other rows are still computed.
+
+**Results.** Per line at its design conditions: surface temperature, heat flow per metre and over the
+equivalent length (length plus fittings); per year: heat lost (> 0) or gained (< 0), purchased energy
+(hot service, fluid above the design air: net loss / efficiency; cold service: net gain / COP), its
+cost and CO2. With :class:`~convlib.design.WeatherBins`, outdoor lines see each bin's air temperature
+and wind, indoor lines keep their design air and wind; a given ``operating_hours`` scales every bin's
+hours by ``operating_hours / total bin hours``. ``touch_flag`` (surface above a touch limit) and
+``condensation_flag`` (surface below the dew point of the line's air) are flags for review, not
+verdicts (:data:`~convlib.design.CAUTION_TOUCH`, :data:`~convlib.design.CAUTION_CONDENSATION`).
+
+Examples
+--------
+>>> text = '''tag,nps,length[m],fluid_temperature[degC],air_temperature[degC],layers[mm],jacket_emissivity
+... FH-001,4,10,180,20,50@0.045 mineral wool,0.1
+... '''
+>>> res = run_line_list(io.StringIO(text))
+>>> round(float(res.q_per_length[0]), 1), round(float(res.q_total[0]))
+(63.1, 631)
+"""
+from __future__ import annotations
+
+import csv
+import io
+import math
+import os
+import re
+import tempfile
+from collections.abc import Callable
+from dataclasses import dataclass, field
+from fractions import Fraction
+from functools import lru_cache
+from importlib import resources
+from pathlib import Path
+from typing import NamedTuple
+
+import numpy as np
+from pydantic import ValidationError
+
+from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, DEFAULT_COOLING_COP, DEFAULT_HEATING_EFFICIENCY,
+                     FITTING_EQUIVALENT_LENGTH, TOUCH_LIMIT_METAL_JACKET, WeatherBins)
+from .lines import LineSpec
+from .pipe import Layer, insulated_pipe
+from .pipe_sizes import nominal_pipe
+from .properties import dew_point
+from .radiation import sky_temperature
+from .regimes import describe_flags
+from .units import from_si, to_si
+from .validation import as_array
+
+__all__ = ["COLUMNS", "OUTPUT_COLUMNS", "OUTDOOR_SKY_VIEW_FRACTION", "RowError", "ParsedLine", "LineListResult",
+           "read_line_list", "run_line_list", "write_results_csv", "demo_lines_path"]
+
+#: Input columns and the kind of quantity of their unit suffix ("text" and "count" take none).
+COLUMNS = {
+    "tag": "text", "description": "text", "nps": "count", "schedule": "text", "outer_diameter": "length",
+    "length": "length", "fluid_temperature": "temperature", "air_temperature": "temperature",
+    "relative_humidity": "dimensionless", "layers": "length", "location": "text",
+    "sky_view_fraction": "dimensionless", "wind_speed": "speed", "jacket_emissivity": "dimensionless",
+    "operating_hours": "count", **{name: "count" for name in FITTING_EQUIVALENT_LENGTH},
+}
+REQUIRED = ("tag", "length", "fluid_temperature", "air_temperature")
+LOCATIONS = ("indoor", "outdoor")
+#: Sky view fraction of an outdoor line without a ``sky_view_fraction`` cell: the upper half
+#: of a horizontal pipe sees the sky, the lower half the ground. Common practice, no source.
+OUTDOOR_SKY_VIEW_FRACTION = 0.5
+HOURS_PER_YEAR = 8760.0
+_HEADER = re.compile(r"^\s*(?P<name>[^\[\]]*?)\s*(?:\[(?P<unit>[^\[\]]*)\])?\s*$")
+_LAYER = re.compile(r"^(?P<thickness>[^@]+?)\s*@\s*(?P<conductivity>\S+)\s*(?P<name>.*)$")
+_QUANTITY = re.compile(r"([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*)")
+_EXAMPLES = {"temperature": "'90 degC'", "length": "'50 mm', '4.5 in'", "speed": "'10 km/h'",
+             "conductivity": "'0.04 W/m/K'"}
+_CELL_UNIT_KINDS = tuple(_EXAMPLES)
+
+
+class RowError(NamedTuple):
+    """A row that was not computed: row number in the file (header = 1), tag, reason."""
+
+    row: int
+    tag: str
+    reason: str
+
+
+class ParsedLine(NamedTuple):
+    """A valid row: row number, :class:`~convlib.lines.LineSpec` (SI), location, operating hours [h] or None."""
+
+    row: int
+    spec: LineSpec
+    location: str
+    operating_hours: float | None
+
+
+def demo_lines_path():
+    """The invented line list of the Fernhill district-energy plant shipped with the package."""
+    return resources.files("convlib").joinpath("data/demo_lines.csv")
+
+
+# ----------------------------------------------------------------------------- reading
+def _columns(header) -> list[tuple[str, str | None] | None]:
+    """(name, unit) per header cell, None for an empty header cell; ValueError for the whole file."""
+    out, problems, seen = [], [], set()
+    for text in ("" if h is None else str(h) for h in header):
+        m = _HEADER.match(text)
+        if m is not None and not m["name"] and not m["unit"]:
+            out.append(None)
+            continue
+        name = re.sub(r"[\s\-]+", "_", m["name"].strip().lower()) if m else text
+        unit = (m["unit"] or "").strip() if m else ""
+        unit = None if unit in ("", "-", "1") else unit
+        kind = COLUMNS.get(name)
+        if kind is None:
+            problems.append(f"unknown column {text!r}")
+        elif name in seen:
+            problems.append(f"column {name!r} appears twice")
+        elif unit is not None and kind in ("text", "count"):
+            problems.append(f"column {text!r}: {name} takes no unit")
+        elif unit is not None:
+            try:
+                _affine(unit, kind)
+            except Exception:  # noqa: BLE001 - pint raises several error types for bad units
+                problems.append(f"column {text!r}: {unit!r} is not a unit of {kind}")
+        seen.add(name)
+        out.append((name, unit))
+    missing = [c for c in REQUIRED if c not in seen]
+    if missing:
+        problems.append(f"missing required column(s): {', '.join(missing)}")
+    if not {"nps", "outer_diameter"} & seen:
+        problems.append("give the pipe size in a column 'nps' (with 'schedule') or 'outer_diameter'")
+    if problems:
+        raise ValueError(f"line list header: {'; '.join(problems)}; the columns are: {', '.join(COLUMNS)}")
+    return out
+
+
+def _blank(cell) -> bool:
+    return cell is None or (isinstance(cell, float) and math.isnan(cell)) or (isinstance(cell, str)
+                                                                              and not cell.strip())
+
+
+def _number(cell, column: str, kind: str, unit: str | None) -> float:
+    """SI value of a non-blank cell: a plain number in ``unit``, or a number with its own unit (which wins)."""
+    if isinstance(cell, (int, float, np.number)) and not isinstance(cell, bool):
+        value = float(cell)
+    else:
+        text = str(cell).strip()
+        m = _QUANTITY.fullmatch(text)
+        if m is None or (m[2] and kind not in _CELL_UNIT_KINDS and (kind, m[2]) != ("dimensionless", "%")):
+            extra = f" or a {kind} with its unit (e.g. {_EXAMPLES[kind]})" if kind in _CELL_UNIT_KINDS else ""
+            raise ValueError(f"{column}: {text!r} is not a number{extra}")
+        value, unit = float(m[1]), m[2] or unit
+    if unit is not None:
+        try:
+            value = _affine(unit, kind)(value)
+        except Exception:  # noqa: BLE001 - pint raises several error types for bad units
+            raise ValueError(f"{column}: {cell!r}: {unit!r} is not a unit of {kind}") from None
+    if not math.isfinite(value):
+        raise ValueError(f"{column}: must be a finite number; got {cell!r}")
+    return value
+
+
+@lru_cache(maxsize=64)
+def _affine(unit: str, kind: str):
+    """SI conversion of ``unit`` as offset + factor x value (pint once per column, not per cell)."""
+    offset = float(to_si(0.0, unit, kind))
+    factor = float(to_si(1.0, unit, kind)) - offset
+    return lambda value: offset + factor * value
+
+
+def _nps(cell) -> float:
+    text = str(cell).strip().rstrip('"').strip()
+    mixed = re.fullmatch(r"(\d+)[\s\-]+(\d+/\d+)", text)  # 1-1/2, 1 1/2
+    try:
+        return float(int(mixed[1]) + Fraction(mixed[2]) if mixed else Fraction(text) if "/" in text else text)
+    except (ValueError, ZeroDivisionError):
+        raise ValueError(f"nps: {text!r} is not a nominal pipe size (write e.g. 4, 1.5, 1-1/2 or 3/4)") from None
+
+
+def _layers(cell, unit: str | None) -> list[dict]:
+    text, layers = str(cell).strip(), []
+    parts = [] if text.lower() in ("bare", "none") else [p.strip() for p in text.split(";") if p.strip()]
+    for i, part in enumerate(parts, start=1):
+        m = _LAYER.match(part)
+        if m is None:
+            raise ValueError(f"layers: layer {i} {part!r} is not THICKNESS@CONDUCTIVITY NAME "
+                             f"(e.g. '50mm@0.04 mineral wool')")
+        thickness = _number(m["thickness"], f"layers: layer {i} thickness", "length", unit)
+        conductivity = _number(m["conductivity"], f"layers: layer {i} conductivity", "conductivity", None)
+        if not 0 <= thickness <= 2.0:
+            written = m["thickness"] + (f" {unit}" if unit and _QUANTITY.fullmatch(m["thickness"])[2] == "" else "")
+            raise ValueError(f"layers: layer {i} thickness must be between 0 and 2 m; got {written!r}"
+                             + (" (give a unit, '50mm@0.04', or head the column layers[mm])" if thickness > 2 else ""))
+        if not 0 < conductivity <= 500:
+            raise ValueError(f"layers: layer {i} conductivity must be greater than 0 and at most 500 W/m/K; "
+                             f"got {m['conductivity']!r}")
+        layers.append({"thickness": thickness, "conductivity": conductivity, "name": m["name"] or f"layer {i}"})
+    return layers
+
+
+def _parse_row(row: int, cells: dict, units: dict) -> ParsedLine | RowError:
+    """One row (column -> raw cell) to a :class:`ParsedLine`, or a :class:`RowError` listing every problem."""
+    problems, values = [], {}
+    tag = "" if _blank(cells.get("tag")) else str(cells["tag"]).strip()
+    for name, kind in COLUMNS.items():
+        cell = cells.get(name)
+        if _blank(cell):
+            problems += [f"{name}: missing (required)"] if name in REQUIRED else []
+            continue
+        try:
+            if kind == "text":
+                values[name] = str(cell).strip()
+            elif name in ("nps", "layers"):
+                values[name] = _nps(cell) if name == "nps" else _layers(cell, units.get(name))
+            else:
+                values[name] = _number(cell, name, kind, units.get(name))
+                if kind == "count" and values[name] < 0:
+                    raise ValueError(f"{name}: must be at least 0; got {cell!r}")
+        except ValueError as exc:
+            problems.append(str(exc))
+    location = values.pop("location", "indoor").lower()
+    if location not in LOCATIONS:
+        problems.append(f"location: unknown location {location!r}; choose one of: {', '.join(LOCATIONS)}")
+    if values.get("relative_humidity", 0.0) > 1.0:
+        problems.append(f"relative_humidity: {cells['relative_humidity']!r} is more than 1; write a fraction 0-1 "
+                        f"or head the column relative_humidity[%]")
+    hours = values.pop("operating_hours", None)
+    if hours is not None and hours > 8784.0:
+        problems.append(f"operating_hours: {hours:g} h is more than a (leap) year of 8784 h")
+    if ("nps" in values) == ("outer_diameter" in values):
+        problems.append("nps / outer_diameter: give the pipe as nps (with schedule) or as outer_diameter, not both")
+    elif "nps" in values:
+        if "schedule" in values:  # 40.0 from a numeric spreadsheet column, std, 10s
+            values["schedule"] = re.sub(r"^(\d+)\.0*$", r"\1", values["schedule"]).upper()
+        try:
+            nominal_pipe(values["nps"], values.get("schedule", "40"))
+        except ValueError as exc:
+            problems.append(f"{'nps' if 'NPS' in str(exc) else 'schedule'}: {exc}")
+    if problems:
+        return RowError(row, tag, "; ".join(problems))
+    fittings = {name: values.pop(name) for name in FITTING_EQUIVALENT_LENGTH if name in values}
+    if "outer_diameter" in values:
+        values["pipe_outer_diameter"] = values.pop("outer_diameter")
+    values.setdefault("sky_view_fraction", OUTDOOR_SKY_VIEW_FRACTION if location == "outdoor" else 0.0)
+    try:
+        return ParsedLine(row, LineSpec(**values, fittings=fittings), location, hours)
+    except ValidationError as exc:  # ranges of LineSpec: emissivity, humidity, lengths, tag
+        for e in exc.errors():
+            loc = e["loc"] or ("row",)
+            column = "outer_diameter" if loc[0] == "pipe_outer_diameter" else str(loc[0])
+            if loc[0] == "layers" and len(loc) >= 3:
+                column = f"layers: layer {loc[1] + 1} {loc[2]}"
+            shown = "" if _blank(cells.get(column)) else f"; cell {cells[column]!r}"
+            problems.append(f"{column}: {e['msg'].removeprefix('Value error, ')}{shown}")
+        return RowError(row, tag, "; ".join(problems))
+
+
+def read_line_list(source) -> tuple[list[ParsedLine], list[RowError]]:
+    """Read and validate a line list (see the module docstring for the columns).
+
+    Parameters
+    ----------
+    source : path, file-like, or list of dict or LineSpec
+        A CSV file (path, open text file or package resource); rows as dicts keyed by column
+        header (unit suffixes allowed; numbered 2, 3, ... as below a header); or
+        :class:`~convlib.lines.LineSpec` objects (outdoor where ``sky_view_fraction > 0``).
+
+    Returns
+    -------
+    lines, errors : list of ParsedLine, list of RowError
+        The valid rows in file order; the rows that failed, with row number and reason.
+
+    Raises
+    ------
+    ValueError
+        For the whole file: no header, unknown or repeated column, wrong unit suffix, missing column.
+    """
+    if isinstance(source, (list, tuple)) and source and all(isinstance(s, LineSpec) for s in source):
+        return [ParsedLine(i, s, LOCATIONS[s.sky_view_fraction > 0], None) for i, s in enumerate(source, 2)], []
+    if isinstance(source, (list, tuple)):
+        if not all(isinstance(s, dict) for s in source):
+            raise ValueError("line list rows must all be dicts (column -> value) or all LineSpec objects")
+        header = list(dict.fromkeys(k for row in source for k in row))
+        records = [header, *([row.get(k) for k in header] for row in source)]
+    else:
+        try:
+            if isinstance(source, (str, os.PathLike)):
+                source = Path(source)
+            if not hasattr(source, "read"):  # a path or a package resource (importlib.resources)
+                source = io.StringIO(source.read_text(encoding="utf-8-sig"), newline="")
+            records = list(csv.reader(source))
+        except UnicodeDecodeError:
+            raise ValueError("line list: the file is not UTF-8 text; save it as 'CSV UTF-8'") from None
+    if not records or all(_blank(c) for c in records[0]):
+        raise ValueError("line list: the first row must be the header (tag, nps or outer_diameter, length, ...)")
+    if len(records[0]) == 1 and ";" in str(records[0][0]):
+        raise ValueError("line list: the header is separated by ';'; save the sheet as comma-separated CSV "
+                         "with '.' as the decimal mark")
+    columns = _columns(records[0])
+    units = {c[0]: c[1] for c in columns if c is not None}
+    lines, errors = [], []
+    for number, cells in enumerate(records[1:], start=2):
+        if all(_blank(c) for c in cells):
+            continue
+        named = {c[0]: cell for c, cell in zip(columns, cells) if c is not None}
+        if any(not _blank(c) for c in cells[len(columns):]):
+            parsed = RowError(number, str(named.get("tag") or "").strip(),
+                              f"row has {len(cells)} cells but the header has {len(columns)} columns")
+        else:
+            parsed = _parse_row(number, named, units)
+        (errors if isinstance(parsed, RowError) else lines).append(parsed)
+    return lines, errors
+
+
+# ----------------------------------------------------------------------------- computing
+@dataclass(frozen=True)
+class LineListResult:
+    """Per-line results (arrays in file order, one entry per computed line), failed rows, settings.
+
+    Temperatures [K], lengths and ``outer_diameter`` (of the pipe itself) [m], ``q_per_length``
+    [W/m] and ``q_total`` (= q_per_length x equivalent_length) [W] at the design conditions;
+    ``operating_hours`` [h/yr]; ``heat_kwh`` (lost > 0, gained < 0) and ``purchased_kwh`` [kWh/yr],
+    ``cost`` (currency of the energy price), ``co2_kg`` [kg/yr]. ``dew_point`` is NaN where no
+    humidity was given. ``touch_flag`` and ``condensation_flag`` are flags for review, not verdicts.
+    ``notes``: warnings of the physics per line.
+    """
+
+    row: np.ndarray
+    tag: tuple[str, ...]
+    location: tuple[str, ...]
+    layer_count: np.ndarray
+    length: np.ndarray
+    equivalent_length: np.ndarray
+    outer_diameter: np.ndarray
+    fluid_temperature: np.ndarray
+    air_temperature: np.ndarray
+    surface_temperature: np.ndarray
+    dew_point: np.ndarray
+    q_per_length: np.ndarray
+    q_total: np.ndarray
+    operating_hours: np.ndarray
+    heat_kwh: np.ndarray
+    purchased_kwh: np.ndarray
+    cost: np.ndarray
+    co2_kg: np.ndarray
+    touch_flag: np.ndarray
+    condensation_flag: np.ndarray
+    notes: tuple[str, ...]
+    errors: tuple[RowError, ...] = ()
+    settings: dict = field(default_factory=dict)
+
+    def __len__(self) -> int:
+        return len(self.tag)
+
+    @property
+    def totals(self) -> dict:
+        """Sums over the computed lines (cold lines count negative in ``q_total`` and ``heat_kwh``)."""
+        sums = {name: float(np.sum(getattr(self, name))) for name in _SUMMED}
+        return {"lines": len(self), "rows_with_errors": len(self.errors), **sums,
+                "touch_flags": int(np.sum(self.touch_flag)), "condensation_flags": int(np.sum(self.condensation_flag))}
+
+    @property
+    def cautions(self) -> tuple[str, ...]:
+        """The cautions that apply: touch and condensation where any line is flagged."""
+        return tuple(text for text, flags in ((CAUTION_TOUCH, self.touch_flag),
+                                              (CAUTION_CONDENSATION, self.condensation_flag)) if np.any(flags))
+
+    def rows(self) -> list[dict]:
+        """One dict per computed line with SI values (None for a missing dew point), e.g. for JSON."""
+        names = [n for n in self.__dataclass_fields__ if n not in ("errors", "settings")]
+        values = [[v.item() if isinstance(v, np.generic) else v for v in getattr(self, n)] for n in names]
+        return [{n: None if isinstance(v, float) and math.isnan(v) else v for n, v in zip(names, row)}
+                for row in zip(*values)]
+
+
+_SUMMED = ("length", "equivalent_length", "q_total", "heat_kwh", "purchased_kwh", "cost", "co2_kg")
+
+
+def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
+                  heating_efficiency=DEFAULT_HEATING_EFFICIENCY, cooling_cop=DEFAULT_COOLING_COP, co2_per_kwh=0.0,
+                  touch_limit=TOUCH_LIMIT_METAL_JACKET, chunk_size: int = 5000,
+                  progress: Callable[[float, str], None] | None = None) -> LineListResult:
+    """Compute every line of a line list: surface temperature, heat flow, annual energy, flags.
+
+    Lines with the same number of layers are solved together, ``chunk_size`` at a time, in one
+    :func:`convlib.pipe.insulated_pipe` call (design condition and weather bins on a second axis);
+    each line's numbers equal those of a call for that line alone. A chunk the solver rejects
+    is re-solved line by line, so that only the offending rows become errors.
+
+    Parameters
+    ----------
+    source : path, file-like, or list of dict or LineSpec
+        See :func:`read_line_list`.
+    bins : WeatherBins, optional
+        Weather for the annual figures of outdoor lines; default: each line's design condition
+        for its ``operating_hours`` (8760 h unless given).
+    energy_price, heating_efficiency, cooling_cop, co2_per_kwh : float
+        Price per purchased kWh [currency/kWh]; seasonal efficiency of the heat source (0-1] and
+        COP of the chiller (> 0); emission factor of the purchased energy [kg/kWh].
+    touch_limit : float
+        Surface temperature above which ``touch_flag`` is set [K]; default
+        :data:`~convlib.design.TOUCH_LIMIT_METAL_JACKET`, a design default, not a rule.
+    chunk_size : int
+        Lines per solver call.
+    progress : callable, optional
+        ``progress(fraction, text)`` after reading and after each chunk; fractions increase to 1.
+
+    Returns
+    -------
+    LineListResult
+    """
+    price = float(as_array("energy_price", energy_price, low=0.0))
+    eff = float(as_array("heating_efficiency", heating_efficiency, low=0.0, high=1.0, low_inclusive=False))
+    cop = float(as_array("cooling_cop", cooling_cop, low=0.0, low_inclusive=False))
+    co2 = float(as_array("co2_per_kwh", co2_per_kwh, unit="kg/kWh", low=0.0))
+    limit = float(as_array("touch_limit", touch_limit, unit="K", low=0.0, low_inclusive=False))
+    if isinstance(chunk_size, bool) or not isinstance(chunk_size, (int, np.integer)) or chunk_size < 1:
+        raise ValueError(f"chunk_size must be a whole number of at least 1; got {chunk_size!r}")
+    if bins is not None and not isinstance(bins, WeatherBins):
+        raise ValueError(f"bins must be a convlib.design.WeatherBins or None; got {type(bins).__name__}")
+    if bins is not None and bins.hours.sum() <= 0:
+        raise ValueError("bins: the hours add up to 0")
+    report = progress or (lambda fraction, text: None)
+    lines, errors = read_line_list(source)
+    specs, n = [p.spec for p in lines], len(lines)
+    report(0.0, f"read {n} line(s), {len(errors)} row(s) with errors")
+
+    def col(values):
+        return np.array([np.nan if v is None else v for v in values], dtype=float).reshape(n)
+
+    d, tf, ta = (col(s.outer_diameter() for s in specs), col(s.fluid_temperature for s in specs),
+                 col(s.air_temperature for s in specs))
+    wind, eps, sky = (col(s.wind_speed for s in specs), col(s.jacket_emissivity for s in specs),
+                      col(s.sky_view_fraction for s in specs))
+    outdoor = np.array([p.location == "outdoor" for p in lines], dtype=bool)
+    given = col(p.operating_hours for p in lines)
+    hours = np.where(np.isnan(given), HOURS_PER_YEAR if bins is None else bins.hours.sum(), given)
+    count = np.array([len(s.layers) for s in specs], dtype=int)
+    q, ts, energy = np.full(n, np.nan), np.full(n, np.nan), np.full(n, np.nan)  # energy [Wh/m per year]
+    flags, ok = np.zeros(n, dtype=np.int64), np.ones(n, dtype=bool)
+
+    def solve(idx):
+        k = count[idx[0]]
+        thick, cond = (np.array([[getattr(ly, a) for ly in specs[i].layers] for i in idx], dtype=float)
+                       .reshape(idx.size, k) for a in ("thickness", "conductivity"))
+        layers = [Layer(thick[:, j, None], cond[:, j, None], name=f"layer {j + 1}") for j in range(k)]
+        air, wnd = ta[idx, None], wind[idx, None]
+        if bins is not None:  # column 0: design condition; then one column per bin (outdoor lines)
+            air = np.concatenate([air, np.where(outdoor[idx, None], bins.air_temperature, air)], axis=1)
+            wnd = np.concatenate([wnd, np.where(outdoor[idx, None], bins.wind_speed, wnd)], axis=1)
+        # the sky temperature a one-line call takes, so that a line's numbers do not depend on its group
+        t_sky = np.where(sky[idx, None] > 0, sky_temperature(air), air)
+        r = insulated_pipe(d[idx, None], tf[idx, None], layers, air_temperature=air, wind_speed=wnd,
+                           jacket_emissivity=eps[idx, None], sky_view_fraction=sky[idx, None], sky_temperature=t_sky,
+                           length=1.0)
+        q[idx], ts[idx] = r.q_per_length[:, 0], r.surface_temperature[:, 0]
+        flags[idx] = np.bitwise_or.reduce(r.warnings.astype(np.int64), axis=1)
+        energy[idx] = (q[idx] * hours[idx] if bins is None else
+                       (r.q_per_length[:, 1:] * bins.hours).sum(axis=1) * hours[idx] / bins.hours.sum())
+
+    done = 0
+    for k in np.unique(count):
+        members = np.flatnonzero(count == k)
+        for start in range(0, members.size, chunk_size):
+            idx = members[start:start + chunk_size]
+            try:
+                solve(idx)
+            except ValueError:
+                for i in idx:
+                    try:
+                        solve(np.array([i]))
+                    except ValueError as exc:
+                        ok[i] = False
+                        errors.append(RowError(lines[i].row, specs[i].tag, f"could not be computed: {exc}"))
+            done += idx.size
+            report(done / n, f"{k}-layer lines: {done} of {n}")
+    if n == 0:
+        report(1.0, "no lines to compute")
+    keep = np.flatnonzero(ok)
+    leq, rh = col(s.equivalent_length() for s in specs), col(s.relative_humidity for s in specs)
+    dew, notes = np.full(n, np.nan), {i: [] for i in keep}
+    humid = np.flatnonzero(ok & ~np.isnan(rh))
+    try:
+        dew[humid] = dew_point(ta[humid], rh[humid])
+    except ValueError:  # one by one, so that only the line CoolProp refuses loses its dew point
+        for i in humid:
+            try:
+                dew[i] = dew_point(ta[i], rh[i])
+            except ValueError as exc:
+                notes[i].append(f"dew point not computed: {exc}")
+    texts = {m: describe_flags(m) for m in np.unique(flags[keep])}
+    heat = energy * leq / 1000.0
+    # hot service (fluid above the design air): net loss / efficiency; cold service: net gain / COP
+    purchased = np.where(tf >= ta, np.maximum(heat, 0.0) / eff, np.maximum(-heat, 0.0) / cop)
+    return LineListResult(
+        row=np.array([p.row for p in lines], dtype=int)[keep], tag=tuple(specs[i].tag for i in keep),
+        location=tuple(lines[i].location for i in keep), layer_count=count[keep],
+        length=col(s.length for s in specs)[keep], equivalent_length=leq[keep], outer_diameter=d[keep],
+        fluid_temperature=tf[keep], air_temperature=ta[keep], surface_temperature=ts[keep], dew_point=dew[keep],
+        q_per_length=q[keep], q_total=(q * leq)[keep], operating_hours=hours[keep], heat_kwh=heat[keep],
+        purchased_kwh=purchased[keep], cost=(purchased * price)[keep], co2_kg=(purchased * co2)[keep],
+        touch_flag=(ts > limit)[keep], condensation_flag=(ts < dew)[keep],
+        notes=tuple("; ".join(texts[flags[i]] + notes[i]) for i in keep),
+        errors=tuple(sorted(errors, key=lambda e: e.row)),
+        settings={"energy_price": price, "heating_efficiency": eff, "cooling_cop": cop, "co2_per_kwh": co2,
+                  "touch_limit": limit, "weather_bins": bins is not None})
+
+
+# ----------------------------------------------------------------------------- writing
+#: Output columns after ``row, tag, status``: header (unit in brackets), attribute, display unit.
+OUTPUT_COLUMNS = (
+    ("location", "location", None), ("layers", "layer_count", None), ("length[m]", "length", None),
+    ("equivalent_length[m]", "equivalent_length", None), ("outer_diameter[mm]", "outer_diameter", ("length", "mm")),
+    *((f"{name}[degC]", name, ("temperature", "degC"))
+      for name in ("fluid_temperature", "air_temperature", "surface_temperature", "dew_point")),
+    ("q_per_length[W/m]", "q_per_length", None), ("q_total[W]", "q_total", None),
+    ("operating_hours[h]", "operating_hours", None), ("annual_heat[kWh]", "heat_kwh", None),
+    ("purchased_energy[kWh]", "purchased_kwh", None), ("cost", "cost", None), ("co2[kg]", "co2_kg", None),
+    ("touch_flag", "touch_flag", None), ("condensation_flag", "condensation_flag", None),
+)
+
+
+def _cell(value) -> str:
+    if isinstance(value, (bool, np.bool_)):
+        return "yes" if value else "no"
+    if isinstance(value, str):
+        return value
+    value = float(value)
+    if math.isnan(value):
+        return ""
+    return str(int(value)) if value.is_integer() and abs(value) < 1e15 else f"{value:.7g}"
+
+
+def write_results_csv(result: LineListResult, path) -> None:
+    """Write per-line results, failed rows and a totals row to CSV, atomically (temp file + ``os.replace``).
+
+    Columns: ``row, tag, status`` (``ok`` or ``error``), :data:`OUTPUT_COLUMNS` (units in brackets
+    as in the input; temperatures in degC; ``annual_heat`` is ``heat_kwh``, ``co2`` is ``co2_kg``)
+    and ``notes`` (warnings, or why a row failed). Rows in file order; the last row has ``row`` =
+    ``TOTAL``, the sums of the summed columns and the number of flagged lines in the flag columns.
+    """
+    columns = [getattr(result, a) if conv is None else from_si(np.asarray(getattr(result, a), dtype=float), *conv)
+               for _, a, conv in OUTPUT_COLUMNS]  # whole columns converted at once
+    body = [(int(r), [str(r), t, "ok", *(_cell(c[i]) for c in columns), result.notes[i]])
+            for i, (r, t) in enumerate(zip(result.row, result.tag))]
+    body += [(e.row, [str(e.row), e.tag, "error", *[""] * len(OUTPUT_COLUMNS), e.reason]) for e in result.errors]
+    totals = result.totals
+    total = ["TOTAL", f"{len(result)} lines", "totals"]
+    for _, attribute, _ in OUTPUT_COLUMNS:
+        total.append(_cell(totals[attribute]) if attribute in _SUMMED else
+                     str(totals[attribute + "s"]) if attribute.endswith("_flag") else "")
+    total.append(f"sums over the {len(result)} computed lines; {len(result.errors)} row(s) with errors not included; "
+                 f"flag columns count flagged lines (flags for review, not verdicts)")
+    path = Path(path)
+    fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.", suffix=".tmp")
+    try:
+        with os.fdopen(fd, "w", newline="", encoding="utf-8") as fh:
+            writer = csv.writer(fh)
+            writer.writerow(["row", "tag", "status", *(c[0] for c in OUTPUT_COLUMNS), "notes"])
+            writer.writerows(cells for _, cells in sorted(body, key=lambda b: b[0]))
+            writer.writerow(total)
+            fh.flush()
+            os.fsync(fh.fileno())
+        os.chmod(tmp, 0o644)
+        os.replace(tmp, path)
+    except BaseException:
+        if os.path.exists(tmp):
+            os.unlink(tmp)
+        raise
