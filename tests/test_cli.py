@@ -80,3 +80,42 @@ def test_line_list_with_a_bad_row_exits_1_naming_the_row(tmp_path):
     proc = run("lines", str(src))
     assert proc.returncode == 1
     assert "row 3" in proc.stderr and "A-1" in proc.stdout
+
+
+def _small_study(tmp_path, wind):
+    from convlib.study import CaseSpec, StudySpec, SweepAxis, TornadoInput, UncertaintySpec
+
+    spec = StudySpec(name="cli check", case=CaseSpec(kind="insulated", diameter=0.0603, fluid_temperature=353.15,
+                                                      air_temperature=283.15, wind_speed=wind,
+                                                      insulation_thickness=0.03),
+                     sweeps=[SweepAxis(input="wind_speed", start=0, stop=10, count=5)],
+                     tornado=[TornadoInput(input="emissivity", low=0.1, high=0.9)],
+                     uncertainty=UncertaintySpec(samples=500, seed=1))
+    path = tmp_path / f"study_{wind}.json"
+    path.write_text(spec.model_dump_json())
+    return path
+
+
+def test_run_save_verify_compare_end_to_end(tmp_path):
+    first, second = tmp_path / "a.json", tmp_path / "b.json"
+    proc = run("run", str(_small_study(tmp_path, 2.0)), "--save", str(first), "--author", "checker")
+    assert proc.returncode == 0, proc.stderr
+    assert "snapshot saved" in proc.stdout and first.exists()
+    proc = run("verify", str(first))
+    assert proc.returncode == 0 and "AGREES" in proc.stdout
+    assert run("run", str(_small_study(tmp_path, 5.0)), "--save", str(second)).returncode == 0
+    proc = run("compare", str(first), str(second))
+    assert proc.returncode == 0 and "case.wind_speed" in proc.stdout
+    # the same file again is refused without --overwrite, and nothing changes
+    before = first.read_bytes()
+    proc = run("run", str(_small_study(tmp_path, 2.0)), "--save", str(first))
+    assert proc.returncode == 2 and "--overwrite" in proc.stderr and first.read_bytes() == before
+
+
+def test_verify_reports_a_tampered_snapshot_clearly(tmp_path):
+    snap = tmp_path / "a.json"
+    assert run("run", str(_small_study(tmp_path, 2.0)), "--save", str(snap)).returncode == 0
+    text = snap.read_text()
+    snap.write_text(text.replace('"wind_speed": 2.0', '"wind_speed": 2.5', 1))
+    proc = run("verify", str(snap))
+    assert proc.returncode == 2 and "hash" in proc.stderr and "Traceback" not in proc.stderr
