@@ -4,22 +4,37 @@ VENV   ?= .venv
 PY     := $(VENV)/bin/python
 STAMP  := $(VENV)/.installed
 
-.PHONY: demo test bench clean
+.PHONY: demo serve screenshots test bench clean
+
+# Dashboard server options: make demo PORT=8866; make serve HOST=0.0.0.0 PORT=8866 POOL=2 VOILA_TOKEN=...
+PORT   ?= 8866
+HOST   ?= 127.0.0.1
+POOL   ?= 2
+SNAPSHOT_DIR ?=
+export VOILA_TOKEN
 
 $(STAMP): pyproject.toml
 	$(PYTHON) -m venv $(VENV)
 	$(PY) -m pip install --quiet --upgrade pip
-	$(PY) -m pip install --quiet -e '.[test]'
+	$(PY) -m pip install --quiet -e '.[test,dashboard]'
 	touch $(STAMP)
 
 demo: $(STAMP)
 	$(PY) -m convlib demo
+	$(PY) -m dashboard.serve --local --port $(PORT) $(if $(SNAPSHOT_DIR),--snapshot-dir $(SNAPSHOT_DIR))
+
+serve: $(STAMP)
+	$(PY) -m dashboard.serve --host $(HOST) --port $(PORT) --pool-size $(POOL) $(if $(SNAPSHOT_DIR),--snapshot-dir $(SNAPSHOT_DIR))
+
+screenshots: $(STAMP)
+	$(PY) -m dashboard.screenshots --out screenshots
 
 test: $(STAMP)
 	$(PY) -m pytest -q
 
 bench: $(STAMP)
 	$(PY) benchmarks/run.py
+	$(PY) benchmarks/dashboard_latency.py
 
 clean:
 	rm -rf $(VENV) build *.egg-info .pytest_cache

@@ -493,6 +493,20 @@ def _cmd_lines(args) -> int:
     return 1 if result.errors else 0
 
 
+def _cmd_report(args) -> int:
+    try:  # the report shares the dashboard's figures (plotly): the one place the CLI reaches that layer
+        from dashboard.report import write_report
+    except ImportError as exc:
+        raise ValueError(f"the HTML report needs the dashboard extra (pip install 'convlib[dashboard]'): {exc}") \
+            from None
+    out = args.output or str(args.snapshot).removesuffix(".json") + ".html"
+    if os.path.exists(out) and not args.overwrite:
+        raise FileExistsError(f"{out} already exists")
+    path = write_report(args.snapshot, out, units=args.units)
+    print(f"report written: {path}")
+    return 0
+
+
 def _bound(value) -> str:
     return "inf" if value is None else f"{value:g}"
 
@@ -603,6 +617,13 @@ def build_parser() -> argparse.ArgumentParser:
     cmp_.add_argument("second")
     cmp_.add_argument("--json", action="store_true")
     cmp_.set_defaults(func=_cmd_compare)
+
+    rep = sub.add_parser("report", help="a snapshot as a self-contained HTML page (opens offline)")
+    rep.add_argument("snapshot", help="snapshot file (JSON)")
+    rep.add_argument("-o", "--output", help="HTML file (default: the snapshot's name with .html)")
+    rep.add_argument("--units", choices=("SI", "US"), default="SI", help="units of the report (default SI)")
+    rep.add_argument("--overwrite", action="store_true", help="replace an existing HTML file")
+    rep.set_defaults(func=_cmd_report)
 
     lines = sub.add_parser("lines", help="compute a CSV line list (every line at once); write results as CSV "
                            "(exit 1 if rows failed)")

@@ -351,6 +351,8 @@ class Quantities(_Model):
     """Per-point quantities of one evaluation (lists over the points)."""
 
     q_per_length: list[float]
+    q_total: list[float]
+    prandtl: list[float]
     surface_temperature: list[float]
     h_convection: list[float]
     h_radiation: list[float]
@@ -367,7 +369,7 @@ class Quantities(_Model):
 
 def _quantities(r) -> Quantities:
     flat = {name: np.asarray(getattr(r, name), dtype=float).ravel() for name in
-            (*QUANTITIES, "rayleigh", "reynolds")}
+            (*QUANTITIES, "q_total", "prandtl", "rayleigh", "reynolds")}
     ri = np.asarray(r.richardson, dtype=float).ravel()
     return Quantities(**{k: v.tolist() for k, v in flat.items()},
                       richardson=[None if not math.isfinite(x) else x for x in ri.tolist()],
@@ -606,14 +608,16 @@ def _monte_carlo(spec: StudySpec, progress: Callable[[float, str], None] | None)
                                                  0.1, 5.0)
     keys = spec.compared_methods("natural") if u.model_form == "choose_correlation" else [None]
     choice = rng.integers(0, len(keys), n)
-    q, ts = np.empty(n), np.empty(n)
+    q, ts, done = np.empty(n), np.empty(n), 0
     for j, key in enumerate(keys):
-        sel = choice == j
-        if sel.any():
-            r = evaluate_case(case, natural=key, **{k: v[sel] for k, v in overrides.items()})
-            q[sel], ts[sel] = r.q_per_length, r.surface_temperature
-        if progress:
-            progress((j + 1) / len(keys), f"{int(sel.sum())} samples" + (f" with {key}" if key else ""))
+        index = np.flatnonzero(choice == j)
+        for start in range(0, index.size, 20_000):  # chunks: progress while sampling, same numbers
+            part = index[start:start + 20_000]
+            r = evaluate_case(case, natural=key, **{k: v[part] for k, v in overrides.items()})
+            q[part], ts[part] = r.q_per_length, r.surface_temperature
+            done += part.size
+            if progress:
+                progress(done / n, f"{done} of {n} samples" + (f" with {key}" if key else ""))
     edges = np.histogram_bin_edges(q, bins=40)
     counts, _ = np.histogram(q, bins=edges)
     checkpoints = np.unique(np.geomspace(10, n, 30).astype(int))

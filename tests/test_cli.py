@@ -119,3 +119,13 @@ def test_verify_reports_a_tampered_snapshot_clearly(tmp_path):
     snap.write_text(text.replace('"wind_speed": 2.0', '"wind_speed": 2.5', 1))
     proc = run("verify", str(snap))
     assert proc.returncode == 2 and "hash" in proc.stderr and "Traceback" not in proc.stderr
+
+
+def test_report_renders_a_self_contained_html_page(tmp_path):
+    snap, page = tmp_path / "a.json", tmp_path / "a.html"
+    assert run("run", str(_small_study(tmp_path, 2.0)), "--save", str(snap)).returncode == 0
+    proc = run("report", str(snap), "-o", str(page))
+    assert proc.returncode == 0, proc.stderr
+    html = page.read_text()
+    assert "cli check" in html and "<script src=\"http" not in html  # plotly inlined: opens offline
+    assert run("report", str(snap), "-o", str(page)).returncode == 2  # no silent overwrite

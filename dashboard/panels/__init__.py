@@ -1,0 +1,12 @@
+"""The dashboard's panels: one ipywidgets container class per file, typed traitlets as the interface."""
+from .base import Panel
+from .insulation import InsulationPanel
+from .line import LinePanel
+from .regimes import RegimePanel
+from .snapshots import SnapshotPanel
+from .spread import SpreadPanel
+from .sweep import SweepPanel
+from .uncertainty import UncertaintyPanel
+
+__all__ = ["Panel", "LinePanel", "SweepPanel", "RegimePanel", "SpreadPanel", "UncertaintyPanel", "InsulationPanel",
+           "SnapshotPanel"]

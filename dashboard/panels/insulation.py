@@ -1,0 +1,118 @@
+"""Insulation thickness: surface temperature and heat flow against thickness, with the sizings of convlib.design."""
+from __future__ import annotations
+
+import html
+
+import ipywidgets as widgets
+import traitlets
+from convlib import design
+
+from ..compute import InsulationView
+from ..figures import insulation_figure
+from .base import Panel, message_html
+from .controls import DESCRIPTION_STYLE, QuantityControl
+
+__all__ = ["InsulationPanel"]
+
+_TOUCH = (("metal jacket", design.TOUCH_LIMIT_METAL_JACKET), ("non-metal finish", design.TOUCH_LIMIT_NONMETAL_JACKET))
+
+
+class InsulationPanel(Panel):
+    """Insulation sizing.
+
+    Traits
+    ------
+    view : InsulationView or None
+        Curves and sizings (set by the app).
+    applicable : bool
+        False for a bare surface (the panel says so).
+    touch_limit : float
+        Highest jacket temperature [K].
+    heat_loss_limit : float
+        Highest heat flow [W/m].
+    still_air : bool
+        Size in still air (worst case) instead of the case's wind.
+    """
+
+    view = traitlets.Instance(InsulationView, allow_none=True)
+    applicable = traitlets.Bool(True)
+    touch_limit = traitlets.Float(design.TOUCH_LIMIT_METAL_JACKET)
+    heat_loss_limit = traitlets.Float(60.0)
+    still_air = traitlets.Bool(True)
+
+    def __init__(self, heat_loss_limit: float = 60.0, **kwargs):
+        super().__init__(**kwargs)
+        self._default_limit = heat_loss_limit
+        self.touch_box = widgets.Dropdown(description="Touch limit", style=DESCRIPTION_STYLE,
+                                          layout=widgets.Layout(width="380px"))
+        self.limit_control = QuantityControl("heat_loss_limit", heat_loss_limit, self.units, self._limit_changed)
+        self.limit_control.box.layout.width = "330px"
+        self.conditions = widgets.ToggleButtons(options=[("still air (worst case)", True), ("the case's wind", False)],
+                                                description="Size in", style={**DESCRIPTION_STYLE,
+                                                                              "button_width": "150px"})
+        traitlets.link((self.conditions, "value"), (self, "still_air"))
+        self.touch_box.observe(self._touch_changed, "value")
+        self.summary = widgets.HTML()
+        self.summary.add_class("cl-table")
+        self._fill_touch()
+        self.children = [widgets.HBox([self.touch_box, self.limit_control.box],
+                                      layout=widgets.Layout(flex_flow="row wrap")),
+                         self.conditions, self.message, self.plot_box, self.summary]
+
+    def interactive(self):
+        return [self.touch_box, self.limit_control, self.conditions]
+
+    def reset(self):
+        super().reset()
+        self.touch_limit = design.TOUCH_LIMIT_METAL_JACKET
+        self.heat_loss_limit = self._default_limit
+        self.still_air = True
+        self.limit_control.set_si(self._default_limit)
+        self._fill_touch()
+
+    def _limit_changed(self, name, value):
+        self.heat_loss_limit = value
+
+    def _touch_changed(self, change):
+        if change["new"] is not None:
+            self.touch_limit = change["new"]
+
+    def _fill_touch(self):
+        d = self.display
+        keep = self.touch_limit
+        self.touch_box.options = [(f"{label}, {d.text(value, 'surface_temperature')}", value)
+                                  for label, value in _TOUCH]
+        self.touch_box.value = min((v for _, v in _TOUCH), key=lambda v: abs(v - keep))
+
+    @traitlets.observe("units")
+    def _units_changed(self, change):
+        if hasattr(self, "limit_control"):
+            self.limit_control.set_system(change["new"])
+            self._fill_touch()
+
+    @traitlets.observe("view", "units", "applicable")
+    def _render(self, change=None):
+        if not self.applicable:
+            self.set_message("Insulation sizing applies to an insulated line: choose “insulated line” as the kind.")
+            return
+        v = self.view
+        if v is None:
+            return
+        d = self.display
+        self.show_figure(insulation_figure(v, d))
+        rows, notes = [], []
+        for s in v.sizings:
+            quantity = "q_per_length" if s.name == "heat loss" else "surface_temperature"
+            need = "not achievable" if s.required is None else d.text(s.required, "insulation_thickness")
+            listed = "–" if s.commercial is None else d.text(s.commercial, "insulation_thickness")
+            rows.append(f"<tr><td>{html.escape(s.name)}</td><td>{html.escape(d.text(s.limit, quantity))}</td>"
+                        f"<td>{html.escape(need)}</td><td>{html.escape(listed)}</td></tr>")
+            notes += [*s.messages]
+        critical = ("none" if v.critical <= 0 else d.text(v.critical, "insulation_thickness"))
+        cautions = [c for s in v.sizings for c in s.cautions]
+        self.summary.value = (
+            "<table><tr><th>Limit</th><th>Value</th><th>Thickness that meets it</th><th>Next listed thickness</th>"
+            "</tr>" + "".join(rows) + f"</table><p>Critical thickness: {html.escape(critical)}. "
+            f"Current thickness: {html.escape(d.text(v.current_thickness, 'insulation_thickness'))}.</p>"
+            + message_html(notes, "warning") + message_html(cautions, "caution"))
+        self.set_message()

@@ -1,0 +1,352 @@
+"""The line under study: every input of the base case, and the result cards."""
+from __future__ import annotations
+
+import html
+from fractions import Fraction
+
+import ipywidgets as widgets
+import traitlets
+from convlib import correlations as corr
+from convlib.geometry import SHAPES
+from convlib.pipe_sizes import SCHEDULES, nominal_pipe, nominal_sizes
+from convlib.study import CaseSpec
+from pydantic import ValidationError
+
+from .. import settings
+from ..compute import CaseSummary
+from .base import Panel, message_html
+from .controls import DESCRIPTION_STYLE, QuantityControl
+
+__all__ = ["LinePanel", "nps_label", "validation_text"]
+
+_NUMERIC = ("diameter", "length", "height", "width", "surface_temperature", "fluid_temperature",
+            "insulation_thickness", "insulation_conductivity", "air_temperature", "surroundings_temperature",
+            "wind_speed", "emissivity", "sky_view_fraction", "relative_humidity")
+_WIDE = widgets.Layout(width="100%")
+#: Dropdown value meaning "the shape's default law" (CaseSpec ``None``).
+DEFAULT_LAW = "(default)"
+
+
+def nps_label(nps: float) -> str:
+    """``1.5`` -> ``"NPS 1 1/2"``.
+
+    >>> nps_label(0.75), nps_label(6.0), nps_label(2.5)
+    ('NPS 3/4', 'NPS 6', 'NPS 2 1/2')
+    """
+    whole, part = int(nps), Fraction(nps - int(nps)).limit_denominator(16)
+    text = " ".join(p for p in (str(whole) if whole else "", str(part) if part else "") if p)
+    return f"NPS {text or '0'}"
+
+
+def validation_text(exc: Exception) -> str:
+    """Readable text of a CaseSpec validation error (field and message, no traceback)."""
+    if isinstance(exc, ValidationError):
+        parts = []
+        for err in exc.errors():
+            where = ".".join(str(p) for p in err.get("loc", ()) if p != "__root__")
+            msg = str(err.get("msg", "")).removeprefix("Value error, ")
+            parts.append(f"{where}: {msg}" if where else msg)
+        return "; ".join(parts)
+    return str(exc)
+
+
+def _default_value(case: CaseSpec, name: str) -> float:
+    value = getattr(case, name, None)
+    if value is not None:
+        return float(value)
+    fallback = {"surface_temperature": 353.15, "fluid_temperature": 433.15, "height": 1.0, "width": 1.0,
+                "surroundings_temperature": case.air_temperature, "length": 1.0}
+    return fallback[name]
+
+
+class LinePanel(Panel):
+    """Inputs of the base case and the result cards.
+
+    Traits
+    ------
+    case : CaseSpec
+        The validated case the controls describe (set by the panel; the app observes it).
+    summary : CaseSummary or None
+        Numbers for the result cards (set by the app).
+    error : str
+        Why the controls do not make a valid case ("" when they do).
+    """
+
+    case = traitlets.Instance(CaseSpec)
+    summary = traitlets.Instance(CaseSummary, allow_none=True)
+    error = traitlets.Unicode("")
+
+    def __init__(self, case: CaseSpec, **kwargs):
+        self._initial = case
+        self._base = case
+        self._quiet = False
+        system = kwargs.pop("units", settings.DEFAULT_UNIT_SYSTEM)
+        super().__init__(**kwargs)
+        self.units = system
+        c = {n: QuantityControl(n, _default_value(case, n), system, self._numeric_changed) for n in _NUMERIC}
+        self.controls = c
+        self.kind = widgets.RadioButtons(options=[("bare surface at a known temperature", "bare"),
+                                                  ("insulated line with a known fluid temperature", "insulated")],
+                                         description="Kind", style=DESCRIPTION_STYLE, layout=_WIDE)
+        self.shape = widgets.Dropdown(options=[(s.replace("_", " "), s) for s in SHAPES], description="Shape",
+                                      style=DESCRIPTION_STYLE, layout=_WIDE)
+        self.size_mode = widgets.ToggleButtons(options=[("by value", "value"), ("NPS + schedule", "nps")],
+                                               style={"button_width": "140px"})
+        self.schedule = widgets.Dropdown(options=list(SCHEDULES), value=settings.DEFAULT_SCHEDULE,
+                                         description="Schedule", style=DESCRIPTION_STYLE, layout=_WIDE)
+        self.nps = widgets.Dropdown(description="Pipe size", style=DESCRIPTION_STYLE, layout=_WIDE)
+        self.same_surroundings = widgets.Checkbox(description="surroundings at the air temperature",
+                                                  indent=False, layout=_WIDE)
+        self.sky = widgets.ToggleButtons(options=[("indoors", "indoors"), ("outdoors", "outdoors")],
+                                         style={"button_width": "140px"})
+        self.natural = widgets.Dropdown(description="Natural law", style=DESCRIPTION_STYLE, layout=_WIDE)
+        self.forced = widgets.Dropdown(description="Forced law", style=DESCRIPTION_STYLE, layout=_WIDE)
+        for w in (self.kind, self.shape, self.size_mode, self.schedule, self.nps, self.same_surroundings, self.sky,
+                  self.natural, self.forced):
+            w.observe(self._choice_changed, "value")
+        self.kind.add_class("cl-control-kind")
+        head = lambda text: widgets.HTML(f'<div class="cl-section">{text}</div>')  # noqa: E731
+        self.inputs = widgets.VBox([
+            head("Line"), self.kind, self.shape, self.size_mode, self.nps, self.schedule, c["diameter"].box,
+            c["length"].box, c["height"].box, c["width"].box, c["surface_temperature"].box,
+            c["fluid_temperature"].box, c["insulation_thickness"].box, c["insulation_conductivity"].box,
+            head("Surroundings"), c["air_temperature"].box, self.same_surroundings,
+            c["surroundings_temperature"].box, c["wind_speed"].box, c["emissivity"].box, self.sky,
+            c["sky_view_fraction"].box, c["relative_humidity"].box,
+            head("Correlations"), self.natural, self.forced,
+        ], layout=widgets.Layout(width="100%"))
+        self.inputs.add_class("cl-inputs")
+        self.cards = {key: widgets.HTML() for key in
+                      ("q_per_length", "q_total", "surface_temperature", "h_convection", "h_radiation", "regime")}
+        for key, card in self.cards.items():
+            card.add_class("cl-card")
+            card.add_class(f"cl-card-{key.replace('_', '-')}")
+        self.card_row = widgets.HBox(list(self.cards.values()), layout=widgets.Layout(flex_flow="row wrap",
+                                                                                       width="100%"))
+        self.notes = widgets.HTML()
+        self.notes.add_class("cl-notes")
+        self.results = widgets.VBox([self.card_row, self.notes, self.message], layout=widgets.Layout(width="100%"))
+        self.children = [self.inputs, self.results]
+        self.set_case(case)
+
+    # ------------------------------------------------------------------ interface
+    def interactive(self):
+        return [self.kind, self.shape, self.size_mode, self.schedule, self.nps, self.same_surroundings, self.sky,
+                self.natural, self.forced, *self.controls.values()]
+
+    def reset(self) -> None:
+        """Back to the case the panel was built with."""
+        super().reset()
+        self.set_case(self._initial)
+
+    def set_case(self, case: CaseSpec) -> None:
+        """Show ``case`` in every control, then publish it once as :attr:`case`."""
+        self._quiet = True
+        try:
+            self._base = case
+            for name, control in self.controls.items():
+                control.set_si(_default_value(case, name))
+            self.kind.value = case.kind
+            self.shape.value = case.shape
+            self.same_surroundings.value = case.surroundings_temperature is None
+            self.sky.value = "outdoors" if case.sky_view_fraction > 0 else "indoors"
+            self._fill_laws(case.natural, case.forced)
+            matched = self._match_nps(case.diameter)
+            self.size_mode.value = "nps" if matched and self._pipe_shape() else "value"
+            self._arrange()
+        finally:
+            self._quiet = False
+        self._publish()
+
+    def _set_trait_quietly(self, widget, value):
+        self._quiet = True
+        try:
+            widget.value = value
+        finally:
+            self._quiet = False
+
+    # ------------------------------------------------------------------ events
+    @traitlets.observe("units")
+    def _units_changed(self, change):
+        if not hasattr(self, "controls"):
+            return
+        for control in self.controls.values():
+            control.set_system(change["new"])
+        self._refresh_nps_labels()
+        self._render_cards()
+
+    @traitlets.observe("summary")
+    def _summary_changed(self, change):
+        self._render_cards()
+
+    def _numeric_changed(self, name, value):
+        if self._quiet:
+            return
+        if name == "diameter" and self.size_mode.value == "nps":
+            return
+        self._publish()
+
+    def _choice_changed(self, change):
+        if self._quiet:
+            return
+        self._quiet = True
+        try:
+            owner = change["owner"]
+            if owner is self.kind and self.kind.value == "insulated":
+                self.shape.value = "horizontal_cylinder"
+            if owner in (self.kind, self.shape):
+                self._fill_laws(None, None)
+            if owner is self.schedule:
+                self._fill_nps(self.nps.value)
+            if owner is self.sky and self.sky.value == "outdoors" and self.controls["sky_view_fraction"].si == 0:
+                self.controls["sky_view_fraction"].set_si(SHAPES[self._shape()].sky_view_fraction)
+            if self.size_mode.value == "nps" and owner in (self.nps, self.schedule, self.size_mode):
+                self._apply_nps()
+            self._arrange()
+        finally:
+            self._quiet = False
+        self._publish()
+
+    # ------------------------------------------------------------------ helpers
+    def _shape(self) -> str:
+        return "horizontal_cylinder" if self.kind.value == "insulated" else self.shape.value
+
+    def _pipe_shape(self) -> bool:
+        return self._shape() in ("horizontal_cylinder", "vertical_cylinder")
+
+    def _fill_laws(self, natural, forced) -> None:
+        info = SHAPES[self._shape()]
+        for widget, geometry, default, value in ((self.natural, info.natural_geometry, info.default_natural, natural),
+                                                 (self.forced, info.forced_geometry, info.default_forced, forced)):
+            keys = corr.methods(geometry)
+            widget.options = [(f"{default} (default)", DEFAULT_LAW)] + [(k, k) for k in keys if k != default]
+            widget.value = value if value in keys and value != default else DEFAULT_LAW
+
+    def _fill_nps(self, keep: float | None) -> None:
+        sizes = nominal_sizes(self.schedule.value)
+        display = self.display
+        options = [(f"{nps_label(n)} · {display.text(nominal_pipe(n, self.schedule.value).outer_diameter, 'diameter')}",
+                    n) for n in sizes]
+        self.nps.options = options
+        if keep is not None and sizes:
+            self.nps.value = min(sizes, key=lambda n: abs(n - keep))
+
+    def _refresh_nps_labels(self) -> None:
+        quiet, self._quiet = self._quiet, True
+        try:
+            self._fill_nps(self.nps.value)
+        finally:
+            self._quiet = quiet
+
+    def _match_nps(self, diameter: float) -> bool:
+        self._fill_nps(None)
+        for n in nominal_sizes(self.schedule.value):
+            if abs(nominal_pipe(n, self.schedule.value).outer_diameter - diameter) < 1e-6:
+                self.nps.value = n
+                return True
+        return False
+
+    def _apply_nps(self) -> None:
+        if self.nps.value is None:
+            return
+        self.controls["diameter"].set_si(nominal_pipe(self.nps.value, self.schedule.value).outer_diameter)
+
+    def _arrange(self) -> None:
+        """Show only the controls that apply to the kind and shape."""
+        kind, shape = self.kind.value, self._shape()
+        sizes = SHAPES[shape].sizes
+        c = self.controls
+        self.shape.disabled = kind == "insulated"
+        pipe = self._pipe_shape()
+        nps = pipe and self.size_mode.value == "nps"
+        for w, visible in ((self.size_mode, pipe), (self.nps, nps), (self.schedule, nps)):
+            w.layout.display = None if visible else "none"
+        c["diameter"].show("diameter" in sizes)
+        c["diameter"].disabled = nps
+        c["diameter"].label = "Pipe outer Ø" if kind == "insulated" else "Outer Ø"
+        c["length"].label = "Height" if shape == "vertical_cylinder" else (
+            "Length" if shape.startswith("horizontal_plate") else "Run length")
+        for name in ("diameter", "length"):
+            c[name].set_system(c[name].system)
+        c["length"].show("length" in sizes)
+        c["height"].show("height" in sizes)
+        c["width"].show("width" in sizes)
+        c["surface_temperature"].show(kind == "bare")
+        for name in ("fluid_temperature", "insulation_thickness", "insulation_conductivity"):
+            c[name].show(kind == "insulated")
+        c["surroundings_temperature"].show(not self.same_surroundings.value)
+        c["sky_view_fraction"].show(self.sky.value == "outdoors")
+        self.forced.disabled = False
+
+    def _values(self) -> dict:
+        c = {n: ctl.si for n, ctl in self.controls.items()}
+        kind, shape = self.kind.value, self._shape()
+        sizes = SHAPES[shape].sizes
+        values = self._base.model_dump()
+        values.update(
+            kind=kind, shape=shape, diameter=c["diameter"],
+            length=c["length"] if "length" in sizes else self._base.length,
+            height=c["height"] if "height" in sizes else None, width=c["width"] if "width" in sizes else None,
+            surface_temperature=c["surface_temperature"] if kind == "bare" else None,
+            fluid_temperature=c["fluid_temperature"] if kind == "insulated" else None,
+            insulation_thickness=c["insulation_thickness"], insulation_conductivity=c["insulation_conductivity"],
+            air_temperature=c["air_temperature"],
+            surroundings_temperature=None if self.same_surroundings.value else c["surroundings_temperature"],
+            wind_speed=c["wind_speed"], emissivity=c["emissivity"],
+            sky_view_fraction=c["sky_view_fraction"] if self.sky.value == "outdoors" else 0.0,
+            relative_humidity=c["relative_humidity"],
+            natural=None if self.natural.value == DEFAULT_LAW else self.natural.value,
+            forced=None if self.forced.value == DEFAULT_LAW else self.forced.value)
+        return values
+
+    def _publish(self) -> None:
+        try:
+            case = CaseSpec.model_validate(self._values())
+        except (ValidationError, ValueError) as exc:
+            self.error = validation_text(exc)
+            self.set_message([f"Input not accepted: {self.error}"], "error")
+            return
+        self.error = ""
+        self.set_message()
+        self.case = case
+
+    # ------------------------------------------------------------------ cards
+    def _card(self, key: str, title: str, value: str, unit: str = "", sub: str = "") -> None:
+        self.cards[key].value = (
+            f'<div class="cl-card-title">{html.escape(title)}</div>'
+            f'<div class="cl-card-body"><span class="cl-value">{html.escape(value)}</span> '
+            f'<span class="cl-unit">{html.escape(unit)}</span></div>'
+            f'<div class="cl-card-sub">{html.escape(sub)}</div>')
+
+    def card_text(self, key: str) -> str:
+        """Plain text of a card's value and unit, e.g. ``"62.6 W/m"`` (what the browser shows)."""
+        import re
+
+        body = re.search(r'class="cl-value">([^<]*)</span> <span class="cl-unit">([^<]*)<', self.cards[key].value)
+        if body is None:
+            return ""
+        return html.unescape(f"{body.group(1)} {body.group(2)}".strip())
+
+    def _render_cards(self) -> None:
+        s = self.summary
+        if s is None:
+            return
+        d = self.display
+        q = s.q_per_length
+        self._card("q_per_length", "Heat loss" if q >= 0 else "Heat gain", d.number(abs(q), "q_per_length"),
+                   d.label("q_per_length"),
+                   f"conv. {d.number(s.q_convection_per_length, 'q_per_length')} · rad. "
+                   f"{d.number(s.q_radiation_per_length, 'q_per_length')}")
+        length = self.case.length if self.case is not None else None
+        self._card("q_total", "Total " + ("loss" if s.q_total >= 0 else "gain"), d.number(abs(s.q_total), "q_total"),
+                   d.label("q_total"), "" if length is None else f"over {d.text(length, 'length')}")
+        self._card("surface_temperature", "Surface", d.number(s.surface_temperature, "surface_temperature"),
+                   d.label("surface_temperature"), f"dew point {d.text(s.dew_point, 'dew_point')}")
+        self._card("h_convection", "h convection", d.number(s.h_convection, "h_convection"), d.label("h_convection"),
+                   f"Nu {s.nusselt:.3g}")
+        self._card("h_radiation", "h radiation", d.number(s.h_radiation, "h_radiation"), d.label("h_radiation"),
+                   "surroundings + sky")
+        ri = "still air" if s.richardson is None else f"Ri {s.richardson:.3g}"
+        self._card("regime", "Regime", f"{s.regime} · {s.flow}", "", f"{ri} · Ra {s.rayleigh:.3g}")
+        notes = message_html(s.cautions, "caution") + message_html(s.warnings, "warning")
+        self.notes.value = notes

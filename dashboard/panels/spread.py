@@ -1,0 +1,64 @@
+"""How far the published correlations disagree: spread along the sweep and h at the case."""
+from __future__ import annotations
+
+import ipywidgets as widgets
+import traitlets
+from convlib.study import StudyResult
+
+from ..figures import spread_figure
+from .base import Panel
+from .controls import DESCRIPTION_STYLE
+
+__all__ = ["SpreadPanel"]
+
+
+class SpreadPanel(Panel):
+    """Correlation disagreement.
+
+    Traits
+    ------
+    sweep_input : str
+        Input of the sweep the spread is taken along (linked with the sweep panel).
+    result : StudyResult or None
+        Base-case comparison and one sweep (set by the app).
+    x_axis : str
+        ``"rayleigh"`` or ``"input"``.
+    chosen : tuple
+        Selected natural and forced law keys.
+    """
+
+    sweep_input = traitlets.Unicode("", allow_none=True)
+    result = traitlets.Instance(StudyResult, allow_none=True)
+    x_axis = traitlets.Unicode("rayleigh")
+    chosen = traitlets.Tuple((None, None))
+
+    def __init__(self, **kwargs):
+        super().__init__(**kwargs)
+        self.selector = widgets.Dropdown(description="Along the sweep of", style=DESCRIPTION_STYLE,
+                                         layout=widgets.Layout(width="420px"))
+        self.x_toggle = widgets.ToggleButtons(options=[("against Ra", "rayleigh"), ("against the input", "input")],
+                                              style={"button_width": "130px"})
+        traitlets.link((self.x_toggle, "value"), (self, "x_axis"))
+        traitlets.link((self.selector, "value"), (self, "sweep_input"))
+        self.children = [widgets.HBox([self.selector, self.x_toggle]), self.message, self.plot_box]
+
+    def interactive(self):
+        return [self.selector, self.x_toggle]
+
+    def reset(self):
+        super().reset()
+        self.x_axis = "rayleigh"
+
+    def set_options(self, options) -> None:
+        """Offer the same sweeps as the sweep panel: list of (label, input)."""
+        with self.hold_trait_notifications():
+            self.selector.options = options
+            names = [v for _, v in options]
+            if self.sweep_input in names:
+                self.selector.value = self.sweep_input
+
+    @traitlets.observe("result", "units", "x_axis")
+    def _render(self, change=None):
+        if self.result is None or not self.result.sweeps:
+            return
+        self.show_figure(spread_figure(self.result, self.display, self.x_axis, chosen=self.chosen))

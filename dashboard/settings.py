@@ -1,0 +1,202 @@
+"""Settings of the dashboard: control limits, units shown, panel order, timings, colours.
+
+Everything a deployment may want to change lives here, not in the notebook.
+Limits are in SI (kelvin, metres, W/m); the controls convert them to the unit
+system on screen with :mod:`convlib.units`.
+"""
+from __future__ import annotations
+
+import os
+from dataclasses import dataclass
+from pathlib import Path
+
+__all__ = [
+    "ControlSetting", "CONTROLS", "QUANTITIES", "PANELS", "UNIT_SYSTEMS", "DEFAULT_UNIT_SYSTEM",
+    "EXTRA_SWEEPS", "DEFAULT_SCHEDULE", "RECOMPUTE_DELAY", "EXPENSIVE_DELAY", "MAP_POINTS", "RA_GRID", "RE_GRID",
+    "MONTE_CARLO_SAMPLES", "HEAT_LOSS_LIMIT", "SIZING_MAX_THICKNESS", "snapshot_dir", "PALETTE", "MODE_COLOURS",
+    "PRETTY_UNITS", "FIGURE_HEIGHT", "FIGURE_WIDTH", "SIDEBAR_WIDTH", "MAP_LOWEST_WIND", "ServeDefaults", "SERVE",
+    "BUNDLE_ENV",
+]
+
+#: Unit systems offered by the units switch (keys of :data:`convlib.units.DISPLAY_UNITS`).
+UNIT_SYSTEMS = (("SI", "SI"), ("US customary", "US"))
+DEFAULT_UNIT_SYSTEM = "SI"
+
+
+@dataclass(frozen=True)
+class ControlSetting:
+    """One numeric control.
+
+    Attributes
+    ----------
+    label : str
+        Text before the control (the unit is appended).
+    kind : str
+        Quantity kind of :data:`convlib.units.KIND_SI_UNIT` (``"temperature"``, ``"length"``...).
+    low, high : float
+        Limits in SI units [K, m, m/s, ...].
+    step : dict
+        Step per unit system, in the displayed unit.
+    units : dict, optional
+        Displayed unit per unit system when it differs from :func:`convlib.units.display_unit`.
+    widget : str
+        ``"slider"`` or ``"text"`` (a bounded number box).
+    """
+
+    label: str
+    kind: str
+    low: float
+    high: float
+    step: dict
+    units: dict | None = None
+    widget: str = "slider"
+
+
+_METRES = {"SI": "m", "US": "foot"}
+_PERCENT = {"SI": "percent", "US": "percent"}
+
+#: Numeric controls of the line panel and the insulation panel, keyed by CaseSpec field (SI limits).
+CONTROLS: dict[str, ControlSetting] = {
+    "diameter": ControlSetting("Outer Ø", "length", 0.006, 1.5, {"SI": 1.0, "US": 0.05}),
+    "length": ControlSetting("Run length", "length", 0.1, 5000.0, {"SI": 1.0, "US": 5.0}, _METRES, "text"),
+    "height": ControlSetting("Height", "length", 0.05, 10.0, {"SI": 0.05, "US": 0.1}, _METRES),
+    "width": ControlSetting("Width", "length", 0.05, 10.0, {"SI": 0.05, "US": 0.1}, _METRES),
+    "surface_temperature": ControlSetting("Surface temperature", "temperature", 213.15, 873.15,
+                                          {"SI": 1.0, "US": 2.0}),
+    "fluid_temperature": ControlSetting("Fluid temperature", "temperature", 213.15, 873.15, {"SI": 1.0, "US": 2.0}),
+    "insulation_thickness": ControlSetting("Insulation", "length", 0.0, 0.3, {"SI": 1.0, "US": 0.05}),
+    "insulation_conductivity": ControlSetting("Insulation k", "conductivity", 0.01, 0.2,
+                                              {"SI": 0.001, "US": 0.005}),
+    "air_temperature": ControlSetting("Air temperature", "temperature", 233.15, 323.15, {"SI": 0.5, "US": 0.5}),
+    "surroundings_temperature": ControlSetting("Surroundings", "temperature", 233.15, 423.15,
+                                               {"SI": 0.5, "US": 0.5}),
+    "wind_speed": ControlSetting("Wind speed", "speed", 0.0, 20.0, {"SI": 0.1, "US": 0.1}),
+    "emissivity": ControlSetting("Emissivity", "dimensionless", 0.02, 1.0, {"SI": 0.01, "US": 0.01}),
+    "sky_view_fraction": ControlSetting("Sky view", "dimensionless", 0.0, 1.0, {"SI": 0.05, "US": 0.05}),
+    "relative_humidity": ControlSetting("Humidity", "dimensionless", 0.05, 1.0, {"SI": 1.0, "US": 1.0}, _PERCENT),
+    "heat_loss_limit": ControlSetting("Heat-loss limit", "heat_per_length", 1.0, 5000.0, {"SI": 1.0, "US": 1.0},
+                                      widget="text"),
+}
+
+#: Displayed quantities: name -> (kind, units per system or None for convlib's display unit, significant digits).
+QUANTITIES: dict[str, tuple[str, dict | None, int]] = {
+    "q_per_length": ("heat_per_length", None, 3),
+    "q_convection_per_length": ("heat_per_length", None, 3),
+    "q_radiation_per_length": ("heat_per_length", None, 3),
+    "q_total": ("power", {"SI": "kW", "US": "Btu/hour"}, 3),
+    "surface_temperature": ("temperature", None, 1),
+    "fluid_temperature": ("temperature", None, 1),
+    "air_temperature": ("temperature", None, 1),
+    "surroundings_temperature": ("temperature", None, 1),
+    "dew_point": ("temperature", None, 1),
+    "temperature_difference": ("temperature_difference", None, 3),
+    "h_convection": ("coefficient", None, 3),
+    "h_radiation": ("coefficient", None, 3),
+    "diameter": ("length", None, 4),
+    "insulation_thickness": ("length", None, 3),
+    "length": ("length", _METRES, 4),
+    "height": ("length", _METRES, 3),
+    "width": ("length", _METRES, 3),
+    "wind_speed": ("speed", None, 3),
+    "emissivity": ("dimensionless", None, 3),
+    "sky_view_fraction": ("dimensionless", None, 2),
+    "relative_humidity": ("dimensionless", _PERCENT, 3),
+    "insulation_conductivity": ("conductivity", None, 3),
+    "jacket_thickness": ("length", None, 3),
+    "jacket_conductivity": ("conductivity", None, 3),
+    "solar_irradiance": ("heat_flux", None, 3),
+    "pressure": ("pressure", None, 4),
+    "convection_factor": ("dimensionless", None, 3),
+    "heat_loss_limit": ("heat_per_length", None, 3),
+}
+
+#: Pretty text of the pint unit strings used by convlib's display units.
+PRETTY_UNITS = {
+    "degC": "°C", "degF": "°F", "delta_degC": "K", "delta_degF": "°F", "K": "K", "inch": "in", "foot": "ft",
+    "W/m**2": "W/m²", "Btu/hour/foot": "Btu/(h·ft)", "Btu/hour/foot**2": "Btu/(h·ft²)", "Btu/hour": "Btu/h",
+    "W/m**2/K": "W/(m²·K)", "Btu/hour/foot**2/delta_degF": "Btu/(h·ft²·°F)", "W/m/K": "W/(m·K)",
+    "Btu*inch/hour/foot**2/delta_degF": "Btu·in/(h·ft²·°F)", "percent": "%", "": "–", "ft/s": "ft/s",
+}
+
+#: Sweeps offered in addition to the study's own (used when the study has none of that input).
+EXTRA_SWEEPS = (
+    {"input": "wind_speed", "start": 0.0, "stop": 15.0, "count": 61},
+    {"input": "diameter", "start": 0.02, "stop": 0.6, "count": 60, "scale": "log"},
+    {"input": "emissivity", "start": 0.03, "stop": 0.95, "count": 47},
+    {"input": "air_temperature", "start": 253.15, "stop": 313.15, "count": 61},
+    {"input": "surface_temperature", "start": 283.15, "stop": 673.15, "count": 79},
+    {"input": "fluid_temperature", "start": 283.15, "stop": 673.15, "count": 79},
+    {"input": "insulation_thickness", "start": 0.0, "stop": 0.2, "count": 81},
+    {"input": "insulation_conductivity", "start": 0.02, "stop": 0.1, "count": 41},
+)
+
+#: Tabs in order: (key, title). The line panel sits beside them.
+PANELS = (
+    ("sweep", "Sweep"),
+    ("regimes", "Regimes"),
+    ("spread", "Correlation spread"),
+    ("uncertainty", "Uncertainty"),
+    ("insulation", "Insulation"),
+    ("snapshots", "Snapshots"),
+)
+
+DEFAULT_SCHEDULE = "40"
+
+#: Seconds before the visible panel is recomputed after a change (0: at once, coalesced).
+RECOMPUTE_DELAY = 0.0
+#: Seconds of quiet before the expensive parts (regime map, Monte Carlo, sizing) recompute.
+EXPENSIVE_DELAY = 0.4
+
+#: Regime map: points along wind speed and temperature difference.
+MAP_POINTS = (61, 46)
+#: Lowest wind speed of the map [m/s] (its axis is logarithmic; still air is drawn there).
+MAP_LOWEST_WIND = 0.01
+#: Rayleigh and Reynolds grids of the Nu charts: (low, high, points).
+RA_GRID = (1e-4, 1e14, 181)
+RE_GRID = (1e-1, 1e7, 161)
+
+#: Monte Carlo sample counts offered, and the default (the study's own count is added to the list).
+MONTE_CARLO_SAMPLES = (2_000, 20_000, 100_000, 500_000)
+
+#: Default heat-loss limit of the insulation panel [W/m].
+HEAT_LOSS_LIMIT = 60.0
+#: Largest thickness a sizing looks at [m].
+SIZING_MAX_THICKNESS = 0.3
+
+
+#: Environment variable naming the path (under the server's base URL) where the server publishes
+#: plotly's widget bundle (``python -m dashboard.serve`` sets it). When it is set, every plot loads
+#: the 5 MB bundle from that one URL (fetched and compiled once per page, cached by the browser)
+#: instead of receiving its own copy over the kernel's websocket.
+BUNDLE_ENV = "CONVLIB_PLOTLY_BUNDLE"
+
+
+def snapshot_dir() -> Path:
+    """Directory where snapshots are saved: ``$CONVLIB_SNAPSHOT_DIR``, else ``~/convlib-snapshots``."""
+    return Path(os.environ.get("CONVLIB_SNAPSHOT_DIR") or Path.home() / "convlib-snapshots").expanduser()
+
+
+#: Colours of curves (one per correlation, in registry order), chosen for contrast on white.
+PALETTE = ("#1b5e9a", "#c2571a", "#2e8540", "#8a3ea8", "#b8860b", "#00838f", "#a0304a", "#5d6d7e")
+#: Regime colours: natural, mixed, forced.
+MODE_COLOURS = ("#f2c14e", "#8fb8de", "#4a6fa5")
+
+FIGURE_HEIGHT = 520
+#: Width of the figures [px]: fits the main column of a 1280 px wide window beside the sidebar.
+FIGURE_WIDTH = 820
+SIDEBAR_WIDTH = "390px"
+
+
+@dataclass(frozen=True)
+class ServeDefaults:
+    """Defaults of the shared server (``python -m dashboard.serve``)."""
+
+    host: str = "127.0.0.1"
+    port: int = 8866
+    pool_size: int = 2
+    max_kernels: int = 20
+    cull_idle_timeout: int = 1800
+    cull_interval: int = 300
+
+
+SERVE = ServeDefaults()

@@ -1,0 +1,36 @@
+"""The dashboard's style sheet (shown once in an HTML widget at the top of the app)."""
+
+CSS = """
+<style>
+.cl-app { font-family: system-ui, -apple-system, "Segoe UI", Roboto, sans-serif; color: #1d252c; }
+.cl-header { align-items: center; border-bottom: 2px solid #1b5e9a; padding: 4px 8px; margin-bottom: 6px; }
+.cl-title { font-size: 17px; font-weight: 600; }
+.cl-title small { font-weight: 400; color: #5f6b76; font-size: 12px; display: block; }
+.cl-status { color: #5f6b76; font-size: 12px; min-width: 110px; text-align: right; }
+.cl-sidebar { border-right: 1px solid #d6dde3; padding-right: 6px; }
+.cl-section { font-weight: 600; font-size: 13px; color: #1b5e9a; margin: 8px 0 2px 0;
+              border-bottom: 1px solid #e3e8ec; }
+.cl-card { border: 1px solid #d6dde3; border-radius: 6px; padding: 3px 8px; margin: 0 5px 5px 0;
+           flex: 1 1 110px; min-width: 110px; background: #f7f9fb; }
+.cl-card-title { font-size: 11px; color: #5f6b76; text-transform: uppercase; letter-spacing: .03em; }
+.cl-card-body { line-height: 1.2; }
+.cl-value { white-space: nowrap; }
+.cl-card-regime { flex: 1.5 1 150px; }
+.cl-card-regime .cl-value { font-size: 15px; }
+.cl-value { font-size: 18px; font-weight: 600; }
+.cl-unit { font-size: 12px; color: #3c4852; }
+.cl-card-sub { font-size: 11px; color: #5f6b76; line-height: 1.25; }
+.cl-msg { border-radius: 4px; padding: 4px 8px; margin: 2px 0 4px 0; font-size: 12px; line-height: 1.35; }
+.cl-msg-info { background: #eef4fa; border-left: 4px solid #1b5e9a; }
+.cl-msg-warn { background: #fff7e0; border-left: 4px solid #b8860b; }
+.cl-msg-caution { background: #fdecea; border-left: 4px solid #c0392b; }
+.cl-msg-error { background: #fdecea; border-left: 4px solid #8b0000; font-weight: 600; }
+.cl-table table { border-collapse: collapse; font-size: 12px; margin: 4px 0; }
+.cl-table th, .cl-table td { border-bottom: 1px solid #e3e8ec; padding: 2px 10px 2px 0; text-align: left; }
+.cl-pre { font-size: 11px; background: #f7f9fb; padding: 6px; max-height: 320px; overflow: auto; }
+.cl-hint { font-size: 11px; color: #5f6b76; }
+.cl-busy { opacity: 0.85; }
+.cl-download { font-weight: 600; }
+.cl-panel { padding-top: 4px; }
+</style>
+"""
