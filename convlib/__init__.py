@@ -19,6 +19,9 @@ from .surface import SurfaceResult, bare_surface
 from .study import CaseSpec, StudyResult, StudySpec, run_study
 from . import snapshot  # noqa: E402  (after study: it builds on it)
 from .linelist import LineListResult, read_line_list, run_line_list, write_results_csv
+from . import operation, vessels  # noqa: E402
+from .operation import condensate_rate, freeze_time, line_temperature_profile, steam_line, tracing_duty
+from .vessels import rectangular_duct, vertical_tank
 
 __all__ = [
     "air", "fluid_properties", "FluidProperties", "dew_point", "nusselt", "catalog", "correlations",
@@ -26,4 +29,6 @@ __all__ = [
     "insulated_pipe", "Layer", "PipeResult", "Conductivity", "nominal_pipe",
     "StudySpec", "CaseSpec", "StudyResult", "run_study", "snapshot",
     "run_line_list", "read_line_list", "write_results_csv", "LineListResult",
+    "operation", "vessels", "line_temperature_profile", "steam_line", "condensate_rate", "tracing_duty",
+    "freeze_time", "vertical_tank", "rectangular_duct",
 ]

@@ -11,6 +11,9 @@ Commands
 ``compare``       changed inputs and results between two snapshots
 ``report``        a snapshot as a self-contained HTML page
 ``lines``         a CSV line list: every line at once, totals, results to CSV (exit 1 if rows failed)
+``trace``         heat-tracing duty to hold a line at a maintain temperature (minimum ambient, maximum wind)
+``freeze``        time for stagnant water in a line to reach 0 degC and to freeze solid
+``tank``          a vertical tank face by face (wall, roof, floor), bare or insulated
 ``correlations``  the correlation registry
 
 Values may carry units (``90degC``, ``4.5in``, ``50mm``, ``10mph``, ``80W/m``);
@@ -34,10 +37,12 @@ from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, TOUCH_LIMIT_METAL_JACK
                      thickness_against_condensation, thickness_for_heat_loss, thickness_for_surface_temperature)
 from .geometry import SHAPES
 from .lines import LineSpec
+from .operation import TRACING_MARGIN, freeze_time, tracing_duty
 from .pipe import Layer, insulated_pipe
 from .pipe_sizes import SCHEDULES, nominal_pipe
 from .surface import bare_surface
 from .units import KIND_SI_UNIT, display_unit, from_si, parse
+from .vessels import FLOORS, GROUND_CONDUCTIVITY, vertical_tank
 
 __all__ = ["main", "load_demo_site"]
 
@@ -58,6 +63,16 @@ FIELDS = {
     "h_radiation": ("h_rad", "coefficient", "{:.2f}"),
     "rayleigh": ("Ra", "dimensionless", "{:.3g}"),
     "reynolds": ("Re", "dimensionless", "{:.3g}"),
+    "maintain_temperature": ("T_maintain", "temperature", "{:.1f}"),
+    "initial_temperature": ("T_initial", "temperature", "{:.1f}"),
+    "heat_loss_per_length": ("q_loss", "heat_per_length", "{:.2f}"),
+    "duty_per_length": ("P_trace", "heat_per_length", "{:.2f}"),
+    "duty_total": ("P_trace_total", "power", "{:.0f}"),
+    "time_to_freezing_point": ("t_to_freezing", "time", "{:.2f}"),
+    "time_to_freeze_solid": ("t_freeze_solid", "time", "{:.2f}"),
+    "time_total": ("t_total", "time", "{:.2f}"),
+    "area": ("A", "area", "{:.2f}"),
+    "q_per_area": ("q/A", "heat_flux", "{:.1f}"),
 }
 
 
@@ -189,6 +204,72 @@ def _cmd_line(args) -> int:
                        layers, length=parse(args.length, "length", "length"), **_conditions(args))
     rows = [_row(args.tag, r, ("fluid_temperature", "outer_diameter"))]
     _emit(args, [("line", rows)], _cautions(rows))
+    return 0
+
+
+def _cmd_trace(args) -> int:
+    layers = [_parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
+    maintain = parse(args.maintain_temperature, "temperature", "maintain-temperature")
+    ambient = parse(args.minimum_ambient, "temperature", "minimum-ambient")
+    r = tracing_duty(_pipe_diameter(args), maintain, layers, air_temperature=ambient,
+                     wind_speed=parse(args.wind_speed, "speed", "wind-speed"), margin=args.margin,
+                     length=parse(args.length, "length", "length"), jacket_emissivity=args.jacket_emissivity,
+                     sky_view_fraction=args.sky_view_fraction)
+    row = {"tag": args.tag, "maintain_temperature": maintain, "air_temperature": ambient,
+           "surface_temperature": float(r.surface_temperature), "heat_loss_per_length": float(r.heat_loss_per_length),
+           "margin": float(r.margin), "duty_per_length": float(r.duty_per_length), "duty_total": float(r.duty_total),
+           "warnings": r.pipe.warning_messages()}
+    _emit(args, [("heat tracing", [row])], [*r.notes, *r.cautions])
+    return 0
+
+
+def _cmd_freeze(args) -> int:
+    layers = [_parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
+    d = _pipe_diameter(args)
+    if args.wall_thickness is not None:
+        wall = parse(args.wall_thickness, "length", "wall-thickness")
+    elif args.nps is not None:
+        wall = nominal_pipe(args.nps, args.schedule).wall_thickness
+    else:
+        raise ValueError("--wall-thickness is required with --pipe-diameter (with --nps it comes from the schedule)")
+    initial = parse(args.initial_temperature, "temperature", "initial-temperature")
+    ambient = parse(args.minimum_ambient, "temperature", "minimum-ambient")
+    r = freeze_time(d, wall, initial, layers, air_temperature=ambient,
+                    wind_speed=parse(args.wind_speed, "speed", "wind-speed"), jacket_emissivity=args.jacket_emissivity,
+                    sky_view_fraction=args.sky_view_fraction)
+    row = {"tag": args.tag, "initial_temperature": initial, "air_temperature": ambient}
+    if not bool(r.never_freezes):
+        row.update(time_to_freezing_point=3600.0 * float(r.hours_to_freezing_point),
+                   time_to_freeze_solid=3600.0 * float(r.hours_to_freeze_solid),
+                   time_total=3600.0 * float(r.hours_total))
+    _emit(args, [("freeze time (stagnant water)", [row])], [*r.notes, *r.cautions])
+    return 0
+
+
+def _cmd_tank(args) -> int:
+    def layers(texts):
+        return [_parse_layer(t, i + 1) for i, t in enumerate(texts or [])]
+
+    if (args.surface_temperature is None) == (args.fluid_temperature is None):
+        raise ValueError("give --surface-temperature (a bare tank) or --fluid-temperature (with layers), not both")
+    temperature = {"surface_temperature" if args.surface_temperature else "fluid_temperature":
+                   parse(args.surface_temperature or args.fluid_temperature, "temperature",
+                         "surface-temperature" if args.surface_temperature else "fluid-temperature")}
+    ground = None if args.ground_temperature is None else parse(args.ground_temperature, "temperature",
+                                                                "ground-temperature")
+    r = vertical_tank(parse(args.diameter, "length", "diameter"), parse(args.height, "length", "height"),
+                      air_temperature=parse(args.air_temperature, "temperature", "air-temperature"),
+                      wall_layers=layers(args.wall_layer), roof_layers=layers(args.roof_layer),
+                      floor=args.floor, floor_layers=layers(args.floor_layer), emissivity=args.emissivity,
+                      wind_speed=parse(args.wind_speed, "speed", "wind-speed"), outdoor=args.outdoor,
+                      ground_temperature=ground, ground_conductivity=args.ground_conductivity, **temperature)
+    rows = [{"tag": f.name, "shape": f.shape, "area": float(f.area), "surface_temperature": float(f.surface_temperature),
+             "q_per_area": float(f.q_per_area), "q_total": float(f.q_total)} for f in r.faces]
+    total = float(r.q_total)
+    extra = {"q_total": total, "notes": list(r.notes)}
+    if not args.json:
+        extra["text"] = [f"\ntotal {total:.0f} W", *r.notes]
+    _emit(args, [("tank faces", rows)], [], extra)
     return 0
 
 
@@ -545,11 +626,15 @@ def _output_options(p) -> None:
 
 
 def _pipe_options(p) -> None:
+    p.add_argument("--fluid-temperature", required=True, help="fluid temperature, e.g. 180degC")
+    p.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. 20degC")
+    _pipe_size_options(p)
+
+
+def _pipe_size_options(p) -> None:
     p.add_argument("--nps", type=float, help="nominal pipe size, e.g. 4 or 0.75")
     p.add_argument("--schedule", default="40", choices=SCHEDULES, help="pipe schedule (default 40)")
     p.add_argument("--pipe-diameter", help="pipe outer diameter instead of --nps, e.g. 114.3mm")
-    p.add_argument("--fluid-temperature", required=True, help="fluid temperature, e.g. 180degC")
-    p.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. 20degC")
     p.add_argument("--wind-speed", default="0", help="wind speed (default 0: still air)")
     p.add_argument("--jacket-emissivity", type=float, default=0.9, help="emissivity of the outer surface")
     p.add_argument("--sky-view-fraction", type=float, default=0.0, help="part of the view that is sky (0 indoors)")
@@ -637,6 +722,48 @@ def build_parser() -> argparse.ArgumentParser:
     lines.add_argument("--co2-per-kwh", type=float, help="kg CO2 per purchased kWh (default 0)")
     _output_options(lines)
     lines.set_defaults(func=_cmd_lines)
+
+    layer_help = "THICKNESS,CONDUCTIVITY[,NAME] from the pipe outwards, e.g. --layer 25mm,0.04,mineral wool"
+    trace = sub.add_parser("trace", help="heat-tracing duty to hold a line at a maintain temperature")
+    _pipe_size_options(trace)
+    trace.add_argument("--maintain-temperature", required=True, help="temperature the tracer holds, e.g. 5degC")
+    trace.add_argument("--minimum-ambient", required=True, help="design minimum air temperature, e.g. -20degC "
+                       "(give the design maximum wind as --wind-speed)")
+    trace.add_argument("--layer", action="append", help=layer_help)
+    trace.add_argument("--margin", type=float, default=TRACING_MARGIN,
+                       help=f"design margin on the loss (default {TRACING_MARGIN:g})")
+    trace.add_argument("--length", default="1", help="traced length (default 1 m)")
+    _output_options(trace)
+    trace.set_defaults(func=_cmd_trace)
+
+    freeze = sub.add_parser("freeze", help="time for stagnant water in a line to reach 0 degC and to freeze solid")
+    _pipe_size_options(freeze)
+    freeze.add_argument("--wall-thickness", help="pipe wall, e.g. 3.91mm (default from --nps and --schedule)")
+    freeze.add_argument("--initial-temperature", required=True, help="water temperature when flow stops, e.g. 10degC")
+    freeze.add_argument("--minimum-ambient", required=True, help="design minimum air temperature, e.g. -15degC")
+    freeze.add_argument("--layer", action="append", help=layer_help)
+    _output_options(freeze)
+    freeze.set_defaults(func=_cmd_freeze)
+
+    tank = sub.add_parser("tank", help="a vertical tank face by face: wall, roof, floor")
+    tank.add_argument("--diameter", required=True, help="tank diameter, e.g. 10m")
+    tank.add_argument("--height", required=True, help="wall height, e.g. 12m")
+    tank.add_argument("--surface-temperature", help="known temperature of every face (a bare tank), e.g. 60degC")
+    tank.add_argument("--fluid-temperature", help="temperature of the contents (with layers), e.g. 80degC")
+    tank.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. 10degC")
+    tank.add_argument("--wind-speed", default="0", help="wind speed (default 0: still air)")
+    tank.add_argument("--emissivity", type=float, default=0.9, help="emissivity of the outer surfaces")
+    tank.add_argument("--outdoor", action="store_true", help="faces see the sky (wall 0.5, roof 1)")
+    for face in ("wall", "roof", "floor"):
+        tank.add_argument(f"--{face}-layer", action="append", help=f"{face} layer THICKNESS,CONDUCTIVITY[,NAME]")
+    tank.add_argument("--floor", choices=FLOORS, default="ground", help="on the ground (default), open underneath, "
+                      "or left out")
+    tank.add_argument("--ground-temperature", help="undisturbed soil temperature (default the air temperature)")
+    tank.add_argument("--ground-conductivity", type=float, default=GROUND_CONDUCTIVITY,
+                      help=f"soil W/m/K (default {GROUND_CONDUCTIVITY:g})")
+    tank.add_argument("--tag", default="tank", help="label for the output")
+    _output_options(tank)
+    tank.set_defaults(func=_cmd_tank)
 
     cat = sub.add_parser("correlations", help="list the correlation registry")
     cat.add_argument("--geometry", help="only this geometry")

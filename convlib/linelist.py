@@ -23,6 +23,11 @@ column                 default   meaning [default unit]
 ``operating_hours``    8760      hours per year the line is hot or cold [h] (no unit suffix)
 ``valve`` ...          0         number of fittings: ``valve``, ``flange_pair``, ``support``,
                                  ``elbow``, ``strainer`` (:data:`convlib.design.FITTING_EQUIVALENT_LENGTH`)
+``mass_flow``          none      flow of water in the line [kg/s]: outlet temperature over the
+                                 equivalent length (:func:`convlib.operation.line_temperature_profile`)
+``maintain_temperature`` none    temperature a tracer holds [K]: tracing duty
+                                 (:func:`convlib.operation.tracing_duty`, default margin)
+``minimum_ambient``    air       design minimum air temperature for the tracing duty [K]
 =====================  ========  ======================================================================
 
 Give each line ``nps`` or ``outer_diameter``, not both. Columns with an empty header are ignored; an
@@ -81,6 +86,7 @@ from pydantic import ValidationError
 from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, DEFAULT_COOLING_COP, DEFAULT_HEATING_EFFICIENCY,
                      FITTING_EQUIVALENT_LENGTH, TOUCH_LIMIT_METAL_JACKET, WeatherBins)
 from .lines import LineSpec
+from .operation import line_temperature_profile, tracing_duty
 from .pipe import Layer, insulated_pipe
 from .pipe_sizes import nominal_pipe
 from .properties import dew_point
@@ -99,7 +105,10 @@ COLUMNS = {
     "relative_humidity": "dimensionless", "layers": "length", "location": "text",
     "sky_view_fraction": "dimensionless", "wind_speed": "speed", "jacket_emissivity": "dimensionless",
     "operating_hours": "count", **{name: "count" for name in FITTING_EQUIVALENT_LENGTH},
+    "mass_flow": "mass_flow", "maintain_temperature": "temperature", "minimum_ambient": "temperature",
 }
+#: Optional columns of lines in operation (not part of a LineSpec): outlet temperature and tracing duty.
+OPERATION_COLUMNS = ("mass_flow", "maintain_temperature", "minimum_ambient")
 REQUIRED = ("tag", "length", "fluid_temperature", "air_temperature")
 LOCATIONS = ("indoor", "outdoor")
 #: Sky view fraction of an outdoor line without a ``sky_view_fraction`` cell: the upper half
@@ -110,7 +119,7 @@ _HEADER = re.compile(r"^\s*(?P<name>[^\[\]]*?)\s*(?:\[(?P<unit>[^\[\]]*)\])?\s*$
 _LAYER = re.compile(r"^(?P<thickness>[^@]+?)\s*@\s*(?P<conductivity>\S+)\s*(?P<name>.*)$")
 _QUANTITY = re.compile(r"([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*)")
 _EXAMPLES = {"temperature": "'90 degC'", "length": "'50 mm', '4.5 in'", "speed": "'10 km/h'",
-             "conductivity": "'0.04 W/m/K'"}
+             "conductivity": "'0.04 W/m/K'", "mass_flow": "'0.5 kg/s', '1800 kg/h'"}
 _CELL_UNIT_KINDS = tuple(_EXAMPLES)
 
 
@@ -123,12 +132,14 @@ class RowError(NamedTuple):
 
 
 class ParsedLine(NamedTuple):
-    """A valid row: row number, :class:`~convlib.lines.LineSpec` (SI), location, operating hours [h] or None."""
+    """A valid row: row number, :class:`~convlib.lines.LineSpec` (SI), location, operating hours [h] or None,
+    and the given :data:`OPERATION_COLUMNS` (SI) or None."""
 
     row: int
     spec: LineSpec
     location: str
     operating_hours: float | None
+    operation: dict | None = None
 
 
 def demo_lines_path():
@@ -263,6 +274,12 @@ def _parse_row(row: int, cells: dict, units: dict) -> ParsedLine | RowError:
         problems.append(f"relative_humidity: {cells['relative_humidity']!r} is more than 1; write a fraction 0-1 "
                         f"or head the column relative_humidity[%]")
     hours = values.pop("operating_hours", None)
+    operation = {name: values.pop(name) for name in OPERATION_COLUMNS if name in values}
+    if operation.get("mass_flow", 1.0) <= 0:
+        problems.append(f"mass_flow: must be greater than 0 kg/s; got {cells['mass_flow']!r}")
+    for name in ("maintain_temperature", "minimum_ambient"):
+        if operation.get(name, 1.0) <= 0:
+            problems.append(f"{name}: must be greater than 0 K; got {cells[name]!r}")
     if hours is not None and hours > 8784.0:
         problems.append(f"operating_hours: {hours:g} h is more than a (leap) year of 8784 h")
     if ("nps" in values) == ("outer_diameter" in values):
@@ -281,7 +298,7 @@ def _parse_row(row: int, cells: dict, units: dict) -> ParsedLine | RowError:
         values["pipe_outer_diameter"] = values.pop("outer_diameter")
     values.setdefault("sky_view_fraction", OUTDOOR_SKY_VIEW_FRACTION if location == "outdoor" else 0.0)
     try:
-        return ParsedLine(row, LineSpec(**values, fittings=fittings), location, hours)
+        return ParsedLine(row, LineSpec(**values, fittings=fittings), location, hours, operation or None)
     except ValidationError as exc:  # ranges of LineSpec: emissivity, humidity, lengths, tag
         for e in exc.errors():
             loc = e["loc"] or ("row",)
@@ -383,6 +400,9 @@ class LineListResult:
     co2_kg: np.ndarray
     touch_flag: np.ndarray
     condensation_flag: np.ndarray
+    outlet_temperature: np.ndarray         # NaN without mass_flow [K]
+    tracing_duty_per_length: np.ndarray    # NaN without maintain_temperature [W/m]
+    tracing_duty: np.ndarray               # over the equivalent length [W]
     notes: tuple[str, ...]
     errors: tuple[RowError, ...] = ()
     settings: dict = field(default_factory=dict)
@@ -393,7 +413,7 @@ class LineListResult:
     @property
     def totals(self) -> dict:
         """Sums over the computed lines (cold lines count negative in ``q_total`` and ``heat_kwh``)."""
-        sums = {name: float(np.sum(getattr(self, name))) for name in _SUMMED}
+        sums = {name: float(np.nansum(getattr(self, name))) for name in _SUMMED}
         return {"lines": len(self), "rows_with_errors": len(self.errors), **sums,
                 "touch_flags": int(np.sum(self.touch_flag)), "condensation_flags": int(np.sum(self.condensation_flag))}
 
@@ -411,7 +431,7 @@ class LineListResult:
                 for row in zip(*values)]
 
 
-_SUMMED = ("length", "equivalent_length", "q_total", "heat_kwh", "purchased_kwh", "cost", "co2_kg")
+_SUMMED = ("length", "equivalent_length", "q_total", "heat_kwh", "purchased_kwh", "cost", "co2_kg", "tracing_duty")
 
 
 def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
@@ -477,11 +497,16 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
     q, ts, energy = np.full(n, np.nan), np.full(n, np.nan), np.full(n, np.nan)  # energy [Wh/m per year]
     flags, ok = np.zeros(n, dtype=np.int64), np.ones(n, dtype=bool)
 
-    def solve(idx):
+    def group_layers(idx, extra_axis=True):
         k = count[idx[0]]
         thick, cond = (np.array([[getattr(ly, a) for ly in specs[i].layers] for i in idx], dtype=float)
                        .reshape(idx.size, k) for a in ("thickness", "conductivity"))
-        layers = [Layer(thick[:, j, None], cond[:, j, None], name=f"layer {j + 1}") for j in range(k)]
+        if extra_axis:
+            thick, cond = thick[:, :, None], cond[:, :, None]
+        return [Layer(thick[:, j], cond[:, j], name=f"layer {j + 1}") for j in range(k)]
+
+    def solve(idx):
+        layers = group_layers(idx)
         air, wnd = ta[idx, None], wind[idx, None]
         if bins is not None:  # column 0: design condition; then one column per bin (outdoor lines)
             air = np.concatenate([air, np.where(outdoor[idx, None], bins.air_temperature, air)], axis=1)
@@ -517,6 +542,37 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
     keep = np.flatnonzero(ok)
     leq, rh = col(s.equivalent_length() for s in specs), col(s.relative_humidity for s in specs)
     dew, notes = np.full(n, np.nan), {i: [] for i in keep}
+    # lines in operation: outlet temperature (mass_flow) and tracing duty (maintain_temperature, minimum_ambient)
+    given = [p.operation or {} for p in lines]
+    flow, maintain = col(g.get("mass_flow") for g in given), col(g.get("maintain_temperature") for g in given)
+    coldest = col(g.get("minimum_ambient") for g in given)
+    coldest = np.where(np.isnan(coldest), ta, coldest)
+    outlet, duty = np.full(n, np.nan), np.full(n, np.nan)
+
+    def operate(idx, wanted, label, compute):
+        """Per layer count at once; a group the solver rejects is redone line by line (notes on those lines)."""
+        for k in np.unique(count[idx]):
+            members = idx[count[idx] == k]
+            try:
+                wanted[members] = compute(members, group_layers(members, extra_axis=False))
+            except ValueError:
+                for i in members:
+                    try:
+                        wanted[[i]] = compute(np.array([i]), group_layers(np.array([i]), extra_axis=False))
+                    except ValueError as exc:
+                        notes[int(i)].append(f"{label} not computed: {exc}")
+
+    def sky_of(air, idx):
+        return np.where(sky[idx] > 0, sky_temperature(air), air)
+
+    operate(np.flatnonzero(ok & ~np.isnan(flow)), outlet, "outlet temperature", lambda i, layers: (
+        line_temperature_profile(d[i], tf[i], layers, mass_flow=flow[i], length=leq[i], air_temperature=ta[i],
+                                 wind_speed=wind[i], jacket_emissivity=eps[i], sky_view_fraction=sky[i],
+                                 sky_temperature=sky_of(ta[i], i)).outlet_temperature))
+    operate(np.flatnonzero(ok & ~np.isnan(maintain)), duty, "tracing duty", lambda i, layers: (
+        tracing_duty(d[i], maintain[i], layers, air_temperature=coldest[i], wind_speed=wind[i],
+                     jacket_emissivity=eps[i], sky_view_fraction=sky[i],
+                     sky_temperature=sky_of(coldest[i], i)).duty_per_length))
     humid = np.flatnonzero(ok & ~np.isnan(rh))
     try:
         dew[humid] = dew_point(ta[humid], rh[humid])
@@ -537,7 +593,8 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
         fluid_temperature=tf[keep], air_temperature=ta[keep], surface_temperature=ts[keep], dew_point=dew[keep],
         q_per_length=q[keep], q_total=(q * leq)[keep], operating_hours=hours[keep], heat_kwh=heat[keep],
         purchased_kwh=purchased[keep], cost=(purchased * price)[keep], co2_kg=(purchased * co2)[keep],
-        touch_flag=(ts > limit)[keep], condensation_flag=(ts < dew)[keep],
+        touch_flag=(ts > limit)[keep], condensation_flag=(ts < dew)[keep], outlet_temperature=outlet[keep],
+        tracing_duty_per_length=duty[keep], tracing_duty=(duty * leq)[keep],
         notes=tuple("; ".join(texts[flags[i]] + notes[i]) for i in keep),
         errors=tuple(sorted(errors, key=lambda e: e.row)),
         settings={"energy_price": price, "heating_efficiency": eff, "cooling_cop": cop, "co2_per_kwh": co2,
@@ -555,6 +612,8 @@ OUTPUT_COLUMNS = (
     ("operating_hours[h]", "operating_hours", None), ("annual_heat[kWh]", "heat_kwh", None),
     ("purchased_energy[kWh]", "purchased_kwh", None), ("cost", "cost", None), ("co2[kg]", "co2_kg", None),
     ("touch_flag", "touch_flag", None), ("condensation_flag", "condensation_flag", None),
+    ("outlet_temperature[degC]", "outlet_temperature", ("temperature", "degC")),
+    ("tracing_duty[W/m]", "tracing_duty_per_length", None), ("tracing_duty_total[W]", "tracing_duty", None),
 )
 
 

@@ -25,6 +25,9 @@ KIND_SI_UNIT = {
     "coefficient": "W/m**2/K",
     "conductivity": "W/m/K",
     "energy": "J",
+    "area": "m**2",
+    "time": "s",
+    "mass_flow": "kg/s",
     "dimensionless": "",
 }
 
@@ -32,11 +35,13 @@ KIND_SI_UNIT = {
 DISPLAY_UNITS = {
     "SI": {"temperature": "degC", "temperature_difference": "delta_degC", "length": "mm", "speed": "m/s",
            "pressure": "kPa", "heat_per_length": "W/m", "heat_flux": "W/m**2", "power": "W",
-           "coefficient": "W/m**2/K", "conductivity": "W/m/K", "energy": "kWh", "dimensionless": ""},
+           "coefficient": "W/m**2/K", "conductivity": "W/m/K", "energy": "kWh", "area": "m**2", "time": "hour",
+           "mass_flow": "kg/hour", "dimensionless": ""},
     "US": {"temperature": "degF", "temperature_difference": "delta_degF", "length": "inch", "speed": "ft/s",
            "pressure": "psi", "heat_per_length": "Btu/hour/foot", "heat_flux": "Btu/hour/foot**2",
            "power": "Btu/hour", "coefficient": "Btu/hour/foot**2/delta_degF",
-           "conductivity": "Btu*inch/hour/foot**2/delta_degF", "energy": "MMBtu", "dimensionless": ""},
+           "conductivity": "Btu*inch/hour/foot**2/delta_degF", "energy": "MMBtu", "area": "foot**2", "time": "hour",
+           "mass_flow": "lb/hour", "dimensionless": ""},
 }
 
 

@@ -128,9 +128,13 @@ US_ONE_UNIT_IN_SI = {
     "coefficient": BTU_IT / HOUR / FOOT**2 / DEG_F,
     "conductivity": BTU_IT * INCH / HOUR / FOOT**2 / DEG_F,
     "energy": 1e6 * BTU_IT,
+    "area": FOOT**2,
+    "time": HOUR,
+    "mass_flow": POUND / HOUR,
     "dimensionless": 1.0,
 }
-SI_ONE_UNIT_IN_SI = {"length": 1e-3, "pressure": 1e3, "energy": 3.6e6, "temperature_difference": 1.0}
+SI_ONE_UNIT_IN_SI = {"length": 1e-3, "pressure": 1e3, "energy": 3.6e6, "temperature_difference": 1.0,
+                     "time": HOUR, "mass_flow": 1 / HOUR}
 
 
 @pytest.mark.parametrize("kind", sorted(US_ONE_UNIT_IN_SI))

@@ -1,0 +1,603 @@
+r"""Lines in operation: temperature along a flowing line, steam condensate, heat-tracing duty, freeze time.
+
+Each builds on :func:`convlib.pipe.insulated_pipe`: :math:`q'(T)`, the heat flow per metre of a line
+whose fluid is at :math:`T`, the outer coefficient re-evaluated at every temperature.
+:func:`line_temperature_profile` (a flowing fluid, :math:`\dot m c_p dT/dx = -q'`), :func:`steam_line`
+and :func:`condensate_rate` (:math:`Q/h_{fg}`), :func:`tracing_duty`, :func:`freeze_time`.
+
+Marching (along the line; in temperature for the freeze time) takes classical RK4 steps with step
+doubling (W. H. Press et al., *Numerical Recipes*, 3rd ed., section 17.2): each step once whole and
+once as two halves; :math:`\Delta = (y_{h/2,h/2} - y_h)/15` estimates the local error of the halves,
+the step is accepted when :math:`|\Delta| \le` ``tolerance`` (stated unit) for every case and then
+kept as :math:`y_{h/2,h/2} + \Delta` (local extrapolation, fifth order); the next step is scaled by
+:math:`0.9 (\mathrm{tolerance}/|\Delta|)^{1/5}` within 0.1-4x. All cases march together on one grid
+of the normalized variable (position over each case's length; fraction of each case's temperature
+fall); the loop is over steps, never over cases.
+
+Results are design estimates: freeze protection, heat tracing and steam trapping are governed by
+the applicable standards (e.g. IEEE 515, IEC/IEEE 60079-30), manufacturers' designs and local codes.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from CoolProp import CoolProp as CP
+
+from .pipe import PipeResult, insulated_pipe
+from .properties import fluid_properties
+from .validation import as_array, check_choice
+
+__all__ = [
+    "TRACING_MARGIN", "LATENT_HEAT_OF_FUSION", "WATER_FREEZING_TEMPERATURE", "CARBON_STEEL_DENSITY",
+    "CARBON_STEEL_SPECIFIC_HEAT", "CAUTION_FREEZE", "CAUTION_TRACING", "CAUTION_STEAM",
+    "LineProfile", "line_temperature_profile", "latent_heat_of_vaporization",
+    "condensate_rate", "SteamLine", "steam_line", "TracingDuty", "tracing_duty", "FreezeTime", "freeze_time",
+]
+
+#: Design margin on the calculated heat loss of a traced line [-] (duty = loss x (1 + margin)).
+#: IEEE Std 515 and IEC/IEEE 60079-30-2 recommend a safety factor of roughly 10-25 % on the
+#: calculated loss for electric trace heating (from memory; check the edition that governs).
+TRACING_MARGIN = 0.20
+
+#: Latent heat of fusion of ice at 0 degC and 1 atm [J/kg]: 333.55 kJ/kg
+#: (CRC Handbook of Chemistry and Physics, "Properties of ice and supercooled water"; from memory).
+LATENT_HEAT_OF_FUSION = 333.55e3
+
+#: Freezing point of water at 1 atm [K] (0 degC; the ice point of the ITS-90 scale is 273.15 K).
+WATER_FREEZING_TEMPERATURE = 273.15
+
+#: Carbon steel pipe wall: density [kg/m3] and specific heat [J/kg/K]. Common practice, no source
+#: (Incropera et al., 6th ed., Table A.1 gives 7854 kg/m3 and 434 J/kg/K for plain carbon steel at
+#: 300 K, from memory; a lower value shortens the freeze time slightly).
+CARBON_STEEL_DENSITY = 7850.0
+CARBON_STEEL_SPECIFIC_HEAT = 490.0
+
+CAUTION_FREEZE = ("Freeze time is an estimate; no substitute for draining or heat tracing; local codes govern. "
+                  "It assumes still water cooling uniformly, no supercooling and no heat from supports or soil.")
+CAUTION_TRACING = ("Tracing duty is the heat the tracer must replace at the design minimum ambient and maximum "
+                   "wind; tracer selection, sheath temperature, hazardous-area rating, control and installation "
+                   "are governed by IEEE 515 / IEC/IEEE 60079-30, the manufacturer's design and local codes.")
+CAUTION_STEAM = ("Condensate load is for the steady running line; warm-up loads are larger, and trap sizing and "
+                 "spacing follow the governing standard and the trap manufacturer.")
+
+# ----------------------------------------------------------------------------- marching
+_MIN_STEP = 1e-9      # smallest normalized step before giving up
+_MAX_STEPS = 20000    # accepted + rejected steps before giving up
+
+
+class _OutOfRange(ValueError):
+    """A trial stage left the fluid's property range: the march retries with a smaller step."""
+
+
+def _rk4(rhs, s, y, h, k1):
+    """One classical Runge-Kutta step of dy/ds = rhs(s, y) from (s, y) with slope k1 there."""
+    k2 = rhs(s + 0.5 * h, y + 0.5 * h * k1)
+    k3 = rhs(s + 0.5 * h, y + 0.5 * h * k2)
+    k4 = rhs(s + h, y + h * k3)
+    return y + h / 6.0 * (k1 + 2.0 * k2 + 2.0 * k3 + k4)
+
+
+def _march(rhs, y0, scale, tolerance, max_step):
+    """dy/ds = rhs(s, y) from s = 0 to 1 by RK4 with step doubling (module docstring); a step passes when every
+    element's error estimate is <= tolerance * scale. Returns s grid, y stacked on it, accepted, rejected, evaluations.
+    """
+    s, y, h = 0.0, np.asarray(y0, dtype=float), float(max_step)
+    grid, values = [0.0], [y]
+    accepted = rejected = 0
+    k1, last_error, evaluations = rhs(s, y), None, 1
+    while s < 1.0 - 1e-13:
+        if h < _MIN_STEP and last_error is not None:
+            raise ValueError(str(last_error)) from None  # the solution itself leaves the range
+        if accepted + rejected >= _MAX_STEPS or h < _MIN_STEP:
+            raise ValueError(f"marching failed to meet the tolerance {tolerance:g} (step {h:.3g} of the "
+                             f"normalized range after {accepted} steps); loosen the tolerance")
+        h = min(h, 1.0 - s)
+        try:
+            whole = _rk4(rhs, s, y, h, k1)
+            half = _rk4(rhs, s, y, 0.5 * h, k1)
+            two = _rk4(rhs, s + 0.5 * h, half, 0.5 * h, rhs(s + 0.5 * h, half))
+            evaluations += 10
+            last_error = None
+        except _OutOfRange as exc:  # a trial stage overshot: retry with a quarter of the step
+            rejected, h, last_error = rejected + 1, 0.25 * h, exc
+            continue
+        delta = (two - whole) / 15.0
+        with np.errstate(divide="ignore", invalid="ignore"):
+            ratio = np.abs(delta) / (tolerance * scale)
+        err = float(np.max(ratio, initial=0.0))
+        if not np.isfinite(err):
+            raise ValueError("marching met a non-finite value; check the inputs")
+        if err <= 1.0:
+            s, y, accepted = (1.0 if h >= 1.0 - s - 1e-13 else s + h), two + delta, accepted + 1
+            grid.append(s)
+            values.append(y)
+            if s < 1.0:
+                k1 = rhs(s, y)
+                evaluations += 1
+            h = min(h * (4.0 if err == 0.0 else min(4.0, 0.9 * err ** -0.2)), float(max_step))
+        else:
+            rejected += 1
+            h *= max(0.1, 0.9 * err ** -0.2)
+    return np.array(grid), np.stack(values), accepted, rejected, evaluations
+
+
+def _positive(name, value, unit=""):
+    return as_array(name, value, unit=unit, low=0.0, low_inclusive=False)
+
+
+def _loss_function(pipe_outer_diameter, layers, air_temperature, pipe_options):
+    """q'(T) [W/m] of the line with the fluid at T, outer coefficient re-evaluated (surface solved to 1e-8 K)."""
+    options = {"tolerance": 1e-8, **pipe_options}
+
+    def loss(temperature):
+        return insulated_pipe(pipe_outer_diameter, temperature, layers, air_temperature=air_temperature,
+                              length=1.0, **options).q_per_length
+    return loss
+
+
+def _frozen_coefficient(loss, reference_temperature, air_temperature):
+    """U' = q'(T_ref) / (T_ref - T_a) [W/m/K]; within 0.01 K of the air, taken 1 K above it."""
+    ta = np.asarray(air_temperature, dtype=float)
+    near = np.abs(reference_temperature - ta) < 0.01
+    t_ref = np.where(near, ta + 1.0, reference_temperature)
+    return loss(t_ref) / (t_ref - ta)
+
+
+# ----------------------------------------------------------------------------- temperature along a line
+@dataclass(frozen=True)
+class LineProfile:
+    """Temperature along a flowing line; arrays over the cases, profiles with the point first.
+
+    ``q_total`` is the heat lost along the line, integrated with the temperature; ``enthalpy_drop``
+    is :math:`\\dot m \\int_{T_{out}}^{T_{in}} c_p\\,dT`; they agree to the marching tolerance
+    (``energy_balance_error`` is their relative difference).
+    """
+
+    outlet_temperature: np.ndarray       # [K]
+    q_total: np.ndarray                  # heat lost along the line, integral of q' dx [W]
+    enthalpy_drop: np.ndarray            # mass_flow x integral of cp dT, inlet minus outlet [W]
+    energy_balance_error: np.ndarray     # (enthalpy_drop - q_total) / |q_total| [-]
+    fraction: np.ndarray                 # (n,) normalized position x / length of the profile points [-]
+    position: np.ndarray                 # (n, *shape) distance from the inlet [m]
+    temperature: np.ndarray              # (n, *shape) fluid temperature [K]
+    q_per_length: np.ndarray             # (n, *shape) heat flow per metre at the points [W/m]
+    inlet_loss_coefficient: np.ndarray   # U' = q'(T_in) / (T_in - T_a) [W/m/K]
+    steps: int                           # accepted steps
+    rejected_steps: int
+    evaluations: int                     # calls of insulated_pipe for q'(T), each over all cases
+
+
+def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), *, mass_flow, length,
+                             air_temperature, fluid="Water", fluid_pressure=101325.0, fluid_phase="liquid",
+                             specific_heat=None, constant_coefficient=False, tolerance=1e-6, max_step=0.1,
+                             **pipe_options) -> LineProfile:
+    r"""Fluid temperature along a line that loses (or gains) heat to the air.
+
+    Marches :math:`dT/dx = -q'(T) / (\dot m\, c_p(T))` from the inlet to the outlet, with
+    :math:`q'(T)` from :func:`convlib.pipe.insulated_pipe` at the local fluid temperature (the
+    outer coefficient and surface temperature change as the fluid cools) and :math:`c_p` from
+    CoolProp at the local temperature and ``fluid_pressure``. With a constant coefficient
+    :math:`U' = q'/(T - T_a)` and constant :math:`c_p` the solution is
+
+    .. math:: T(x) = T_a + (T_{in} - T_a)\exp\left(-\frac{U' x}{\dot m c_p}\right)
+
+    (Incropera et al., 6th ed., eq. 8.46a, from memory).
+
+    Parameters
+    ----------
+    pipe_outer_diameter, inlet_temperature : numeric
+        Pipe [m]; fluid at the inlet [K].
+    layers : sequence of Layer
+        Insulation and jacket from the pipe outwards (empty: bare).
+    mass_flow, length : numeric
+        [kg/s] > 0; line length [m] > 0 (fittings as equivalent length).
+    air_temperature : numeric
+        [K]
+    fluid : str
+        CoolProp name of the single-phase fluid inside (default liquid water); ignored with ``specific_heat``.
+    fluid_pressure : numeric
+        Absolute pressure of the fluid [Pa] (a liquid must stay below its boiling point).
+    fluid_phase : {"liquid", "gas"}
+        What the line carries: the inlet must be below (liquid) or above (gas: air, superheated
+        steam) the boiling point at ``fluid_pressure``, else ``ValueError`` -- so that pressurized hot
+        water is not silently taken as steam at the default 1 atm. Not checked above the critical pressure.
+    specific_heat : numeric, optional
+        A fixed specific heat [J/kg/K] instead of CoolProp's.
+    constant_coefficient : bool
+        Freeze :math:`U' = q'(T_{in})/(T_{in} - T_a)` at the inlet (the hand-calculation model).
+    tolerance : float
+        Local error per step [K] on the temperature and on :math:`Q / (\dot m c_{p,in})`.
+    max_step : float
+        Largest step as a fraction of the length (0-1]; the profile's coarsest spacing.
+    **pipe_options
+        Passed to :func:`convlib.pipe.insulated_pipe` (``wind_speed``, ``jacket_emissivity``,
+        ``inner_coefficient`` -- give it for gas lines and bare lines, where the inside film is not
+        negligible --, ``pipe_wall_thickness``, ``sky_view_fraction``, ...).
+
+    Examples
+    --------
+    200 m of a 2 in (60.3 mm) hot-water line with 40 mm of insulation, 0.2 kg/s at 80 degC, air at 0 degC:
+
+    >>> from convlib.pipe import Layer
+    >>> p = line_temperature_profile(0.0603, 353.15, [Layer(0.04, 0.04)], mass_flow=0.2, length=200.0,
+    ...                              air_temperature=273.15)
+    >>> round(float(p.outlet_temperature) - 273.15, 2), round(float(p.q_total)), abs(float(p.energy_balance_error)) < 1e-6
+    (74.95, 4233, True)
+    """
+    tin = _positive("inlet_temperature", inlet_temperature, "K")
+    flow = _positive("mass_flow", mass_flow, "kg/s")
+    run = _positive("length", length, "m")
+    tol = float(_positive("tolerance", tolerance, "K"))
+    step = float(as_array("max_step", max_step, low=0.0, high=1.0, low_inclusive=False))
+    p_fluid = _positive("fluid_pressure", fluid_pressure, "Pa")
+    fixed_cp = None if specific_heat is None else _positive("specific_heat", specific_heat, "J/kg/K")
+    ta = _positive("air_temperature", air_temperature, "K")
+    loss = _loss_function(pipe_outer_diameter, layers, ta, pipe_options)
+    coefficient = _frozen_coefficient(loss, tin, ta)
+    shape = np.broadcast_shapes(coefficient.shape, tin.shape, flow.shape, run.shape, p_fluid.shape,
+                                () if fixed_cp is None else fixed_cp.shape)
+    tin = np.broadcast_to(tin, shape)
+    check_choice("fluid_phase", fluid_phase, ("liquid", "gas"))
+    if fixed_cp is None:
+        try:
+            fluid_properties(fluid, tin, pressure=p_fluid)
+        except ValueError as exc:
+            raise ValueError(f"fluid, inlet_temperature or fluid_pressure: {exc}") from None
+        _check_phase(fluid, fluid_phase, tin, np.broadcast_to(p_fluid, shape))
+
+    def cp(temperature):
+        if fixed_cp is not None:
+            return np.broadcast_to(fixed_cp, np.shape(temperature))
+        try:
+            return fluid_properties(fluid, temperature, pressure=p_fluid).cp
+        except ValueError as exc:
+            raise _OutOfRange(f"fluid {fluid} at fluid_pressure leaves its single-phase range along the line (it "
+                              f"would freeze, boil or condense): {exc}") from None
+
+    loss_at = (lambda t: coefficient * (t - ta)) if constant_coefficient else loss  # noqa: E731
+    capacity_in = flow * cp(tin)  # [W/K]
+
+    def rhs(s, y):
+        q = loss_at(y[0])
+        return np.stack([-run * q / (flow * cp(y[0])), run * q / capacity_in])
+
+    y0 = np.stack([tin, np.zeros(shape)])
+    grid, values, accepted, rejected, evaluations = _march(rhs, y0, 1.0, tol, step)
+    temperature = values[:, 0]
+    t_out = temperature[-1]
+    q_total = values[-1, 1] * capacity_in
+    drop = flow * _integral_of_cp(cp, t_out, tin)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        balance = np.where(q_total != 0, (drop - q_total) / np.abs(q_total), drop - q_total)
+    position = grid.reshape((-1,) + (1,) * len(shape)) * run
+    return LineProfile(
+        outlet_temperature=t_out, q_total=q_total, enthalpy_drop=drop, energy_balance_error=balance,
+        fraction=grid, position=np.broadcast_to(position, temperature.shape).copy(), temperature=temperature,
+        q_per_length=np.broadcast_to(loss_at(temperature), temperature.shape).copy(),
+        inlet_loss_coefficient=np.broadcast_to(coefficient, shape).copy(), steps=accepted, rejected_steps=rejected,
+        evaluations=1 if constant_coefficient else evaluations + 2)
+
+
+def _check_phase(fluid, phase, inlet, pressure):
+    """Raise unless the inlet is on the ``phase`` side of the boiling point at its pressure (CoolProp)."""
+    critical, triple = CP.PropsSI("pcrit", fluid), CP.PropsSI("ptriple", fluid)
+    for p in np.unique(pressure[(pressure > triple) & (pressure < critical)]):
+        boiling = CP.PropsSI("T", "P", float(p), "Q", 0.0 if phase == "liquid" else 1.0, fluid)
+        t = inlet[pressure == p]
+        wrong = t >= boiling if phase == "liquid" else t <= boiling
+        if np.any(wrong):
+            raise ValueError(f"fluid_phase: {fluid} at inlet_temperature {float(t[wrong][0]):g} K is not {phase} at "
+                             f"fluid_pressure {p:g} Pa (boiling point {boiling:.2f} K); give the line's absolute "
+                             f"pressure as fluid_pressure, or fluid_phase='{'gas' if phase == 'liquid' else 'liquid'}'")
+
+
+# 8-point Gauss-Legendre nodes and weights on [-1, 1] (Abramowitz & Stegun, Table 25.4)
+_GL_NODES, _GL_WEIGHTS = np.polynomial.legendre.leggauss(8)
+
+
+def _integral_of_cp(cp, low, high, panels=4):
+    """Integral of cp(T) dT from ``low`` to ``high`` [J/kg]: composite 8-point Gauss-Legendre."""
+    edges = low[None] + (high - low)[None] * np.linspace(0.0, 1.0, panels + 1).reshape((-1,) + (1,) * low.ndim)
+    mid, half = 0.5 * (edges[1:] + edges[:-1]), 0.5 * (edges[1:] - edges[:-1])
+    nodes = mid[None] + half[None] * _GL_NODES.reshape((-1,) + (1,) * mid.ndim)
+    weights = _GL_WEIGHTS.reshape((-1,) + (1,) * mid.ndim)
+    return np.sum(weights * cp(nodes) * half[None], axis=(0, 1))
+
+
+# ----------------------------------------------------------------------------- steam lines
+def _saturated(key, steam_pressure, quality, fluid):
+    """CoolProp (IAPWS-95 for water) at saturation; the pressure checked between triple and critical points."""
+    p = as_array("steam_pressure", steam_pressure, unit="Pa", low=CP.PropsSI("ptriple", fluid),
+                 high=CP.PropsSI("pcrit", fluid), low_inclusive=False, high_inclusive=False)
+    values = CP.PropsSI(key, "P", np.atleast_1d(p).ravel(), "Q", quality, fluid)
+    return np.asarray(values, dtype=float).reshape(p.shape)
+
+
+def latent_heat_of_vaporization(steam_pressure, fluid="Water"):
+    """Latent heat :math:`h_{fg} = h_g - h_f` at saturation [J/kg] at ``steam_pressure`` [Pa], from CoolProp.
+
+    >>> round(float(latent_heat_of_vaporization(101325.0)) / 1e3, 1)
+    2256.5
+    """
+    return _saturated("H", steam_pressure, 1.0, fluid) - _saturated("H", steam_pressure, 0.0, fluid)
+
+
+def condensate_rate(q_total, steam_pressure, fluid="Water"):
+    r"""Condensate formed by a heat loss from saturated steam [kg/h]: :math:`3600\,Q / h_{fg}(p)`.
+
+    Parameters
+    ----------
+    q_total : numeric
+        Heat lost by the steam [W]; a net gain (< 0) condenses nothing (0 is returned).
+    steam_pressure : numeric
+        Absolute steam pressure [Pa], between the triple and critical points.
+    fluid : str
+        CoolProp fluid, default ``"Water"``.
+
+    Examples
+    --------
+    >>> round(float(condensate_rate(10_000.0, 1.0e6)), 2)
+    17.87
+    """
+    q = as_array("q_total", q_total, unit="W")
+    return 3600.0 * np.maximum(q, 0.0) / latent_heat_of_vaporization(steam_pressure, fluid)
+
+
+@dataclass(frozen=True)
+class SteamLine:
+    """A saturated steam line: its loss and the condensate it forms (arrays over the cases)."""
+
+    saturation_temperature: np.ndarray   # [K]
+    latent_heat: np.ndarray              # h_fg [J/kg]
+    q_per_length: np.ndarray             # [W/m]
+    q_total: np.ndarray                  # [W]
+    condensate_per_length: np.ndarray    # [kg/h per m]
+    condensate_rate: np.ndarray          # [kg/h]
+    pipe: PipeResult
+    cautions: tuple[str, ...]
+
+
+def steam_line(pipe_outer_diameter, steam_pressure, layers=(), *, air_temperature, length=1.0,
+               **pipe_options) -> SteamLine:
+    """Heat loss and condensate of a line of saturated steam at ``steam_pressure`` [Pa].
+
+    The fluid is at the saturation temperature all along (a condensing vapour stays at it);
+    the loss is :func:`convlib.pipe.insulated_pipe` at that temperature and the condensate
+    :func:`condensate_rate`. ``pipe_options`` as in :func:`convlib.pipe.insulated_pipe`.
+
+    Examples
+    --------
+    100 m of 4 in steam main at 10 bar(a) with 80 mm mineral wool and an aluminium jacket, air at 0 degC:
+
+    >>> from convlib.pipe import Layer
+    >>> s = steam_line(0.1143, 1.0e6, [Layer(0.08, 0.045)], air_temperature=273.15, length=100.0,
+    ...                jacket_emissivity=0.1)
+    >>> round(float(s.saturation_temperature) - 273.15, 1), round(float(s.q_total)), round(float(s.condensate_rate), 2)
+    (179.9, 5346, 9.55)
+    """
+    run = as_array("length", length, unit="m", low=0.0)
+    t_sat, h_fg = _saturated("T", steam_pressure, 0.0, "Water"), latent_heat_of_vaporization(steam_pressure)
+    r = insulated_pipe(pipe_outer_diameter, t_sat, layers, air_temperature=air_temperature, length=1.0,
+                       **pipe_options)
+    shape = np.broadcast_shapes(r.q_per_length.shape, run.shape, h_fg.shape)
+    per_metre = 3600.0 * np.maximum(r.q_per_length, 0.0) / h_fg
+    full = lambda a: np.broadcast_to(a, shape).copy()  # noqa: E731
+    return SteamLine(saturation_temperature=full(t_sat), latent_heat=full(h_fg), q_per_length=full(r.q_per_length),
+                     q_total=full(r.q_per_length * run), condensate_per_length=full(per_metre),
+                     condensate_rate=full(per_metre * run), pipe=r, cautions=(CAUTION_STEAM,))
+
+
+# ----------------------------------------------------------------------------- heat tracing
+@dataclass(frozen=True)
+class TracingDuty:
+    """Power a tracer must supply (arrays over the cases)."""
+
+    heat_loss_per_length: np.ndarray     # q' of the line at the maintain temperature [W/m]
+    duty_per_length: np.ndarray          # max(q', 0) x (1 + margin) [W/m]
+    duty_total: np.ndarray               # duty_per_length x length [W]
+    margin: np.ndarray                   # [-]
+    surface_temperature: np.ndarray      # jacket temperature at the maintain temperature [K]
+    pipe: PipeResult
+    notes: tuple[str, ...]
+    cautions: tuple[str, ...]
+
+
+def tracing_duty(pipe_outer_diameter, maintain_temperature, layers=(), *, air_temperature, wind_speed=0.0,
+                 margin=TRACING_MARGIN, length=1.0, **pipe_options) -> TracingDuty:
+    r"""Heat-tracing duty to hold a line at its maintain temperature with no flow [W/m].
+
+    .. math:: P' = (1 + m)\, \max(q'(T_{maintain}),\ 0)
+
+    with :math:`q'` from :func:`convlib.pipe.insulated_pipe` with the fluid (and pipe) at the
+    maintain temperature -- the tracer replaces what the insulated line loses -- evaluated at
+    the design minimum ambient and maximum wind, and :math:`m` the design margin.
+
+    Parameters
+    ----------
+    pipe_outer_diameter, maintain_temperature : numeric
+        Pipe [m]; temperature the tracer holds [K] (e.g. 278.15 K = 5 degC against freezing).
+    layers : sequence of Layer
+        Insulation and jacket (a traced line usually takes the next larger insulation size).
+    air_temperature, wind_speed : numeric
+        Design minimum ambient [K] and maximum wind [m/s] (0 indoors).
+    margin : numeric
+        Design margin on the loss [-], >= 0; default :data:`TRACING_MARGIN`.
+    length : numeric
+        Traced length [m], fittings as equivalent length.
+    **pipe_options
+        Passed to :func:`convlib.pipe.insulated_pipe` (``jacket_emissivity``, ``sky_view_fraction``, ...).
+
+    Examples
+    --------
+    A 2 in line held at 5 degC under 25 mm of insulation, at -20 degC and 10 m/s:
+
+    >>> from convlib.pipe import Layer
+    >>> d = tracing_duty(0.0603, 278.15, [Layer(0.025, 0.04)], air_temperature=253.15, wind_speed=10.0)
+    >>> round(float(d.heat_loss_per_length), 2), round(float(d.duty_per_length), 2)
+    (10.14, 12.17)
+    """
+    t_maintain = _positive("maintain_temperature", maintain_temperature, "K")
+    m = as_array("margin", margin, low=0.0)
+    run = as_array("length", length, unit="m", low=0.0)
+    r = insulated_pipe(pipe_outer_diameter, t_maintain, layers, air_temperature=air_temperature,
+                       wind_speed=wind_speed, length=1.0, **pipe_options)
+    shape = np.broadcast_shapes(r.q_per_length.shape, m.shape, run.shape)
+    loss = np.broadcast_to(r.q_per_length, shape)
+    duty = np.maximum(loss, 0.0) * (1.0 + m)
+    notes = []
+    if np.any(loss <= 0):
+        notes.append(f"{int(np.count_nonzero(loss <= 0))} case(s): the line at its maintain temperature gains heat "
+                     f"from its surroundings; no tracing duty")
+    return TracingDuty(heat_loss_per_length=loss.copy(), duty_per_length=np.broadcast_to(duty, shape).copy(),
+                       duty_total=np.broadcast_to(duty * run, shape).copy(), margin=np.broadcast_to(m, shape).copy(),
+                       surface_temperature=np.broadcast_to(r.surface_temperature, shape).copy(), pipe=r,
+                       notes=tuple(notes), cautions=(CAUTION_TRACING,))
+
+
+# ----------------------------------------------------------------------------- freeze time
+@dataclass(frozen=True)
+class FreezeTime:
+    """Stagnant water in a line: times and the cooling curve (arrays over the cases).
+
+    Cases whose line settles above the freezing point (``never_freezes``) have infinite times
+    and NaN curves.
+    """
+
+    hours_to_freezing_point: np.ndarray      # sensible cooling from the initial temperature [h]
+    hours_to_freeze_solid: np.ndarray        # further time, at the freezing point, until all water is ice [h]
+    hours_total: np.ndarray                  # [h]
+    never_freezes: np.ndarray                # bool: q' at the freezing point <= 0
+    water_mass_per_length: np.ndarray        # [kg/m]
+    heat_capacity_per_length: np.ndarray     # water + pipe wall at the initial temperature [J/m/K]
+    q_at_freezing_point: np.ndarray          # q' with the water at the freezing point [W/m]
+    curve_hours: np.ndarray                  # (n, *shape) [h]; last point: frozen solid
+    curve_temperature: np.ndarray            # (n, *shape) [K]
+    inlet_loss_coefficient: np.ndarray       # U' = q'(T_0) / (T_0 - T_a) [W/m/K]
+    steps: int
+    notes: tuple[str, ...]
+    cautions: tuple[str, ...]
+
+
+#: Water properties are taken no lower than this [K]: CoolProp's IAPWS-95 liquid starts at the
+#: triple point, 273.16 K; cp changes by < 1e-4 % over the 0.02 K below it.
+_WATER_PROPERTY_FLOOR = 273.17
+_WATER_PROPERTY_CEILING = 372.0   # liquid at 1 atm (boils at 373.12 K)
+
+
+def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, layers=(), *, air_temperature,
+                pipe_density=CARBON_STEEL_DENSITY, pipe_specific_heat=CARBON_STEEL_SPECIFIC_HEAT,
+                water_specific_heat=None, latent_heat=LATENT_HEAT_OF_FUSION,
+                freezing_temperature=WATER_FREEZING_TEMPERATURE, constant_coefficient=False, tolerance=1e-7,
+                max_step=0.1, **pipe_options) -> FreezeTime:
+    r"""Time for stagnant water in an insulated line to reach the freezing point and to freeze solid.
+
+    Sensible cooling of the water and the pipe wall, the outer coefficient re-evaluated:
+
+    .. math:: (m_w c_w(T) + m_p c_p)\,\frac{dT}{dt} = -q'(T)
+        \quad\Rightarrow\quad t_1 = \int_{T_f}^{T_0} \frac{m_w c_w(T) + m_p c_p}{q'(T)}\,dT
+
+    (marched in temperature), then freezing at :math:`T_f` until all the water is ice,
+    :math:`t_2 = m_w L_f / q'(T_f)`. For constant :math:`U'` and :math:`C'`:
+    :math:`t_1 = C'/U' \ln\frac{T_0 - T_a}{T_f - T_a}`, :math:`t_2 = m_w L_f / (U'(T_f - T_a))`.
+    Lumped: the water well mixed; the ice layer's resistance, supercooling and the insulation's heat
+    capacity neglected. Water density (at :math:`T_0`) and :math:`c_w(T)` from CoolProp at 1 atm.
+
+    Parameters
+    ----------
+    pipe_outer_diameter, pipe_wall_thickness : numeric
+        Pipe and its wall [m] (the water's diameter, the wall's heat capacity).
+    initial_temperature : numeric
+        Water temperature when the flow stops [K], from the freezing point to 372 K.
+    layers : sequence of Layer
+    air_temperature : numeric
+        Design minimum ambient [K].
+    pipe_density, pipe_specific_heat : numeric
+        Wall [kg/m3], [J/kg/K]; default carbon steel (common practice).
+    water_specific_heat : numeric, optional
+        Fixed [J/kg/K] instead of CoolProp's (hand-calculation checks).
+    latent_heat, freezing_temperature : numeric
+        [J/kg], [K]; default :data:`LATENT_HEAT_OF_FUSION`, 273.15 K.
+    constant_coefficient : bool
+        Freeze :math:`U' = q'(T_0)/(T_0 - T_a)` at the initial temperature.
+    tolerance : float
+        Local error per step relative to the case's time scale :math:`(T_0 - T_f) C'/q'(T_0)` [-].
+    max_step : float
+        Largest step as a fraction of the temperature fall (0-1].
+    **pipe_options
+        Passed to :func:`convlib.pipe.insulated_pipe` (``wind_speed``, ``jacket_emissivity``,
+        ``pipe_conductivity`` -- the wall's resistance then counts too --, ...).
+
+    Examples
+    --------
+    A 2 in schedule 40 line (3.91 mm wall) at 10 degC, 25 mm of insulation, -15 degC and 5 m/s:
+
+    >>> from convlib.pipe import Layer
+    >>> f = freeze_time(0.0603, 0.00391, 283.15, [Layer(0.025, 0.04)], air_temperature=258.15, wind_speed=5.0)
+    >>> round(float(f.hours_to_freezing_point), 2), round(float(f.hours_to_freeze_solid), 1)
+    (4.17, 33.3)
+    """
+    d = _positive("pipe_outer_diameter", pipe_outer_diameter, "m")
+    wall = _positive("pipe_wall_thickness", pipe_wall_thickness, "m")
+    if np.any(2.0 * wall >= d):
+        raise ValueError(f"pipe_wall_thickness must be less than half the pipe_outer_diameter; got "
+                         f"{np.max(wall):g} m for a {np.min(d):g} m pipe")
+    tf = _positive("freezing_temperature", freezing_temperature, "K")
+    t0 = as_array("initial_temperature", initial_temperature, unit="K", low=0.0, low_inclusive=False,
+                  high=_WATER_PROPERTY_CEILING)
+    if np.any(t0 < tf):
+        raise ValueError(f"initial_temperature must be at least the freezing_temperature "
+                         f"({float(np.max(tf)):g} K); got {float(np.min(t0)):g} K")
+    ta = _positive("air_temperature", air_temperature, "K")
+    rho_p = _positive("pipe_density", pipe_density, "kg/m3")
+    c_p = _positive("pipe_specific_heat", pipe_specific_heat, "J/kg/K")
+    lf = _positive("latent_heat", latent_heat, "J/kg")
+    tol = float(_positive("tolerance", tolerance))
+    step = float(as_array("max_step", max_step, low=0.0, high=1.0, low_inclusive=False))
+    fixed_cw = None if water_specific_heat is None else _positive("water_specific_heat", water_specific_heat,
+                                                                  "J/kg/K")
+    options = dict(pipe_options)
+    if "pipe_conductivity" in options:
+        options["pipe_wall_thickness"] = wall
+    loss = _loss_function(d, layers, ta, options)
+
+    def water(temperature):
+        return fluid_properties("Water", np.clip(temperature, _WATER_PROPERTY_FLOOR, _WATER_PROPERTY_CEILING))
+
+    def cw(temperature):
+        return water(temperature).cp if fixed_cw is None else np.broadcast_to(fixed_cw, np.shape(temperature))
+
+    bore = d - 2.0 * wall
+    m_w = water(t0).rho * np.pi * bore ** 2 / 4.0               # [kg/m]
+    c_wall = rho_p * c_p * np.pi * (d ** 2 - bore ** 2) / 4.0   # [J/m/K]
+    coefficient = _frozen_coefficient(loss, t0, ta)
+    loss_at = (lambda t: coefficient * (t - ta)) if constant_coefficient else loss  # noqa: E731
+    q_start = loss_at(t0)
+    shape = np.broadcast_shapes(q_start.shape, m_w.shape, c_wall.shape, tf.shape, lf.shape)
+    t0, tf = np.broadcast_to(t0, shape), np.broadcast_to(tf, shape)
+    q_freeze = np.broadcast_to(loss_at(tf), shape)
+    never = q_freeze <= 0.0
+    fall = np.where(never, 0.0, t0 - tf)
+
+    def capacity(temperature):
+        return m_w * cw(temperature) + c_wall
+
+    def rhs(u, y):
+        temperature = t0 - u * fall
+        return (fall * capacity(temperature) / np.where(never, 1.0, loss_at(temperature)))[None]
+
+    scale = np.where(never | (fall == 0), 1.0, np.abs(fall * capacity(t0) / np.where(never, 1.0, q_start)))
+    grid, values, accepted, _, _ = _march(rhs, np.zeros((1, *shape)), scale, tol, step)
+    sensible, solid = values[-1, 0], np.broadcast_to(m_w * lf, shape) / np.where(never, 1.0, q_freeze)
+    curve_t = np.concatenate([t0[None] - grid.reshape((-1,) + (1,) * len(shape)) * fall[None], tf[None]])
+    curve_h = np.concatenate([values[:, 0], (sensible + solid)[None]]) / 3600.0
+    notes = [f"{int(never.sum())} case(s) settle above the freezing point: no freezing under these conditions"
+             ] if never.any() else []
+    hours = lambda seconds: np.where(never, np.inf, seconds / 3600.0)  # noqa: E731
+    return FreezeTime(
+        hours_to_freezing_point=hours(sensible), hours_to_freeze_solid=hours(solid), hours_total=hours(sensible + solid),
+        never_freezes=never.copy(), water_mass_per_length=np.broadcast_to(m_w, shape).copy(),
+        heat_capacity_per_length=np.broadcast_to(capacity(t0), shape).copy(), q_at_freezing_point=q_freeze.copy(),
+        curve_hours=np.where(never[None], np.nan, curve_h), curve_temperature=np.where(never[None], np.nan, curve_t),
+        inlet_loss_coefficient=np.broadcast_to(coefficient, shape).copy(), steps=accepted, notes=tuple(notes),
+        cautions=(CAUTION_FREEZE,))

@@ -1,0 +1,450 @@
+r"""Vessels and ducts: heat lost (or gained) face by face.
+
+A vessel or duct is a few flat or cylindrical faces, each one of the shapes of
+:mod:`convlib.geometry`, evaluated with the outer-surface physics of
+:mod:`convlib.surface` (natural / forced / mixed convection plus radiation):
+
+* :func:`vertical_tank` -- wall (vertical cylinder), roof (horizontal plate facing up),
+  floor on the ground (conduction into the soil), open underneath (plate facing down) or left out.
+  Either every face is at a known ``surface_temperature`` (bare metal), or the fluid inside is at
+  ``fluid_temperature`` and each face may carry layers (insulation, jacket) whose outer surface
+  temperature is solved, as for :func:`convlib.pipe.insulated_pipe`.
+* :func:`rectangular_duct` -- sides (vertical plates), top and bottom (horizontal plates facing
+  up and down) at a known surface temperature; wind along the duct (plate laws) or across it
+  (a square-section cross-flow law, :func:`nusselt_square_cylinder_jakob`).
+
+Every input broadcasts (numpy arrays over cases); each face's arrays have the broadcast shape.
+
+**Round faces as plates.** A disc of diameter :math:`D` (tank roof, open floor) is evaluated as
+the rectangle of length :math:`\pi D/4` along the wind and width :math:`\pi D / (2(\pi - 2))`: it has
+the disc's characteristic length :math:`A/P = D/4` exactly (the length of the horizontal-plate
+laws, Goldstein, Sparrow & Jones (1973), doi:10.1016/0017-9310(73)90081-9, who proposed it for any
+plan form, discs included), and its streamwise length is the disc's mean chord :math:`\pi D/4`
+(for a laminar boundary layer, :math:`h \propto L^{-1/2}`, averaging the plate law over the
+disc's chords gives the plate value at :math:`L = 0.81 D`, 3 % from the mean chord -- derived here).
+The heat flow per unit area of that rectangle is applied to the disc's area :math:`\pi D^2/4`.
+(An equal-area square, side :math:`D\sqrt\pi/2`, would give :math:`A/P = 0.22 D`, 11 % short.)
+
+**Floor on the ground.** Steady conduction from an isothermal disc on the surface of a
+semi-infinite medium (the rest of its surface adiabatic), shape factor :math:`S = 2D`
+(Incropera et al., 6th ed., Table 4.1, from memory; the half-space version of the disc
+capacitance :math:`8 R`), in series with any floor layers (slab, insulation) over the floor area:
+
+.. math:: Q = \frac{T_{floor} - T_{ground}}{\sum_j t_j/(k_j A) + 1/(2 D k_{soil})}
+
+An estimate: it ignores the soil's heat capacity (a slow warm-up takes months), ground water and
+the heat flow through the soil surface around the tank.
+"""
+from __future__ import annotations
+
+import dataclasses
+from dataclasses import dataclass
+
+import numpy as np
+
+from .correlations.mixed import combine, default_mixing_exponent
+from .pipe import Layer, _solve_surface, _stack_flow
+from .properties import fluid_properties
+from .radiation import SKY_VIEW_FRACTION_TYPICAL
+from .regimes import Flag, convection_mode
+from .surface import GRAVITY, OuterSurface, SurfaceResult
+from .validation import as_array, check_choice
+
+__all__ = ["GROUND_CONDUCTIVITY", "FLOORS", "WIND_DIRECTIONS", "SQUARE_CYLINDER_RE_RANGE", "Face", "FacesResult",
+           "disc_as_plate", "vertical_tank", "rectangular_duct", "nusselt_square_cylinder_jakob"]
+
+#: Conductivity of the soil under a tank [W/m/K]. Common practice for moist soil, no source
+#: (Incropera et al., 6th ed., Table A.3 gives 0.52 W/m/K for "soil" at 300 K, from memory;
+#: wet clay and sand reach 1.5-2.5). Override with the site's value.
+GROUND_CONDUCTIVITY = 1.0
+
+FLOORS = ("ground", "open", "none")
+WIND_DIRECTIONS = ("along", "across")
+
+#: Reynolds range of the square-cylinder constants (Jakob 1949, as in Incropera et al., 6th ed., Table 7.3).
+SQUARE_CYLINDER_RE_RANGE = (5.0e3, 1.0e5)
+
+
+@dataclass(frozen=True)
+class Face:
+    """One face of a vessel or duct; arrays of the broadcast input shape."""
+
+    name: str                          # "wall", "roof", "floor", "sides", "top", "bottom"
+    shape: str                         # shape of convlib.geometry used, or "ground"
+    area: np.ndarray                   # exposed (or contact) area [m2]
+    surface_temperature: np.ndarray    # outer surface (for the ground: floor-soil interface) [K]
+    q_per_area: np.ndarray             # [W/m2], positive from the face outwards
+    q_total: np.ndarray                # [W]
+    h_convection: np.ndarray           # [W/m2/K]; NaN for ground contact
+    h_radiation: np.ndarray            # [W/m2/K]; NaN for ground contact
+    surface: SurfaceResult | None      # the outer-surface physics per unit area (None for ground contact)
+
+
+@dataclass(frozen=True)
+class FacesResult:
+    """The faces of a vessel or duct and their total."""
+
+    faces: tuple[Face, ...]
+    q_total: np.ndarray                # sum over the faces [W]
+    area: np.ndarray                   # sum of the face areas [m2]
+    notes: tuple[str, ...]
+
+    def face(self, name: str) -> Face:
+        """The face called ``name``."""
+        names = [f.name for f in self.faces]
+        check_choice("face", name, names)
+        return self.faces[names.index(name)]
+
+    def rows(self) -> list[dict]:
+        """One dict per face for tables (scalar cases: floats; arrays stay arrays)."""
+        def show(a):
+            return float(a) if np.ndim(a) == 0 else a
+        return [{"face": f.name, "shape": f.shape, "area": show(f.area), "surface_temperature":
+                 show(f.surface_temperature), "q_per_area": show(f.q_per_area), "q_total": show(f.q_total),
+                 "h_convection": show(f.h_convection), "h_radiation": show(f.h_radiation)} for f in self.faces]
+
+
+def disc_as_plate(diameter):
+    r"""Rectangle (length along the wind, width) [m] that stands for a disc in the plate laws.
+
+    Its :math:`A/P` equals the disc's :math:`D/4` and its length the disc's mean chord
+    :math:`\pi D/4` (module docstring).
+
+    Examples
+    --------
+    >>> length, width = disc_as_plate(4.0)
+    >>> round(float(length), 4), round(float(width * length / (2 * (length + width))), 6)
+    (3.1416, 1.0)
+    """
+    d = as_array("diameter", diameter, unit="m", low=0.0, low_inclusive=False)
+    return np.pi * d / 4.0, np.pi * d / (2.0 * (np.pi - 2.0))
+
+
+def _sky(outdoor, shape):
+    return SKY_VIEW_FRACTION_TYPICAL[shape] if outdoor else 0.0
+
+
+def _layer_drops(layers, kind, inner_diameter):
+    """Per-layer conduction factors: ln(r2/r1)/(2 pi) per metre of a cylinder, thickness per m2 of a flat face."""
+    drops, radius = [], 0.5 * inner_diameter
+    for layer in layers:
+        if not isinstance(layer, Layer):
+            raise ValueError(f"layers must be Layer objects (thickness, conductivity); got {layer!r}")
+        if kind == "cylinder":
+            drops.append(np.log((radius + layer.thickness) / radius) / (2.0 * np.pi))
+            radius = radius + layer.thickness
+        else:
+            drops.append(layer.thickness)
+    return drops, 2.0 * radius
+
+
+def _solve_face(outer, fluid_temperature, layers, kind, inner_diameter, tolerance):
+    """Outer surface temperature [K] of a face with layers, the fluid inside at ``fluid_temperature``.
+
+    Conduction through the layers (cylindrical per metre, or flat per m2) balances the outer
+    exchange, solved for all points at once by the bracketed solver of :mod:`convlib.pipe`.
+    """
+    drops, outer_diameter = _layer_drops(layers, kind, inner_diameter)
+    per_flux = np.pi * outer_diameter if kind == "cylinder" else np.ones(())
+    constant = all(layer.conductivity.is_constant for layer in layers)
+    shape = np.broadcast_shapes(np.shape(fluid_temperature), np.shape(per_flux), *(np.shape(d) for d in drops),
+                                *(o.shape for o in outer.point_arrays()),
+                                *(np.shape(layer.conductivity.constant_value) for layer in layers
+                                  if layer.conductivity.is_constant))
+    full = lambda a: np.broadcast_to(np.asarray(a, dtype=float), shape)  # noqa: E731
+    if constant:
+        resistance = sum((d / layer.conductivity.constant_value for d, layer in zip(drops, layers)), np.zeros(()))
+        layer_args = (full(resistance),)
+    else:
+        layer_args = tuple(full(d) for d in drops)
+    n_layer = len(layer_args)
+
+    def residual(ts, tf, scale, *rest):
+        layer_part, point = rest[:n_layer], rest[n_layer:]
+        q_out = outer.exchange(ts, *point, flux_only=True) * scale
+        if constant:
+            with np.errstate(divide="ignore", invalid="ignore"):
+                q_in = (tf - ts) / layer_part[0]
+        else:
+            q_in = _stack_flow(ts, tf, np.zeros_like(ts), layer_part, layers)
+        return q_in - q_out
+
+    direct = np.ones(shape, dtype=bool)
+    for layer in layers:
+        direct = direct & (layer.thickness <= 0)
+    args = (full(fluid_temperature), full(per_flux), *layer_args, *(full(a) for a in outer.point_arrays()))
+    ts, _ = _solve_surface(residual, args, outer, tolerance, np.broadcast_to(direct, shape))
+    return ts, outer_diameter
+
+
+def _face(name, outer, ts, area, convection=None):
+    """A Face from an OuterSurface at surface temperature ``ts`` scaled to ``area``."""
+    surface = outer.result(outer.exchange(ts))
+    if convection is not None:
+        surface = convection(outer, surface)
+    shape = np.broadcast_shapes(surface.q_per_area.shape, np.shape(area))
+    full = lambda a: np.broadcast_to(a, shape).copy()  # noqa: E731
+    return Face(name=name, shape=outer.shape, area=full(area), surface_temperature=full(surface.surface_temperature),
+                q_per_area=full(surface.q_per_area), q_total=full(surface.q_per_area * area),
+                h_convection=full(surface.h_convection), h_radiation=full(surface.h_radiation), surface=surface)
+
+
+def _total(faces, notes):
+    shape = np.broadcast_shapes(*(f.q_total.shape for f in faces))
+    total = sum((np.broadcast_to(f.q_total, shape) for f in faces), np.zeros(shape))
+    area = sum((np.broadcast_to(f.area, shape) for f in faces), np.zeros(shape))
+    return FacesResult(faces=tuple(faces), q_total=total, area=area, notes=tuple(notes))
+
+
+def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None, fluid_temperature=None,
+                  wall_layers=(), roof_layers=(), floor="ground", floor_layers=(), emissivity=0.9, wind_speed=0.0,
+                  outdoor=False, sky_temperature=None, surroundings_temperature=None, ground_temperature=None,
+                  ground_conductivity=GROUND_CONDUCTIVITY, pressure=101325.0, exact_properties=False,
+                  convection_factor=1.0, tolerance=1e-6) -> FacesResult:
+    r"""Heat lost (or gained) by a vertical cylindrical tank, face by face.
+
+    Parameters
+    ----------
+    diameter, height : numeric
+        Tank diameter and wall height [m] (of the shell; layers add outside).
+    air_temperature : numeric
+        Ambient air temperature [K].
+    surface_temperature : numeric, optional
+        Known temperature of every face [K] (a bare tank); no layers then.
+    fluid_temperature : numeric, optional
+        Temperature of the contents [K] (the tank full, inner faces at it); give this or
+        ``surface_temperature``. With layers, each face's outer surface temperature is solved.
+    wall_layers, roof_layers, floor_layers : sequence of Layer
+        From the shell outwards (cylindrical on the wall, flat on roof and floor). Under a floor on
+        the ground they are the slab and insulation (constant conductivity).
+    floor : {"ground", "open", "none"}
+        On a foundation (conduction into the soil, module docstring), raised with air underneath
+        (plate facing down), or left out of the total.
+    emissivity : numeric
+        Long-wave emissivity of the outer surfaces (bare shell or jacket) [-].
+    wind_speed : numeric
+        Horizontal wind [m/s]: across the wall, along roof and open floor.
+    outdoor : bool
+        Sky view per face from :data:`convlib.radiation.SKY_VIEW_FRACTION_TYPICAL` (wall 0.5,
+        roof 1, open floor 0); indoors 0. No solar gain (night-time design).
+    sky_temperature, surroundings_temperature, pressure, exact_properties, convection_factor
+        As in :func:`convlib.surface.bare_surface`.
+    ground_temperature : numeric, optional
+        Undisturbed soil temperature [K]; default the air temperature (say the annual mean of the site).
+    ground_conductivity : numeric
+        Soil [W/m/K]; default :data:`GROUND_CONDUCTIVITY`.
+    tolerance : float
+        Surface temperature solve [K].
+
+    Returns
+    -------
+    FacesResult
+        Faces ``wall``, ``roof`` and (unless ``floor="none"``) ``floor``, and their total.
+
+    Examples
+    --------
+    A bare 10 m x 12 m tank at 60 degC in still air at 10 degC, floor on moist soil:
+
+    >>> r = vertical_tank(10.0, 12.0, surface_temperature=333.15, air_temperature=283.15)
+    >>> [f.name for f in r.faces], round(float(r.q_total) / 1e3, 1)
+    (['wall', 'roof', 'floor'], 252.3)
+    """
+    check_choice("floor", floor, FLOORS)
+    d = as_array("diameter", diameter, unit="m", low=0.0, low_inclusive=False)
+    h = as_array("height", height, unit="m", low=0.0, low_inclusive=False)
+    if surface_temperature is None and fluid_temperature is None:
+        raise ValueError("give surface_temperature (a bare tank) or fluid_temperature (the contents, with layers)")
+    if surface_temperature is not None and fluid_temperature is not None:
+        raise ValueError("give surface_temperature or fluid_temperature, not both")
+    if surface_temperature is not None:
+        inner = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
+        if any(len(tuple(x)) for x in (wall_layers, roof_layers)) or (floor != "ground" and len(tuple(floor_layers))):
+            raise ValueError("layers need fluid_temperature: with surface_temperature every face is bare")
+    else:
+        inner = as_array("fluid_temperature", fluid_temperature, unit="K", low=0.0, low_inclusive=False)
+    wall_layers, roof_layers, floor_layers = list(wall_layers), list(roof_layers), list(floor_layers)
+    if floor == "none" and floor_layers:
+        raise ValueError("floor_layers need floor='ground' or 'open'; the floor is left out")
+    common = dict(air_temperature=air_temperature, wind_speed=wind_speed, emissivity=emissivity,
+                  surroundings_temperature=surroundings_temperature, sky_temperature=sky_temperature,
+                  pressure=pressure, exact_properties=exact_properties, convection_factor=convection_factor)
+    notes = []
+
+    def solve(outer, layers, kind, inner_diameter):
+        if not layers:
+            return inner, inner_diameter
+        return _solve_face(outer, inner, layers, kind, inner_diameter, tolerance)
+
+    # wall: a vertical cylinder of the insulated outer diameter
+    _, d_wall = _layer_drops(wall_layers, "cylinder", d)
+    wall = OuterSurface.build("vertical_cylinder", diameter=d_wall, length=h,
+                              sky_view_fraction=_sky(outdoor, "vertical_cylinder"), **common)
+    ts_wall, _ = solve(wall, wall_layers, "cylinder", d)
+    faces = [_face("wall", wall, ts_wall, np.pi * d_wall * h)]
+
+    # roof: the disc as its equivalent plate, facing up
+    disc_area = np.pi * d ** 2 / 4.0
+    plate_length, plate_width = disc_as_plate(d)
+    roof = OuterSurface.build("horizontal_plate_up", length=plate_length, width=plate_width,
+                              sky_view_fraction=_sky(outdoor, "horizontal_plate_up"), **common)
+    ts_roof, _ = solve(roof, roof_layers, "flat", d)
+    faces.append(_face("roof", roof, ts_roof, disc_area))
+    notes.append("roof as a plate with the disc's A/P = D/4 and mean chord pi D/4; heat per area times pi D^2/4")
+
+    if floor == "open":
+        under = OuterSurface.build("horizontal_plate_down", length=plate_length, width=plate_width,
+                                   sky_view_fraction=_sky(outdoor, "horizontal_plate_down"), **common)
+        ts_floor, _ = solve(under, floor_layers, "flat", d)
+        faces.append(_face("floor", under, ts_floor, disc_area))
+    elif floor == "ground":
+        faces.append(_ground_floor(d, inner, floor_layers, air_temperature, ground_temperature, ground_conductivity))
+        notes.append("floor on the ground: disc on a semi-infinite soil, S = 2 D (steady state; an estimate)")
+    else:
+        notes.append("floor left out of the total")
+    return _total(faces, notes)
+
+
+def _ground_floor(d, floor_temperature, layers, air_temperature, ground_temperature, ground_conductivity):
+    """Floor face on the soil: layers in series with the disc's spreading resistance 1/(2 D k)."""
+    k_soil = as_array("ground_conductivity", ground_conductivity, unit="W/m/K", low=0.0, low_inclusive=False)
+    t_ground = as_array("air_temperature" if ground_temperature is None else "ground_temperature",
+                        air_temperature if ground_temperature is None else ground_temperature, unit="K", low=0.0,
+                        low_inclusive=False)
+    area = np.pi * d ** 2 / 4.0
+    slab = np.zeros(())  # [m2 K/W] of the floor layers
+    for layer in layers:
+        if not isinstance(layer, Layer):
+            raise ValueError(f"floor_layers must be Layer objects (thickness, conductivity); got {layer!r}")
+        if not layer.conductivity.is_constant:
+            raise ValueError(f"floor_layers on the ground take a constant conductivity; {layer.name!r} has k(T)")
+        slab = slab + layer.thickness / layer.conductivity.constant_value
+    q = (floor_temperature - t_ground) / (slab / area + 1.0 / (2.0 * d * k_soil))
+    shape = np.broadcast_shapes(np.shape(q), np.shape(area))
+    full = lambda a: np.broadcast_to(a, shape).copy()  # noqa: E731
+    nan = np.full(shape, np.nan)
+    return Face(name="floor", shape="ground", area=full(area), surface_temperature=full(floor_temperature
+                                                                                      - q * slab / area),
+                q_per_area=full(q / area), q_total=full(q), h_convection=nan, h_radiation=nan.copy(), surface=None)
+
+
+# ----------------------------------------------------------------------------- ducts
+def nusselt_square_cylinder_jakob(Re, Pr):
+    r"""Mean Nusselt number of a square cylinder in cross flow, a flat face to the flow.
+
+    .. math:: Nu_D = 0.102\, Re_D^{0.675}\, Pr^{1/3}, \qquad 5\times10^3 \le Re_D \le 10^5
+
+    :math:`D` is the side of the square, properties at the film temperature. Measured in air
+    (gases); constants of Jakob (1949) after Hilpert's (1933) measurements, as tabulated in
+    Incropera et al., *Fundamentals of Heat and Mass Transfer*, 6th ed., Table 7.3 (from memory;
+    the corner-to-flow orientation has C = 0.246, m = 0.588). Not in the correlation registry.
+
+    References
+    ----------
+    M. Jakob (1949), *Heat Transfer*, Vol. 1, Wiley, New York.
+
+    Examples
+    --------
+    >>> round(float(nusselt_square_cylinder_jakob(2.0e4, 0.71)), 1)
+    72.8
+    """
+    return 0.102 * np.asarray(Re, dtype=float) ** 0.675 * np.asarray(Pr, dtype=float) ** (1.0 / 3.0)
+
+
+def rectangular_duct(width, height, length, *, surface_temperature, air_temperature, wind_speed=0.0,
+                     wind_direction="along", emissivity=0.9, outdoor=False, sky_temperature=None,
+                     surroundings_temperature=None, pressure=101325.0, exact_properties=False,
+                     convection_factor=1.0) -> FacesResult:
+    r"""Heat lost (or gained) by a horizontal rectangular duct at a known surface temperature.
+
+    Faces: ``sides`` (two vertical plates, height x length), ``top`` (plate facing up, length x
+    width) and ``bottom`` (plate facing down); the two ends are left out.
+
+    Wind ``"along"`` the duct uses the plate laws with the duct length as streamwise length.
+    Wind ``"across"`` (horizontal, normal to the axis) uses :func:`nusselt_square_cylinder_jakob`
+    with :math:`D` = the height (the face the wind meets), one forced coefficient for the whole
+    section, combined with each face's natural coefficient by Churchill's rule (transverse,
+    :math:`n = 3`); a section far from square is flagged in ``notes``, Reynolds numbers outside
+    5e3-1e5 in each face's ``warnings`` (``FORCED_OUT_OF_RANGE``).
+
+    Parameters
+    ----------
+    width, height, length : numeric
+        Duct section and run [m].
+    surface_temperature : numeric
+        Outer surface temperature, all faces [K].
+    air_temperature : numeric
+        [K]
+    wind_speed : numeric
+        [m/s]
+    wind_direction : {"along", "across"}
+    emissivity, outdoor, sky_temperature, surroundings_temperature, pressure, exact_properties, convection_factor
+        As in :func:`vertical_tank`.
+
+    Examples
+    --------
+    A 0.6 m x 0.4 m duct, 20 m long, at 40 degC in still air at 20 degC:
+
+    >>> r = rectangular_duct(0.6, 0.4, 20.0, surface_temperature=313.15, air_temperature=293.15)
+    >>> [f.name for f in r.faces], round(float(r.q_total))
+    (['sides', 'top', 'bottom'], 7547)
+    """
+    check_choice("wind_direction", wind_direction, WIND_DIRECTIONS)
+    w = as_array("width", width, unit="m", low=0.0, low_inclusive=False)
+    h = as_array("height", height, unit="m", low=0.0, low_inclusive=False)
+    run = as_array("length", length, unit="m", low=0.0, low_inclusive=False)
+    ts = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
+    across = wind_direction == "across"
+    wind = as_array("wind_speed", wind_speed, unit="m/s", low=0.0)
+    common = dict(air_temperature=air_temperature, wind_speed=0.0 * wind if across else wind, emissivity=emissivity,
+                  surroundings_temperature=surroundings_temperature, sky_temperature=sky_temperature,
+                  pressure=pressure, exact_properties=exact_properties, convection_factor=convection_factor)
+    outers = [("sides", OuterSurface.build("vertical_plate", height=h, width=run,
+                                           sky_view_fraction=_sky(outdoor, "vertical_plate"), **common), 2.0 * h * run),
+              ("top", OuterSurface.build("horizontal_plate_up", length=run, width=w,
+                                         sky_view_fraction=_sky(outdoor, "horizontal_plate_up"), **common), w * run),
+              ("bottom", OuterSurface.build("horizontal_plate_down", length=run, width=w,
+                                            sky_view_fraction=_sky(outdoor, "horizontal_plate_down"), **common),
+               w * run)]
+    notes = ["ends of the duct left out"]
+    convection = None
+    if across:
+        ta = np.asarray(outers[0][1].air_temperature)
+        film = fluid_properties("Air", 0.5 * (ts + ta), pressure=as_array("pressure", pressure, unit="Pa", low=0.0,
+                                                                             low_inclusive=False),
+                                exact=exact_properties)
+        reynolds = wind * h / film.nu
+        h_forced = nusselt_square_cylinder_jakob(reynolds, film.pr) * film.k / h
+        outside = (wind > 0) & ((reynolds < SQUARE_CYLINDER_RE_RANGE[0]) | (reynolds > SQUARE_CYLINDER_RE_RANGE[1]))
+        factor = as_array("convection_factor", convection_factor, low=0.0, low_inclusive=False)
+        n_mix = default_mixing_exponent("transverse", round_body=False)
+        grashof_over_l3 = GRAVITY * film.beta * np.abs(ts - ta) / film.nu ** 2
+        convection = _cross_flow(wind, reynolds, np.where(wind > 0, h_forced, 0.0), factor, n_mix, outside,
+                                 grashof_over_l3 * h ** 3)
+        aspect = w / h
+        if np.any((aspect < 0.8) | (aspect > 1.25)):
+            notes.append("wind across a section that is not square (width/height outside 0.8-1.25): the square-"
+                         "cylinder law is applied with D = height; no law for rectangular sections is implemented")
+    faces = [_face(name, outer, ts, area, convection) for name, outer, area in outers]
+    return _total(faces, notes)
+
+
+def _cross_flow(wind, reynolds, h_forced, factor, n_mix, outside, grashof):
+    """Replace a still-air SurfaceResult's convection by the cross-flow mix (Churchill, transverse)."""
+    def apply(outer: OuterSurface, r: SurfaceResult) -> SurfaceResult:
+        delta = r.surface_temperature - r.air_temperature
+        h_mix, _ = combine(h_forced, r.h_natural, n_mix, "transverse")
+        h_conv = factor * h_mix
+        q_area = r.q_per_area + (h_conv - r.h_convection) * delta
+        per_run = outer.area / outer.run_length
+        with np.errstate(divide="ignore", invalid="ignore"):
+            richardson = np.where(wind > 0, grashof / np.where(wind > 0, reynolds, 1.0) ** 2, np.inf)
+        flags = r.warnings | np.where(outside, Flag.FORCED_OUT_OF_RANGE, 0).astype(np.int16)
+        shape = np.broadcast_shapes(r.q_per_area.shape, np.shape(h_conv), np.shape(richardson))
+        full = lambda a: np.broadcast_to(a, shape).copy()  # noqa: E731
+        r = SurfaceResult(**{f.name: full(getattr(r, f.name)) for f in dataclasses.fields(SurfaceResult)})
+        return dataclasses.replace(
+            r, q_per_area=full(q_area), q_per_length=full(q_area * per_run), q_total=full(q_area * outer.area),
+            q_convection_per_length=full(h_conv * delta * per_run), h_convection=full(h_conv),
+            h_forced=full(h_forced), reynolds=full(np.where(wind > 0, reynolds, 0.0)), richardson=full(richardson),
+            regime=full(convection_mode(richardson, wind)), warnings=full(flags))
+    return apply

@@ -1,0 +1,80 @@
+"""Lines in operation through the edges: CLI commands trace, freeze, tank; line-list
+columns mass_flow, maintain_temperature, minimum_ambient. Expected values: direct library calls with the inputs
+converted by the unit definitions (K = degC + 273.15); NPS 2 schedule 40 = 60.3 mm x 3.91 mm (ASME B36.10M)."""
+import io
+import json
+import subprocess
+import sys
+
+import pytest
+
+import convlib as cl
+from convlib import Layer
+from convlib.linelist import run_line_list
+
+
+def run(*args):
+    return subprocess.run([sys.executable, "-m", "convlib", *args], capture_output=True, text=True, timeout=120)
+
+
+def test_trace_json_is_the_library_duty():
+    proc = run("trace", "--nps", "2", "--maintain-temperature", "5degC", "--minimum-ambient=-20degC",
+               "--wind-speed", "10", "--layer", "25mm,0.04", "--length", "100", "--json")
+    assert proc.returncode == 0, proc.stderr
+    row = json.loads(proc.stdout)["heat tracing"]["results"][0]
+    q = float(cl.insulated_pipe(0.0603, 278.15, [Layer(0.025, 0.04)], air_temperature=253.15,
+                                wind_speed=10.0).q_per_length)
+    assert row["duty_per_length"] == pytest.approx(1.2 * q, rel=1e-9)
+    assert row["duty_total"] == pytest.approx(120.0 * q, rel=1e-9)
+
+
+def test_freeze_json_in_seconds_and_table_in_hours():
+    args = ("freeze", "--nps", "2", "--initial-temperature", "10degC", "--minimum-ambient=-15degC", "--wind-speed",
+            "5", "--layer", "25mm,0.04")
+    proc = run(*args, "--json")
+    assert proc.returncode == 0, proc.stderr
+    payload = json.loads(proc.stdout)
+    f = cl.freeze_time(0.0603, 0.00391, 283.15, [Layer(0.025, 0.04)], air_temperature=258.15, wind_speed=5.0)
+    row = payload["freeze time (stagnant water)"]["results"][0]
+    assert row["time_total"] == pytest.approx(3600 * float(f.hours_total), rel=1e-9)
+    assert payload["freeze time (stagnant water)"]["units"]["time_total"] == "s"
+    assert any("no substitute for draining" in c for c in payload["cautions"])
+    table = run(*args)
+    assert f"{float(f.hours_total):.2f}" in table.stdout and "[h]" in table.stdout
+
+
+def test_tank_json_faces_and_total():
+    proc = run("tank", "--diameter", "10m", "--height", "12m", "--fluid-temperature", "80degC",
+               "--air-temperature=-5degC", "--wall-layer", "100mm,0.04", "--roof-layer", "100mm,0.04", "--json")
+    assert proc.returncode == 0, proc.stderr
+    payload = json.loads(proc.stdout)
+    r = cl.vertical_tank(10.0, 12.0, fluid_temperature=353.15, air_temperature=268.15,
+                         wall_layers=[Layer(0.1, 0.04)], roof_layers=[Layer(0.1, 0.04)])
+    assert payload["q_total"] == pytest.approx(float(r.q_total), rel=1e-9)
+    faces = payload["tank faces"]["results"]
+    assert [f["tag"] for f in faces] == ["wall", "roof", "floor"]
+    assert sum(f["q_total"] for f in faces) == pytest.approx(payload["q_total"], rel=1e-12)
+    bad = run("tank", "--diameter", "10m", "--height", "12m", "--air-temperature", "10degC")
+    assert bad.returncode == 2 and "--surface-temperature" in bad.stderr
+
+
+def test_line_list_operation_columns():
+    text = ("tag,nps,length[m],fluid_temperature[degC],air_temperature[degC],layers[mm],wind_speed,mass_flow,"
+            "maintain_temperature[degC],minimum_ambient[degC]\n"
+            "HW-1,2,200,80,0,40@0.04,3,0.2,,\n"
+            "FP-1,2,100,10,0,25@0.04,10,,5,-20\n"
+            "HOT,2,100,150,0,40@0.04,0,0.5,,\n"
+            "BAD,2,100,10,0,25@0.04,3,0,,\n")
+    res = run_line_list(io.StringIO(text))
+    assert [e.row for e in res.errors] == [5] and "mass_flow" in res.errors[0].reason
+    p = cl.line_temperature_profile(0.0603, 353.15, [Layer(0.04, 0.04)], mass_flow=0.2, length=200.0,
+                                    air_temperature=273.15, wind_speed=3.0)
+    assert res.outlet_temperature[0] == pytest.approx(float(p.outlet_temperature), abs=1e-6)
+    d = cl.tracing_duty(0.0603, 278.15, [Layer(0.025, 0.04)], air_temperature=253.15, wind_speed=10.0)
+    assert res.tracing_duty_per_length[1] == pytest.approx(float(d.duty_per_length), rel=1e-9)
+    assert res.tracing_duty[1] == pytest.approx(100.0 * float(d.duty_per_length), rel=1e-9)
+    assert res.totals["tracing_duty"] == pytest.approx(100.0 * float(d.duty_per_length), rel=1e-9)
+    # water at 150 C is not liquid at 1 atm: no outlet temperature, a note says why
+    assert res.outlet_temperature[2] != res.outlet_temperature[2] and "fluid_phase" in res.notes[2]
+    rows = res.rows()
+    assert rows[1]["outlet_temperature"] is None and rows[0]["tracing_duty_per_length"] is None

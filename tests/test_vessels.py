@@ -1,0 +1,212 @@
+"""convlib.vessels checked face by face against bare_surface, conduction formulas and cited constants.
+
+References used below:
+- Series conduction through cylindrical and flat layers, q' = (T1 - T2) 2 pi k / ln(r2/r1), q'' = (T1 - T2) k / t
+  (Incropera et al., Fundamentals of Heat and Mass Transfer, 6th ed., eqs. 3.27 and 3.6, from memory); with k(T)
+  the Kirchhoff integral of k (analytic).
+- Disc on a semi-infinite medium, shape factor S = 2 D (Incropera et al., 6th ed., Table 4.1, from memory; half of
+  the isolated disc's 4 D from its capacitance 8 R, analytic).
+- Square cylinder in cross flow, Nu = C Re^m Pr^(1/3), C = 0.102, m = 0.675 for 5e3-1e5 (Jakob 1949, as in
+  Incropera et al., 6th ed., Table 7.3, from memory). Churchill (1977) mixing, Nu^n = Nu_F^n + Nu_N^n.
+"""
+import math
+
+import numpy as np
+import pytest
+from CoolProp.CoolProp import PropsSI
+from scipy.optimize import brentq
+
+import convlib as cl
+from convlib import Conductivity, Layer
+from convlib import vessels as v
+from convlib.geometry import dimensions
+from convlib.regimes import Flag
+
+
+def _disc_plate(d):
+    """The rectangle standing for a disc: length pi D/4 (mean chord), width pi D / (2 (pi - 2)) (module docs)."""
+    return math.pi * d / 4, math.pi * d / (2 * (math.pi - 2))
+
+
+# --------------------------------------------------------------------------- geometry of the disc
+def test_disc_plate_has_the_disc_characteristic_length():
+    # a disc's A/P = (pi D^2/4) / (pi D) = D/4 (analytic); its mean chord = area / D = pi D/4 (analytic)
+    for d in (0.5, 3.0, 20.0):
+        length, width = v.disc_as_plate(d)
+        assert float(dimensions("horizontal_plate_up", length=length, width=width).natural_length) == \
+            pytest.approx(d / 4, rel=1e-12)
+        assert float(length) == pytest.approx((math.pi * d ** 2 / 4) / d, rel=1e-12)
+
+
+# --------------------------------------------------------------------------- bare tank
+@pytest.mark.parametrize("wind,outdoor", [(0.0, False), (4.0, True)])
+def test_bare_tank_faces_are_bare_surfaces_and_total_is_their_sum(wind, outdoor):
+    d, h, ts, ta = 8.0, 10.0, 343.15, 278.15
+    kw = dict(air_temperature=ta, wind_speed=wind, emissivity=0.85)
+    r = v.vertical_tank(d, h, surface_temperature=ts, floor="open", outdoor=outdoor, **kw)
+    wall = cl.bare_surface("vertical_cylinder", surface_temperature=ts, diameter=d, length=h,
+                           sky_view_fraction=0.5 if outdoor else 0.0, **kw)
+    length, width = _disc_plate(d)
+    roof = cl.bare_surface("horizontal_plate_up", surface_temperature=ts, length=length, width=width,
+                           sky_view_fraction=1.0 if outdoor else 0.0, **kw)
+    floor = cl.bare_surface("horizontal_plate_down", surface_temperature=ts, length=length, width=width,
+                            sky_view_fraction=0.0, **kw)
+    disc = math.pi * d ** 2 / 4
+    assert float(r.face("wall").q_total) == pytest.approx(float(wall.q_total), rel=1e-12)
+    assert float(r.face("wall").area) == pytest.approx(math.pi * d * h, rel=1e-12)
+    assert float(r.face("roof").q_total) == pytest.approx(float(roof.q_per_area) * disc, rel=1e-12)
+    assert float(r.face("floor").q_total) == pytest.approx(float(floor.q_per_area) * disc, rel=1e-12)
+    assert float(r.face("roof").h_convection) == pytest.approx(float(roof.h_convection), rel=1e-12)
+    assert float(r.q_total) == pytest.approx(sum(float(f.q_total) for f in r.faces), rel=1e-12)
+    assert float(r.area) == pytest.approx(math.pi * d * h + 2 * disc, rel=1e-12)
+
+
+def test_floor_on_ground_is_disc_on_half_space():
+    # Q = (T_floor - T_ground) / (t/(k_slab A) + 1/(2 D k_soil)); S = 2 D (Incropera Table 4.1, from memory)
+    d, ts, tg = np.array([4.0, 12.0]), 333.15, 283.15
+    r = v.vertical_tank(d, 6.0, surface_temperature=ts, air_temperature=273.15, ground_temperature=tg,
+                        ground_conductivity=1.5)
+    np.testing.assert_allclose(r.face("floor").q_total, 2 * d * 1.5 * (ts - tg), rtol=1e-12)
+    slab = Layer(0.3, 1.4, name="concrete slab")  # concrete 1.4 W/m/K (Incropera Table A.3, from memory)
+    r = v.vertical_tank(d, 6.0, fluid_temperature=ts, floor_layers=[slab], air_temperature=273.15,
+                        ground_temperature=tg, ground_conductivity=1.5)
+    area = math.pi * d ** 2 / 4
+    q = (ts - tg) / (0.3 / (1.4 * area) + 1 / (2 * d * 1.5))
+    np.testing.assert_allclose(r.face("floor").q_total, q, rtol=1e-12)
+    np.testing.assert_allclose(r.face("floor").surface_temperature, ts - q * 0.3 / (1.4 * area), rtol=1e-12)
+    # the soil defaults to the air temperature; "none" leaves the floor out
+    r = v.vertical_tank(4.0, 6.0, surface_temperature=ts, air_temperature=273.15, floor="none")
+    assert [f.name for f in r.faces] == ["wall", "roof"] and any("left out" in n for n in r.notes)
+
+
+# --------------------------------------------------------------------------- insulated tank
+def test_insulated_wall_and_roof_balance_conduction_with_the_outer_surface():
+    # reference: brentq on the surface balance of one face, conduction formula against bare_surface
+    d, h, tf, ta, t_ins, k = 6.0, 9.0, 393.15, 268.15, 0.08, 0.045
+    kw = dict(air_temperature=ta, wind_speed=3.0, emissivity=0.15)
+    r = v.vertical_tank(d, h, fluid_temperature=tf, wall_layers=[Layer(t_ins, k)], roof_layers=[Layer(0.1, k)],
+                        floor="open", floor_layers=[Layer(0.05, k)], **kw)
+    d_out = d + 2 * t_ins
+    r_wall = math.log(d_out / d) / (2 * math.pi * k) / h  # [K/W] Incropera eq. 3.28 (from memory)
+
+    def wall_out(ts):
+        return float(cl.bare_surface("vertical_cylinder", surface_temperature=ts, diameter=d_out, length=h,
+                                     **kw).q_total)
+
+    ts_wall = brentq(lambda t: (tf - t) / r_wall - wall_out(t), ta, tf, xtol=1e-10)
+    assert float(r.face("wall").surface_temperature) == pytest.approx(ts_wall, abs=1e-5)
+    assert float(r.face("wall").q_total) == pytest.approx((tf - ts_wall) / r_wall, rel=1e-6)
+    length, width = _disc_plate(d)
+    for name, shape, t in (("roof", "horizontal_plate_up", 0.1), ("floor", "horizontal_plate_down", 0.05)):
+        def balance(ts, shape=shape, t=t):
+            return (tf - ts) * k / t - float(cl.bare_surface(shape, surface_temperature=ts, length=length,
+                                                             width=width, **kw).q_per_area)
+        ts_face = brentq(balance, ta, tf, xtol=1e-10)
+        assert float(r.face(name).surface_temperature) == pytest.approx(ts_face, abs=1e-5)
+        assert float(r.face(name).q_total) == pytest.approx((tf - ts_face) * k / t * math.pi * d ** 2 / 4, rel=1e-6)
+
+
+def test_insulated_wall_with_temperature_dependent_conductivity():
+    # Kirchhoff: q' = 2 pi / ln(r2/r1) * integral of k dT from Ts to Tf (analytic), k = 0.03 + 1e-4 T
+    d, h, tf, ta = 3.0, 5.0, 523.15, 288.15
+    k = Conductivity.polynomial([0.03, 1e-4], form="true", valid_range=(250.0, 700.0))
+    r = v.vertical_tank(d, h, fluid_temperature=tf, wall_layers=[Layer(0.1, k)], air_temperature=ta, floor="none")
+    ts = float(r.face("wall").surface_temperature)
+    integral = 0.03 * (tf - ts) + 0.5e-4 * (tf ** 2 - ts ** 2)
+    q_conduction = 2 * math.pi / math.log((d + 0.2) / d) * integral * h
+    assert float(r.face("wall").q_total) == pytest.approx(q_conduction, rel=1e-6)
+
+
+def test_tank_broadcasts_like_single_cases():
+    d, tf = [4.0, 10.0], [330.0, 360.0]
+    kw = dict(air_temperature=270.0, wall_layers=[Layer(0.05, 0.04)], roof_layers=[Layer(0.05, 0.04)])
+    together = v.vertical_tank(np.array(d), 8.0, fluid_temperature=np.array(tf), **kw)
+    for i in range(2):
+        alone = v.vertical_tank(d[i], 8.0, fluid_temperature=tf[i], **kw)
+        assert float(together.q_total[i]) == pytest.approx(float(alone.q_total), rel=1e-7)
+    rows = v.vertical_tank(4.0, 8.0, fluid_temperature=330.0, **kw).rows()
+    assert [row["face"] for row in rows] == ["wall", "roof", "floor"] and isinstance(rows[0]["q_total"], float)
+
+
+# --------------------------------------------------------------------------- ducts
+@pytest.mark.parametrize("wind", [0.0, 3.0])
+def test_duct_faces_are_plates_and_total_is_their_sum(wind):
+    w, h, run, ts, ta = 0.8, 0.5, 15.0, 318.15, 288.15
+    kw = dict(air_temperature=ta, wind_speed=wind, emissivity=0.3)
+    r = v.rectangular_duct(w, h, run, surface_temperature=ts, **kw)
+    side = cl.bare_surface("vertical_plate", surface_temperature=ts, height=h, width=run, **kw)
+    top = cl.bare_surface("horizontal_plate_up", surface_temperature=ts, length=run, width=w, **kw)
+    bottom = cl.bare_surface("horizontal_plate_down", surface_temperature=ts, length=run, width=w, **kw)
+    assert float(r.face("sides").q_total) == pytest.approx(2 * float(side.q_total), rel=1e-12)
+    assert float(r.face("top").q_total) == pytest.approx(float(top.q_total), rel=1e-12)
+    assert float(r.face("bottom").q_total) == pytest.approx(float(bottom.q_total), rel=1e-12)
+    assert float(r.q_total) == pytest.approx(2 * float(side.q_total) + float(top.q_total) + float(bottom.q_total),
+                                             rel=1e-12)
+    assert float(r.area) == pytest.approx(2 * (w + h) * run, rel=1e-12)
+
+
+def test_square_cylinder_law_constants():
+    # Jakob (1949) / Incropera et al. 6th ed. Table 7.3 (from memory): square, flat face to the flow
+    re, pr = np.array([5e3, 2e4, 1e5]), 0.71
+    np.testing.assert_allclose(v.nusselt_square_cylinder_jakob(re, pr), 0.102 * re ** 0.675 * pr ** (1 / 3),
+                               rtol=1e-12)
+    assert v.SQUARE_CYLINDER_RE_RANGE == (5e3, 1e5)
+
+
+def test_duct_across_wind_mixes_square_cylinder_with_natural_convection():
+    # Churchill (1977), transverse, n = 3 for a flat body: h^3 = h_F^3 + h_N^3, h_F from the square-cylinder law
+    # with CoolProp air properties at the film temperature (called directly); radiation unchanged
+    a, run, ts, ta, wind = 0.6, 10.0, 323.15, 283.15, 2.0
+    r = v.rectangular_duct(a, a, run, surface_temperature=ts, air_temperature=ta, wind_speed=wind,
+                           wind_direction="across")
+    still = v.rectangular_duct(a, a, run, surface_temperature=ts, air_temperature=ta)
+    film = 0.5 * (ts + ta)
+    nu = PropsSI("V", "T", film, "P", 101325.0, "Air") / PropsSI("D", "T", film, "P", 101325.0, "Air")
+    k, pr = PropsSI("L", "T", film, "P", 101325.0, "Air"), PropsSI("PRANDTL", "T", film, "P", 101325.0, "Air")
+    re = wind * a / nu
+    assert 5e3 < re < 1e5
+    h_forced = 0.102 * re ** 0.675 * pr ** (1 / 3) * k / a
+    for name in ("sides", "top", "bottom"):
+        face, natural = r.face(name), still.face(name)
+        h_mix = (h_forced ** 3 + float(natural.surface.h_natural) ** 3) ** (1 / 3)
+        assert float(face.h_convection) == pytest.approx(h_mix, rel=1e-3)  # CoolProp vs the 1 K tables
+        q_rad = float(natural.q_per_area) - float(natural.h_convection) * (ts - ta)
+        assert float(face.q_per_area) == pytest.approx(h_mix * (ts - ta) + q_rad, rel=1e-3)
+        assert not face.surface.warnings & Flag.FORCED_OUT_OF_RANGE
+    # both sides of the Reynolds range: flagged above 1e5, not at 5e3 < Re
+    fast = v.rectangular_duct(a, a, run, surface_temperature=ts, air_temperature=ta, wind_speed=[1.0, 40.0],
+                              wind_direction="across")
+    assert (fast.face("top").surface.warnings & Flag.FORCED_OUT_OF_RANGE).astype(bool).tolist() == [False, True]
+    assert not any("not square" in n for n in r.notes)
+    flat = v.rectangular_duct(1.2, 0.4, run, surface_temperature=ts, air_temperature=ta, wind_speed=wind,
+                              wind_direction="across")
+    assert any("not square" in n for n in flat.notes)
+
+
+# --------------------------------------------------------------------------- input checks
+@pytest.mark.parametrize("call,field", [
+    (lambda: v.vertical_tank(-1.0, 5.0, surface_temperature=330.0, air_temperature=280.0), "diameter"),
+    (lambda: v.vertical_tank(2.0, 0.0, surface_temperature=330.0, air_temperature=280.0), "height"),
+    (lambda: v.vertical_tank(2.0, 5.0, air_temperature=280.0), "surface_temperature"),
+    (lambda: v.vertical_tank(2.0, 5.0, surface_temperature=330.0, fluid_temperature=330.0, air_temperature=280.0),
+     "fluid_temperature"),
+    (lambda: v.vertical_tank(2.0, 5.0, surface_temperature=330.0, air_temperature=280.0,
+                             wall_layers=[Layer(0.05, 0.04)]), "layers need fluid_temperature"),
+    (lambda: v.vertical_tank(2.0, 5.0, surface_temperature=330.0, air_temperature=280.0, floor="roof"), "floor"),
+    (lambda: v.vertical_tank(2.0, 5.0, fluid_temperature=330.0, air_temperature=280.0, floor="none",
+                             floor_layers=[Layer(0.05, 0.04)]), "floor_layers"),
+    (lambda: v.vertical_tank(2.0, 5.0, fluid_temperature=330.0, air_temperature=280.0,
+                             floor_layers=[Layer(0.05, Conductivity.polynomial([0.03, 1e-4]))]), "floor_layers"),
+    (lambda: v.vertical_tank(2.0, 5.0, surface_temperature=330.0, air_temperature=280.0, ground_conductivity=0),
+     "ground_conductivity"),
+    (lambda: v.vertical_tank(2.0, 5.0, surface_temperature=330.0, air_temperature=280.0, emissivity=1.5),
+     "emissivity"),
+    (lambda: v.rectangular_duct(0.5, 0.5, 10.0, surface_temperature=330.0, air_temperature=280.0,
+                                wind_direction="diagonal"), "wind_direction"),
+    (lambda: v.rectangular_duct(0.5, -0.5, 10.0, surface_temperature=330.0, air_temperature=280.0), "height"),
+    (lambda: v.rectangular_duct(0.5, 0.5, 10.0, surface_temperature=330.0, air_temperature=280.0,
+                                wind_speed=-1.0), "wind_speed"),
+])
+def test_bad_inputs_name_the_field(call, field):
+    with pytest.raises(ValueError, match=field):
+        call()
