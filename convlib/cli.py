@@ -10,6 +10,8 @@ Commands
 ``verify``        re-run a snapshot's study and say whether the numbers still agree
 ``compare``       changed inputs and results between two snapshots
 ``report``        a snapshot as a self-contained HTML page
+``outlet``        temperature along a line with flow; ``trace`` heat-tracing duty; ``freeze`` freeze time;
+``tank``          a vertical tank's loss by face
 ``lines``         a CSV line list: every line at once, totals, results to CSV (exit 1 if rows failed)
 ``trace``         heat-tracing duty to hold a line at a maintain temperature (minimum ambient, maximum wind)
 ``freeze``        time for stagnant water in a line to reach 0 degC and to freeze solid
@@ -37,7 +39,7 @@ from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, TOUCH_LIMIT_METAL_JACK
                      thickness_against_condensation, thickness_for_heat_loss, thickness_for_surface_temperature)
 from .geometry import SHAPES
 from .lines import LineSpec
-from .operation import TRACING_MARGIN, freeze_time, tracing_duty
+from .operation import TRACING_MARGIN, freeze_time, line_temperature_profile, tracing_duty
 from .pipe import Layer, insulated_pipe
 from .pipe_sizes import SCHEDULES, nominal_pipe
 from .surface import bare_surface
@@ -63,6 +65,7 @@ FIELDS = {
     "h_radiation": ("h_rad", "coefficient", "{:.2f}"),
     "rayleigh": ("Ra", "dimensionless", "{:.3g}"),
     "reynolds": ("Re", "dimensionless", "{:.3g}"),
+    "outlet_temperature": ("T_outlet", "temperature", "{:.2f}"),
     "maintain_temperature": ("T_maintain", "temperature", "{:.1f}"),
     "initial_temperature": ("T_initial", "temperature", "{:.1f}"),
     "heat_loss_per_length": ("q_loss", "heat_per_length", "{:.2f}"),
@@ -223,6 +226,27 @@ def _cmd_trace(args) -> int:
     return 0
 
 
+def _cmd_outlet(args) -> int:
+    layers = [_parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
+    inlet = parse(args.inlet_temperature, "temperature", "inlet-temperature")
+    air = parse(args.air_temperature, "temperature", "air-temperature")
+    mass_flow = parse(args.mass_flow, "mass_flow", "mass-flow")
+    length = parse(args.length, "length", "length")
+    r = line_temperature_profile(_pipe_diameter(args), inlet, layers, mass_flow=mass_flow, length=length,
+                                 air_temperature=air, fluid=args.fluid,
+                                 fluid_pressure=parse(args.fluid_pressure, "pressure", "fluid-pressure"),
+                                 wind_speed=parse(args.wind_speed, "speed", "wind-speed"),
+                                 jacket_emissivity=args.jacket_emissivity, sky_view_fraction=args.sky_view_fraction)
+    row = {"tag": args.tag, "fluid_temperature": inlet, "outlet_temperature": float(r.outlet_temperature),
+           "air_temperature": air, "q_total": float(r.q_total), "warnings": []}
+    _emit(args, [("temperature along the line", [row])], [],
+          {"text": [f"energy balance: loss {float(r.q_total):.6g} W vs enthalpy drop {float(r.enthalpy_drop):.6g} W "
+                    f"({float(r.energy_balance_error):.1e} relative); {int(np.max(r.steps))} steps"]}
+          if not args.json else {"profile": {"position_m": np.asarray(r.position).ravel().tolist(),
+                                             "temperature_K": np.asarray(r.temperature).ravel().tolist()}})
+    return 0
+
+
 def _cmd_freeze(args) -> int:
     layers = [_parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
     d = _pipe_diameter(args)
@@ -376,17 +400,72 @@ def _cmd_demo(args) -> int:
                        "purchased [MWh/yr]": f"{float(e.purchased_kwh) / 1000:.2f}",
                        f"cost [{price['currency']}/yr]": f"{float(e.cost):.0f}",
                        "CO2 [t/yr]": f"{float(e.co2_kg) / 1000:.2f}"})
+    operation, operation_cautions = _demo_operation(site["operation"])
+    cautions.update(operation_cautions)
     header = f"{site['site']}\n{site['note']}"
     if args.json:
         _emit(args, [("bare_surfaces", bare), ("insulated_lines", insulated)], sorted(cautions),
-              {"sizing": sizing, "annual_energy": energy})
+              {"sizing": sizing, "annual_energy": energy, "in_operation": operation})
         return 0
     print(header)
     _emit(args, [("Bare surfaces at a known surface temperature", bare),
                  ("Insulated lines (surface temperature solved)", insulated),
                  ("Insulation sizing (design conditions of the site)", sizing),
-                 ("Annual energy over the site's weather bins", energy)], sorted(cautions))
+                 ("Annual energy over the site's weather bins", energy),
+                 ("In operation: long line, traced line, outdoor water line, tank", operation)], sorted(cautions))
     return 0
+
+
+def _layers(records) -> list:
+    return [Layer(r["thickness"], r["conductivity"], name=r.get("name", "layer")) for r in records]
+
+
+def _demo_operation(op: dict) -> tuple[list[dict], set[str]]:
+    """The demo site's lines in operation: outlet temperature, tracing duty, freeze time, tank loss."""
+    from .operation import freeze_time, line_temperature_profile, tracing_duty
+    from .vessels import vertical_tank
+
+    rows, cautions = [], set()
+    c = op["long_line"]
+    r = line_temperature_profile(nominal_pipe(c["nps"], c["schedule"]).outer_diameter, c["inlet_temperature"],
+                                 _layers(c["layers"]), mass_flow=c["mass_flow"], length=c["length"],
+                                 air_temperature=c["air_temperature"], fluid_pressure=c["fluid_pressure"],
+                                 wind_speed=c["wind_speed"], sky_view_fraction=c["sky_view_fraction"],
+                                 jacket_emissivity=c["jacket_emissivity"])
+    rows.append({"tag": c["tag"], "what": f"outlet after {c['length']:g} m at {c['mass_flow']:g} kg/s",
+                 "result": f"{c['inlet_temperature'] - 273.15:.1f} -> {float(r.outlet_temperature) - 273.15:.2f} °C, "
+                           f"loss {float(r.q_total) / 1000:.1f} kW"})
+    c = op["traced_line"]
+    t = tracing_duty(nominal_pipe(c["nps"], c["schedule"]).outer_diameter, c["maintain_temperature"],
+                     _layers(c["layers"]), air_temperature=c["minimum_air_temperature"],
+                     wind_speed=c["maximum_wind_speed"], length=c["length"], sky_view_fraction=c["sky_view_fraction"],
+                     jacket_emissivity=c["jacket_emissivity"])
+    rows.append({"tag": c["tag"], "what": f"tracing to hold {c['maintain_temperature'] - 273.15:.0f} °C at "
+                                          f"{c['minimum_air_temperature'] - 273.15:.0f} °C, {c['maximum_wind_speed']:g} m/s",
+                 "result": f"{float(t.duty_per_length):.1f} W/m ({float(t.duty_total):.0f} W) with "
+                           f"{float(t.margin) * 100:.0f} % margin"})
+    cautions.update(t.cautions)
+    c = op["water_line"]
+    pipe = nominal_pipe(c["nps"], c["schedule"])
+    f = freeze_time(pipe.outer_diameter, pipe.wall_thickness, c["initial_temperature"], _layers(c["layers"]),
+                    air_temperature=c["minimum_air_temperature"], wind_speed=c["wind_speed"],
+                    sky_view_fraction=c["sky_view_fraction"], jacket_emissivity=c["jacket_emissivity"])
+    rows.append({"tag": c["tag"], "what": f"stagnant water from {c['initial_temperature'] - 273.15:.0f} °C at "
+                                          f"{c['minimum_air_temperature'] - 273.15:.0f} °C air",
+                 "result": "never freezes" if bool(np.all(f.never_freezes)) else
+                           f"0 °C after {float(f.hours_to_freezing_point):.1f} h, solid after "
+                           f"{float(f.hours_total):.1f} h"})
+    cautions.update(f.cautions)
+    c = op["tank"]
+    k = vertical_tank(c["diameter"], c["height"], air_temperature=c["air_temperature"],
+                      fluid_temperature=c["fluid_temperature"], wall_layers=_layers(c["wall_layers"]),
+                      roof_layers=_layers(c["roof_layers"]), floor=c["floor"], floor_layers=_layers(c["floor_layers"]),
+                      emissivity=c["emissivity"], wind_speed=c["wind_speed"], outdoor=c["outdoor"])
+    faces = ", ".join(f"{face['face']} {face['q_total'] / 1000:.2f} kW" for face in k.rows())
+    rows.append({"tag": c["tag"], "what": f"tank {c['diameter']:g} m x {c['height']:g} m at "
+                                          f"{c['fluid_temperature'] - 273.15:.0f} °C",
+                 "result": f"{float(k.q_total) / 1000:.2f} kW ({faces})"})
+    return rows, cautions
 
 
 def _progress_bar(fraction: float, text: str) -> None:
@@ -724,6 +803,18 @@ def build_parser() -> argparse.ArgumentParser:
     lines.set_defaults(func=_cmd_lines)
 
     layer_help = "THICKNESS,CONDUCTIVITY[,NAME] from the pipe outwards, e.g. --layer 25mm,0.04,mineral wool"
+    outlet = sub.add_parser("outlet", help="temperature along a line with flow: outlet temperature and loss")
+    _pipe_size_options(outlet)
+    outlet.add_argument("--inlet-temperature", required=True, help="fluid temperature at the inlet, e.g. 115degC")
+    outlet.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. -5degC")
+    outlet.add_argument("--mass-flow", required=True, help="mass flow, e.g. 12 (kg/s) or 43000 kg/h")
+    outlet.add_argument("--length", required=True, help="line length, e.g. 1400 or 1.4km")
+    outlet.add_argument("--fluid", default="Water", help="CoolProp fluid name (default Water)")
+    outlet.add_argument("--fluid-pressure", default="101325", help="fluid pressure, e.g. 6bar (default 1 atm)")
+    outlet.add_argument("--layer", action="append", help=layer_help)
+    _output_options(outlet)
+    outlet.set_defaults(func=_cmd_outlet)
+
     trace = sub.add_parser("trace", help="heat-tracing duty to hold a line at a maintain temperature")
     _pipe_size_options(trace)
     trace.add_argument("--maintain-temperature", required=True, help="temperature the tracer holds, e.g. 5degC")

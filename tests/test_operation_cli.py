@@ -78,3 +78,24 @@ def test_line_list_operation_columns():
     assert res.outlet_temperature[2] != res.outlet_temperature[2] and "fluid_phase" in res.notes[2]
     rows = res.rows()
     assert rows[1]["outlet_temperature"] is None and rows[0]["tracing_duty_per_length"] is None
+
+
+def test_outlet_json_is_the_library_profile():
+    proc = run("outlet", "--nps", "2", "--inlet-temperature", "80degC", "--air-temperature=-10degC",
+               "--mass-flow", "0.2", "--length", "300", "--layer", "30mm,0.04", "--wind-speed", "3", "--json")
+    assert proc.returncode == 0, proc.stderr
+    payload = json.loads(proc.stdout)
+    row = payload["temperature along the line"]["results"][0]
+    direct = cl.operation.line_temperature_profile(0.0603, 353.15, [Layer(0.03, 0.04)], mass_flow=0.2, length=300.0,
+                                                   air_temperature=263.15, wind_speed=3.0)
+    assert row["outlet_temperature"] == pytest.approx(float(direct.outlet_temperature), rel=1e-12)
+    assert row["q_total"] == pytest.approx(float(direct.q_total), rel=1e-12)
+    assert payload["profile"]["temperature_K"][-1] == pytest.approx(float(direct.outlet_temperature), rel=1e-12)
+
+
+def test_demo_lists_the_lines_in_operation():
+    proc = run("demo")
+    assert proc.returncode == 0, proc.stderr
+    for tag in ("FH-150", "FH-160", "FH-170", "FH-T2"):
+        assert tag in proc.stdout
+    assert "no substitute for draining or heat tracing" in proc.stdout
