@@ -29,12 +29,12 @@ import argparse
 import json
 import os
 import sys
-from importlib import resources
 
 import numpy as np
 
 from . import __version__
 from .correlations import catalog
+from .demo import load_demo_site, operation_rows
 from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, TOUCH_LIMIT_METAL_JACKET, WeatherBins, annual_energy,
                      thickness_against_condensation, thickness_for_heat_loss, thickness_for_surface_temperature)
 from .geometry import SHAPES
@@ -77,11 +77,6 @@ FIELDS = {
     "area": ("A", "area", "{:.2f}"),
     "q_per_area": ("q/A", "heat_flux", "{:.1f}"),
 }
-
-
-def load_demo_site() -> dict:
-    """The invented demo site shipped with the package."""
-    return json.loads(resources.files("convlib").joinpath("data/demo_site.json").read_text())
 
 
 def _row(tag: str, r, extra_fields=()) -> dict:
@@ -400,7 +395,7 @@ def _cmd_demo(args) -> int:
                        "purchased [MWh/yr]": f"{float(e.purchased_kwh) / 1000:.2f}",
                        f"cost [{price['currency']}/yr]": f"{float(e.cost):.0f}",
                        "CO2 [t/yr]": f"{float(e.co2_kg) / 1000:.2f}"})
-    operation, operation_cautions = _demo_operation(site["operation"])
+    operation, operation_cautions = operation_rows(site["operation"])
     cautions.update(operation_cautions)
     header = f"{site['site']}\n{site['note']}"
     if args.json:
@@ -414,58 +409,6 @@ def _cmd_demo(args) -> int:
                  ("Annual energy over the site's weather bins", energy),
                  ("In operation: long line, traced line, outdoor water line, tank", operation)], sorted(cautions))
     return 0
-
-
-def _layers(records) -> list:
-    return [Layer(r["thickness"], r["conductivity"], name=r.get("name", "layer")) for r in records]
-
-
-def _demo_operation(op: dict) -> tuple[list[dict], set[str]]:
-    """The demo site's lines in operation: outlet temperature, tracing duty, freeze time, tank loss."""
-    from .operation import freeze_time, line_temperature_profile, tracing_duty
-    from .vessels import vertical_tank
-
-    rows, cautions = [], set()
-    c = op["long_line"]
-    r = line_temperature_profile(nominal_pipe(c["nps"], c["schedule"]).outer_diameter, c["inlet_temperature"],
-                                 _layers(c["layers"]), mass_flow=c["mass_flow"], length=c["length"],
-                                 air_temperature=c["air_temperature"], fluid_pressure=c["fluid_pressure"],
-                                 wind_speed=c["wind_speed"], sky_view_fraction=c["sky_view_fraction"],
-                                 jacket_emissivity=c["jacket_emissivity"])
-    rows.append({"tag": c["tag"], "what": f"outlet after {c['length']:g} m at {c['mass_flow']:g} kg/s",
-                 "result": f"{c['inlet_temperature'] - 273.15:.1f} -> {float(r.outlet_temperature) - 273.15:.2f} °C, "
-                           f"loss {float(r.q_total) / 1000:.1f} kW"})
-    c = op["traced_line"]
-    t = tracing_duty(nominal_pipe(c["nps"], c["schedule"]).outer_diameter, c["maintain_temperature"],
-                     _layers(c["layers"]), air_temperature=c["minimum_air_temperature"],
-                     wind_speed=c["maximum_wind_speed"], length=c["length"], sky_view_fraction=c["sky_view_fraction"],
-                     jacket_emissivity=c["jacket_emissivity"])
-    rows.append({"tag": c["tag"], "what": f"tracing to hold {c['maintain_temperature'] - 273.15:.0f} °C at "
-                                          f"{c['minimum_air_temperature'] - 273.15:.0f} °C, {c['maximum_wind_speed']:g} m/s",
-                 "result": f"{float(t.duty_per_length):.1f} W/m ({float(t.duty_total):.0f} W) with "
-                           f"{float(t.margin) * 100:.0f} % margin"})
-    cautions.update(t.cautions)
-    c = op["water_line"]
-    pipe = nominal_pipe(c["nps"], c["schedule"])
-    f = freeze_time(pipe.outer_diameter, pipe.wall_thickness, c["initial_temperature"], _layers(c["layers"]),
-                    air_temperature=c["minimum_air_temperature"], wind_speed=c["wind_speed"],
-                    sky_view_fraction=c["sky_view_fraction"], jacket_emissivity=c["jacket_emissivity"])
-    rows.append({"tag": c["tag"], "what": f"stagnant water from {c['initial_temperature'] - 273.15:.0f} °C at "
-                                          f"{c['minimum_air_temperature'] - 273.15:.0f} °C air",
-                 "result": "never freezes" if bool(np.all(f.never_freezes)) else
-                           f"0 °C after {float(f.hours_to_freezing_point):.1f} h, solid after "
-                           f"{float(f.hours_total):.1f} h"})
-    cautions.update(f.cautions)
-    c = op["tank"]
-    k = vertical_tank(c["diameter"], c["height"], air_temperature=c["air_temperature"],
-                      fluid_temperature=c["fluid_temperature"], wall_layers=_layers(c["wall_layers"]),
-                      roof_layers=_layers(c["roof_layers"]), floor=c["floor"], floor_layers=_layers(c["floor_layers"]),
-                      emissivity=c["emissivity"], wind_speed=c["wind_speed"], outdoor=c["outdoor"])
-    faces = ", ".join(f"{face['face']} {face['q_total'] / 1000:.2f} kW" for face in k.rows())
-    rows.append({"tag": c["tag"], "what": f"tank {c['diameter']:g} m x {c['height']:g} m at "
-                                          f"{c['fluid_temperature'] - 273.15:.0f} °C",
-                 "result": f"{float(k.q_total) / 1000:.2f} kW ({faces})"})
-    return rows, cautions
 
 
 def _progress_bar(fraction: float, text: str) -> None:

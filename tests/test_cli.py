@@ -6,7 +6,7 @@ import sys
 import pytest
 
 import convlib as cl
-from convlib.cli import load_demo_site
+from convlib.demo import load_demo_site
 
 
 def run(*args):

@@ -1,0 +1,133 @@
+"""Headless tests of the "In operation" panel: cards and figures equal convlib.operation called directly."""
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from convlib import operation as op
+from convlib.pipe import Layer
+from convlib.pipe_sizes import nominal_pipe
+
+from dashboard import settings
+from dashboard.display import Display
+from dashboard.panels.operation import NOT_APPLICABLE
+
+from dashboard_helpers import show, trace
+
+
+def _layers(case, thickness=None):
+    thickness = case.insulation_thickness if thickness is None else thickness
+    return [Layer(thickness, case.insulation_conductivity), Layer(case.jacket_thickness, case.jacket_conductivity)]
+
+
+def _options(case):
+    return dict(jacket_emissivity=case.emissivity, sky_view_fraction=case.sky_view_fraction, pressure=case.pressure)
+
+
+@pytest.fixture
+def panel(app):
+    show(app, "operation")
+    return app.operation
+
+
+def test_cards_and_profile_equal_convlib_operation(app, panel, study):
+    case = study.case
+    panel.controls["mass_flow"].widget.value = 0.5            # kg/s on screen
+    panel.controls["design_wind_speed"].widget.value = 12.0   # m/s
+    assert panel.mass_flow == pytest.approx(0.5) and panel.design_wind_speed == pytest.approx(12.0)
+    coldest = case.air_temperature - settings.OPERATION["design_air_drop"]
+    wall = nominal_pipe(6, "40").wall_thickness  # the demo line is 6 in (168.3 mm)
+    assert panel.design_air_temperature == pytest.approx(coldest)
+    assert panel.pipe_wall_thickness == pytest.approx(wall)
+
+    profile = op.line_temperature_profile(case.diameter, case.fluid_temperature, _layers(case), mass_flow=0.5,
+                                          length=case.length, air_temperature=case.air_temperature,
+                                          fluid_pressure=settings.OPERATION["fluid_pressure"],
+                                          wind_speed=case.wind_speed, **_options(case))
+    duty = op.tracing_duty(case.diameter, settings.OPERATION["maintain_temperature"], _layers(case),
+                           air_temperature=coldest, wind_speed=12.0, margin=op.TRACING_MARGIN, length=case.length,
+                           **_options(case))
+    freeze = op.freeze_time(case.diameter, wall, settings.OPERATION["initial_temperature"], _layers(case),
+                            air_temperature=coldest, wind_speed=12.0, **_options(case))
+    d = Display("SI")
+    assert panel.card_text("outlet_temperature") == d.text(float(profile.outlet_temperature), "outlet_temperature")
+    assert panel.card_text("line_loss") == d.text(float(profile.q_total), "line_loss")
+    assert panel.card_text("tracing_per_length") == d.text(float(duty.duty_per_length), "tracing_per_length")
+    assert d.text(float(duty.duty_total), "tracing_total") in panel.cards["tracing_per_length"].value
+    assert panel.card_text("time_to_freezing_point") == d.text(3600 * float(freeze.hours_to_freezing_point),
+                                                               "freeze_time")
+    assert panel.card_text("time_to_frozen") == d.text(3600 * float(freeze.hours_total), "freeze_time")
+    assert panel.card_text("time_to_frozen").endswith(" h")
+    line = trace(panel.plot, "fluid temperature")
+    np.testing.assert_allclose(line.x, profile.position, rtol=1e-9)
+    np.testing.assert_allclose(line.y, d.value(profile.temperature, "fluid_temperature"), rtol=1e-9)
+    for caution in (op.CAUTION_FREEZE, op.CAUTION_TRACING):
+        assert caution[:40] in panel.notes.value.replace("&#x27;", "'")
+
+
+def test_sweep_against_insulation_is_vectorized_convlib(panel, study):
+    case = study.case
+    panel.sweep_input = "insulation_thickness"
+    v = panel.view
+    grid = v.sweep_values
+    assert len(grid) == settings.OPERATION["sweep_points"] and grid[-1] >= 2 * case.insulation_thickness
+    duty = op.tracing_duty(case.diameter, panel.maintain_temperature, _layers(case, grid),
+                           air_temperature=panel.design_air_temperature, wind_speed=panel.design_wind_speed,
+                           **_options(case))
+    profile = op.line_temperature_profile(case.diameter, case.fluid_temperature, _layers(case, grid),
+                                          mass_flow=panel.mass_flow, length=case.length,
+                                          air_temperature=case.air_temperature, fluid_pressure=panel.fluid_pressure,
+                                          wind_speed=case.wind_speed, **_options(case))
+    d = Display("SI")
+    plot = panel.sweep_plot
+    np.testing.assert_allclose(trace(plot, "tracing duty").y, duty.duty_per_length, rtol=1e-9)
+    np.testing.assert_allclose(trace(plot, "outlet temperature").y,
+                               d.value(profile.outlet_temperature, "outlet_temperature"), rtol=1e-9)
+    np.testing.assert_allclose(trace(plot, "tracing duty").x, d.value(grid, "insulation_thickness"))
+    assert "Insulation thickness [mm]" == plot.layout.xaxis3.title.text
+    # thicker insulation: less duty, later freezing
+    assert np.all(np.diff(duty.duty_per_length) < 0)
+    frozen = np.asarray(trace(plot, "time to frozen solid").y, dtype=float)
+    assert np.all(np.diff(frozen[np.isfinite(frozen)]) > 0)
+
+
+def test_units_switch_converts_cards_and_controls(app, panel):
+    si = panel.card_text("outlet_temperature")
+    app.units_switch.value = "US"
+    us = Display("US")
+    v = panel.view
+    assert si.endswith("°C") and panel.card_text("outlet_temperature").endswith("°F")
+    assert panel.card_text("outlet_temperature") == us.text(v.outlet_temperature, "outlet_temperature")
+    assert panel.card_text("tracing_per_length") == us.text(v.tracing_per_length, "tracing_per_length")
+    assert panel.card_text("line_loss").endswith("Btu/h")
+    assert panel.controls["mass_flow"].widget.description == "Mass flow [lb/h]"
+    assert panel.controls["mass_flow"].widget.value == pytest.approx(us.value(v.inputs.mass_flow, "mass_flow"),
+                                                                     abs=0.01)
+    assert "[ft]" in panel.plot.layout.xaxis.title.text and "°F" in panel.plot.layout.yaxis.title.text
+    # a value typed in US units arrives in SI
+    panel.controls["mass_flow"].widget.value = 3600.0  # lb/h
+    assert panel.mass_flow == pytest.approx(3600.0 * 0.45359237 / 3600.0)
+
+
+def test_warm_air_never_freezes(app, panel):
+    panel.controls["design_air_temperature"].widget.value = 5.0  # °C
+    assert panel.view.time_to_frozen == np.inf
+    assert panel.card_text("time_to_frozen") == "never"
+    # the user's coldest air is kept when the line changes
+    app.line.controls["wind_speed"].widget.value = 4.0
+    assert panel.design_air_temperature == pytest.approx(278.15)
+
+
+def test_bare_case_shows_the_message(app, panel):
+    app.line.kind.value = "bare"
+    assert "insulated lines with a known fluid temperature" in panel.message.value
+    assert panel.results.layout.display == "none"
+    app.line.kind.value = "insulated"
+    assert panel.results.layout.display is None and "cl-msg" not in panel.message.value
+
+
+def test_hidden_panel_waits_until_shown(app):
+    show(app, "sweep")
+    app.line.controls["wind_speed"].widget.value = 5.0
+    assert app.operation.stale and app.operation.view is None
+    show(app, "operation")
+    assert not app.operation.stale and app.operation.view.wind_speed == pytest.approx(5.0)
