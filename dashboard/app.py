@@ -21,8 +21,8 @@ from convlib.study import StudySpec, load_demo_study, run_study
 
 from . import compute, settings, storage
 from .display import input_label
-from .panels import (InsulationPanel, LinePanel, RegimePanel, SnapshotPanel, SpreadPanel, SweepPanel,
-                     UncertaintyPanel)
+from .panels import (InsulationPanel, LinePanel, OperationPanel, RegimePanel, SnapshotPanel, SpreadPanel,
+                     SweepPanel, UncertaintyPanel)
 from .panels.base import message_html
 from .report import render_report
 from .runner import Runner
@@ -80,15 +80,18 @@ class App(widgets.VBox):
         self.summary: compute.CaseSummary | None = None
         self._sweep_cache = None
         self._case_serial = 0
+        self._operation_quiet = False
         self.line = LinePanel(study.case, units=units)
         self.sweep = SweepPanel()
         self.regimes = RegimePanel()
         self.spread = SpreadPanel()
         self.uncertainty = UncertaintyPanel(study)
         self.insulation = InsulationPanel(settings.HEAT_LOSS_LIMIT)
+        self.operation = OperationPanel()
         self.snapshots = SnapshotPanel(self.snapshot_dir)
         self.panels = {"sweep": self.sweep, "regimes": self.regimes, "spread": self.spread,
-                       "uncertainty": self.uncertainty, "insulation": self.insulation, "snapshots": self.snapshots}
+                       "uncertainty": self.uncertainty, "insulation": self.insulation, "operation": self.operation,
+                       "snapshots": self.snapshots}
         for key, panel in self.panels.items():
             panel.add_class(f"cl-panel-{key}")
         self.order = [key for key, _ in settings.PANELS]
@@ -124,6 +127,8 @@ class App(widgets.VBox):
         self.uncertainty.observe(self._on_monte_carlo_request, "run_requests")
         self.uncertainty.observe(self._on_monte_carlo_settings, ["samples", "seed", "model_form"])
         self.insulation.observe(self._on_sizing_settings, ["touch_limit", "heat_loss_limit", "still_air"])
+        self.operation.observe(self._on_operation_settings, [*OperationPanel.INPUTS, "sweep_input"])
+        self.line.schedule.observe(self._on_schedule, "value")
         self.snapshots.on_action(self._on_snapshot_action)
         self._apply_case(self.line.case)
         self._list_snapshots()
@@ -159,6 +164,7 @@ class App(widgets.VBox):
         self.uncertainty.base_q = summary.q_per_length
         self.uncertainty.monte_carlo_stale = self.uncertainty.monte_carlo is not None
         self.insulation.applicable = case.kind == "insulated"
+        self._operation_defaults(case)
         for key, panel in self.panels.items():
             panel.stale = key != "snapshots"
         self.refresh(self.visible)
@@ -205,6 +211,38 @@ class App(widgets.VBox):
             self.refresh("insulation")
         else:
             self.insulation.stale = True
+
+    def _operation_defaults(self, case) -> None:
+        """Coldest air and pipe wall of the operation panel follow the line (NPS/schedule when chosen)."""
+        self.operation.applicable = case.kind == "insulated"
+        if case.kind != "insulated":
+            return
+        line = self.line
+        nps = line.nps.value if line.size_mode.value == "nps" else None
+        wall = compute.pipe_wall_thickness(case.diameter, nps, line.schedule.value)
+        self._operation_quiet = True  # the caller recomputes
+        try:
+            self.operation.set_case_defaults(compute.design_air_temperature(case), wall)
+        finally:
+            self._operation_quiet = False
+
+    @_guarded
+    def _on_operation_settings(self, change):
+        if self._operation_quiet:
+            self.operation.stale = True
+        elif self.visible == "operation":
+            self.refresh("operation")
+        else:
+            self.operation.stale = True
+
+    @_guarded
+    def _on_schedule(self, change):
+        case = self.spec.case
+        if case.kind == "insulated":
+            before = self.operation.inputs()
+            self._operation_defaults(case)
+            if self.operation.inputs() != before:
+                self._on_operation_settings(None)
 
     # ------------------------------------------------------------------ recomputation
     def _submit(self, key, panel, compute_fn, apply_fn, delay=0.0, freeze=False):
@@ -272,6 +310,14 @@ class App(widgets.VBox):
             panel = self.insulation
             touch, limit, still = panel.touch_limit, panel.heat_loss_limit, panel.still_air
             self._submit("insulation", panel, lambda: compute.insulation_view(case, touch, limit, still),
+                         lambda view: setattr(panel, "view", view), delay=settings.EXPENSIVE_DELAY / 2)
+        elif key == "operation":
+            panel = self.operation
+            if case.kind != "insulated":
+                panel.applicable = False
+                return
+            inputs, axis = panel.inputs(), panel.sweep_input
+            self._submit("operation", panel, lambda: compute.operation_view(case, inputs, axis),
                          lambda view: setattr(panel, "view", view), delay=settings.EXPENSIVE_DELAY / 2)
         elif key == "snapshots":
             self._list_snapshots()

@@ -13,8 +13,10 @@ from dataclasses import dataclass, field
 import numpy as np
 from convlib import correlations as corr
 from convlib import design
+from convlib import operation as op
 from convlib.geometry import SHAPES
 from convlib.pipe import Layer
+from convlib.pipe_sizes import nominal_pipe, nominal_sizes
 from convlib.properties import dew_point
 from convlib.regimes import FLOW_LIMITS, Flag, flow_names, mode_names
 from convlib.study import (INPUTS, CaseSpec, StudyResult, StudySpec, SweepAxis, UncertaintySpec, cautions_for,
@@ -25,7 +27,8 @@ from . import settings
 __all__ = [
     "CaseSummary", "summarize_case", "study_for_case", "sweep_axes", "sweep_study", "LawCurve", "RegimeView",
     "regime_view", "RegimeMap", "regime_map", "uncertainty_study", "monte_carlo_settings", "Sizing",
-    "InsulationView", "insulation_view",
+    "InsulationView", "insulation_view", "OperationInputs", "OperationView", "operation_view", "operation_layers",
+    "operation_options", "design_air_temperature", "pipe_wall_thickness",
 ]
 
 
@@ -320,3 +323,153 @@ def insulation_view(case: CaseSpec, touch_limit: float, heat_loss_limit: float, 
         max_thickness=settings.SIZING_MAX_THICKNESS)).ravel()[0])
     return InsulationView(grid, np.asarray(r.surface_temperature, float), np.asarray(r.q_per_length, float),
                           case.insulation_thickness, wind, hot, dew, critical, tuple(sizings))
+
+
+# ----------------------------------------------------------------------------- lines in operation
+@dataclass(frozen=True)
+class OperationInputs:
+    """Inputs of the "In operation" panel (SI)."""
+
+    mass_flow: float                 # [kg/s]
+    fluid_pressure: float            # [Pa] absolute
+    maintain_temperature: float      # [K]
+    design_air_temperature: float    # coldest air [K]
+    design_wind_speed: float         # strongest wind [m/s]
+    tracing_margin: float            # [-]
+    initial_temperature: float       # water when the flow stops [K]
+    pipe_wall_thickness: float       # [m]
+
+
+@dataclass(frozen=True)
+class OperationView:
+    """A flowing line's temperature profile, its tracing duty and freeze time, and sweeps of them (SI)."""
+
+    inputs: OperationInputs
+    length: float
+    inlet_temperature: float
+    air_temperature: float
+    wind_speed: float
+    position: np.ndarray             # (n,) [m]
+    temperature: np.ndarray          # (n,) [K]
+    outlet_temperature: float
+    q_total: float                   # lost along the line [W]
+    tracing_loss_per_length: float   # [W/m]
+    tracing_per_length: float        # [W/m]
+    tracing_total: float             # [W]
+    time_to_freezing_point: float    # stopped line: sensible cooling to 0 degC [s], inf: never
+    time_to_frozen: float            # stopped line: until frozen solid [s], inf: never
+    never_freezes: bool
+    sweep_input: str
+    sweep_values: np.ndarray
+    sweep_outlet: np.ndarray         # [K]
+    sweep_tracing: np.ndarray        # [W/m]
+    sweep_freezing_point: np.ndarray  # [s], NaN: never
+    sweep_frozen: np.ndarray         # [s], NaN: never
+    current_operating: float         # the case's value of the swept input (profile row)
+    current_design: float            # the value the tracing and freeze rows use
+    notes: tuple[str, ...]
+    cautions: tuple[str, ...]
+
+
+def design_air_temperature(case: CaseSpec) -> float:
+    """Default coldest air of the tracing and freeze estimates: the case's air less a margin, clipped [K]."""
+    o = settings.OPERATION
+    return max(case.air_temperature - o["design_air_drop"], o["design_air_floor"])
+
+
+def pipe_wall_thickness(diameter: float, nps: float | None = None, schedule: str | None = None) -> float:
+    """Wall of the line [m]: the NPS/schedule wall when known or when ``diameter`` is a listed size
+    (:func:`convlib.pipe_sizes.nominal_pipe`), else the setting (below a quarter of the diameter)."""
+    schedule = schedule or settings.DEFAULT_SCHEDULE
+    if nps is not None:
+        return nominal_pipe(nps, schedule).wall_thickness
+    for n in nominal_sizes(schedule):
+        pipe = nominal_pipe(n, schedule)
+        if abs(pipe.outer_diameter - diameter) < 1e-6:
+            return pipe.wall_thickness
+    return min(settings.OPERATION["pipe_wall_thickness"], 0.25 * diameter)
+
+
+def operation_layers(case: CaseSpec, insulation_thickness=None) -> list[Layer]:
+    """The case's insulation (``insulation_thickness`` may be an array) and jacket, as in evaluate_case."""
+    thickness = case.insulation_thickness if insulation_thickness is None else insulation_thickness
+    layers = [Layer(thickness, case.insulation_conductivity, name="insulation")]
+    if case.jacket_thickness > 0:
+        layers.append(Layer(case.jacket_thickness, case.jacket_conductivity, name="jacket"))
+    return layers
+
+
+def operation_options(case: CaseSpec, design: bool = False) -> dict:
+    """Options of :func:`convlib.pipe.insulated_pipe` for the case; ``design``: no sun, surroundings at the air."""
+    info = SHAPES[case.shape]
+    natural, forced = case.natural or info.default_natural, case.forced or info.default_forced
+    common = dict(jacket_emissivity=case.emissivity, sky_view_fraction=case.sky_view_fraction, pressure=case.pressure,
+                  convection_factor=case.convection_factor, natural=natural, forced=forced)
+    if not design:
+        common.update(surroundings_temperature=case.surroundings_temperature, solar_irradiance=case.solar_irradiance)
+    return common
+
+
+def _sweep_grid(case: CaseSpec, inputs: OperationInputs, name: str) -> np.ndarray:
+    _, low, high = settings.OPERATION_SWEEPS[name]
+    if name == "wind_speed":
+        high = max(high, 1.5 * case.wind_speed, 1.5 * inputs.design_wind_speed)
+    elif name == "air_temperature":
+        high = max(high, case.air_temperature + 10.0)
+        low = min(low, inputs.design_air_temperature - 5.0)
+    else:
+        high = max(high, 2.0 * case.insulation_thickness)
+    return np.linspace(low, high, settings.OPERATION["sweep_points"])
+
+
+def operation_view(case: CaseSpec, inputs: OperationInputs, sweep_input: str = "wind_speed") -> OperationView:
+    """Temperature along the line (:func:`convlib.operation.line_temperature_profile`) at the case's air and
+    wind, the tracing duty (:func:`convlib.operation.tracing_duty`) and the freeze time
+    (:func:`convlib.operation.freeze_time`) at the coldest air and strongest wind, and each against
+    ``sweep_input`` (one vectorized call per quantity)."""
+    if case.kind != "insulated":
+        raise ValueError("for insulated lines with a known fluid temperature")
+    if sweep_input not in settings.OPERATION_SWEEPS:
+        raise ValueError(f"unknown sweep input {sweep_input!r}; choose one of: {', '.join(settings.OPERATION_SWEEPS)}")
+    d, i = case.diameter, inputs
+
+    def profile(air=case.air_temperature, wind=case.wind_speed, thickness=None):
+        return op.line_temperature_profile(
+            d, case.fluid_temperature, operation_layers(case, thickness), mass_flow=i.mass_flow, length=case.length,
+            air_temperature=air, fluid_pressure=i.fluid_pressure, wind_speed=wind, **operation_options(case))
+
+    def tracing(air=i.design_air_temperature, wind=i.design_wind_speed, thickness=None):
+        return op.tracing_duty(d, i.maintain_temperature, operation_layers(case, thickness), air_temperature=air,
+                               wind_speed=wind, margin=i.tracing_margin, length=case.length,
+                               **operation_options(case, design=True))
+
+    def freeze(air=i.design_air_temperature, wind=i.design_wind_speed, thickness=None):
+        return op.freeze_time(d, i.pipe_wall_thickness, i.initial_temperature, operation_layers(case, thickness),
+                              air_temperature=air, wind_speed=wind, **operation_options(case, design=True))
+
+    p, t, f = profile(), tracing(), freeze()
+    grid = _sweep_grid(case, inputs, sweep_input)
+    if sweep_input == "wind_speed":
+        sp, st, sf = profile(wind=grid), tracing(wind=grid), freeze(wind=grid)
+        current = (case.wind_speed, i.design_wind_speed)
+    elif sweep_input == "air_temperature":
+        sp, st, sf = profile(air=grid), tracing(air=grid), freeze(air=grid)
+        current = (case.air_temperature, i.design_air_temperature)
+    else:
+        sp, st, sf = profile(thickness=grid), tracing(thickness=grid), freeze(thickness=grid)
+        current = (case.insulation_thickness, case.insulation_thickness)
+    seconds = lambda hours: np.where(np.isfinite(hours), 3600.0 * np.asarray(hours, float), np.nan)  # noqa: E731
+    notes = tuple(dict.fromkeys((*t.notes, *f.notes)))
+    return OperationView(
+        inputs=inputs, length=case.length, inlet_temperature=case.fluid_temperature,
+        air_temperature=case.air_temperature, wind_speed=case.wind_speed, position=np.asarray(p.position, float),
+        temperature=np.asarray(p.temperature, float), outlet_temperature=_item(p.outlet_temperature),
+        q_total=_item(p.q_total), tracing_loss_per_length=_item(t.heat_loss_per_length),
+        tracing_per_length=_item(t.duty_per_length), tracing_total=_item(t.duty_total),
+        time_to_freezing_point=3600.0 * _item(f.hours_to_freezing_point),
+        time_to_frozen=3600.0 * _item(f.hours_total),
+        never_freezes=bool(np.asarray(f.never_freezes).ravel()[0]), sweep_input=sweep_input, sweep_values=grid,
+        sweep_outlet=np.asarray(sp.outlet_temperature, float), sweep_tracing=np.asarray(st.duty_per_length, float),
+        sweep_freezing_point=seconds(sf.hours_to_freezing_point), sweep_frozen=seconds(sf.hours_total),
+        current_operating=float(current[0]), current_design=float(current[1]), notes=notes,
+        cautions=(*f.cautions, *t.cautions))

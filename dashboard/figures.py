@@ -22,7 +22,8 @@ from . import settings
 from .display import Display, input_label
 
 __all__ = ["sweep_figure", "spread_figure", "regime_figure", "uncertainty_figure", "insulation_figure",
-           "map_figure", "split_by_validity", "empty_figure", "styled", "TEMPLATE", "VALIDATE"]
+           "map_figure", "operation_profile_figure", "operation_sweep_figure", "split_by_validity", "empty_figure",
+           "styled", "TEMPLATE", "VALIDATE"]
 
 #: Check every property when a figure is built (tests switch it on).
 VALIDATE = False
@@ -40,6 +41,7 @@ _GRIDS = {
                     vertical_spacing=0.2, column_widths=[0.5, 0.5]),
     "uncertainty": dict(rows=1, cols=2, column_widths=[0.5, 0.5], horizontal_spacing=0.26),
     "insulation": dict(rows=2, cols=1, shared_xaxes=True, vertical_spacing=0.1),
+    "operation": dict(rows=3, cols=1, shared_xaxes=True, vertical_spacing=0.09),
 }
 
 
@@ -459,6 +461,69 @@ def insulation_figure(view, display: Display) -> go.Figure:
     return plot.figure(f"Insulation thickness<br><sup>at {display.text(view.wind_speed, 'wind_speed')} wind; solid "
                        "vertical lines: thickness that just meets a limit; dotted: next listed thickness</sup>",
                        height=600, legend=dict(orientation="h", y=-0.12, font=dict(size=11)))
+
+
+# ----------------------------------------------------------------------------- lines in operation
+def operation_profile_figure(view, display: Display) -> go.Figure:
+    """Fluid temperature along the line (the air temperature in the subtitle).
+
+    Parameters
+    ----------
+    view : dashboard.compute.OperationView
+    """
+    plot = _Plot()
+    x = display.value(view.position, "position")
+    plot.add(_line(x, display.value(view.temperature, "fluid_temperature"), "fluid temperature",
+                   line=dict(color="#111111", width=2.5), mode="lines+markers", marker=dict(size=5),
+                   hovertemplate=(f"%{{x:.4g}} {display.label('position')} from the inlet<br>%{{y:.2f}} "
+                                  f"{display.label('fluid_temperature')}<extra></extra>")))
+    plot.axis("x", title=dict(text=display.axis_title("position", "Distance from the inlet")), rangemode="tozero")
+    plot.axis("y", title=dict(text=display.axis_title("fluid_temperature", "Fluid temperature")))
+    i = view.inputs
+    return plot.figure(f"Fluid temperature along the line<br><sup>{display.text(i.mass_flow, 'mass_flow')} over "
+                       f"{display.text(view.length, 'length')}, air "
+                       f"{display.text(view.air_temperature, 'air_temperature')}, wind "
+                       f"{display.text(view.wind_speed, 'wind_speed')}; markers: the solver's steps</sup>",
+                       height=340, showlegend=False)
+
+
+def operation_sweep_figure(view, display: Display) -> go.Figure:
+    """Outlet temperature, tracing duty and freeze times against one input (:class:`compute.OperationView`).
+
+    The outlet row is at the case's air and wind, the tracing and freeze rows at the coldest air and
+    strongest wind; each row marks the value it uses. Never-freezing points are gaps.
+    """
+    name = view.sweep_input
+    plot = _Plot("operation", ("Outlet temperature (the case's air and wind)",
+                               "Tracing duty (coldest air, strongest wind)",
+                               "Time until the stopped line freezes (coldest air, strongest wind)"))
+    x = display.value(view.sweep_values, name)
+    hover = lambda y_name: _hover(display, name, y_name)  # noqa: E731
+    plot.add(_line(x, display.value(view.sweep_outlet, "outlet_temperature"), "outlet temperature",
+                   line=dict(color="#111111", width=2.5), hovertemplate=hover("outlet_temperature")), 1, 1)
+    plot.add(_line(x, display.value(view.sweep_tracing, "tracing_per_length"), "tracing duty",
+                   line=dict(color=settings.PALETTE[1], width=2.5), hovertemplate=hover("tracing_per_length")),
+             2, 1)
+    zero = display.text(273.15, "air_temperature", 0)  # the label only: 0 °C or 32 °F
+    plot.add(_line(x, display.value(view.sweep_freezing_point, "freeze_time"), f"time to {zero}",
+                   line=dict(color=settings.PALETTE[0], width=2.5), hovertemplate=hover("freeze_time")), 3, 1)
+    plot.add(_line(x, display.value(view.sweep_frozen, "freeze_time"), "time to frozen solid",
+                   line=dict(color=settings.PALETTE[0], width=2.5, dash="dash"), hovertemplate=hover("freeze_time")),
+             3, 1)
+    plot.hline(float(display.value(view.inlet_temperature, "fluid_temperature")), 1, 1,
+               line=dict(color=_GREY, width=1, dash="dot"), text="inlet")
+    marker = dict(color="#111111", width=1, dash="dot")
+    plot.vline(float(display.value(view.current_operating, name)), 1, 1, line=marker, text="this case")
+    for row in (2, 3):
+        plot.vline(float(display.value(view.current_design, name)), row, 1, line=marker,
+                   text="design" if row == 2 else None)
+    plot.axis("x", 3, 1, title=dict(text=display.axis_title(name)))
+    plot.axis("y", 1, 1, title=dict(text=display.axis_title("outlet_temperature", "Outlet")))
+    plot.axis("y", 2, 1, title=dict(text=display.axis_title("tracing_per_length", "Duty")), rangemode="tozero")
+    plot.axis("y", 3, 1, title=dict(text=display.axis_title("freeze_time", "Time")), rangemode="tozero")
+    return plot.figure(f"The line in operation against {input_label(name).lower()}<br><sup>gaps in the bottom row: "
+                       f"the stopped line settles above {zero} there</sup>", height=720,
+                       legend=dict(orientation="h", y=-0.08, font=dict(size=11)))
 
 
 # ----------------------------------------------------------------------------- maps (report)

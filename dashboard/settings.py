@@ -15,7 +15,7 @@ __all__ = [
     "EXTRA_SWEEPS", "DEFAULT_SCHEDULE", "RECOMPUTE_DELAY", "EXPENSIVE_DELAY", "MAP_POINTS", "RA_GRID", "RE_GRID",
     "MONTE_CARLO_SAMPLES", "HEAT_LOSS_LIMIT", "SIZING_MAX_THICKNESS", "snapshot_dir", "PALETTE", "MODE_COLOURS",
     "PRETTY_UNITS", "FIGURE_HEIGHT", "FIGURE_WIDTH", "SIDEBAR_WIDTH", "MAP_LOWEST_WIND", "ServeDefaults", "SERVE",
-    "BUNDLE_ENV",
+    "BUNDLE_ENV", "OPERATION", "OPERATION_SWEEPS",
 ]
 
 #: Unit systems offered by the units switch (keys of :data:`convlib.units.DISPLAY_UNITS`).
@@ -76,6 +76,19 @@ CONTROLS: dict[str, ControlSetting] = {
     "relative_humidity": ControlSetting("Humidity", "dimensionless", 0.05, 1.0, {"SI": 1.0, "US": 1.0}, _PERCENT),
     "heat_loss_limit": ControlSetting("Heat-loss limit", "heat_per_length", 1.0, 5000.0, {"SI": 1.0, "US": 1.0},
                                       widget="text"),
+    # "In operation" panel
+    "mass_flow": ControlSetting("Mass flow", "mass_flow", 0.01, 200.0, {"SI": 0.01, "US": 10.0}, widget="text"),
+    "fluid_pressure": ControlSetting("Pressure, absolute", "pressure", 1.0e5, 1.0e7, {"SI": 0.1, "US": 1.0},
+                                     widget="text"),
+    "maintain_temperature": ControlSetting("Hold the line at", "temperature", 274.15, 423.15, {"SI": 1.0, "US": 2.0}),
+    "design_air_temperature": ControlSetting("Coldest air", "temperature", 223.15, 313.15, {"SI": 0.5, "US": 1.0}),
+    "design_wind_speed": ControlSetting("Strongest wind", "speed", 0.0, 40.0, {"SI": 0.5, "US": 1.0}),
+    "tracing_margin": ControlSetting("Margin on the loss", "dimensionless", 0.0, 1.0, {"SI": 1.0, "US": 1.0},
+                                     _PERCENT),
+    "initial_temperature": ControlSetting("Water at stop", "temperature", 273.15, 363.15,
+                                          {"SI": 0.5, "US": 1.0}),
+    "pipe_wall_thickness": ControlSetting("Pipe wall", "length", 0.0005, 0.05, {"SI": 0.01, "US": 0.001},
+                                          widget="text"),
 }
 
 #: Displayed quantities: name -> (kind, units per system or None for convlib's display unit, significant digits).
@@ -108,6 +121,22 @@ QUANTITIES: dict[str, tuple[str, dict | None, int]] = {
     "pressure": ("pressure", None, 4),
     "convection_factor": ("dimensionless", None, 3),
     "heat_loss_limit": ("heat_per_length", None, 3),
+    # "In operation" panel
+    "mass_flow": ("mass_flow", {"SI": "kg/s", "US": "lb/hour"}, 3),
+    "fluid_pressure": ("pressure", {"SI": "bar", "US": "psi"}, 3),
+    "maintain_temperature": ("temperature", None, 1),
+    "design_air_temperature": ("temperature", None, 1),
+    "design_wind_speed": ("speed", None, 3),
+    "tracing_margin": ("dimensionless", _PERCENT, 3),
+    "initial_temperature": ("temperature", None, 1),
+    "pipe_wall_thickness": ("length", None, 3),
+    "outlet_temperature": ("temperature", None, 1),
+    "temperature_drop": ("temperature_difference", None, 3),
+    "line_loss": ("power", {"SI": "kW", "US": "Btu/hour"}, 3),
+    "tracing_per_length": ("heat_per_length", None, 3),
+    "tracing_total": ("power", {"SI": "kW", "US": "Btu/hour"}, 3),
+    "freeze_time": ("time", None, 3),
+    "position": ("length", _METRES, 4),
 }
 
 #: Pretty text of the pint unit strings used by convlib's display units.
@@ -116,6 +145,7 @@ PRETTY_UNITS = {
     "W/m**2": "W/m²", "Btu/hour/foot": "Btu/(h·ft)", "Btu/hour/foot**2": "Btu/(h·ft²)", "Btu/hour": "Btu/h",
     "W/m**2/K": "W/(m²·K)", "Btu/hour/foot**2/delta_degF": "Btu/(h·ft²·°F)", "W/m/K": "W/(m·K)",
     "Btu*inch/hour/foot**2/delta_degF": "Btu·in/(h·ft²·°F)", "percent": "%", "": "–", "ft/s": "ft/s",
+    "hour": "h", "lb/hour": "lb/h", "kg/s": "kg/s",
 }
 
 #: Sweeps offered in addition to the study's own (used when the study has none of that input).
@@ -137,8 +167,32 @@ PANELS = (
     ("spread", "Correlation spread"),
     ("uncertainty", "Uncertainty"),
     ("insulation", "Insulation"),
+    ("operation", "In operation"),
     ("snapshots", "Snapshots"),
 )
+
+#: Defaults of the "In operation" panel (SI). The coldest air is the case's air less ``design_air_drop``,
+#: no lower than ``design_air_floor``; the pipe wall is the NPS/schedule wall when the line's diameter is a
+#: listed pipe size, else ``pipe_wall_thickness`` (kept below a quarter of the diameter).
+OPERATION = {
+    "mass_flow": 1.0,                  # [kg/s]
+    "fluid_pressure": 1.0e6,           # [Pa] absolute: keeps water liquid to 179 degC
+    "maintain_temperature": 278.15,    # [K] 5 degC against freezing
+    "design_air_drop": 25.0,           # [K]
+    "design_air_floor": 233.15,        # [K]
+    "design_wind_speed": 10.0,         # [m/s]
+    "initial_temperature": 278.15,     # [K] water when the flow stops
+    "pipe_wall_thickness": 0.005,      # [m]
+    "sweep_points": 21,
+}
+
+#: Inputs the "In operation" sweeps offer: name -> (label, lowest, highest) [SI]; the highest widens to
+#: include the case (x 1.5 for wind, x 2 for insulation, + 10 K for air).
+OPERATION_SWEEPS = {
+    "wind_speed": ("Wind speed", 0.0, 15.0),
+    "air_temperature": ("Air temperature", 233.15, 293.15),
+    "insulation_thickness": ("Insulation thickness", 0.005, 0.15),
+}
 
 DEFAULT_SCHEDULE = "40"
 

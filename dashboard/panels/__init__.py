@@ -2,6 +2,7 @@
 from .base import Panel
 from .insulation import InsulationPanel
 from .line import LinePanel
+from .operation import OperationPanel
 from .regimes import RegimePanel
 from .snapshots import SnapshotPanel
 from .spread import SpreadPanel
@@ -9,4 +10,4 @@ from .sweep import SweepPanel
 from .uncertainty import UncertaintyPanel
 
 __all__ = ["Panel", "LinePanel", "SweepPanel", "RegimePanel", "SpreadPanel", "UncertaintyPanel", "InsulationPanel",
-           "SnapshotPanel"]
+           "OperationPanel", "SnapshotPanel"]

@@ -7,9 +7,8 @@ from convlib import operation as op
 from convlib.pipe import Layer
 from convlib.pipe_sizes import nominal_pipe
 
-from dashboard import settings
+from dashboard import compute, figures, settings
 from dashboard.display import Display
-from dashboard.panels.operation import NOT_APPLICABLE
 
 from dashboard_helpers import show, trace
 
@@ -131,3 +130,16 @@ def test_hidden_panel_waits_until_shown(app):
     assert app.operation.stale and app.operation.view is None
     show(app, "operation")
     assert not app.operation.stale and app.operation.view.wind_speed == pytest.approx(5.0)
+
+
+def test_operation_figures_are_valid_plotly(monkeypatch, study):
+    import plotly.graph_objects as go
+
+    monkeypatch.setattr(figures, "VALIDATE", True)
+    case = study.case
+    inputs = compute.OperationInputs(1.0, 1.0e6, 278.15, 253.15, 10.0, 0.2, 278.15, 0.007)
+    view = compute.operation_view(case, inputs, "air_temperature")
+    for fig in (figures.operation_profile_figure(view, Display("US")), figures.operation_sweep_figure(view, Display())):
+        go.Figure(fig.to_dict())
+        assert fig.layout.title.text
+    assert np.isnan(view.sweep_frozen[-1])  # warm air: never freezes, a gap

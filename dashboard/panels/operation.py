@@ -1,0 +1,209 @@
+"""A line in operation: temperature along the flowing line, tracing duty and freeze time (convlib.operation)."""
+from __future__ import annotations
+
+import html
+import re
+
+import ipywidgets as widgets
+import plotly.graph_objects as go
+import traitlets
+from convlib.operation import CAUTION_FREEZE, CAUTION_TRACING, TRACING_MARGIN
+
+from .. import settings
+from ..compute import OperationInputs, OperationView
+from ..figures import TEMPLATE, operation_profile_figure, operation_sweep_figure
+from .base import Panel, figure_widget, message_html, sync_figure
+from .controls import DESCRIPTION_STYLE, QuantityControl
+
+__all__ = ["OperationPanel", "NOT_APPLICABLE"]
+
+NOT_APPLICABLE = ("This panel is for insulated lines with a known fluid temperature: choose “insulated line” as "
+                  "the kind.")
+
+#: Controls of the panel: trait name -> group title.
+_GROUPS = (
+    ("Flow", ("mass_flow", "fluid_pressure")),
+    ("Tracing", ("maintain_temperature", "design_air_temperature", "design_wind_speed", "tracing_margin")),
+    ("Flow stopped", ("initial_temperature", "pipe_wall_thickness")),
+)
+#: Controls whose default follows the case until the user changes them.
+_FOLLOW_CASE = ("design_air_temperature", "pipe_wall_thickness")
+_CARDS = ("outlet_temperature", "line_loss", "tracing_per_length", "time_to_freezing_point", "time_to_frozen")
+
+
+def _defaults() -> dict:
+    o = settings.OPERATION
+    return {"mass_flow": o["mass_flow"], "fluid_pressure": o["fluid_pressure"],
+            "maintain_temperature": o["maintain_temperature"], "design_air_temperature": 253.15,
+            "design_wind_speed": o["design_wind_speed"], "tracing_margin": TRACING_MARGIN,
+            "initial_temperature": o["initial_temperature"], "pipe_wall_thickness": o["pipe_wall_thickness"]}
+
+
+class OperationPanel(Panel):
+    """The line in operation.
+
+    Traits
+    ------
+    view : OperationView or None
+        Results (set by the app).
+    applicable : bool
+        False for a bare surface (the panel says so instead of results).
+    sweep_input : str
+        Input of the sweeps (key of :data:`dashboard.settings.OPERATION_SWEEPS`).
+    mass_flow, fluid_pressure, maintain_temperature, design_air_temperature, design_wind_speed,
+    tracing_margin, initial_temperature, pipe_wall_thickness : float
+        Inputs [SI], as in :class:`dashboard.compute.OperationInputs`.
+    """
+
+    view = traitlets.Instance(OperationView, allow_none=True)
+    applicable = traitlets.Bool(True)
+    sweep_input = traitlets.Unicode("wind_speed")
+    mass_flow = traitlets.Float(settings.OPERATION["mass_flow"])
+    fluid_pressure = traitlets.Float(settings.OPERATION["fluid_pressure"])
+    maintain_temperature = traitlets.Float(settings.OPERATION["maintain_temperature"])
+    design_air_temperature = traitlets.Float(253.15)
+    design_wind_speed = traitlets.Float(settings.OPERATION["design_wind_speed"])
+    tracing_margin = traitlets.Float(TRACING_MARGIN)
+    initial_temperature = traitlets.Float(settings.OPERATION["initial_temperature"])
+    pipe_wall_thickness = traitlets.Float(settings.OPERATION["pipe_wall_thickness"])
+
+    INPUTS = tuple(name for _, names in _GROUPS for name in names)
+
+    def __init__(self, **kwargs):
+        super().__init__(**kwargs)
+        self._case_defaults = {}
+        self._follow = dict.fromkeys(_FOLLOW_CASE, True)
+        self.controls = {name: QuantityControl(name, getattr(self, name), self.units, self._control_changed)
+                         for name in self.INPUTS}
+        columns = []
+        for title, names in _GROUPS:
+            head = widgets.HTML(f'<div class="cl-section">{html.escape(title)}</div>')
+            columns.append(widgets.VBox([head, *(self.controls[n].box for n in names)],
+                                        layout=widgets.Layout(width="400px", margin="0 12px 0 0")))
+        self.length_note = widgets.HTML()
+        self.length_note.add_class("cl-hint")
+        self.inputs_box = widgets.HBox(columns, layout=widgets.Layout(flex_flow="row wrap"))
+        self.cards = {key: widgets.HTML() for key in _CARDS}
+        for key, card in self.cards.items():
+            card.add_class("cl-card")
+            card.add_class(f"cl-card-{key.replace('_', '-')}")
+        self.card_row = widgets.HBox(list(self.cards.values()), layout=widgets.Layout(flex_flow="row wrap",
+                                                                                      width="100%"))
+        self.sweep_box = widgets.Dropdown(options=[(v[0], k) for k, v in settings.OPERATION_SWEEPS.items()],
+                                          value=self.sweep_input, description="Sweep against",
+                                          style=DESCRIPTION_STYLE, layout=widgets.Layout(width="400px"))
+        traitlets.link((self.sweep_box, "value"), (self, "sweep_input"))
+        self.sweep_plot: go.FigureWidget | None = None
+        self.sweep_plot_box = widgets.Box(layout=widgets.Layout(width="100%", min_height="60px"))
+        self.notes = widgets.HTML()
+        self.results = widgets.VBox([self.card_row, self.length_note, self.plot_box, self.sweep_box,
+                                     self.sweep_plot_box, self.notes], layout=widgets.Layout(width="100%"))
+        self.children = [self.inputs_box, self.message, self.results]
+
+    # ------------------------------------------------------------------ interface
+    def interactive(self):
+        return [*self.controls.values(), self.sweep_box]
+
+    def inputs(self) -> OperationInputs:
+        """The panel's inputs [SI]."""
+        return OperationInputs(**{name: getattr(self, name) for name in self.INPUTS})
+
+    def reset(self):
+        super().reset()
+        self._follow = dict.fromkeys(_FOLLOW_CASE, True)
+        with self.hold_trait_notifications():
+            for name, value in {**_defaults(), **self._case_defaults}.items():
+                setattr(self, name, value)
+                self.controls[name].set_si(value)
+            self.sweep_input = "wind_speed"
+
+    def set_case_defaults(self, design_air_temperature: float, pipe_wall_thickness: float) -> None:
+        """Defaults that follow the line (coldest air, pipe wall); a value the user has set is kept."""
+        self._case_defaults = {"design_air_temperature": design_air_temperature,
+                               "pipe_wall_thickness": pipe_wall_thickness}
+        for name, value in self._case_defaults.items():
+            if self._follow[name] and getattr(self, name) != value:
+                self.controls[name].set_si(value)
+                setattr(self, name, value)
+
+    def _control_changed(self, name, value):
+        if name in self._follow:
+            self._follow[name] = False
+        setattr(self, name, value)
+
+    # ------------------------------------------------------------------ cards
+    def _card(self, key: str, title: str, value: str, unit: str = "", sub: str = "") -> None:
+        self.cards[key].value = (
+            f'<div class="cl-card-title">{html.escape(title)}</div>'
+            f'<div class="cl-card-body"><span class="cl-value">{html.escape(value)}</span> '
+            f'<span class="cl-unit">{html.escape(unit)}</span></div>'
+            f'<div class="cl-card-sub">{html.escape(sub)}</div>')
+
+    def card_text(self, key: str) -> str:
+        """Plain text of a card's value and unit, e.g. ``"157.4 °C"`` (what the browser shows)."""
+        body = re.search(r'class="cl-value">([^<]*)</span> <span class="cl-unit">([^<]*)<', self.cards[key].value)
+        return "" if body is None else html.unescape(f"{body.group(1)} {body.group(2)}".strip())
+
+    def _render_cards(self, v: OperationView) -> None:
+        d = self.display
+        drop = v.inlet_temperature - v.outlet_temperature
+        self._card("outlet_temperature", "Outlet", d.number(v.outlet_temperature, "outlet_temperature"),
+                   d.label("outlet_temperature"),
+                   f"{'drop' if drop >= 0 else 'rise'} {d.text(abs(drop), 'temperature_drop')} from the inlet")
+        self._card("line_loss", "Lost along the line" if v.q_total >= 0 else "Gained along the line",
+                   d.number(abs(v.q_total), "line_loss"), d.label("line_loss"),
+                   f"over {d.text(v.length, 'length')}")
+        self._card("tracing_per_length", "Tracing duty", d.number(v.tracing_per_length, "tracing_per_length"),
+                   d.label("tracing_per_length"), f"total {d.text(v.tracing_total, 'tracing_total')}")
+        zero = d.text(273.15, "air_temperature", 0)
+        if v.never_freezes:
+            for key, title in (("time_to_freezing_point", f"Stopped: to {zero}"), ("time_to_frozen", "Frozen solid")):
+                self._card(key, title, "never", "", "settles above the freezing point")
+        else:
+            self._card("time_to_freezing_point", f"Stopped: to {zero}",
+                       d.number(v.time_to_freezing_point, "freeze_time"), d.label("freeze_time"),
+                       f"water from {d.text(v.inputs.initial_temperature, 'initial_temperature')}")
+            self._card("time_to_frozen", "Frozen solid", d.number(v.time_to_frozen, "freeze_time"),
+                       d.label("freeze_time"),
+                       "after the flow stops")
+
+    # ------------------------------------------------------------------ rendering
+    def _show_sweep_figure(self, fig: go.Figure) -> None:
+        if fig.layout.width is None:
+            fig.update_layout(width=settings.FIGURE_WIDTH)
+        if self.sweep_plot is None:
+            self.sweep_plot = figure_widget(data=fig.data, layout={**fig.layout.to_plotly_json(),
+                                                                   "template": TEMPLATE})
+            self.sweep_plot.add_class("cl-plot")
+            self.sweep_plot_box.children = (self.sweep_plot,)
+        else:
+            sync_figure(self.sweep_plot, fig)
+
+    @traitlets.observe("units")
+    def _units_changed(self, change):
+        if hasattr(self, "controls"):
+            for control in self.controls.values():
+                control.set_system(change["new"])
+
+    @traitlets.observe("view", "units", "applicable")
+    def _render(self, change=None):
+        if not hasattr(self, "results"):
+            return
+        self.results.layout.display = None if self.applicable else "none"
+        self.inputs_box.layout.display = None if self.applicable else "none"
+        if not self.applicable:
+            self.set_message(NOT_APPLICABLE)
+            return
+        v = self.view
+        if v is None:
+            return
+        d = self.display
+        self._render_cards(v)
+        self.length_note.value = (f"Line: {html.escape(d.text(v.length, 'length'))} (the case's run length), inlet "
+                                  f"{html.escape(d.text(v.inlet_temperature, 'fluid_temperature'))}. Tracing and "
+                                  f"freeze: coldest air, strongest wind, no sun.")
+        self.show_figure(operation_profile_figure(v, d))
+        self._show_sweep_figure(operation_sweep_figure(v, d))
+        self.notes.value = message_html(v.notes, "warning") + message_html(
+            v.cautions or (CAUTION_FREEZE, CAUTION_TRACING), "caution")
+        self.set_message()
