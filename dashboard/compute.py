@@ -8,6 +8,8 @@ sizing functions of :mod:`convlib.design`.
 """
 from __future__ import annotations
 
+import functools
+
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -369,6 +371,16 @@ class OperationView:
     current_design: float            # the value the tracing and freeze rows use
     notes: tuple[str, ...]
     cautions: tuple[str, ...]
+    site_rows: tuple[dict, ...] = ()  # the demo site's lines in operation (convlib.demo), text in SI
+
+
+@functools.lru_cache(maxsize=1)
+def demo_site_operation() -> tuple[dict, ...]:
+    """The demo site's long line, traced line, outdoor water line and tank (:func:`convlib.demo.operation_rows`)."""
+    from convlib.demo import load_demo_site, operation_rows
+
+    rows, _ = operation_rows(load_demo_site()["operation"])
+    return tuple(rows)
 
 
 def design_air_temperature(case: CaseSpec) -> float:
@@ -461,6 +473,7 @@ def operation_view(case: CaseSpec, inputs: OperationInputs, sweep_input: str = "
     seconds = lambda hours: np.where(np.isfinite(hours), 3600.0 * np.asarray(hours, float), np.nan)  # noqa: E731
     notes = tuple(dict.fromkeys((*t.notes, *f.notes)))
     return OperationView(
+        site_rows=demo_site_operation(),
         inputs=inputs, length=case.length, inlet_temperature=case.fluid_temperature,
         air_temperature=case.air_temperature, wind_speed=case.wind_speed, position=np.asarray(p.position, float),
         temperature=np.asarray(p.temperature, float), outlet_temperature=_item(p.outlet_temperature),

@@ -96,8 +96,9 @@ class OperationPanel(Panel):
         self.sweep_plot: go.FigureWidget | None = None
         self.sweep_plot_box = widgets.Box(layout=widgets.Layout(width="100%", min_height="60px"))
         self.notes = widgets.HTML()
+        self.site = widgets.HTML()
         self.results = widgets.VBox([self.card_row, self.length_note, self.plot_box, self.sweep_box,
-                                     self.sweep_plot_box, self.notes], layout=widgets.Layout(width="100%"))
+                                     self.sweep_plot_box, self.notes, self.site], layout=widgets.Layout(width="100%"))
         self.children = [self.inputs_box, self.message, self.results]
 
     # ------------------------------------------------------------------ interface
@@ -206,4 +207,15 @@ class OperationPanel(Panel):
         self._show_sweep_figure(operation_sweep_figure(v, d))
         self.notes.value = message_html(v.notes, "warning") + message_html(
             v.cautions or (CAUTION_FREEZE, CAUTION_TRACING), "caution")
+        self.site.value = _site_table(v.site_rows)
         self.set_message()
+
+
+def _site_table(rows) -> str:
+    """The demo site's lines in operation as a small table (numbers from convlib.demo, SI units)."""
+    if not rows:
+        return ""
+    body = "".join(f"<tr><td>{html.escape(r['tag'])}</td><td>{html.escape(r['what'])}</td>"
+                   f"<td>{html.escape(r['result'])}</td></tr>" for r in rows)
+    return ('<div class="cl-section">Demo site in operation (SI units)</div>'
+            '<table class="cl-table"><tr><th>Tag</th><th>Case</th><th>Result</th></tr>' + body + "</table>")

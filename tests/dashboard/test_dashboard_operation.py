@@ -143,3 +143,19 @@ def test_operation_figures_are_valid_plotly(monkeypatch, study):
         go.Figure(fig.to_dict())
         assert fig.layout.title.text
     assert np.isnan(view.sweep_frozen[-1])  # warm air: never freezes, a gap
+
+
+def test_demo_site_lines_in_operation_are_listed_with_convlib_numbers():
+    import html
+
+    from convlib.demo import load_demo_site, operation_rows
+
+    from dashboard import compute
+
+    rows, _ = operation_rows(load_demo_site()["operation"])
+    assert compute.demo_site_operation() == tuple(rows)
+    from dashboard.panels.operation import _site_table
+
+    table = _site_table(compute.demo_site_operation())
+    for row in rows:  # long line, traced line, outdoor water line, tank
+        assert row["tag"] in table and html.escape(row["result"]) in table
