@@ -97,8 +97,8 @@ class OperationPanel(Panel):
         self.sweep_plot_box = widgets.Box(layout=widgets.Layout(width="100%", min_height="60px"))
         self.notes = widgets.HTML()
         self.site = widgets.HTML()
-        self.results = widgets.VBox([self.card_row, self.length_note, self.plot_box, self.sweep_box,
-                                     self.sweep_plot_box, self.notes, self.site], layout=widgets.Layout(width="100%"))
+        self.results = widgets.VBox([self.card_row, self.length_note, self.notes, self.plot_box, self.sweep_box,
+                                     self.sweep_plot_box, self.site], layout=widgets.Layout(width="100%"))
         self.children = [self.inputs_box, self.message, self.results]
 
     # ------------------------------------------------------------------ interface
@@ -212,10 +212,9 @@ class OperationPanel(Panel):
 
 
 def _site_table(rows) -> str:
-    """The demo site's lines in operation as a small table (numbers from convlib.demo, SI units)."""
+    """The demo site's lines in operation as short lines (numbers from convlib.demo, SI units)."""
     if not rows:
         return ""
-    body = "".join(f"<tr><td>{html.escape(r['tag'])}</td><td>{html.escape(r['what'])}</td>"
-                   f"<td>{html.escape(r['result'])}</td></tr>" for r in rows)
-    return ('<div class="cl-section">Demo site in operation (SI units)</div>'
-            '<table class="cl-table"><tr><th>Tag</th><th>Case</th><th>Result</th></tr>' + body + "</table>")
+    body = "".join(f"<div><b>{html.escape(r['tag'])}</b> &middot; {html.escape(r['what'])}: "
+                   f"{html.escape(r['result'])}</div>" for r in rows)
+    return f'<div class="cl-section">Demo site in operation (SI units)</div><div class="cl-hint">{body}</div>'
