@@ -1,6 +1,8 @@
 """What every panel shares: units trait, freeze/unfreeze/reset, a message line, an in-place figure."""
 from __future__ import annotations
 
+import re
+
 import functools
 import html
 import json
@@ -15,7 +17,7 @@ from .. import settings
 from ..display import Display
 from ..figures import TEMPLATE
 
-__all__ = ["Panel", "sync_figure", "message_html", "figure_widget", "BUNDLE_ENV"]
+__all__ = ["Panel", "sync_figure", "message_html", "figure_widget", "BUNDLE_ENV", "card_html", "card_value_text"]
 
 BUNDLE_ENV = settings.BUNDLE_ENV
 
@@ -187,3 +189,17 @@ class Panel(widgets.VBox):
         else:
             sync_figure(self.plot, fig)
         return self.plot
+
+
+def card_html(title: str, value: str, unit: str = "", sub: str = "") -> str:
+    """HTML of a result card: title, value with its unit, and a small line below."""
+    return (f'<div class="cl-card-title">{html.escape(title)}</div>'
+            f'<div class="cl-card-body"><span class="cl-value">{html.escape(value)}</span> '
+            f'<span class="cl-unit">{html.escape(unit)}</span></div>'
+            f'<div class="cl-card-sub">{html.escape(sub)}</div>')
+
+
+def card_value_text(card: str) -> str:
+    """Plain text of a card's value and unit, e.g. ``"62.6 W/m"`` (what the browser shows)."""
+    body = re.search(r'class="cl-value">([^<]*)</span> <span class="cl-unit">([^<]*)<', card)
+    return "" if body is None else html.unescape(f"{body.group(1)} {body.group(2)}".strip())

@@ -1,7 +1,6 @@
 """The line under study: every input of the base case, and the result cards."""
 from __future__ import annotations
 
-import html
 from fractions import Fraction
 
 import ipywidgets as widgets
@@ -14,7 +13,7 @@ from pydantic import ValidationError
 
 from .. import settings
 from ..compute import CaseSummary
-from .base import Panel, message_html
+from .base import Panel, message_html, card_html, card_value_text
 from .controls import DESCRIPTION_STYLE, QuantityControl
 
 __all__ = ["LinePanel", "nps_label", "validation_text"]
@@ -312,20 +311,11 @@ class LinePanel(Panel):
 
     # ------------------------------------------------------------------ cards
     def _card(self, key: str, title: str, value: str, unit: str = "", sub: str = "") -> None:
-        self.cards[key].value = (
-            f'<div class="cl-card-title">{html.escape(title)}</div>'
-            f'<div class="cl-card-body"><span class="cl-value">{html.escape(value)}</span> '
-            f'<span class="cl-unit">{html.escape(unit)}</span></div>'
-            f'<div class="cl-card-sub">{html.escape(sub)}</div>')
+        self.cards[key].value = card_html(title, value, unit, sub)
 
     def card_text(self, key: str) -> str:
-        """Plain text of a card's value and unit, e.g. ``"62.6 W/m"`` (what the browser shows)."""
-        import re
-
-        body = re.search(r'class="cl-value">([^<]*)</span> <span class="cl-unit">([^<]*)<', self.cards[key].value)
-        if body is None:
-            return ""
-        return html.unescape(f"{body.group(1)} {body.group(2)}".strip())
+        """Plain text of a card's value and unit (what the browser shows)."""
+        return card_value_text(self.cards[key].value)
 
     def _render_cards(self) -> None:
         s = self.summary

@@ -2,7 +2,6 @@
 from __future__ import annotations
 
 import html
-import re
 
 import ipywidgets as widgets
 import plotly.graph_objects as go
@@ -12,7 +11,7 @@ from convlib.operation import CAUTION_FREEZE, CAUTION_TRACING, TRACING_MARGIN
 from .. import settings
 from ..compute import OperationInputs, OperationView
 from ..figures import TEMPLATE, operation_profile_figure, operation_sweep_figure
-from .base import Panel, figure_widget, message_html, sync_figure
+from .base import Panel, figure_widget, message_html, sync_figure, card_html, card_value_text
 from .controls import DESCRIPTION_STYLE, QuantityControl
 
 __all__ = ["OperationPanel", "NOT_APPLICABLE"]
@@ -134,16 +133,12 @@ class OperationPanel(Panel):
 
     # ------------------------------------------------------------------ cards
     def _card(self, key: str, title: str, value: str, unit: str = "", sub: str = "") -> None:
-        self.cards[key].value = (
-            f'<div class="cl-card-title">{html.escape(title)}</div>'
-            f'<div class="cl-card-body"><span class="cl-value">{html.escape(value)}</span> '
-            f'<span class="cl-unit">{html.escape(unit)}</span></div>'
-            f'<div class="cl-card-sub">{html.escape(sub)}</div>')
+        self.cards[key].value = card_html(title, value, unit, sub)
 
     def card_text(self, key: str) -> str:
-        """Plain text of a card's value and unit, e.g. ``"157.4 °C"`` (what the browser shows)."""
-        body = re.search(r'class="cl-value">([^<]*)</span> <span class="cl-unit">([^<]*)<', self.cards[key].value)
-        return "" if body is None else html.unescape(f"{body.group(1)} {body.group(2)}".strip())
+        """Plain text of a card's value and unit (what the browser shows)."""
+        return card_value_text(self.cards[key].value)
+
 
     def _render_cards(self, v: OperationView) -> None:
         d = self.display
