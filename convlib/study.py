@@ -28,7 +28,7 @@ from . import correlations as corr
 from .geometry import SHAPES
 from .pipe import Layer, insulated_pipe
 from .properties import dew_point
-from .regimes import Flag, flow_names, mode_names, summarize_flags
+from .regimes import Flag, summarize_flags
 from .surface import bare_surface
 
 __all__ = [
@@ -706,8 +706,3 @@ def load_demo_study() -> StudySpec:
     from importlib import resources
 
     return StudySpec.model_validate_json(resources.files("convlib").joinpath("data/demo_study.json").read_text())
-
-
-def describe_base(result: StudyResult) -> dict[str, str]:
-    """Readable regime of the base case."""
-    return {"regime": str(mode_names(result.base.regime[0])), "flow": str(flow_names(result.base.flow_regime[0]))}
