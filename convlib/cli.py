@@ -44,7 +44,7 @@ from .pipe import Layer, insulated_pipe
 from .pipe_sizes import SCHEDULES, nominal_pipe
 from .surface import bare_surface
 from .units import KIND_SI_UNIT, display_unit, from_si, parse
-from .vessels import FLOORS, GROUND_CONDUCTIVITY, vertical_tank
+from .vessels import FLOORS, GROUND_CONDUCTIVITY, spherical_tank, vertical_tank
 
 __all__ = ["main", "load_demo_site"]
 
@@ -190,10 +190,16 @@ def _pipe_diameter(args) -> float:
     return parse(args.pipe_diameter, "length", "pipe-diameter")
 
 
+def _outside(args) -> dict:
+    """Wind, jacket emissivity, sky view and a given convective coefficient of a line's outer surface."""
+    given = None if args.convection_coefficient is None else parse(args.convection_coefficient, "coefficient",
+                                                                   "convection-coefficient")
+    return dict(wind_speed=parse(args.wind_speed, "speed", "wind-speed"), jacket_emissivity=args.jacket_emissivity,
+                sky_view_fraction=args.sky_view_fraction, convection_coefficient=given)
+
+
 def _conditions(args) -> dict:
-    return dict(air_temperature=parse(args.air_temperature, "temperature", "air-temperature"),
-                wind_speed=parse(args.wind_speed, "speed", "wind-speed"),
-                jacket_emissivity=args.jacket_emissivity, sky_view_fraction=args.sky_view_fraction)
+    return dict(air_temperature=parse(args.air_temperature, "temperature", "air-temperature"), **_outside(args))
 
 
 def _cmd_line(args) -> int:
@@ -209,10 +215,8 @@ def _cmd_trace(args) -> int:
     layers = [_parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
     maintain = parse(args.maintain_temperature, "temperature", "maintain-temperature")
     ambient = parse(args.minimum_ambient, "temperature", "minimum-ambient")
-    r = tracing_duty(_pipe_diameter(args), maintain, layers, air_temperature=ambient,
-                     wind_speed=parse(args.wind_speed, "speed", "wind-speed"), margin=args.margin,
-                     length=parse(args.length, "length", "length"), jacket_emissivity=args.jacket_emissivity,
-                     sky_view_fraction=args.sky_view_fraction)
+    r = tracing_duty(_pipe_diameter(args), maintain, layers, air_temperature=ambient, margin=args.margin,
+                     length=parse(args.length, "length", "length"), **_outside(args))
     row = {"tag": args.tag, "maintain_temperature": maintain, "air_temperature": ambient,
            "surface_temperature": float(r.surface_temperature), "heat_loss_per_length": float(r.heat_loss_per_length),
            "margin": float(r.margin), "duty_per_length": float(r.duty_per_length), "duty_total": float(r.duty_total),
@@ -230,8 +234,7 @@ def _cmd_outlet(args) -> int:
     r = line_temperature_profile(_pipe_diameter(args), inlet, layers, mass_flow=mass_flow, length=length,
                                  air_temperature=air, fluid=args.fluid,
                                  fluid_pressure=parse(args.fluid_pressure, "pressure", "fluid-pressure"),
-                                 wind_speed=parse(args.wind_speed, "speed", "wind-speed"),
-                                 jacket_emissivity=args.jacket_emissivity, sky_view_fraction=args.sky_view_fraction)
+                                 **_outside(args))
     row = {"tag": args.tag, "fluid_temperature": inlet, "outlet_temperature": float(r.outlet_temperature),
            "air_temperature": air, "q_total": float(r.q_total), "warnings": []}
     _emit(args, [("temperature along the line", [row])], [],
@@ -253,9 +256,7 @@ def _cmd_freeze(args) -> int:
         raise ValueError("--wall-thickness is required with --pipe-diameter (with --nps it comes from the schedule)")
     initial = parse(args.initial_temperature, "temperature", "initial-temperature")
     ambient = parse(args.minimum_ambient, "temperature", "minimum-ambient")
-    r = freeze_time(d, wall, initial, layers, air_temperature=ambient,
-                    wind_speed=parse(args.wind_speed, "speed", "wind-speed"), jacket_emissivity=args.jacket_emissivity,
-                    sky_view_fraction=args.sky_view_fraction)
+    r = freeze_time(d, wall, initial, layers, air_temperature=ambient, **_outside(args))
     row = {"tag": args.tag, "initial_temperature": initial, "air_temperature": ambient}
     if not bool(r.never_freezes):
         row.update(time_to_freezing_point=3600.0 * float(r.hours_to_freezing_point),
@@ -274,14 +275,34 @@ def _cmd_tank(args) -> int:
     temperature = {"surface_temperature" if args.surface_temperature else "fluid_temperature":
                    parse(args.surface_temperature or args.fluid_temperature, "temperature",
                          "surface-temperature" if args.surface_temperature else "fluid-temperature")}
-    ground = None if args.ground_temperature is None else parse(args.ground_temperature, "temperature",
-                                                                "ground-temperature")
-    r = vertical_tank(parse(args.diameter, "length", "diameter"), parse(args.height, "length", "height"),
-                      air_temperature=parse(args.air_temperature, "temperature", "air-temperature"),
-                      wall_layers=layers(args.wall_layer), roof_layers=layers(args.roof_layer),
-                      floor=args.floor, floor_layers=layers(args.floor_layer), emissivity=args.emissivity,
-                      wind_speed=parse(args.wind_speed, "speed", "wind-speed"), outdoor=args.outdoor,
-                      ground_temperature=ground, ground_conductivity=args.ground_conductivity, **temperature)
+    common = dict(air_temperature=parse(args.air_temperature, "temperature", "air-temperature"),
+                  emissivity=args.emissivity, wind_speed=parse(args.wind_speed, "speed", "wind-speed"),
+                  outdoor=args.outdoor, convection_coefficient=None if args.convection_coefficient is None else
+                  parse(args.convection_coefficient, "coefficient", "convection-coefficient"), **temperature)
+    diameter = parse(args.diameter, "length", "diameter")
+    if args.shape == "sphere":
+        if args.height is not None or args.roof_layer or args.floor_layer:
+            raise ValueError("a sphere takes no --height, --roof-layer or --floor-layer (its layers: --wall-layer)")
+        if (args.wall_thickness is None) != (args.wall_conductivity is None):
+            raise ValueError("give --wall-thickness and --wall-conductivity together")
+        wall = {} if args.wall_thickness is None else dict(
+            wall_thickness=parse(args.wall_thickness, "length", "wall-thickness"),
+            wall_conductivity=parse(args.wall_conductivity, "conductivity", "wall-conductivity"))
+        inner = None if args.inner_coefficient is None else parse(args.inner_coefficient, "coefficient",
+                                                                  "inner-coefficient")
+        r = spherical_tank(diameter, layers=layers(args.wall_layer), inner_coefficient=inner, **wall, **common)
+    else:
+        if args.height is None:
+            raise ValueError("--height is required for a vertical tank")
+        if args.wall_thickness is not None or args.inner_coefficient is not None:
+            raise ValueError("--wall-thickness, --wall-conductivity and --inner-coefficient are for --shape sphere; "
+                             "a vertical tank's shell is taken as thin")
+        ground = None if args.ground_temperature is None else parse(args.ground_temperature, "temperature",
+                                                                    "ground-temperature")
+        r = vertical_tank(diameter, parse(args.height, "length", "height"), wall_layers=layers(args.wall_layer),
+                          roof_layers=layers(args.roof_layer), floor=args.floor,
+                          floor_layers=layers(args.floor_layer), ground_temperature=ground,
+                          ground_conductivity=args.ground_conductivity, **common)
     rows = [{"tag": f.name, "shape": f.shape, "area": float(f.area), "surface_temperature": float(f.surface_temperature),
              "q_per_area": float(f.q_per_area), "q_total": float(f.q_total)} for f in r.faces]
     total = float(r.q_total)
@@ -642,6 +663,11 @@ _SURFACE_OPTIONS = (
 )
 
 
+_GIVEN_COEFFICIENT_HELP = ("outer convective coefficient to use instead of the correlations, e.g. 10 (W/m2/K) "
+                           "when a specification prescribes one; radiation still counts (emissivity 0 for a "
+                           "combined value)")
+
+
 def _output_options(p) -> None:
     p.add_argument("--json", action="store_true", help="print JSON (SI values) instead of a table")
     p.add_argument("--units", choices=("SI", "US"), default="SI", help="units of the printed table (default SI)")
@@ -660,6 +686,7 @@ def _pipe_size_options(p) -> None:
     p.add_argument("--wind-speed", default="0", help="wind speed (default 0: still air)")
     p.add_argument("--jacket-emissivity", type=float, default=0.9, help="emissivity of the outer surface")
     p.add_argument("--sky-view-fraction", type=float, default=0.0, help="part of the view that is sky (0 indoors)")
+    p.add_argument("--convection-coefficient", help=_GIVEN_COEFFICIENT_HELP)
     p.add_argument("--tag", default="line", help="label for the output")
 
 
@@ -779,9 +806,15 @@ def build_parser() -> argparse.ArgumentParser:
     _output_options(freeze)
     freeze.set_defaults(func=_cmd_freeze)
 
-    tank = sub.add_parser("tank", help="a vertical tank face by face: wall, roof, floor")
-    tank.add_argument("--diameter", required=True, help="tank diameter, e.g. 10m")
-    tank.add_argument("--height", required=True, help="wall height, e.g. 12m")
+    tank = sub.add_parser("tank", help="a vertical tank face by face (wall, roof, floor) or a sphere (shell)")
+    tank.add_argument("--shape", choices=("vertical", "sphere"), default="vertical",
+                      help="vertical cylindrical tank (default) or spherical vessel")
+    tank.add_argument("--diameter", required=True, help="tank diameter (of a sphere: outer shell), e.g. 10m")
+    tank.add_argument("--height", help="wall height of a vertical tank, e.g. 12m")
+    tank.add_argument("--wall-thickness", help="sphere: shell wall, e.g. 20mm (with --wall-conductivity)")
+    tank.add_argument("--wall-conductivity", help="sphere: shell wall conductivity, e.g. 45 (W/m/K)")
+    tank.add_argument("--inner-coefficient", help="sphere: film coefficient inside, e.g. 200 (W/m2/K)")
+    tank.add_argument("--convection-coefficient", help=_GIVEN_COEFFICIENT_HELP)
     tank.add_argument("--surface-temperature", help="known temperature of every face (a bare tank), e.g. 60degC")
     tank.add_argument("--fluid-temperature", help="temperature of the contents (with layers), e.g. 80degC")
     tank.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. 10degC")

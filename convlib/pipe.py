@@ -100,6 +100,7 @@ def insulated_pipe(
     mixing_exponent=None,
     exact_properties=False,
     convection_factor=1.0,
+    convection_coefficient=None,
     tolerance=1e-6,
 ) -> PipeResult:
     r"""Heat loss (or gain) and outer surface temperature of a horizontal pipe with layers.
@@ -118,7 +119,7 @@ def insulated_pipe(
         Emissivity of the outermost surface [-].
     wind_speed, length, surroundings_temperature, sky_view_fraction, sky_temperature,
     solar_irradiance, solar_absorptivity, pressure, natural, forced, mixing_exponent, exact_properties,
-    convection_factor
+    convection_factor, convection_coefficient
         As in :func:`convlib.surface.bare_surface`.
     pipe_wall_thickness : numeric, optional
         Pipe wall thickness [m]; with ``pipe_conductivity`` adds the wall's resistance.
@@ -159,7 +160,8 @@ def insulated_pipe(
         wind_speed=wind_speed, emissivity=jacket_emissivity, surroundings_temperature=surroundings_temperature,
         sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance,
         solar_absorptivity=solar_absorptivity, pressure=pressure, natural=natural, forced=forced,
-        mixing_exponent=mixing_exponent, exact_properties=exact_properties, convection_factor=convection_factor)
+        mixing_exponent=mixing_exponent, exact_properties=exact_properties, convection_factor=convection_factor,
+        convection_coefficient=convection_coefficient)
 
     # ---- fixed resistances [K m/W] inside the layers: inner film and pipe wall
     r_fixed = np.zeros(())

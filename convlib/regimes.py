@@ -61,9 +61,10 @@ class Flag:
     PROPERTY_RATIO_OUT_OF_RANGE = 64
     NOT_CONVERGED = 128
     CONDUCTIVITY_EXTRAPOLATED = 256
+    COEFFICIENT_GIVEN = 512
     #: Bits that report what was done rather than a loss of validity: they do not make
     #: ``strict=True`` raise.
-    INFORMATIONAL = SLENDER_CYLINDER_CORRECTED
+    INFORMATIONAL = SLENDER_CYLINDER_CORRECTED | COEFFICIENT_GIVEN
 
 
 FLAG_TEXT = {
@@ -76,6 +77,7 @@ FLAG_TEXT = {
     Flag.PROPERTY_RATIO_OUT_OF_RANGE: "surface-to-stream property ratio outside the correlation's range",
     Flag.NOT_CONVERGED: "surface-temperature solution did not converge",
     Flag.CONDUCTIVITY_EXTRAPOLATED: "a layer's temperature lies outside its conductivity data (held at the end value)",
+    Flag.COEFFICIENT_GIVEN: "convective coefficient given by the user: no correlation used (radiation still computed)",
 }
 
 

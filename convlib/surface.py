@@ -74,7 +74,7 @@ class SurfaceResult:
 #: Per-point inputs of :meth:`OuterSurface.exchange`, in the order solvers pass them.
 _POINT_FIELDS = ("air_temperature", "wind_speed", "emissivity", "surroundings_temperature", "sky_view_fraction",
                  "sky_temperature", "solar_per_area", "pressure", "mixing_exponent", "natural_length",
-                 "forced_length", "diameter_over_length", "convection_factor")
+                 "forced_length", "diameter_over_length", "convection_factor", "given_coefficient")
 
 
 @dataclass(frozen=True)
@@ -107,13 +107,14 @@ class OuterSurface:
     forced_length: np.ndarray
     diameter_over_length: np.ndarray  # D/L of a vertical cylinder, 1 otherwise (unused)
     convection_factor: np.ndarray     # multiplier on the convective coefficient (model-form studies)
+    given_coefficient: np.ndarray     # convective coefficient given by the user [W/m2/K]; NaN: from correlations
 
     @classmethod
     def build(cls, shape="horizontal_cylinder", *, air_temperature, diameter=None, length=None, height=None,
               width=None, wind_speed=0.0, emissivity=0.9, surroundings_temperature=None, sky_view_fraction=0.0,
               sky_temperature=None, solar_irradiance=0.0, solar_absorptivity=None, pressure=101325.0,
               natural=None, forced=None, flow_direction="transverse", mixing_exponent=None, fluid="Air",
-              exact_properties=False, convection_factor=1.0) -> "OuterSurface":
+              exact_properties=False, convection_factor=1.0, convection_coefficient=None) -> "OuterSurface":
         """Validate the surroundings of a surface; arguments as in :func:`bare_surface`."""
         check_choice("shape", shape, SHAPES)
         check_choice("flow direction", flow_direction, FLOW_DIRECTIONS)
@@ -153,6 +154,8 @@ class OuterSurface:
             mixing_exponent=n_mix, natural_length=dims.natural_length, forced_length=dims.forced_length,
             diameter_over_length=ratio,
             convection_factor=as_array("convection_factor", convection_factor, low=0.0, low_inclusive=False),
+            given_coefficient=np.asarray(np.nan) if convection_coefficient is None else as_array(
+                "convection_coefficient", convection_coefficient, unit="W/m2/K", low=0.0, low_inclusive=False),
         )
 
     def point_arrays(self) -> tuple[np.ndarray, ...]:
@@ -170,7 +173,7 @@ class OuterSurface:
         """
         check = not flux_only
         (ta, wind, eps, tsur, fraction, t_sky, solar, p, n_mix, l_nat, l_frc,
-         ratio, factor) = point_arrays or self.point_arrays()
+         ratio, factor, given) = point_arrays or self.point_arrays()
         ts = surface_temperature
         info = SHAPES[self.shape]
         nat_hot = corr.get(info.natural_geometry, self.natural)
@@ -210,7 +213,8 @@ class OuterSurface:
 
         # ---- mixed convection (Churchill 1977) on the coefficients
         h_mix, floored = combine(h_frc, h_nat, n_mix, self.flow_direction)
-        h_conv = factor * np.where(moving, h_mix, h_nat)
+        is_given = ~np.isnan(given)
+        h_conv = factor * np.where(is_given, given, np.where(moving, h_mix, h_nat))
         q_rad = net_flux(ts, eps, fraction, t_sky, tsur)
         q_conv = h_conv * delta
         if flux_only:
@@ -219,6 +223,7 @@ class OuterSurface:
         flags = flags | np.where(moving & floored, Flag.OPPOSING_FLOW_FLOORED, 0)
         if nat_hot.fitted_for_air_only and self.fluid.lower() != "air":
             flags = flags | Flag.FLUID_NOT_FITTED
+        flags = np.where(is_given, Flag.COEFFICIENT_GIVEN, flags)  # no correlation's range applies
         with np.errstate(divide="ignore", invalid="ignore"):
             richardson = np.where(moving, buoyancy * l_frc ** 3 / np.where(moving, reynolds, 1.0) ** 2, np.inf)
         natural_flow = flow_regime(nat_hot.geometry, rayleigh)
@@ -277,6 +282,7 @@ def bare_surface(
     fluid: str = "Air",
     exact_properties: bool = False,
     convection_factor=1.0,
+    convection_coefficient=None,
     strict: bool = False,
 ) -> SurfaceResult:
     r"""Heat loss (or gain) of a surface at a known temperature.
@@ -321,6 +327,12 @@ def bare_surface(
     convection_factor : numeric
         Multiplier on the convective coefficient [-], default 1: the model-form
         uncertainty of the correlation in sensitivity studies.
+    convection_coefficient : numeric, optional
+        A convective coefficient [W/m2/K] > 0 to use instead of the correlations (one a
+        specification prescribes, a measured one, a textbook's); radiation is still computed
+        from the emissivity (give ``emissivity=0`` when the value is a combined coefficient).
+        Flagged ``COEFFICIENT_GIVEN`` (informational); Nusselt, Rayleigh, Reynolds and the
+        regime are still reported for the physical situation.
     strict : bool
         Raise ``ValueError`` if any correlation is evaluated outside its range.
 
@@ -342,7 +354,8 @@ def bare_surface(
         sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance,
         solar_absorptivity=solar_absorptivity, pressure=pressure, natural=natural, forced=forced,
         flow_direction=flow_direction, mixing_exponent=mixing_exponent, fluid=fluid,
-        exact_properties=exact_properties, convection_factor=convection_factor)
+        exact_properties=exact_properties, convection_factor=convection_factor,
+        convection_coefficient=convection_coefficient)
     ts = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
     result = conditions.result(conditions.exchange(ts))
     if strict and (result.warnings & ~Flag.INFORMATIONAL).any():

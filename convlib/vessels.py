@@ -9,6 +9,7 @@ A vessel or duct is a few flat or cylindrical faces, each one of the shapes of
   Either every face is at a known ``surface_temperature`` (bare metal), or the fluid inside is at
   ``fluid_temperature`` and each face may carry layers (insulation, jacket) whose outer surface
   temperature is solved, as for :func:`convlib.pipe.insulated_pipe`.
+* :func:`spherical_tank` -- one face, the shell (sphere), with optional inner film, wall and layers.
 * :func:`rectangular_duct` -- sides (vertical plates), top and bottom (horizontal plates facing
   up and down) at a known surface temperature; wind along the duct (plate laws) or across it
   (a square-section cross-flow law, :func:`nusselt_square_cylinder_jakob`).
@@ -51,7 +52,7 @@ from .surface import GRAVITY, OuterSurface, SurfaceResult
 from .validation import as_array, check_choice
 
 __all__ = ["GROUND_CONDUCTIVITY", "FLOORS", "WIND_DIRECTIONS", "SQUARE_CYLINDER_RE_RANGE", "Face", "FacesResult",
-           "disc_as_plate", "vertical_tank", "rectangular_duct", "nusselt_square_cylinder_jakob"]
+           "disc_as_plate", "vertical_tank", "spherical_tank", "rectangular_duct", "nusselt_square_cylinder_jakob"]
 
 #: Conductivity of the soil under a tank [W/m/K]. Common practice for moist soil, no source
 #: (Incropera et al., 6th ed., Table A.3 gives 0.52 W/m/K for "soil" at 300 K, from memory;
@@ -124,39 +125,50 @@ def _sky(outdoor, shape):
     return SKY_VIEW_FRACTION_TYPICAL[shape] if outdoor else 0.0
 
 
+def _shell_drop(kind, r1, r2):
+    """Conduction resistance times conductivity of a shell from radius r1 to r2: ln(r2/r1)/(2 pi) per metre
+    of a cylinder, (1/r1 - 1/r2)/(4 pi) of a whole sphere (Incropera et al., 6th ed., eqs. 3.28 and 3.36)."""
+    if kind == "cylinder":
+        return np.log(r2 / r1) / (2.0 * np.pi)
+    return (1.0 / r1 - 1.0 / r2) / (4.0 * np.pi)
+
+
 def _layer_drops(layers, kind, inner_diameter):
-    """Per-layer conduction factors: ln(r2/r1)/(2 pi) per metre of a cylinder, thickness per m2 of a flat face."""
+    """Per-layer conduction factors (:func:`_shell_drop`; thickness per m2 of a flat face) and the outer diameter."""
     drops, radius = [], 0.5 * inner_diameter
     for layer in layers:
         if not isinstance(layer, Layer):
             raise ValueError(f"layers must be Layer objects (thickness, conductivity); got {layer!r}")
-        if kind == "cylinder":
-            drops.append(np.log((radius + layer.thickness) / radius) / (2.0 * np.pi))
-            radius = radius + layer.thickness
-        else:
+        if kind == "flat":
             drops.append(layer.thickness)
+        else:
+            drops.append(_shell_drop(kind, radius, radius + layer.thickness))
+            radius = radius + layer.thickness
     return drops, 2.0 * radius
 
 
-def _solve_face(outer, fluid_temperature, layers, kind, inner_diameter, tolerance):
+def _solve_face(outer, fluid_temperature, layers, kind, inner_diameter, tolerance, fixed_resistance=0.0):
     """Outer surface temperature [K] of a face with layers, the fluid inside at ``fluid_temperature``.
 
-    Conduction through the layers (cylindrical per metre, or flat per m2) balances the outer
+    Conduction through the layers (cylindrical per metre, spherical for the whole shell, or flat
+    per m2), after ``fixed_resistance`` (inner film and shell, same basis), balances the outer
     exchange, solved for all points at once by the bracketed solver of :mod:`convlib.pipe`.
     """
     drops, outer_diameter = _layer_drops(layers, kind, inner_diameter)
-    per_flux = np.pi * outer_diameter if kind == "cylinder" else np.ones(())
+    per_flux = {"cylinder": np.pi * outer_diameter, "sphere": np.pi * outer_diameter ** 2}.get(kind, np.ones(()))
     constant = all(layer.conductivity.is_constant for layer in layers)
     shape = np.broadcast_shapes(np.shape(fluid_temperature), np.shape(per_flux), *(np.shape(d) for d in drops),
                                 *(o.shape for o in outer.point_arrays()),
                                 *(np.shape(layer.conductivity.constant_value) for layer in layers
                                   if layer.conductivity.is_constant))
     full = lambda a: np.broadcast_to(np.asarray(a, dtype=float), shape)  # noqa: E731
+    fixed = np.asarray(fixed_resistance, dtype=float)
+    shape = np.broadcast_shapes(shape, fixed.shape)
     if constant:
-        resistance = sum((d / layer.conductivity.constant_value for d, layer in zip(drops, layers)), np.zeros(()))
+        resistance = sum((d / layer.conductivity.constant_value for d, layer in zip(drops, layers)), fixed)
         layer_args = (full(resistance),)
     else:
-        layer_args = tuple(full(d) for d in drops)
+        layer_args = (full(fixed), *(full(d) for d in drops))
     n_layer = len(layer_args)
 
     def residual(ts, tf, scale, *rest):
@@ -166,10 +178,10 @@ def _solve_face(outer, fluid_temperature, layers, kind, inner_diameter, toleranc
             with np.errstate(divide="ignore", invalid="ignore"):
                 q_in = (tf - ts) / layer_part[0]
         else:
-            q_in = _stack_flow(ts, tf, np.zeros_like(ts), layer_part, layers)
+            q_in = _stack_flow(ts, tf, layer_part[0], layer_part[1:], layers)
         return q_in - q_out
 
-    direct = np.ones(shape, dtype=bool)
+    direct = np.broadcast_to(fixed <= 0, shape).copy()
     for layer in layers:
         direct = direct & (layer.thickness <= 0)
     args = (full(fluid_temperature), full(per_flux), *layer_args, *(full(a) for a in outer.point_arrays()))
@@ -200,7 +212,7 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
                   wall_layers=(), roof_layers=(), floor="ground", floor_layers=(), emissivity=0.9, wind_speed=0.0,
                   outdoor=False, sky_temperature=None, surroundings_temperature=None, ground_temperature=None,
                   ground_conductivity=GROUND_CONDUCTIVITY, pressure=101325.0, exact_properties=False,
-                  convection_factor=1.0, tolerance=1e-6) -> FacesResult:
+                  convection_factor=1.0, convection_coefficient=None, tolerance=1e-6) -> FacesResult:
     r"""Heat lost (or gained) by a vertical cylindrical tank, face by face.
 
     Parameters
@@ -227,8 +239,8 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
     outdoor : bool
         Sky view per face from :data:`convlib.radiation.SKY_VIEW_FRACTION_TYPICAL` (wall 0.5,
         roof 1, open floor 0); indoors 0. No solar gain (night-time design).
-    sky_temperature, surroundings_temperature, pressure, exact_properties, convection_factor
-        As in :func:`convlib.surface.bare_surface`.
+    sky_temperature, surroundings_temperature, pressure, exact_properties, convection_factor, convection_coefficient
+        As in :func:`convlib.surface.bare_surface` (a given coefficient applies to every exposed face).
     ground_temperature : numeric, optional
         Undisturbed soil temperature [K]; default the air temperature (say the annual mean of the site).
     ground_conductivity : numeric
@@ -267,7 +279,8 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
         raise ValueError("floor_layers need floor='ground' or 'open'; the floor is left out")
     common = dict(air_temperature=air_temperature, wind_speed=wind_speed, emissivity=emissivity,
                   surroundings_temperature=surroundings_temperature, sky_temperature=sky_temperature,
-                  pressure=pressure, exact_properties=exact_properties, convection_factor=convection_factor)
+                  pressure=pressure, exact_properties=exact_properties, convection_factor=convection_factor,
+                  convection_coefficient=convection_coefficient)
     notes = []
 
     def solve(outer, layers, kind, inner_diameter):
@@ -302,6 +315,94 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
     else:
         notes.append("floor left out of the total")
     return _total(faces, notes)
+
+
+def spherical_tank(diameter, *, air_temperature, surface_temperature=None, fluid_temperature=None, layers=(),
+                   wall_thickness=None, wall_conductivity=None, inner_coefficient=None, emissivity=0.9,
+                   wind_speed=0.0, outdoor=False, sky_temperature=None, surroundings_temperature=None,
+                   pressure=101325.0, exact_properties=False, convection_factor=1.0, convection_coefficient=None,
+                   tolerance=1e-6) -> FacesResult:
+    r"""Heat lost (or gained) by a spherical vessel (storage sphere, ball tank): one face, the shell.
+
+    The shell is a sphere of the ``sphere`` shape of :mod:`convlib.geometry` (natural convection
+    Churchill 1983, wind Whitaker 1972, radiation to surroundings and sky). With the contents at
+    ``fluid_temperature``, heat passes an optional inner film, the shell wall and the layers in
+    series (spherical shells, :math:`(1/r_1 - 1/r_2)/(4\pi k)`, Incropera et al., 6th ed., eq. 3.36),
+    and the outer surface temperature is solved. Legs, nozzles and manways are left out.
+
+    Parameters
+    ----------
+    diameter : numeric
+        Outer diameter of the shell [m] (layers add outside; the wall is inside it).
+    air_temperature : numeric
+        [K]
+    surface_temperature, fluid_temperature : numeric
+        Give one: a bare shell at a known temperature, or the contents [K].
+    layers : sequence of Layer
+        Insulation and jacket from the shell outwards.
+    wall_thickness, wall_conductivity : numeric, optional
+        Shell wall [m] and its conductivity [W/m/K], given together.
+    inner_coefficient : numeric, optional
+        Film coefficient between the contents and the wall [W/m2/K] (on the inner area).
+    emissivity, wind_speed, sky_temperature, surroundings_temperature, pressure, exact_properties,
+    convection_factor, convection_coefficient
+        As in :func:`convlib.surface.bare_surface`.
+    outdoor : bool
+        Sky view fraction 0.5 (:data:`convlib.radiation.SKY_VIEW_FRACTION_TYPICAL`); indoors 0.
+    tolerance : float
+        Surface temperature solve [K].
+
+    Returns
+    -------
+    FacesResult
+        One face, ``shell``.
+
+    Examples
+    --------
+    A 12 m sphere of cold product at -30 degC under 100 mm of k = 0.03, jacket emissivity 0.2, in
+    still air at 25 degC (a gain, so negative):
+
+    >>> r = spherical_tank(12.0, fluid_temperature=243.15, air_temperature=298.15, layers=[Layer(0.1, 0.03)],
+    ...                    emissivity=0.2)
+    >>> round(float(r.q_total) / 1e3, 2), round(float(r.face("shell").surface_temperature) - 273.15, 1)
+    (-6.97, 20.5)
+    """
+    d = as_array("diameter", diameter, unit="m", low=0.0, low_inclusive=False)
+    if (surface_temperature is None) == (fluid_temperature is None):
+        raise ValueError("give surface_temperature (a bare shell) or fluid_temperature (the contents), one of them")
+    layers = list(layers)
+    if (wall_thickness is None) != (wall_conductivity is None):
+        raise ValueError("give wall_thickness and wall_conductivity together (or neither: a thin shell)")
+    fixed, d_inner = np.zeros(()), d
+    if wall_thickness is not None:
+        t = as_array("wall_thickness", wall_thickness, unit="m", low=0.0)
+        if np.any(2.0 * t >= d):
+            raise ValueError(f"wall_thickness: must be less than half the diameter; got {t} m for {d} m")
+        k_wall = as_array("wall_conductivity", wall_conductivity, unit="W/m/K", low=0.0, low_inclusive=False)
+        d_inner = d - 2.0 * t
+        fixed = fixed + _shell_drop("sphere", 0.5 * d_inner, 0.5 * d) / k_wall
+    if inner_coefficient is not None:
+        h_in = as_array("inner_coefficient", inner_coefficient, unit="W/m2/K", low=0.0, low_inclusive=False)
+        fixed = fixed + 1.0 / (h_in * np.pi * d_inner ** 2)
+    if surface_temperature is not None:
+        if layers or wall_thickness is not None or inner_coefficient is not None:
+            raise ValueError("layers, wall and inner_coefficient need fluid_temperature: with surface_temperature "
+                             "the shell is bare and its outer surface is at that temperature")
+        inner = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
+    else:
+        inner = as_array("fluid_temperature", fluid_temperature, unit="K", low=0.0, low_inclusive=False)
+    _, d_out = _layer_drops(layers, "sphere", d)
+    outer = OuterSurface.build("sphere", diameter=d_out, air_temperature=air_temperature, wind_speed=wind_speed,
+                               emissivity=emissivity, surroundings_temperature=surroundings_temperature,
+                               sky_view_fraction=_sky(outdoor, "sphere"), sky_temperature=sky_temperature,
+                               pressure=pressure, exact_properties=exact_properties,
+                               convection_factor=convection_factor, convection_coefficient=convection_coefficient)
+    if layers or np.any(fixed > 0):
+        ts, _ = _solve_face(outer, inner, layers, "sphere", d, tolerance, fixed)
+    else:
+        ts = inner
+    notes = ["legs, nozzles and manways left out"]
+    return _total([_face("shell", outer, ts, np.pi * d_out ** 2)], notes)
 
 
 def _ground_floor(d, floor_temperature, layers, air_temperature, ground_temperature, ground_conductivity):
@@ -353,7 +454,7 @@ def nusselt_square_cylinder_jakob(Re, Pr):
 def rectangular_duct(width, height, length, *, surface_temperature, air_temperature, wind_speed=0.0,
                      wind_direction="along", emissivity=0.9, outdoor=False, sky_temperature=None,
                      surroundings_temperature=None, pressure=101325.0, exact_properties=False,
-                     convection_factor=1.0) -> FacesResult:
+                     convection_factor=1.0, convection_coefficient=None) -> FacesResult:
     r"""Heat lost (or gained) by a horizontal rectangular duct at a known surface temperature.
 
     Faces: ``sides`` (two vertical plates, height x length), ``top`` (plate facing up, length x
@@ -377,8 +478,9 @@ def rectangular_duct(width, height, length, *, surface_temperature, air_temperat
     wind_speed : numeric
         [m/s]
     wind_direction : {"along", "across"}
-    emissivity, outdoor, sky_temperature, surroundings_temperature, pressure, exact_properties, convection_factor
-        As in :func:`vertical_tank`.
+    emissivity, outdoor, sky_temperature, surroundings_temperature, pressure, exact_properties, convection_factor,
+    convection_coefficient
+        As in :func:`vertical_tank` (with a given coefficient the wind direction plays no part).
 
     Examples
     --------
@@ -397,7 +499,8 @@ def rectangular_duct(width, height, length, *, surface_temperature, air_temperat
     wind = as_array("wind_speed", wind_speed, unit="m/s", low=0.0)
     common = dict(air_temperature=air_temperature, wind_speed=0.0 * wind if across else wind, emissivity=emissivity,
                   surroundings_temperature=surroundings_temperature, sky_temperature=sky_temperature,
-                  pressure=pressure, exact_properties=exact_properties, convection_factor=convection_factor)
+                  pressure=pressure, exact_properties=exact_properties, convection_factor=convection_factor,
+                  convection_coefficient=convection_coefficient)
     outers = [("sides", OuterSurface.build("vertical_plate", height=h, width=run,
                                            sky_view_fraction=_sky(outdoor, "vertical_plate"), **common), 2.0 * h * run),
               ("top", OuterSurface.build("horizontal_plate_up", length=run, width=w,
@@ -407,7 +510,7 @@ def rectangular_duct(width, height, length, *, surface_temperature, air_temperat
                w * run)]
     notes = ["ends of the duct left out"]
     convection = None
-    if across:
+    if across and convection_coefficient is None:
         ta = np.asarray(outers[0][1].air_temperature)
         film = fluid_properties("Air", 0.5 * (ts + ta), pressure=as_array("pressure", pressure, unit="Pa", low=0.0,
                                                                              low_inclusive=False),

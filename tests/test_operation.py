@@ -128,6 +128,19 @@ def test_textbook_hot_water_pipe_outlet():
     assert float(343.15 - p.outlet_temperature) == pytest.approx(q_book / (10.0 * cp), rel=0.02)
 
 
+def test_textbook_duct_outlet_temperature():
+    # Cengel, Heat and Mass Transfer, Ch. 8 example "Heat loss from the ducts of a heating system" (from memory):
+    # air at 80 C enters an 8 m uninsulated 0.2 m x 0.2 m duct in an attic at 0.15 m3/s, the duct nearly isothermal
+    # at 60 C; book properties at 80 C: rho = 0.9994 kg/m3, cp = 1008 J/kg/K; Dittus-Boelter h = 13.5 W/m2/K.
+    # Book: exit 71.3 C, loss 1313 W. Here a round line of the same perimeter (0.8 m, same inner area 6.4 m2)
+    # with the book's inner h; the wall held at 60 C by a very large outer coefficient to air at 60 C.
+    p = op.line_temperature_profile(0.8 / math.pi, 353.15, mass_flow=0.9994 * 0.15, length=8.0,
+                                    air_temperature=333.15, fluid="Air", fluid_phase="gas", specific_heat=1008.0,
+                                    inner_coefficient=13.5, convection_coefficient=1e7, jacket_emissivity=0.0)
+    assert float(p.outlet_temperature) - 273.15 == pytest.approx(71.3, abs=0.05)
+    assert float(p.q_total) == pytest.approx(1313.0, rel=0.005)
+
+
 def test_fluid_warms_in_hot_surroundings_and_profile_is_monotonic():
     # a cold line gains heat: the temperature rises towards the air and never passes it (analytic bound)
     p = op.line_temperature_profile(0.0603, 280.15, [Layer(0.02, 0.035)], mass_flow=0.01, length=600.0,

@@ -58,6 +58,27 @@ def test_tank_json_faces_and_total():
     assert bad.returncode == 2 and "--surface-temperature" in bad.stderr
 
 
+def test_sphere_tank_and_given_coefficient_through_the_command_line():
+    proc = run("tank", "--shape", "sphere", "--diameter", "3.04m", "--fluid-temperature", "0degC",
+               "--air-temperature", "22degC", "--wall-thickness", "20mm", "--wall-conductivity", "15",
+               "--inner-coefficient", "80", "--convection-coefficient", "10", "--emissivity", "1", "--json")
+    assert proc.returncode == 0, proc.stderr
+    payload = json.loads(proc.stdout)
+    r = cl.spherical_tank(3.04, fluid_temperature=273.15, air_temperature=295.15, wall_thickness=0.02,
+                          wall_conductivity=15.0, inner_coefficient=80.0, convection_coefficient=10.0, emissivity=1.0)
+    assert payload["q_total"] == pytest.approx(float(r.q_total), rel=1e-9)
+    assert [f["tag"] for f in payload["tank faces"]["results"]] == ["shell"]
+    bad = run("tank", "--shape", "sphere", "--diameter", "3m", "--height", "4m", "--surface-temperature", "50degC",
+              "--air-temperature", "10degC")
+    assert bad.returncode == 2 and "--height" in bad.stderr
+    line = run("line", "--nps", "2", "--fluid-temperature", "90degC", "--air-temperature", "10degC", "--layer",
+               "30mm,0.04", "--convection-coefficient", "10", "--jacket-emissivity", "0", "--json")
+    assert line.returncode == 0, line.stderr
+    q = float(cl.insulated_pipe(0.0603, 363.15, [Layer(0.03, 0.04)], air_temperature=283.15, jacket_emissivity=0.0,
+                                convection_coefficient=10.0).q_per_length)
+    assert json.loads(line.stdout)["line"]["results"][0]["q_per_length"] == pytest.approx(q, rel=1e-9)
+
+
 def test_line_list_operation_columns():
     text = ("tag,nps,length[m],fluid_temperature[degC],air_temperature[degC],layers[mm],wind_speed,mass_flow,"
             "maintain_temperature[degC],minimum_ambient[degC]\n"

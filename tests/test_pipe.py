@@ -401,3 +401,18 @@ def test_nominal_pipe_unknown_size_or_schedule():
         cl.nominal_pipe(4.3, "40")
     with pytest.raises(ValueError, match="choose one of: .*40.*STD"):
         cl.nominal_pipe(4, "41")
+
+
+def test_textbook_insulated_steam_pipe_with_given_coefficients():
+    # Cengel, Heat and Mass Transfer, Ch. 3 example "Heat loss through an insulated steam pipe" (from memory):
+    # steam at 320 C in a cast-iron pipe (k = 80 W/m/K), D = 5 / 5.5 cm, 3 cm of glass wool (k = 0.05), air and
+    # surroundings at 5 C, h = 60 W/m2/K inside, combined h = 18 W/m2/K outside. Book: 121 W per metre, drops of
+    # 0.02 C across the pipe wall and 284 C across the insulation (its resistances rounded to 3 figures).
+    r = cl.insulated_pipe(0.055, 593.15, [Layer(0.03, 0.05)], air_temperature=278.15, pipe_wall_thickness=0.0025,
+                          pipe_conductivity=80.0, inner_coefficient=60.0, convection_coefficient=18.0,
+                          jacket_emissivity=0.0)
+    assert float(r.q_per_length) == pytest.approx(121.0, rel=0.005)
+    inner, pipe_outer, insulation_outer = r.interface_temperatures
+    assert float(inner - pipe_outer) == pytest.approx(0.02, abs=0.005)
+    assert float(pipe_outer - insulation_outer) == pytest.approx(284.0, abs=1.0)
+    assert r.interface_names == ("pipe inner surface", "pipe outer surface", "insulation outer surface")

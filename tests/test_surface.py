@@ -285,3 +285,20 @@ def test_opposing_flow_tends_to_natural_as_wind_vanishes():
     still = cl.bare_surface("vertical_plate", **kw)
     breath = cl.bare_surface("vertical_plate", wind_speed=1e-6, **kw)
     assert float(breath.h_convection) == pytest.approx(float(still.h_convection), rel=0.01)
+
+
+@pytest.mark.parametrize("wind", [0.0, 5.0])
+def test_given_convection_coefficient_replaces_the_correlations(wind):
+    # q'' = h (Ts - Ta) + eps sigma (Ts^4 - Tsur^4) (Newton's law of cooling and the grey-body exchange, analytic)
+    ts, ta, tsur, h, eps = np.array([320.0, 260.0]), 290.0, 280.0, 7.5, 0.6
+    r = cl.bare_surface(surface_temperature=ts, air_temperature=ta, surroundings_temperature=tsur, diameter=0.2,
+                        wind_speed=wind, emissivity=eps, convection_coefficient=h, convection_factor=1.2)
+    expected = 1.2 * h * (ts - ta) + eps * 5.670374419e-8 * (ts ** 4 - tsur ** 4)
+    np.testing.assert_allclose(r.q_per_area, expected, rtol=1e-12)
+    assert (r.warnings == Flag.COEFFICIENT_GIVEN).all()
+    assert any("given by the user" in m for m in r.warning_messages())
+    # outside every correlation's range, a given coefficient does not make strict raise
+    cl.bare_surface(surface_temperature=400.0, air_temperature=290.0, diameter=1e-5, convection_coefficient=h,
+                    strict=True)
+    with pytest.raises(ValueError, match="convection_coefficient"):
+        cl.bare_surface(surface_temperature=320.0, air_temperature=290.0, diameter=0.2, convection_coefficient=-1.0)

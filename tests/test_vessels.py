@@ -8,6 +8,10 @@ References used below:
   the isolated disc's 4 D from its capacitance 8 R, analytic).
 - Square cylinder in cross flow, Nu = C Re^m Pr^(1/3), C = 0.102, m = 0.675 for 5e3-1e5 (Jakob 1949, as in
   Incropera et al., 6th ed., Table 7.3, from memory). Churchill (1977) mixing, Nu^n = Nu_F^n + Nu_N^n.
+- Spherical shell, R = (1/r1 - 1/r2)/(4 pi k) (Incropera et al., 6th ed., eq. 3.36, from memory); natural
+  convection of a sphere from the `ht` package (Churchill 1983), air properties from CoolProp called directly.
+- Textbook tank: Cengel, Heat and Mass Transfer, "Heat transfer to a spherical container" (iced-water tank), as
+  named beside the check.
 """
 import math
 
@@ -128,6 +132,59 @@ def test_tank_broadcasts_like_single_cases():
     assert [row["face"] for row in rows] == ["wall", "roof", "floor"] and isinstance(rows[0]["q_total"], float)
 
 
+# --------------------------------------------------------------------------- spherical tanks
+def test_textbook_iced_water_sphere():
+    # Cengel, Heat and Mass Transfer, Ch. 3 example "Heat transfer to a spherical container" (from memory):
+    # 3 m inside diameter, 2 cm stainless steel (k = 15 W/m/K), iced water at 0 C, room air and walls at 22 C,
+    # black outer surface, h = 80 W/m2/K inside and 10 W/m2/K (convection) outside, h_if = 333.7 kJ/kg.
+    # Book: Q = 8029 W into the water, 2079 kg of ice melt in 24 h (its radiation coefficient taken at an assumed
+    # 5 C surface; ours at the solved one, 3.9 C) -> tolerance 0.5 %.
+    r = v.spherical_tank(3.04, fluid_temperature=273.15, air_temperature=295.15, wall_thickness=0.02,
+                         wall_conductivity=15.0, inner_coefficient=80.0, convection_coefficient=10.0, emissivity=1.0)
+    assert float(r.q_total) == pytest.approx(-8029.0, rel=0.005)
+    assert float(-r.q_total) * 24 * 3600 / 333.7e3 == pytest.approx(2079.0, rel=0.005)
+    shell = r.face("shell")
+    assert shell.surface.warnings.item() == Flag.COEFFICIENT_GIVEN and float(shell.h_convection) == 10.0
+
+
+def test_insulated_sphere_balances_conduction_with_free_convection():
+    # independent: brentq on (Tf - Ts)/R_shells = A (h_N (Ts - Ta) + eps sigma (Ts^4 - Ta^4)), Nu from ht's
+    # Churchill sphere, air properties from CoolProp at the film temperature
+    from ht.conv_free_immersed import Nu_sphere_Churchill
+    d, tf, ta, eps = 8.0, 423.15, 283.15, 0.3
+    r1, r2, r3 = d / 2 - 0.012, d / 2, d / 2 + 0.1
+    resistance = ((1 / r1 - 1 / r2) / 45.0 + (1 / r2 - 1 / r3) / 0.05) / (4 * math.pi) + 1 / (500.0 * 4 * math.pi * r1 ** 2)
+
+    def out(ts):
+        film = 0.5 * (ts + ta)
+        k, mu, rho, cp = (PropsSI(key, "T", film, "P", 101325.0, "Air") for key in ("L", "V", "D", "C"))
+        gr = 9.80665 * abs(ts - ta) / film * (2 * r3) ** 3 * (rho / mu) ** 2
+        h = Nu_sphere_Churchill(cp * mu / k, gr) * k / (2 * r3)
+        return 4 * math.pi * r3 ** 2 * (h * (ts - ta) + eps * 5.670374419e-8 * (ts ** 4 - ta ** 4))
+
+    ts = brentq(lambda t: (tf - t) / resistance - out(t), ta, tf, xtol=1e-10)
+    r = v.spherical_tank(d, fluid_temperature=tf, air_temperature=ta, layers=[Layer(0.1, 0.05)], wall_thickness=0.012,
+                         wall_conductivity=45.0, inner_coefficient=500.0, emissivity=eps, exact_properties=True)
+    assert float(r.face("shell").surface_temperature) == pytest.approx(ts, abs=2e-4)
+    assert float(r.q_total) == pytest.approx((tf - ts) / resistance, rel=1e-5)
+    bare = v.spherical_tank(d, surface_temperature=tf, air_temperature=ta, emissivity=eps)
+    assert float(bare.q_total) == pytest.approx(float(cl.bare_surface("sphere", surface_temperature=tf, diameter=d,
+                                                                      air_temperature=ta, emissivity=eps).q_total))
+
+
+def test_sphere_broadcasts_and_takes_temperature_dependent_layers():
+    k = Conductivity.polynomial([0.03, 1e-4], form="true", valid_range=(250.0, 700.0))
+    tf = np.array([330.0, 420.0])
+    together = v.spherical_tank(5.0, fluid_temperature=tf, air_temperature=280.0, layers=[Layer(0.08, k)])
+    for i in range(2):
+        alone = v.spherical_tank(5.0, fluid_temperature=tf[i], air_temperature=280.0, layers=[Layer(0.08, k)])
+        assert float(together.q_total[i]) == pytest.approx(float(alone.q_total), rel=1e-7)
+    # Kirchhoff: Q = 4 pi / (1/r1 - 1/r2) * integral of k dT (analytic)
+    ts = float(alone.face("shell").surface_temperature)
+    integral = 0.03 * (420.0 - ts) + 0.5e-4 * (420.0 ** 2 - ts ** 2)
+    assert float(alone.q_total) == pytest.approx(4 * math.pi / (1 / 2.5 - 1 / 2.58) * integral, rel=1e-6)
+
+
 # --------------------------------------------------------------------------- ducts
 @pytest.mark.parametrize("wind", [0.0, 3.0])
 def test_duct_faces_are_plates_and_total_is_their_sum(wind):
@@ -206,6 +263,15 @@ def test_duct_across_wind_mixes_square_cylinder_with_natural_convection():
     (lambda: v.rectangular_duct(0.5, -0.5, 10.0, surface_temperature=330.0, air_temperature=280.0), "height"),
     (lambda: v.rectangular_duct(0.5, 0.5, 10.0, surface_temperature=330.0, air_temperature=280.0,
                                 wind_speed=-1.0), "wind_speed"),
+    (lambda: v.spherical_tank(4.0, air_temperature=280.0), "surface_temperature"),
+    (lambda: v.spherical_tank(4.0, fluid_temperature=330.0, air_temperature=280.0, wall_thickness=0.01),
+     "wall_conductivity"),
+    (lambda: v.spherical_tank(4.0, fluid_temperature=330.0, air_temperature=280.0, wall_thickness=2.0,
+                              wall_conductivity=15.0), "wall_thickness"),
+    (lambda: v.spherical_tank(4.0, surface_temperature=330.0, air_temperature=280.0, layers=[Layer(0.05, 0.04)]),
+     "fluid_temperature"),
+    (lambda: v.spherical_tank(4.0, fluid_temperature=330.0, air_temperature=280.0, convection_coefficient=0.0),
+     "convection_coefficient"),
 ])
 def test_bad_inputs_name_the_field(call, field):
     with pytest.raises(ValueError, match=field):
