@@ -23,8 +23,12 @@ column                 default   meaning [default unit]
 ``operating_hours``    8760      hours per year the line is hot or cold [h] (no unit suffix)
 ``valve`` ...          0         number of fittings: ``valve``, ``flange_pair``, ``support``,
                                  ``elbow``, ``strainer`` (:data:`convlib.design.FITTING_EQUIVALENT_LENGTH`)
-``mass_flow``          none      flow of water in the line [kg/s]: outlet temperature over the
+``mass_flow``          none      flow in the line [kg/s]: outlet temperature over the
                                  equivalent length (:func:`convlib.operation.line_temperature_profile`)
+``fluid``              Water     CoolProp name of what flows (with ``mass_flow``), e.g. ``Water``, ``Air``
+``fluid_pressure``     1 atm     absolute pressure of the fluid [Pa] (hot water above 100 degC needs it)
+``fluid_phase``        liquid    ``liquid`` or ``gas`` (air, superheated steam); checked against the
+                                 boiling point at ``fluid_pressure``
 ``maintain_temperature`` none    temperature a tracer holds [K]: tracing duty
                                  (:func:`convlib.operation.tracing_duty`, default margin)
 ``minimum_ambient``    air       design minimum air temperature for the tracing duty [K]
@@ -105,10 +109,13 @@ COLUMNS = {
     "relative_humidity": "dimensionless", "layers": "length", "location": "text",
     "sky_view_fraction": "dimensionless", "wind_speed": "speed", "jacket_emissivity": "dimensionless",
     "operating_hours": "count", **{name: "count" for name in FITTING_EQUIVALENT_LENGTH},
-    "mass_flow": "mass_flow", "maintain_temperature": "temperature", "minimum_ambient": "temperature",
+    "mass_flow": "mass_flow", "fluid": "text", "fluid_pressure": "pressure", "fluid_phase": "text",
+    "maintain_temperature": "temperature", "minimum_ambient": "temperature",
 }
 #: Optional columns of lines in operation (not part of a LineSpec): outlet temperature and tracing duty.
-OPERATION_COLUMNS = ("mass_flow", "maintain_temperature", "minimum_ambient")
+OPERATION_COLUMNS = ("mass_flow", "fluid", "fluid_pressure", "fluid_phase", "maintain_temperature",
+                     "minimum_ambient")
+FLUID_PHASES = ("liquid", "gas")
 REQUIRED = ("tag", "length", "fluid_temperature", "air_temperature")
 LOCATIONS = ("indoor", "outdoor")
 #: Sky view fraction of an outdoor line without a ``sky_view_fraction`` cell: the upper half
@@ -119,7 +126,8 @@ _HEADER = re.compile(r"^\s*(?P<name>[^\[\]]*?)\s*(?:\[(?P<unit>[^\[\]]*)\])?\s*$
 _LAYER = re.compile(r"^(?P<thickness>[^@]+?)\s*@\s*(?P<conductivity>\S+)\s*(?P<name>.*)$")
 _QUANTITY = re.compile(r"([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*)")
 _EXAMPLES = {"temperature": "'90 degC'", "length": "'50 mm', '4.5 in'", "speed": "'10 km/h'",
-             "conductivity": "'0.04 W/m/K'", "mass_flow": "'0.5 kg/s', '1800 kg/h'"}
+             "conductivity": "'0.04 W/m/K'", "mass_flow": "'0.5 kg/s', '1800 kg/h'",
+             "pressure": "'6 bar', '90 psi'"}
 _CELL_UNIT_KINDS = tuple(_EXAMPLES)
 
 
@@ -277,9 +285,15 @@ def _parse_row(row: int, cells: dict, units: dict) -> ParsedLine | RowError:
     operation = {name: values.pop(name) for name in OPERATION_COLUMNS if name in values}
     if operation.get("mass_flow", 1.0) <= 0:
         problems.append(f"mass_flow: must be greater than 0 kg/s; got {cells['mass_flow']!r}")
-    for name in ("maintain_temperature", "minimum_ambient"):
+    if "fluid_phase" in operation:
+        operation["fluid_phase"] = operation["fluid_phase"].lower()
+        if operation["fluid_phase"] not in FLUID_PHASES:
+            problems.append(f"fluid_phase: unknown phase {cells['fluid_phase']!r}; choose one of: "
+                            f"{', '.join(FLUID_PHASES)}")
+    for name in ("fluid_pressure", "maintain_temperature", "minimum_ambient"):
         if operation.get(name, 1.0) <= 0:
-            problems.append(f"{name}: must be greater than 0 K; got {cells[name]!r}")
+            problems.append(f"{name}: must be greater than 0 {'Pa' if name == 'fluid_pressure' else 'K'}; "
+                            f"got {cells[name]!r}")
     if hours is not None and hours > 8784.0:
         problems.append(f"operating_hours: {hours:g} h is more than a (leap) year of 8784 h")
     if ("nps" in values) == ("outer_diameter" in values):
@@ -565,10 +579,16 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
     def sky_of(air, idx):
         return np.where(sky[idx] > 0, sky_temperature(air), air)
 
-    operate(np.flatnonzero(ok & ~np.isnan(flow)), outlet, "outlet temperature", lambda i, layers: (
-        line_temperature_profile(d[i], tf[i], layers, mass_flow=flow[i], length=leq[i], air_temperature=ta[i],
-                                 wind_speed=wind[i], jacket_emissivity=eps[i], sky_view_fraction=sky[i],
-                                 sky_temperature=sky_of(ta[i], i)).outlet_temperature))
+    fluid = [(g.get("fluid", "Water"), g.get("fluid_phase", "liquid")) for g in given]
+    fluid_pressure = col(g.get("fluid_pressure", 101325.0) for g in given)
+    flowing = np.flatnonzero(ok & ~np.isnan(flow))
+    for name, phase in sorted({fluid[i] for i in flowing}):
+        operate(np.array([i for i in flowing if fluid[i] == (name, phase)]), outlet, "outlet temperature",
+                lambda i, layers, name=name, phase=phase: line_temperature_profile(
+                    d[i], tf[i], layers, mass_flow=flow[i], length=leq[i], air_temperature=ta[i], fluid=name,
+                    fluid_pressure=fluid_pressure[i], fluid_phase=phase, wind_speed=wind[i],
+                    jacket_emissivity=eps[i], sky_view_fraction=sky[i],
+                    sky_temperature=sky_of(ta[i], i)).outlet_temperature)
     operate(np.flatnonzero(ok & ~np.isnan(maintain)), duty, "tracing duty", lambda i, layers: (
         tracing_duty(d[i], maintain[i], layers, air_temperature=coldest[i], wind_speed=wind[i],
                      jacket_emissivity=eps[i], sky_view_fraction=sky[i],

@@ -101,6 +101,26 @@ def test_line_list_operation_columns():
     assert rows[1]["outlet_temperature"] is None and rows[0]["tracing_duty_per_length"] is None
 
 
+def test_line_list_fluid_columns():
+    text = ("tag,nps,length[m],fluid_temperature[degC],air_temperature[degC],layers[mm],mass_flow,fluid,"
+            "fluid_pressure,fluid_phase\n"
+            "HOT,2,100,150,0,40@0.04,0.5,,6 bar,\n"
+            "AIR,4,50,120,10,,0.3,Air,,gas\n"
+            "HW,2,100,80,0,40@0.04,0.5,,,\n"
+            "BAD,2,100,80,0,40@0.04,0.5,,-1,vapour\n")
+    res = run_line_list(io.StringIO(text))
+    assert [e.row for e in res.errors] == [5]
+    assert "fluid_pressure" in res.errors[0].reason and "fluid_phase" in res.errors[0].reason
+    hot = cl.line_temperature_profile(0.0603, 423.15, [Layer(0.04, 0.04)], mass_flow=0.5, length=100.0,
+                                      air_temperature=273.15, fluid_pressure=6e5)
+    air = cl.line_temperature_profile(0.1143, 393.15, mass_flow=0.3, length=50.0, air_temperature=283.15,
+                                      fluid="Air", fluid_phase="gas")
+    water = cl.line_temperature_profile(0.0603, 353.15, [Layer(0.04, 0.04)], mass_flow=0.5, length=100.0,
+                                        air_temperature=273.15)
+    for i, p in enumerate((hot, air, water)):
+        assert res.outlet_temperature[i] == pytest.approx(float(p.outlet_temperature), abs=1e-6)
+
+
 def test_outlet_json_is_the_library_profile():
     proc = run("outlet", "--nps", "2", "--inlet-temperature", "80degC", "--air-temperature=-10degC",
                "--mass-flow", "0.2", "--length", "300", "--layer", "30mm,0.04", "--wind-speed", "3", "--json")
