@@ -39,7 +39,7 @@ from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, TOUCH_LIMIT_METAL_JACK
                      thickness_against_condensation, thickness_for_heat_loss, thickness_for_surface_temperature)
 from .geometry import SHAPES
 from .lines import LineSpec
-from .operation import TRACING_MARGIN, freeze_time, line_temperature_profile, tracing_duty
+from .operation import TRACING_MARGIN, freeze_time, line_temperature_profile, steam_line, tracing_duty
 from .pipe import Layer, insulated_pipe
 from .pipe_sizes import SCHEDULES, nominal_pipe
 from .surface import bare_surface
@@ -76,6 +76,8 @@ FIELDS = {
     "time_total": ("t_total", "time", "{:.2f}"),
     "area": ("A", "area", "{:.2f}"),
     "q_per_area": ("q/A", "heat_flux", "{:.1f}"),
+    "steam_pressure": ("p_steam", "pressure", "{:.4g}"),
+    "condensate_rate": ("condensate", "mass_flow", "{:.2f}"),
 }
 
 
@@ -242,6 +244,20 @@ def _cmd_outlet(args) -> int:
                     f"({float(r.energy_balance_error):.1e} relative); {int(np.max(r.steps))} steps"]}
           if not args.json else {"profile": {"position_m": np.asarray(r.position).ravel().tolist(),
                                              "temperature_K": np.asarray(r.temperature).ravel().tolist()}})
+    return 0
+
+
+def _cmd_steam(args) -> int:
+    layers = [_parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
+    pressure = parse(args.steam_pressure, "pressure", "steam-pressure")
+    air = parse(args.air_temperature, "temperature", "air-temperature")
+    r = steam_line(_pipe_diameter(args), pressure, layers, air_temperature=air,
+                   length=parse(args.length, "length", "length"), **_outside(args))
+    row = {"tag": args.tag, "steam_pressure": pressure, "fluid_temperature": float(r.saturation_temperature),
+           "air_temperature": air, "surface_temperature": float(r.pipe.surface_temperature),
+           "q_per_length": float(r.q_per_length), "q_total": float(r.q_total),
+           "condensate_rate": float(r.condensate_rate) / 3600.0, "warnings": r.pipe.warning_messages()}
+    _emit(args, [("saturated steam line", [row])], [*_cautions([row]), *r.cautions])
     return 0
 
 
@@ -796,6 +812,15 @@ def build_parser() -> argparse.ArgumentParser:
     trace.add_argument("--length", default="1", help="traced length (default 1 m)")
     _output_options(trace)
     trace.set_defaults(func=_cmd_trace)
+
+    steam = sub.add_parser("steam", help="a saturated steam line: heat loss and the condensate it forms")
+    steam.add_argument("--steam-pressure", required=True, help="absolute steam pressure, e.g. 3.5bar")
+    steam.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. -10degC")
+    steam.add_argument("--length", default="1", help="line length (default 1 m)")
+    steam.add_argument("--layer", action="append", help=layer_help)
+    _pipe_size_options(steam)
+    _output_options(steam)
+    steam.set_defaults(func=_cmd_steam)
 
     freeze = sub.add_parser("freeze", help="time for stagnant water in a line to reach 0 degC and to freeze solid")
     _pipe_size_options(freeze)

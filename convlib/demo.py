@@ -27,11 +27,11 @@ def layers(records) -> list:
 
 
 def operation_rows(op: dict) -> tuple[list[dict], set[str]]:
-    """The demo site's lines in operation: outlet temperature, tracing duty, freeze time, tank loss.
+    """The demo site's lines in operation: outlet temperature, steam condensate, tracing duty, freeze time, tank loss.
 
     Returns rows ``{"tag", "what", "result"}`` (readable text, SI and degC) and the cautions that apply.
     """
-    from .operation import freeze_time, line_temperature_profile, tracing_duty
+    from .operation import freeze_time, line_temperature_profile, steam_line, tracing_duty
     from .vessels import vertical_tank
 
     rows, cautions = [], set()
@@ -44,6 +44,14 @@ def operation_rows(op: dict) -> tuple[list[dict], set[str]]:
     rows.append({"tag": c["tag"], "what": f"outlet after {c['length']:g} m at {c['mass_flow']:g} kg/s",
                  "result": f"{c['inlet_temperature'] - 273.15:.1f} -> {float(r.outlet_temperature) - 273.15:.2f} °C, "
                            f"loss {float(r.q_total) / 1000:.1f} kW"})
+    c = op["steam_line"]
+    s = steam_line(nominal_pipe(c["nps"], c["schedule"]).outer_diameter, c["steam_pressure"], layers(c["layers"]),
+                   air_temperature=c["air_temperature"], length=c["length"], wind_speed=c["wind_speed"],
+                   sky_view_fraction=c["sky_view_fraction"], jacket_emissivity=c["jacket_emissivity"])
+    rows.append({"tag": c["tag"], "what": f"saturated steam at {c['steam_pressure'] / 1e5:g} bar(a) "
+                                          f"({float(s.saturation_temperature) - 273.15:.1f} °C), {c['length']:g} m",
+                 "result": f"condensate {float(s.condensate_rate):.1f} kg/h, loss {float(s.q_total) / 1000:.1f} kW"})
+    cautions.update(s.cautions)
     c = op["traced_line"]
     t = tracing_duty(nominal_pipe(c["nps"], c["schedule"]).outer_diameter, c["maintain_temperature"],
                      layers(c["layers"]), air_temperature=c["minimum_air_temperature"],

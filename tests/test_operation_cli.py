@@ -43,6 +43,21 @@ def test_freeze_json_in_seconds_and_table_in_hours():
     assert f"{float(f.hours_total):.2f}" in table.stdout and "[h]" in table.stdout
 
 
+def test_steam_json_condensate_is_the_library_rate():
+    proc = run("steam", "--nps", "6", "--steam-pressure", "3.5bar", "--air-temperature=-10degC", "--layer",
+               "80mm,0.045", "--length", "260", "--wind-speed", "6", "--json")
+    assert proc.returncode == 0, proc.stderr
+    payload = json.loads(proc.stdout)
+    row = payload["saturated steam line"]["results"][0]
+    s = cl.steam_line(0.1683, 3.5e5, [Layer(0.08, 0.045)], air_temperature=263.15, length=260.0, wind_speed=6.0)
+    assert row["condensate_rate"] == pytest.approx(float(s.condensate_rate) / 3600, rel=1e-9)  # JSON in kg/s
+    assert payload["saturated steam line"]["units"]["condensate_rate"] == "kg/s"
+    assert row["fluid_temperature"] == pytest.approx(float(s.saturation_temperature), rel=1e-12)
+    assert any("trap" in c for c in payload["cautions"])
+    bad = run("steam", "--nps", "6", "--steam-pressure", "-2bar", "--air-temperature", "0degC")
+    assert bad.returncode == 2 and "pressure" in bad.stderr
+
+
 def test_tank_json_faces_and_total():
     proc = run("tank", "--diameter", "10m", "--height", "12m", "--fluid-temperature", "80degC",
                "--air-temperature=-5degC", "--wall-layer", "100mm,0.04", "--roof-layer", "100mm,0.04", "--json")
