@@ -1,0 +1,200 @@
+"""Command line for lines in operation: ``outlet``, ``trace``, ``steam``, ``freeze``, ``tank``.
+
+Registered on the ``convlib`` parser by :func:`add_commands` (see :mod:`convlib.cli`).
+"""
+from __future__ import annotations
+
+import numpy as np
+
+from .cli_common import (GIVEN_COEFFICIENT_HELP, emit, nominal_pipe, output_options, outside, parse, parse_layer,
+                         pipe_diameter, pipe_size_options, surface_cautions)
+from .operation import TRACING_MARGIN, freeze_time, line_temperature_profile, steam_line, tracing_duty
+from .vessels import FLOORS, GROUND_CONDUCTIVITY, spherical_tank, vertical_tank
+
+
+def _cmd_trace(args) -> int:
+    layers = [parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
+    maintain = parse(args.maintain_temperature, "temperature", "maintain-temperature")
+    ambient = parse(args.minimum_ambient, "temperature", "minimum-ambient")
+    r = tracing_duty(pipe_diameter(args), maintain, layers, air_temperature=ambient, margin=args.margin,
+                     length=parse(args.length, "length", "length"), **outside(args))
+    row = {"tag": args.tag, "maintain_temperature": maintain, "air_temperature": ambient,
+           "surface_temperature": float(r.surface_temperature), "heat_loss_per_length": float(r.heat_loss_per_length),
+           "margin": float(r.margin), "duty_per_length": float(r.duty_per_length), "duty_total": float(r.duty_total),
+           "warnings": r.pipe.warning_messages()}
+    emit(args, [("heat tracing", [row])], [*r.notes, *r.cautions])
+    return 0
+
+
+def _cmd_outlet(args) -> int:
+    layers = [parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
+    inlet = parse(args.inlet_temperature, "temperature", "inlet-temperature")
+    air = parse(args.air_temperature, "temperature", "air-temperature")
+    mass_flow = parse(args.mass_flow, "mass_flow", "mass-flow")
+    length = parse(args.length, "length", "length")
+    r = line_temperature_profile(pipe_diameter(args), inlet, layers, mass_flow=mass_flow, length=length,
+                                 air_temperature=air, fluid=args.fluid,
+                                 fluid_pressure=parse(args.fluid_pressure, "pressure", "fluid-pressure"),
+                                 **outside(args))
+    row = {"tag": args.tag, "fluid_temperature": inlet, "outlet_temperature": float(r.outlet_temperature),
+           "air_temperature": air, "q_total": float(r.q_total), "warnings": []}
+    emit(args, [("temperature along the line", [row])], [],
+          {"text": [f"energy balance: loss {float(r.q_total):.6g} W vs enthalpy drop {float(r.enthalpy_drop):.6g} W "
+                    f"({float(r.energy_balance_error):.1e} relative); {int(np.max(r.steps))} steps"]}
+          if not args.json else {"profile": {"position_m": np.asarray(r.position).ravel().tolist(),
+                                             "temperature_K": np.asarray(r.temperature).ravel().tolist()}})
+    return 0
+
+
+def _cmd_steam(args) -> int:
+    layers = [parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
+    pressure = parse(args.steam_pressure, "pressure", "steam-pressure")
+    air = parse(args.air_temperature, "temperature", "air-temperature")
+    r = steam_line(pipe_diameter(args), pressure, layers, air_temperature=air,
+                   length=parse(args.length, "length", "length"), **outside(args))
+    row = {"tag": args.tag, "steam_pressure": pressure, "fluid_temperature": float(r.saturation_temperature),
+           "air_temperature": air, "surface_temperature": float(r.pipe.surface_temperature),
+           "q_per_length": float(r.q_per_length), "q_total": float(r.q_total),
+           "condensate_rate": float(r.condensate_rate) / 3600.0, "warnings": r.pipe.warning_messages()}
+    emit(args, [("saturated steam line", [row])], [*surface_cautions([row]), *r.cautions])
+    return 0
+
+
+def _cmd_freeze(args) -> int:
+    layers = [parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
+    d = pipe_diameter(args)
+    if args.wall_thickness is not None:
+        wall = parse(args.wall_thickness, "length", "wall-thickness")
+    elif args.nps is not None:
+        wall = nominal_pipe(args.nps, args.schedule).wall_thickness
+    else:
+        raise ValueError("--wall-thickness is required with --pipe-diameter (with --nps it comes from the schedule)")
+    initial = parse(args.initial_temperature, "temperature", "initial-temperature")
+    ambient = parse(args.minimum_ambient, "temperature", "minimum-ambient")
+    r = freeze_time(d, wall, initial, layers, air_temperature=ambient, **outside(args))
+    row = {"tag": args.tag, "initial_temperature": initial, "air_temperature": ambient}
+    if not bool(r.never_freezes):
+        row.update(time_to_freezing_point=3600.0 * float(r.hours_to_freezing_point),
+                   time_to_freeze_solid=3600.0 * float(r.hours_to_freeze_solid),
+                   time_total=3600.0 * float(r.hours_total))
+    emit(args, [("freeze time (stagnant water)", [row])], [*r.notes, *r.cautions])
+    return 0
+
+
+def _cmd_tank(args) -> int:
+    def layers(texts):
+        return [parse_layer(t, i + 1) for i, t in enumerate(texts or [])]
+
+    if (args.surface_temperature is None) == (args.fluid_temperature is None):
+        raise ValueError("give --surface-temperature (a bare tank) or --fluid-temperature (with layers), not both")
+    temperature = {"surface_temperature" if args.surface_temperature else "fluid_temperature":
+                   parse(args.surface_temperature or args.fluid_temperature, "temperature",
+                         "surface-temperature" if args.surface_temperature else "fluid-temperature")}
+    common = dict(air_temperature=parse(args.air_temperature, "temperature", "air-temperature"),
+                  emissivity=args.emissivity, wind_speed=parse(args.wind_speed, "speed", "wind-speed"),
+                  outdoor=args.outdoor, convection_coefficient=None if args.convection_coefficient is None else
+                  parse(args.convection_coefficient, "coefficient", "convection-coefficient"), **temperature)
+    diameter = parse(args.diameter, "length", "diameter")
+    if args.shape == "sphere":
+        if args.height is not None or args.roof_layer or args.floor_layer:
+            raise ValueError("a sphere takes no --height, --roof-layer or --floor-layer (its layers: --wall-layer)")
+        if (args.wall_thickness is None) != (args.wall_conductivity is None):
+            raise ValueError("give --wall-thickness and --wall-conductivity together")
+        wall = {} if args.wall_thickness is None else dict(
+            wall_thickness=parse(args.wall_thickness, "length", "wall-thickness"),
+            wall_conductivity=parse(args.wall_conductivity, "conductivity", "wall-conductivity"))
+        inner = None if args.inner_coefficient is None else parse(args.inner_coefficient, "coefficient",
+                                                                  "inner-coefficient")
+        r = spherical_tank(diameter, layers=layers(args.wall_layer), inner_coefficient=inner, **wall, **common)
+    else:
+        if args.height is None:
+            raise ValueError("--height is required for a vertical tank")
+        if args.wall_thickness is not None or args.inner_coefficient is not None:
+            raise ValueError("--wall-thickness, --wall-conductivity and --inner-coefficient are for --shape sphere; "
+                             "a vertical tank's shell is taken as thin")
+        ground = None if args.ground_temperature is None else parse(args.ground_temperature, "temperature",
+                                                                    "ground-temperature")
+        r = vertical_tank(diameter, parse(args.height, "length", "height"), wall_layers=layers(args.wall_layer),
+                          roof_layers=layers(args.roof_layer), floor=args.floor,
+                          floor_layers=layers(args.floor_layer), ground_temperature=ground,
+                          ground_conductivity=args.ground_conductivity, **common)
+    rows = [{"tag": f.name, "shape": f.shape, "area": float(f.area), "surface_temperature": float(f.surface_temperature),
+             "q_per_area": float(f.q_per_area), "q_total": float(f.q_total)} for f in r.faces]
+    total = float(r.q_total)
+    extra = {"q_total": total, "notes": list(r.notes)}
+    if not args.json:
+        extra["text"] = [f"\ntotal {total:.0f} W", *r.notes]
+    emit(args, [("tank faces", rows)], [], extra)
+    return 0
+
+
+def add_commands(sub) -> None:
+    """Add the commands of lines in operation to the ``convlib`` subparsers ``sub``."""
+    layer_help = "THICKNESS,CONDUCTIVITY[,NAME] from the pipe outwards, e.g. --layer 25mm,0.04,mineral wool"
+    outlet = sub.add_parser("outlet", help="temperature along a line with flow: outlet temperature and loss")
+    pipe_size_options(outlet)
+    outlet.add_argument("--inlet-temperature", required=True, help="fluid temperature at the inlet, e.g. 115degC")
+    outlet.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. -5degC")
+    outlet.add_argument("--mass-flow", required=True, help="mass flow, e.g. 12 (kg/s) or 43000 kg/h")
+    outlet.add_argument("--length", required=True, help="line length, e.g. 1400 or 1.4km")
+    outlet.add_argument("--fluid", default="Water", help="CoolProp fluid name (default Water)")
+    outlet.add_argument("--fluid-pressure", default="101325", help="fluid pressure, e.g. 6bar (default 1 atm)")
+    outlet.add_argument("--layer", action="append", help=layer_help)
+    output_options(outlet)
+    outlet.set_defaults(func=_cmd_outlet)
+
+    trace = sub.add_parser("trace", help="heat-tracing duty to hold a line at a maintain temperature")
+    pipe_size_options(trace)
+    trace.add_argument("--maintain-temperature", required=True, help="temperature the tracer holds, e.g. 5degC")
+    trace.add_argument("--minimum-ambient", required=True, help="design minimum air temperature, e.g. -20degC "
+                       "(give the design maximum wind as --wind-speed)")
+    trace.add_argument("--layer", action="append", help=layer_help)
+    trace.add_argument("--margin", type=float, default=TRACING_MARGIN,
+                       help=f"design margin on the loss (default {TRACING_MARGIN:g})")
+    trace.add_argument("--length", default="1", help="traced length (default 1 m)")
+    output_options(trace)
+    trace.set_defaults(func=_cmd_trace)
+
+    steam = sub.add_parser("steam", help="a saturated steam line: heat loss and the condensate it forms")
+    steam.add_argument("--steam-pressure", required=True, help="absolute steam pressure, e.g. 3.5bar")
+    steam.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. -10degC")
+    steam.add_argument("--length", default="1", help="line length (default 1 m)")
+    steam.add_argument("--layer", action="append", help=layer_help)
+    pipe_size_options(steam)
+    output_options(steam)
+    steam.set_defaults(func=_cmd_steam)
+
+    freeze = sub.add_parser("freeze", help="time for stagnant water in a line to reach 0 degC and to freeze solid")
+    pipe_size_options(freeze)
+    freeze.add_argument("--wall-thickness", help="pipe wall, e.g. 3.91mm (default from --nps and --schedule)")
+    freeze.add_argument("--initial-temperature", required=True, help="water temperature when flow stops, e.g. 10degC")
+    freeze.add_argument("--minimum-ambient", required=True, help="design minimum air temperature, e.g. -15degC")
+    freeze.add_argument("--layer", action="append", help=layer_help)
+    output_options(freeze)
+    freeze.set_defaults(func=_cmd_freeze)
+
+    tank = sub.add_parser("tank", help="a vertical tank face by face (wall, roof, floor) or a sphere (shell)")
+    tank.add_argument("--shape", choices=("vertical", "sphere"), default="vertical",
+                      help="vertical cylindrical tank (default) or spherical vessel")
+    tank.add_argument("--diameter", required=True, help="tank diameter (of a sphere: outer shell), e.g. 10m")
+    tank.add_argument("--height", help="wall height of a vertical tank, e.g. 12m")
+    tank.add_argument("--wall-thickness", help="sphere: shell wall, e.g. 20mm (with --wall-conductivity)")
+    tank.add_argument("--wall-conductivity", help="sphere: shell wall conductivity, e.g. 45 (W/m/K)")
+    tank.add_argument("--inner-coefficient", help="sphere: film coefficient inside, e.g. 200 (W/m2/K)")
+    tank.add_argument("--convection-coefficient", help=GIVEN_COEFFICIENT_HELP)
+    tank.add_argument("--surface-temperature", help="known temperature of every face (a bare tank), e.g. 60degC")
+    tank.add_argument("--fluid-temperature", help="temperature of the contents (with layers), e.g. 80degC")
+    tank.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. 10degC")
+    tank.add_argument("--wind-speed", default="0", help="wind speed (default 0: still air)")
+    tank.add_argument("--emissivity", type=float, default=0.9, help="emissivity of the outer surfaces")
+    tank.add_argument("--outdoor", action="store_true", help="faces see the sky (wall 0.5, roof 1)")
+    for face in ("wall", "roof", "floor"):
+        tank.add_argument(f"--{face}-layer", action="append", help=f"{face} layer THICKNESS,CONDUCTIVITY[,NAME]")
+    tank.add_argument("--floor", choices=FLOORS, default="ground", help="on the ground (default), open underneath, "
+                      "or left out")
+    tank.add_argument("--ground-temperature", help="undisturbed soil temperature (default the air temperature)")
+    tank.add_argument("--ground-conductivity", type=float, default=GROUND_CONDUCTIVITY,
+                      help=f"soil W/m/K (default {GROUND_CONDUCTIVITY:g})")
+    tank.add_argument("--tag", default="tank", help="label for the output")
+    output_options(tank)
+    tank.set_defaults(func=_cmd_tank)
