@@ -16,6 +16,7 @@ Commands
 ``steam``         a saturated steam line: heat loss and condensate
 ``freeze``        time for stagnant water in a line to reach 0 degC and to freeze solid
 ``tank``          a vertical tank face by face (wall, roof, floor) or a sphere, bare or insulated
+``duct``          a rectangular duct face by face (sides, top, bottom), bare or insulated
 ``correlations``  the correlation registry
 
 Values may carry units (``90degC``, ``4.5in``, ``50mm``, ``10mph``, ``80W/m``);

@@ -1,4 +1,4 @@
-"""Command line for lines in operation: ``outlet``, ``trace``, ``steam``, ``freeze``, ``tank``.
+"""Command line for lines in operation: ``outlet``, ``trace``, ``steam``, ``freeze``, ``tank``, ``duct``.
 
 Registered on the ``convlib`` parser by :func:`add_commands` (see :mod:`convlib.cli`).
 """
@@ -9,7 +9,7 @@ import numpy as np
 from .cli_common import (GIVEN_COEFFICIENT_HELP, emit, nominal_pipe, output_options, outside, parse, parse_layer,
                          pipe_diameter, pipe_size_options, surface_cautions)
 from .operation import TRACING_MARGIN, freeze_time, line_temperature_profile, steam_line, tracing_duty
-from .vessels import FLOORS, GROUND_CONDUCTIVITY, spherical_tank, vertical_tank
+from .vessels import FLOORS, GROUND_CONDUCTIVITY, WIND_DIRECTIONS, rectangular_duct, spherical_tank, vertical_tank
 
 
 def _cmd_trace(args) -> int:
@@ -118,14 +118,41 @@ def _cmd_tank(args) -> int:
                           roof_layers=layers(args.roof_layer), floor=args.floor,
                           floor_layers=layers(args.floor_layer), ground_temperature=ground,
                           ground_conductivity=args.ground_conductivity, **common)
+    _emit_faces(args, "tank faces", r, common["air_temperature"])
+    return 0
+
+
+def _cmd_duct(args) -> int:
+    if (args.surface_temperature is None) == (args.fluid_temperature is None):
+        raise ValueError("give --surface-temperature (a bare duct) or --fluid-temperature (with layers), not both")
+    temperature = ({"surface_temperature": parse(args.surface_temperature, "temperature", "surface-temperature")}
+                   if args.surface_temperature else
+                   {"fluid_temperature": parse(args.fluid_temperature, "temperature", "fluid-temperature")})
+    optional = {name: None if getattr(args, name) is None else parse(getattr(args, name), "coefficient",
+                                                                     name.replace("_", "-"))
+                for name in ("inner_coefficient", "convection_coefficient")}
+    air = parse(args.air_temperature, "temperature", "air-temperature")
+    r = rectangular_duct(parse(args.width, "length", "width"), parse(args.height, "length", "height"),
+                         parse(args.length, "length", "length"), air_temperature=air,
+                         layers=[parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])],
+                         wind_speed=parse(args.wind_speed, "speed", "wind-speed"), wind_direction=args.wind_direction,
+                         emissivity=args.emissivity, outdoor=args.outdoor, **optional, **temperature)
+    _emit_faces(args, "duct faces", r, air)
+    return 0
+
+
+def _emit_faces(args, title, r, air_temperature) -> None:
+    """Face rows, the total and the notes of a vessel or duct; hot/cold cautions from the exposed faces."""
     rows = [{"tag": f.name, "shape": f.shape, "area": float(f.area), "surface_temperature": float(f.surface_temperature),
-             "q_per_area": float(f.q_per_area), "q_total": float(f.q_total)} for f in r.faces]
+             "q_per_area": float(f.q_per_area), "q_total": float(f.q_total),
+             "warnings": [] if f.surface is None else f.surface.warning_messages()} for f in r.faces]
     total = float(r.q_total)
     extra = {"q_total": total, "notes": list(r.notes)}
     if not args.json:
         extra["text"] = [f"\ntotal {total:.0f} W", *r.notes]
-    emit(args, [("tank faces", rows)], [], extra)
-    return 0
+    exposed = [{"surface_temperature": float(f.surface_temperature), "air_temperature": air_temperature}
+               for f in r.faces if f.surface is not None]
+    emit(args, [(title, rows)], surface_cautions(exposed), extra)
 
 
 def add_commands(sub) -> None:
@@ -198,3 +225,22 @@ def add_commands(sub) -> None:
     tank.add_argument("--tag", default="tank", help="label for the output")
     output_options(tank)
     tank.set_defaults(func=_cmd_tank)
+
+    duct = sub.add_parser("duct", help="a horizontal rectangular duct face by face (sides, top, bottom)")
+    duct.add_argument("--width", required=True, help="duct width (sheet metal; layers add outside), e.g. 600mm")
+    duct.add_argument("--height", required=True, help="duct height, e.g. 400mm")
+    duct.add_argument("--length", required=True, help="duct run, e.g. 20m")
+    duct.add_argument("--surface-temperature", help="known temperature of every face (a bare duct), e.g. 40degC")
+    duct.add_argument("--fluid-temperature", help="temperature of the air inside (with layers), e.g. 14degC")
+    duct.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. 30degC")
+    duct.add_argument("--layer", action="append", help="layer of every face, THICKNESS,CONDUCTIVITY[,NAME]")
+    duct.add_argument("--inner-coefficient", help="film coefficient inside, e.g. 15 (W/m2/K)")
+    duct.add_argument("--wind-speed", default="0", help="wind speed (default 0: still air)")
+    duct.add_argument("--wind-direction", choices=WIND_DIRECTIONS, default="along",
+                      help="wind along the duct (plate laws, default) or across it (square-section law)")
+    duct.add_argument("--emissivity", type=float, default=0.9, help="emissivity of the outer surfaces")
+    duct.add_argument("--outdoor", action="store_true", help="faces see the sky (sides 0.5, top 1)")
+    duct.add_argument("--convection-coefficient", help=GIVEN_COEFFICIENT_HELP)
+    duct.add_argument("--tag", default="duct", help="label for the output")
+    output_options(duct)
+    duct.set_defaults(func=_cmd_duct)

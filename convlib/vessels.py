@@ -11,8 +11,9 @@ A vessel or duct is a few flat or cylindrical faces, each one of the shapes of
   temperature is solved, as for :func:`convlib.pipe.insulated_pipe`.
 * :func:`spherical_tank` -- one face, the shell (sphere), with optional inner film, wall and layers.
 * :func:`rectangular_duct` -- sides (vertical plates), top and bottom (horizontal plates facing
-  up and down) at a known surface temperature; wind along the duct (plate laws) or across it
-  (a square-section cross-flow law, :func:`nusselt_square_cylinder_jakob`).
+  up and down), bare at a known surface temperature or insulated with the contents' temperature
+  given; wind along the duct (plate laws) or across it (a square-section cross-flow law,
+  :func:`nusselt_square_cylinder_jakob`).
 
 Every input broadcasts (numpy arrays over cases); each face's arrays have the broadcast shape.
 
@@ -451,36 +452,50 @@ def nusselt_square_cylinder_jakob(Re, Pr):
     return 0.102 * np.asarray(Re, dtype=float) ** 0.675 * np.asarray(Pr, dtype=float) ** (1.0 / 3.0)
 
 
-def rectangular_duct(width, height, length, *, surface_temperature, air_temperature, wind_speed=0.0,
-                     wind_direction="along", emissivity=0.9, outdoor=False, sky_temperature=None,
-                     surroundings_temperature=None, pressure=101325.0, exact_properties=False,
-                     convection_factor=1.0, convection_coefficient=None) -> FacesResult:
-    r"""Heat lost (or gained) by a horizontal rectangular duct at a known surface temperature.
+def rectangular_duct(width, height, length, *, air_temperature, surface_temperature=None, fluid_temperature=None,
+                     layers=(), inner_coefficient=None, wind_speed=0.0, wind_direction="along", emissivity=0.9,
+                     outdoor=False, sky_temperature=None, surroundings_temperature=None, pressure=101325.0,
+                     exact_properties=False, convection_factor=1.0, convection_coefficient=None,
+                     tolerance=1e-6) -> FacesResult:
+    r"""Heat lost (or gained) by a horizontal rectangular duct, bare at a known surface temperature or insulated.
 
     Faces: ``sides`` (two vertical plates, height x length), ``top`` (plate facing up, length x
     width) and ``bottom`` (plate facing down); the two ends are left out.
 
+    Either every face is at ``surface_temperature`` (bare sheet metal), or the air (or other
+    contents) inside is at ``fluid_temperature`` and heat passes an optional inner film and the
+    ``layers`` of every face as flat slabs (:math:`t/k` per m2 over the outer face areas, corners
+    neglected: the heat flow is overstated by roughly :math:`2t/(w + h)` relative, on the safe side),
+    and each face's outer surface temperature is solved. The outer section is the duct's plus the layers.
+
     Wind ``"along"`` the duct uses the plate laws with the duct length as streamwise length.
     Wind ``"across"`` (horizontal, normal to the axis) uses :func:`nusselt_square_cylinder_jakob`
-    with :math:`D` = the height (the face the wind meets), one forced coefficient for the whole
+    with :math:`D` = the outer height (the face the wind meets), one forced coefficient for the whole
     section, combined with each face's natural coefficient by Churchill's rule (transverse,
     :math:`n = 3`); a section far from square is flagged in ``notes``, Reynolds numbers outside
-    5e3-1e5 in each face's ``warnings`` (``FORCED_OUT_OF_RANGE``).
+    5e3-1e5 in each face's ``warnings`` (``FORCED_OUT_OF_RANGE``). With layers and wind across, the
+    surface temperature and the cross-flow coefficient are iterated to agree (``NOT_CONVERGED`` if not).
 
     Parameters
     ----------
     width, height, length : numeric
-        Duct section and run [m].
-    surface_temperature : numeric
-        Outer surface temperature, all faces [K].
+        Duct section (sheet metal, layers add outside) and run [m].
     air_temperature : numeric
         [K]
+    surface_temperature, fluid_temperature : numeric
+        Give one: every face at a known temperature (no layers), or the contents [K].
+    layers : sequence of Layer
+        Insulation and jacket of every face, from the duct outwards (constant or k(T)).
+    inner_coefficient : numeric, optional
+        Film coefficient inside [W/m2/K] (with ``fluid_temperature``); default none (wall at the contents).
     wind_speed : numeric
         [m/s]
     wind_direction : {"along", "across"}
     emissivity, outdoor, sky_temperature, surroundings_temperature, pressure, exact_properties, convection_factor,
     convection_coefficient
         As in :func:`vertical_tank` (with a given coefficient the wind direction plays no part).
+    tolerance : float
+        Surface temperature solve [K].
 
     Examples
     --------
@@ -489,45 +504,92 @@ def rectangular_duct(width, height, length, *, surface_temperature, air_temperat
     >>> r = rectangular_duct(0.6, 0.4, 20.0, surface_temperature=313.15, air_temperature=293.15)
     >>> [f.name for f in r.faces], round(float(r.q_total))
     (['sides', 'top', 'bottom'], 7547)
+
+    The same duct carrying air at 40 degC under 50 mm of k = 0.035 with an inside film of 15 W/m2/K:
+
+    >>> r = rectangular_duct(0.6, 0.4, 20.0, fluid_temperature=313.15, air_temperature=293.15,
+    ...                      layers=[Layer(0.05, 0.035)], inner_coefficient=15.0)
+    >>> round(float(r.q_total))
+    586
     """
     check_choice("wind_direction", wind_direction, WIND_DIRECTIONS)
     w = as_array("width", width, unit="m", low=0.0, low_inclusive=False)
     h = as_array("height", height, unit="m", low=0.0, low_inclusive=False)
     run = as_array("length", length, unit="m", low=0.0, low_inclusive=False)
-    ts = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
-    across = wind_direction == "across"
+    if (surface_temperature is None) == (fluid_temperature is None):
+        raise ValueError("give surface_temperature (a bare duct) or fluid_temperature (the contents), one of them")
+    layers = list(layers)
+    fixed = np.zeros(())
+    if inner_coefficient is not None:
+        fixed = 1.0 / as_array("inner_coefficient", inner_coefficient, unit="W/m2/K", low=0.0, low_inclusive=False)
+    if surface_temperature is not None:
+        if layers or inner_coefficient is not None:
+            raise ValueError("layers and inner_coefficient need fluid_temperature: with surface_temperature the "
+                             "duct is bare and its faces are at that temperature")
+        inner = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
+    else:
+        inner = as_array("fluid_temperature", fluid_temperature, unit="K", low=0.0, low_inclusive=False)
+    drops, _ = _layer_drops(layers, "flat", w)
+    grow = sum((2.0 * layer.thickness for layer in layers), np.zeros(()))
+    w_out, h_out = w + grow, h + grow
+    across = wind_direction == "across" and convection_coefficient is None
     wind = as_array("wind_speed", wind_speed, unit="m/s", low=0.0)
     common = dict(air_temperature=air_temperature, wind_speed=0.0 * wind if across else wind, emissivity=emissivity,
                   surroundings_temperature=surroundings_temperature, sky_temperature=sky_temperature,
                   pressure=pressure, exact_properties=exact_properties, convection_factor=convection_factor,
                   convection_coefficient=convection_coefficient)
-    outers = [("sides", OuterSurface.build("vertical_plate", height=h, width=run,
-                                           sky_view_fraction=_sky(outdoor, "vertical_plate"), **common), 2.0 * h * run),
-              ("top", OuterSurface.build("horizontal_plate_up", length=run, width=w,
-                                         sky_view_fraction=_sky(outdoor, "horizontal_plate_up"), **common), w * run),
-              ("bottom", OuterSurface.build("horizontal_plate_down", length=run, width=w,
+    outers = [("sides", OuterSurface.build("vertical_plate", height=h_out, width=run,
+                                           sky_view_fraction=_sky(outdoor, "vertical_plate"), **common),
+               2.0 * h_out * run),
+              ("top", OuterSurface.build("horizontal_plate_up", length=run, width=w_out,
+                                         sky_view_fraction=_sky(outdoor, "horizontal_plate_up"), **common),
+               w_out * run),
+              ("bottom", OuterSurface.build("horizontal_plate_down", length=run, width=w_out,
                                             sky_view_fraction=_sky(outdoor, "horizontal_plate_down"), **common),
-               w * run)]
+               w_out * run)]
     notes = ["ends of the duct left out"]
-    convection = None
-    if across and convection_coefficient is None:
-        ta = np.asarray(outers[0][1].air_temperature)
-        film = fluid_properties("Air", 0.5 * (ts + ta), pressure=as_array("pressure", pressure, unit="Pa", low=0.0,
-                                                                             low_inclusive=False),
-                                exact=exact_properties)
-        reynolds = wind * h / film.nu
-        h_forced = nusselt_square_cylinder_jakob(reynolds, film.pr) * film.k / h
+    if layers:
+        notes.append("layers as flat slabs on each face (corners neglected)")
+    p_air = as_array("pressure", pressure, unit="Pa", low=0.0, low_inclusive=False)
+    n_mix = default_mixing_exponent("transverse", round_body=False)
+    factor = as_array("convection_factor", convection_factor, low=0.0, low_inclusive=False)
+
+    def cross_flow(ts, outer):
+        """The cross-flow mix at surface temperature ``ts`` (its h and the SurfaceResult replacement)."""
+        ta = np.asarray(outer.air_temperature)
+        film = fluid_properties("Air", 0.5 * (ts + ta), pressure=p_air, exact=exact_properties)
+        reynolds = wind * h_out / film.nu
+        h_forced = np.where(wind > 0, nusselt_square_cylinder_jakob(reynolds, film.pr) * film.k / h_out, 0.0)
         outside = (wind > 0) & ((reynolds < SQUARE_CYLINDER_RE_RANGE[0]) | (reynolds > SQUARE_CYLINDER_RE_RANGE[1]))
-        factor = as_array("convection_factor", convection_factor, low=0.0, low_inclusive=False)
-        n_mix = default_mixing_exponent("transverse", round_body=False)
-        grashof_over_l3 = GRAVITY * film.beta * np.abs(ts - ta) / film.nu ** 2
-        convection = _cross_flow(wind, reynolds, np.where(wind > 0, h_forced, 0.0), factor, n_mix, outside,
-                                 grashof_over_l3 * h ** 3)
-        aspect = w / h
+        grashof = GRAVITY * film.beta * np.abs(ts - ta) / film.nu ** 2 * h_out ** 3
+        h_mix, _ = combine(h_forced, outer.exchange(ts)["h_natural"], n_mix, "transverse")
+        return h_mix, _cross_flow(wind, reynolds, h_forced, factor, n_mix, outside, grashof)
+
+    faces = []
+    for name, outer, area in outers:
+        ts, converged = inner, np.ones(np.shape(inner), dtype=bool)
+        if layers or np.any(fixed > 0):
+            ts, _ = _solve_face(outer, inner, layers, "flat", w, tolerance, fixed)
+            if across:  # the surface temperature and the cross-flow coefficient agree after a few passes
+                for _ in range(30):
+                    h_mix, _ = cross_flow(ts, outer)
+                    given = dataclasses.replace(outer, given_coefficient=np.asarray(h_mix))
+                    ts_next, _ = _solve_face(given, inner, layers, "flat", w, tolerance, fixed)
+                    converged = np.abs(ts_next - ts) <= 10.0 * tolerance
+                    ts = ts_next
+                    if converged.all():
+                        break
+        convection = cross_flow(ts, outer)[1] if across else None
+        face = _face(name, outer, ts, area, convection)
+        if not converged.all():
+            flags = face.surface.warnings | np.where(converged, 0, Flag.NOT_CONVERGED).astype(np.int16)
+            face = dataclasses.replace(face, surface=dataclasses.replace(face.surface, warnings=flags))
+        faces.append(face)
+    if across:
+        aspect = w_out / h_out
         if np.any((aspect < 0.8) | (aspect > 1.25)):
             notes.append("wind across a section that is not square (width/height outside 0.8-1.25): the square-"
                          "cylinder law is applied with D = height; no law for rectangular sections is implemented")
-    faces = [_face(name, outer, ts, area, convection) for name, outer, area in outers]
     return _total(faces, notes)
 
 

@@ -1,4 +1,4 @@
-"""Lines in operation through the edges: CLI commands trace, freeze, tank; line-list
+"""Lines in operation through the edges: CLI commands trace, steam, freeze, tank, duct; line-list
 columns mass_flow, maintain_temperature, minimum_ambient. Expected values: direct library calls with the inputs
 converted by the unit definitions (K = degC + 273.15); NPS 2 schedule 40 = 60.3 mm x 3.91 mm (ASME B36.10M)."""
 import io
@@ -92,6 +92,20 @@ def test_sphere_tank_and_given_coefficient_through_the_command_line():
     q = float(cl.insulated_pipe(0.0603, 363.15, [Layer(0.03, 0.04)], air_temperature=283.15, jacket_emissivity=0.0,
                                 convection_coefficient=10.0).q_per_length)
     assert json.loads(line.stdout)["line"]["results"][0]["q_per_length"] == pytest.approx(q, rel=1e-9)
+
+
+def test_duct_json_is_the_library_duct():
+    proc = run("duct", "--width", "600mm", "--height", "400mm", "--length", "20m", "--fluid-temperature", "13degC",
+               "--air-temperature", "32degC", "--layer", "25mm,0.035", "--inner-coefficient", "15", "--json")
+    assert proc.returncode == 0, proc.stderr
+    payload = json.loads(proc.stdout)
+    r = cl.rectangular_duct(0.6, 0.4, 20.0, fluid_temperature=286.15, air_temperature=305.15,
+                            layers=[Layer(0.025, 0.035)], inner_coefficient=15.0)
+    assert payload["q_total"] == pytest.approx(float(r.q_total), rel=1e-9)
+    assert [f["tag"] for f in payload["duct faces"]["results"]] == ["sides", "top", "bottom"]
+    assert any("condensation" in c for c in payload["cautions"])
+    bad = run("duct", "--width", "0.6", "--height", "0.4", "--length", "20", "--air-temperature", "30degC")
+    assert bad.returncode == 2 and "--surface-temperature" in bad.stderr
 
 
 def test_line_list_operation_columns():

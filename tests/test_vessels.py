@@ -240,6 +240,42 @@ def test_duct_across_wind_mixes_square_cylinder_with_natural_convection():
     assert any("not square" in n for n in flat.notes)
 
 
+def test_insulated_duct_faces_balance_flat_conduction_with_the_outer_surface():
+    # reference: brentq per face on (Tf - Ts) / (1/h_i + t/k) = q''(Ts) of bare_surface on the outer face (analytic)
+    w, h, run, tf, ta, t, k, h_in = 0.8, 0.5, 12.0, 318.15, 268.15, 0.05, 0.035, 12.0
+    kw = dict(air_temperature=ta, wind_speed=2.0, emissivity=0.2)
+    r = v.rectangular_duct(w, h, run, fluid_temperature=tf, layers=[Layer(t, k)], inner_coefficient=h_in, **kw)
+    resistance = 1 / h_in + t / k
+    sizes = {"sides": ("vertical_plate", dict(height=h + 2 * t, width=run), 2 * (h + 2 * t) * run),
+             "top": ("horizontal_plate_up", dict(length=run, width=w + 2 * t), (w + 2 * t) * run),
+             "bottom": ("horizontal_plate_down", dict(length=run, width=w + 2 * t), (w + 2 * t) * run)}
+    for name, (shape, dims, area) in sizes.items():
+        def balance(ts, shape=shape, dims=dims):
+            return (tf - ts) / resistance - float(cl.bare_surface(shape, surface_temperature=ts, **dims,
+                                                                  **kw).q_per_area)
+        ts = brentq(balance, ta, tf, xtol=1e-10)
+        face = r.face(name)
+        assert float(face.surface_temperature) == pytest.approx(ts, abs=1e-5)
+        assert float(face.q_total) == pytest.approx((tf - ts) / resistance * area, rel=1e-6)
+    assert float(r.area) == pytest.approx(2 * (w + h + 4 * t) * run, rel=1e-12)
+
+
+def test_insulated_duct_across_wind_iterates_to_a_consistent_surface():
+    # at the solved surface: conduction (Tf - Ts) k / t equals the cross-flow mix h (Ts - Ta) + radiation, with h from
+    # the bare duct at that surface temperature (the already-checked bare path)
+    a, run, tf, ta, t, k = 0.5, 10.0, 333.15, 273.15, 0.04, 0.04
+    r = v.rectangular_duct(a, a, run, fluid_temperature=tf, layers=[Layer(t, k)], air_temperature=ta,
+                           wind_speed=3.0, wind_direction="across")
+    for name in ("sides", "top", "bottom"):
+        face = r.face(name)
+        ts = float(face.surface_temperature)
+        bare = v.rectangular_duct(a + 2 * t, a + 2 * t, run, surface_temperature=ts, air_temperature=ta,
+                                  wind_speed=3.0, wind_direction="across").face(name)
+        assert float(face.q_per_area) == pytest.approx(float(bare.q_per_area), rel=1e-6)
+        assert float(face.q_per_area) == pytest.approx((tf - ts) * k / t, rel=1e-5)
+        assert not face.surface.warnings & Flag.NOT_CONVERGED
+
+
 # --------------------------------------------------------------------------- input checks
 @pytest.mark.parametrize("call,field", [
     (lambda: v.vertical_tank(-1.0, 5.0, surface_temperature=330.0, air_temperature=280.0), "diameter"),
@@ -264,6 +300,11 @@ def test_duct_across_wind_mixes_square_cylinder_with_natural_convection():
     (lambda: v.rectangular_duct(0.5, 0.5, 10.0, surface_temperature=330.0, air_temperature=280.0,
                                 wind_speed=-1.0), "wind_speed"),
     (lambda: v.spherical_tank(4.0, air_temperature=280.0), "surface_temperature"),
+    (lambda: v.rectangular_duct(0.5, 0.5, 10.0, air_temperature=280.0), "surface_temperature"),
+    (lambda: v.rectangular_duct(0.5, 0.5, 10.0, surface_temperature=330.0, air_temperature=280.0,
+                                layers=[Layer(0.05, 0.04)]), "fluid_temperature"),
+    (lambda: v.rectangular_duct(0.5, 0.5, 10.0, fluid_temperature=330.0, air_temperature=280.0,
+                                inner_coefficient=-3.0), "inner_coefficient"),
     (lambda: v.spherical_tank(4.0, fluid_temperature=330.0, air_temperature=280.0, wall_thickness=0.01),
      "wall_conductivity"),
     (lambda: v.spherical_tank(4.0, fluid_temperature=330.0, air_temperature=280.0, wall_thickness=2.0,
