@@ -190,6 +190,22 @@ def _solve_face(outer, fluid_temperature, layers, kind, inner_diameter, toleranc
     return ts, outer_diameter
 
 
+def _known_temperature(surface_temperature, fluid_temperature, what, **inside):
+    """The temperature given inside [K]: a bare ``what``'s surface or its contents, exactly one of them.
+
+    ``inside`` holds the inputs that need the contents (layers, wall, film): given with a bare surface they raise.
+    """
+    if (surface_temperature is None) == (fluid_temperature is None):
+        raise ValueError(f"give surface_temperature (a bare {what}) or fluid_temperature (the contents), one of them")
+    if fluid_temperature is not None:
+        return as_array("fluid_temperature", fluid_temperature, unit="K", low=0.0, low_inclusive=False)
+    given = [name for name, value in inside.items() if value is not None and value != []]
+    if given:
+        raise ValueError(f"{', '.join(given)} need fluid_temperature: with surface_temperature the {what} is bare "
+                         f"and its outer surface is at that temperature")
+    return as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
+
+
 def _face(name, outer, ts, area, convection=None):
     """A Face from an OuterSurface at surface temperature ``ts`` scaled to ``area``."""
     surface = outer.result(outer.exchange(ts))
@@ -369,8 +385,6 @@ def spherical_tank(diameter, *, air_temperature, surface_temperature=None, fluid
     (-6.97, 20.5)
     """
     d = as_array("diameter", diameter, unit="m", low=0.0, low_inclusive=False)
-    if (surface_temperature is None) == (fluid_temperature is None):
-        raise ValueError("give surface_temperature (a bare shell) or fluid_temperature (the contents), one of them")
     layers = list(layers)
     if (wall_thickness is None) != (wall_conductivity is None):
         raise ValueError("give wall_thickness and wall_conductivity together (or neither: a thin shell)")
@@ -385,13 +399,8 @@ def spherical_tank(diameter, *, air_temperature, surface_temperature=None, fluid
     if inner_coefficient is not None:
         h_in = as_array("inner_coefficient", inner_coefficient, unit="W/m2/K", low=0.0, low_inclusive=False)
         fixed = fixed + 1.0 / (h_in * np.pi * d_inner ** 2)
-    if surface_temperature is not None:
-        if layers or wall_thickness is not None or inner_coefficient is not None:
-            raise ValueError("layers, wall and inner_coefficient need fluid_temperature: with surface_temperature "
-                             "the shell is bare and its outer surface is at that temperature")
-        inner = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
-    else:
-        inner = as_array("fluid_temperature", fluid_temperature, unit="K", low=0.0, low_inclusive=False)
+    inner = _known_temperature(surface_temperature, fluid_temperature, "shell", layers=layers,
+                               wall_thickness=wall_thickness, inner_coefficient=inner_coefficient)
     _, d_out = _layer_drops(layers, "sphere", d)
     outer = OuterSurface.build("sphere", diameter=d_out, air_temperature=air_temperature, wind_speed=wind_speed,
                                emissivity=emissivity, surroundings_temperature=surroundings_temperature,
@@ -516,19 +525,12 @@ def rectangular_duct(width, height, length, *, air_temperature, surface_temperat
     w = as_array("width", width, unit="m", low=0.0, low_inclusive=False)
     h = as_array("height", height, unit="m", low=0.0, low_inclusive=False)
     run = as_array("length", length, unit="m", low=0.0, low_inclusive=False)
-    if (surface_temperature is None) == (fluid_temperature is None):
-        raise ValueError("give surface_temperature (a bare duct) or fluid_temperature (the contents), one of them")
     layers = list(layers)
     fixed = np.zeros(())
     if inner_coefficient is not None:
         fixed = 1.0 / as_array("inner_coefficient", inner_coefficient, unit="W/m2/K", low=0.0, low_inclusive=False)
-    if surface_temperature is not None:
-        if layers or inner_coefficient is not None:
-            raise ValueError("layers and inner_coefficient need fluid_temperature: with surface_temperature the "
-                             "duct is bare and its faces are at that temperature")
-        inner = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
-    else:
-        inner = as_array("fluid_temperature", fluid_temperature, unit="K", low=0.0, low_inclusive=False)
+    inner = _known_temperature(surface_temperature, fluid_temperature, "duct", layers=layers,
+                               inner_coefficient=inner_coefficient)
     drops, _ = _layer_drops(layers, "flat", w)
     grow = sum((2.0 * layer.thickness for layer in layers), np.zeros(()))
     w_out, h_out = w + grow, h + grow
