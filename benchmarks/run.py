@@ -364,10 +364,60 @@ def bench_monte_carlo(cfg: Config) -> Row:
     )
 
 
+def bench_small_solves(cfg: Config) -> Row:
+    """convlib.roots.find_root on the interactive size (31 surface solves of an insulated line) vs SciPy's
+    general-purpose elementwise find_root on the same residual: the fixed cost per call that dominated there."""
+    import convlib
+    from scipy.optimize import elementwise
+
+    from convlib.pipe import Layer
+    from convlib.roots import find_root
+    from convlib.surface import OuterSurface
+
+    n_calls = cfg.size(200)
+    wind = np.linspace(0.0, 15.0, 31)
+    outer = OuterSurface.build(diameter=0.219 + 0.2, length=1.0, air_temperature=268.15, wind_speed=wind,
+                               emissivity=0.1, sky_view_fraction=0.5)
+    tf, resistance = np.full(wind.shape, 388.15), np.log((0.219 + 0.2) / 0.219) / (2 * np.pi * 0.04)
+    per_flux = np.pi * (0.219 + 0.2)
+
+    def residual(ts, tf_, *point):
+        return (tf_ - ts) / resistance - per_flux * outer.exchange(ts, *point, flux_only=True)
+
+    args = (tf, *(np.broadcast_to(a, wind.shape) for a in outer.point_arrays()))
+    lo, hi = np.full(wind.shape, 267.0), np.full(wind.shape, 389.0)
+    answers = {}
+
+    def ours():
+        for _ in range(n_calls):
+            answers["ours"] = find_root(residual, lo, hi, args=args, xatol=1e-6, xrtol=0.0).x
+
+    def scipy_general():
+        for _ in range(n_calls):
+            answers["scipy"] = elementwise.find_root(residual, (lo, hi), args=args,
+                                                     tolerances={"xatol": 1e-6, "xrtol": 0.0}).x
+
+    t_ours, t_scipy = time_interleaved([ours, scipy_general], cfg.repeat)
+    check = convlib.insulated_pipe(0.219, 388.15, [Layer(0.1, 0.04)], air_temperature=268.15, wind_speed=wind,
+                                   jacket_emissivity=0.1, sky_view_fraction=0.5).surface_temperature
+    return Row(
+        name="small_solves",
+        subject=f"convlib.roots.find_root, {n_calls} calls x 31 surface temperatures",
+        n_subject=n_calls * wind.size,
+        timing_subject=t_ours,
+        baseline=f"scipy.optimize.elementwise.find_root, same residual and tolerance, {n_calls} calls",
+        n_baseline=n_calls * wind.size,
+        timing_baseline=t_scipy,
+        accuracy={"max |ours - scipy| [K]": f"{np.max(np.abs(answers['ours'] - answers['scipy'])):.1e}",
+                  "max |ours - insulated_pipe| [K]": f"{np.max(np.abs(answers['ours'] - check)):.1e}"},
+    )
+
+
 BENCHMARKS: list[Callable[[Config], Row]] = [
     bench_bare_surface_cylinder,
     bench_insulated_pipe,
     bench_monte_carlo,
+    bench_small_solves,
 ]
 
 
@@ -425,7 +475,7 @@ def print_row(row: Row, repeat: int) -> None:
         print(f"  {label:<{w}} {_rate(rate):>16}   (best / median of {repeat}: {timing.spread()}; "
               f"kernel {timing.kernel_fraction:.0%}, {timing.minor_faults / 1e3:.3g}k page faults/call)")
     target = f"   (target >= {row.target_ratio:g})" if row.target_ratio else ""
-    print(f"  {'ratio subject / baseline':<{w}} {row.ratio:>14,.0f} x{target}")
+    print(f"  {'ratio subject / baseline':<{w}} {row.ratio:>14,.3g} x{target}")
     if row.target_rate:
         print(f"  {'subject target':<{w}} {'>= ' + _rate(row.target_rate):>16}   ({row.target_note})")
     for label, value in row.accuracy.items():

@@ -19,8 +19,8 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 import numpy as np
-from scipy.optimize import elementwise
 
+from .roots import find_root
 from .validation import as_array, check_choice
 
 __all__ = ["Conductivity"]
@@ -183,6 +183,6 @@ class Conductivity:
         k_min = float(self.at(np.linspace(*np.clip(self.valid_range, 1.0, 3000.0), 256)).min())
         far = t_in - drop / (2.0 * k_min) - np.sign(drop) * 1e-6
         lo, hi = np.minimum(t_in, far), np.maximum(t_in, far)
-        res = elementwise.find_root(lambda m, t, q: 2.0 * self.at(m) * (t - m) - q, (lo, hi), args=(t_in, drop),
-                                    tolerances={"xatol": 1e-10, "xrtol": 0.0})
+        res = find_root(lambda m, t, q: 2.0 * self.at(m) * (t - m) - q, lo, hi, args=(t_in, drop), xatol=1e-10,
+                        xrtol=0.0)
         return np.where(drop == 0, t_in, 2.0 * res.x - t_in)

@@ -16,10 +16,10 @@ import dataclasses
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.optimize import elementwise
 
 from .pipe import Layer, insulated_pipe
 from .properties import dew_point
+from .roots import find_root
 from .validation import as_array
 
 __all__ = [
@@ -128,9 +128,8 @@ def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, out
         met_low, achievable = met_low | bare_ok, achievable | bare_ok
     todo = achievable & ~met_low
     if todo.any():
-        res = elementwise.find_root(excess, (t_low[todo], np.full(int(todo.sum()), t_max)),
-                                    args=(limit[todo], *(a[todo] for a in point)),
-                                    tolerances={"xatol": 1e-6, "xrtol": 0.0})
+        res = find_root(excess, t_low[todo], np.full(int(todo.sum()), t_max),
+                        args=(limit[todo], *(a[todo] for a in point)), xatol=1e-6, xrtol=0.0)
         required[todo] = res.x
     index = np.searchsorted(steps, np.where(np.isnan(required), np.inf, required) - 1e-9)
     commercial = np.where(required == 0, 0.0, np.where(index < steps.size,
@@ -305,8 +304,8 @@ def critical_thickness(pipe_outer_diameter, fluid_temperature, *, air_temperatur
     inner = (best > 0) & (best < grid.size - 1)
     if inner.any():
         lo, hi = grid[best[inner] - 1], grid[best[inner] + 1]
-        res = elementwise.find_root(lambda t, *pt: -slope(t, *pt), (lo, hi), args=tuple(a[inner] for a in point),
-                                    tolerances={"xatol": 1e-7, "xrtol": 0.0})
+        res = find_root(lambda t, *pt: -slope(t, *pt), lo, hi, args=tuple(a[inner] for a in point), xatol=1e-7,
+                        xrtol=0.0)
         result[inner] = np.where(res.success, res.x, grid[best[inner]])
     result[best == grid.size - 1] = t_max
     return result.reshape(shape)

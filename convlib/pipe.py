@@ -5,7 +5,7 @@ conduction resistances, with an optional inner film) must equal what the outer
 surface gives to the air, the surroundings and the sky
 (:class:`convlib.surface.OuterSurface`). The unknown outer surface temperature
 is found for all points at once with a bracketed root finder
-(Chandrupatla's method, ``scipy.optimize.elementwise.find_root``) to
+(Chandrupatla's method, :func:`convlib.roots.find_root`) to
 ``tolerance`` kelvin; points that converge leave the active set.
 
 .. math::
@@ -22,10 +22,10 @@ from __future__ import annotations
 from dataclasses import dataclass, fields
 
 import numpy as np
-from scipy.optimize import elementwise
 
 from .conductivity import Conductivity
 from .regimes import Flag
+from .roots import find_root
 from .surface import OuterSurface, SurfaceResult
 from .validation import as_array
 
@@ -278,8 +278,7 @@ def _stack_flow(ts, tf, r_inside, drops, layers):
     q_a, q_b = (tf - ts) / r_low, (tf - ts) / r_high
     q_lo = np.minimum(q_a, q_b) - 1e-9 * np.abs(q_a) - 1e-12
     q_hi = np.maximum(q_a, q_b) + 1e-9 * np.abs(q_a) + 1e-12
-    res = elementwise.find_root(end_temperature, (q_lo, q_hi), args=(tf, ts, r_inside, *drops),
-                                tolerances={"xatol": 1e-12, "xrtol": 1e-13})
+    res = find_root(end_temperature, q_lo, q_hi, args=(tf, ts, r_inside, *drops), xatol=1e-12, xrtol=1e-13)
     return res.x
 
 
@@ -300,9 +299,8 @@ def _solve_surface(residual, args, outer, tolerance, direct):
     solar = np.broadcast_to(outer.solar_per_area, tf.shape)
     hi = hi + np.where(solar > 0, solar / 2.0, 0.0) + 0.5
     lo = np.maximum(lo - 0.5, 0.5 * lo)
-    tolerances = {"xatol": tolerance, "xrtol": 0.0, "fatol": 0.0, "frtol": 0.0}
     with np.errstate(all="ignore"):
-        res = elementwise.find_root(residual, (lo, hi), args=args, tolerances=tolerances)
+        res = find_root(residual, lo, hi, args=args, xatol=tolerance, xrtol=0.0)
         x, success = np.array(res.x, dtype=float), np.array(res.success, dtype=bool)
         lo, hi = np.array(lo, dtype=float), np.array(hi, dtype=float)
         # Widen the few brackets that held no sign change (strong sun, odd surroundings) and retry them.
@@ -313,8 +311,7 @@ def _solve_surface(residual, args, outer, tolerance, direct):
             width = hi[bad] - lo[bad]
             lo_b, hi_b = np.maximum(lo[bad] - width, 0.5 * lo[bad]), hi[bad] + width
             lo[bad], hi[bad] = lo_b, hi_b
-            retry = elementwise.find_root(residual, (lo_b, hi_b), args=tuple(a[bad] for a in args),
-                                          tolerances=tolerances)
+            retry = find_root(residual, lo_b, hi_b, args=tuple(a[bad] for a in args), xatol=tolerance, xrtol=0.0)
             x[bad], success[bad] = retry.x, retry.success
     ts = np.where(direct, tf, x)
     converged = direct | success
