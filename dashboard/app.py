@@ -127,7 +127,7 @@ class App(widgets.VBox):
         self.uncertainty.observe(self._on_monte_carlo_request, "run_requests")
         self.uncertainty.observe(self._on_monte_carlo_settings, ["samples", "seed", "model_form"])
         self.insulation.observe(self._on_sizing_settings, ["touch_limit", "heat_loss_limit", "still_air"])
-        self.operation.observe(self._on_operation_settings, [*OperationPanel.INPUTS, "sweep_input"])
+        self.operation.observe(self._on_operation_settings, list(OperationPanel.SETTINGS))
         self.line.schedule.observe(self._on_schedule, "value")
         self.snapshots.on_action(self._on_snapshot_action)
         self._apply_case(self.line.case)

@@ -340,6 +340,7 @@ class OperationInputs:
     tracing_margin: float            # [-]
     initial_temperature: float       # water when the flow stops [K]
     pipe_wall_thickness: float       # [m]
+    service: str = "water"           # what flows: "water" (liquid, at fluid_pressure) or "steam" (saturated)
 
 
 @dataclass(frozen=True)
@@ -353,8 +354,9 @@ class OperationView:
     wind_speed: float
     position: np.ndarray             # (n,) [m]
     temperature: np.ndarray          # (n,) [K]
-    outlet_temperature: float
+    outlet_temperature: float        # steam: the saturation temperature
     q_total: float                   # lost along the line [W]
+    condensate_rate: float           # steam: condensate formed along the line [kg/s]; NaN for water
     tracing_loss_per_length: float   # [W/m]
     tracing_per_length: float        # [W/m]
     tracing_total: float             # [W]
@@ -364,6 +366,7 @@ class OperationView:
     sweep_input: str
     sweep_values: np.ndarray
     sweep_outlet: np.ndarray         # [K]
+    sweep_condensate: np.ndarray     # steam: [kg/s]; NaN for water
     sweep_tracing: np.ndarray        # [W/m]
     sweep_freezing_point: np.ndarray  # [s], NaN: never
     sweep_frozen: np.ndarray         # [s], NaN: never
@@ -435,7 +438,8 @@ def _sweep_grid(case: CaseSpec, inputs: OperationInputs, name: str) -> np.ndarra
 
 
 def operation_view(case: CaseSpec, inputs: OperationInputs, sweep_input: str = "wind_speed") -> OperationView:
-    """Temperature along the line (:func:`convlib.operation.line_temperature_profile`) at the case's air and
+    """Temperature along the line (:func:`convlib.operation.line_temperature_profile`; for saturated steam
+    the saturation temperature and the condensate, :func:`convlib.operation.steam_line`) at the case's air and
     wind, the tracing duty (:func:`convlib.operation.tracing_duty`) and the freeze time
     (:func:`convlib.operation.freeze_time`) at the coldest air and strongest wind, and each against
     ``sweep_input`` (one vectorized call per quantity)."""
@@ -443,9 +447,15 @@ def operation_view(case: CaseSpec, inputs: OperationInputs, sweep_input: str = "
         raise ValueError("for insulated lines with a known fluid temperature")
     if sweep_input not in settings.OPERATION_SWEEPS:
         raise ValueError(f"unknown sweep input {sweep_input!r}; choose one of: {', '.join(settings.OPERATION_SWEEPS)}")
+    if inputs.service not in ("water", "steam"):
+        raise ValueError(f"unknown service {inputs.service!r}; choose water or steam")
     d, i = case.diameter, inputs
+    steam = i.service == "steam"
 
     def profile(air=case.air_temperature, wind=case.wind_speed, thickness=None):
+        if steam:
+            return op.steam_line(d, i.fluid_pressure, operation_layers(case, thickness), air_temperature=air,
+                                 wind_speed=wind, length=case.length, **operation_options(case))
         return op.line_temperature_profile(
             d, case.fluid_temperature, operation_layers(case, thickness), mass_flow=i.mass_flow, length=case.length,
             air_temperature=air, fluid_pressure=i.fluid_pressure, wind_speed=wind, **operation_options(case))
@@ -472,17 +482,33 @@ def operation_view(case: CaseSpec, inputs: OperationInputs, sweep_input: str = "
         current = (case.insulation_thickness, case.insulation_thickness)
     seconds = lambda hours: np.where(np.isfinite(hours), 3600.0 * np.asarray(hours, float), np.nan)  # noqa: E731
     notes = tuple(dict.fromkeys((*t.notes, *f.notes)))
+    cautions = (*f.cautions, *t.cautions)
+    if steam:  # saturated all along: the profile is flat at the saturation temperature
+        t_sat = _item(p.saturation_temperature)
+        position, temperature = np.array([0.0, case.length]), np.full(2, t_sat)
+        outlet, condensate = t_sat, _item(p.condensate_rate) / 3600.0
+        sweep_outlet, sweep_condensate = np.asarray(sp.saturation_temperature, float), np.asarray(
+            sp.condensate_rate, float) / 3600.0
+        cautions = (*p.cautions, *cautions)
+        if abs(case.fluid_temperature - t_sat) > 0.5:
+            notes = (f"saturated steam at the pressure given is at {t_sat - 273.15:.1f} degC: the steam results use "
+                     f"it, not the line's fluid temperature of {case.fluid_temperature - 273.15:.1f} degC", *notes)
+    else:
+        position, temperature = np.asarray(p.position, float), np.asarray(p.temperature, float)
+        outlet, condensate = _item(p.outlet_temperature), float("nan")
+        sweep_outlet = np.asarray(sp.outlet_temperature, float)
+        sweep_condensate = np.full(sweep_outlet.shape, np.nan)
     return OperationView(
         site_rows=demo_site_operation(),
-        inputs=inputs, length=case.length, inlet_temperature=case.fluid_temperature,
-        air_temperature=case.air_temperature, wind_speed=case.wind_speed, position=np.asarray(p.position, float),
-        temperature=np.asarray(p.temperature, float), outlet_temperature=_item(p.outlet_temperature),
+        inputs=inputs, length=case.length, inlet_temperature=outlet if steam else case.fluid_temperature,
+        air_temperature=case.air_temperature, wind_speed=case.wind_speed, position=position,
+        temperature=temperature, outlet_temperature=outlet, condensate_rate=condensate,
         q_total=_item(p.q_total), tracing_loss_per_length=_item(t.heat_loss_per_length),
         tracing_per_length=_item(t.duty_per_length), tracing_total=_item(t.duty_total),
         time_to_freezing_point=3600.0 * _item(f.hours_to_freezing_point),
         time_to_frozen=3600.0 * _item(f.hours_total),
         never_freezes=bool(np.asarray(f.never_freezes).ravel()[0]), sweep_input=sweep_input, sweep_values=grid,
-        sweep_outlet=np.asarray(sp.outlet_temperature, float), sweep_tracing=np.asarray(st.duty_per_length, float),
+        sweep_outlet=sweep_outlet, sweep_condensate=sweep_condensate,
+        sweep_tracing=np.asarray(st.duty_per_length, float),
         sweep_freezing_point=seconds(sf.hours_to_freezing_point), sweep_frozen=seconds(sf.hours_total),
-        current_operating=float(current[0]), current_design=float(current[1]), notes=notes,
-        cautions=(*f.cautions, *t.cautions))
+        current_operating=float(current[0]), current_design=float(current[1]), notes=notes, cautions=cautions)

@@ -473,13 +473,21 @@ def operation_profile_figure(view, display: Display) -> go.Figure:
     """
     plot = _Plot()
     x = display.value(view.position, "position")
+    i = view.inputs
+    steam = i.service == "steam"
     plot.add(_line(x, display.value(view.temperature, "fluid_temperature"), "fluid temperature",
                    line=dict(color="#111111", width=2.5), mode="lines+markers", marker=dict(size=5),
                    hovertemplate=(f"%{{x:.4g}} {display.label('position')} from the inlet<br>%{{y:.2f}} "
                                   f"{display.label('fluid_temperature')}<extra></extra>")))
     plot.axis("x", title=dict(text=display.axis_title("position", "Distance from the inlet")), rangemode="tozero")
     plot.axis("y", title=dict(text=display.axis_title("fluid_temperature", "Fluid temperature")))
-    i = view.inputs
+    if steam:
+        at = display.text(view.outlet_temperature, "fluid_temperature")
+        return plot.figure(f"Saturated steam along the line<br><sup>at {at} all along, condensing "
+                           f"{display.text(view.condensate_rate, 'condensate_rate')} over "
+                           f"{display.text(view.length, 'length')}; air "
+                           f"{display.text(view.air_temperature, 'air_temperature')}, wind "
+                           f"{display.text(view.wind_speed, 'wind_speed')}</sup>", height=340, showlegend=False)
     return plot.figure(f"Fluid temperature along the line<br><sup>{display.text(i.mass_flow, 'mass_flow')} over "
                        f"{display.text(view.length, 'length')}, air "
                        f"{display.text(view.air_temperature, 'air_temperature')}, wind "
@@ -488,19 +496,28 @@ def operation_profile_figure(view, display: Display) -> go.Figure:
 
 
 def operation_sweep_figure(view, display: Display) -> go.Figure:
-    """Outlet temperature, tracing duty and freeze times against one input (:class:`compute.OperationView`).
+    """Outlet temperature (steam: condensate), tracing duty and freeze times against one input
+    (:class:`compute.OperationView`).
 
-    The outlet row is at the case's air and wind, the tracing and freeze rows at the coldest air and
+    The first row is at the case's air and wind, the tracing and freeze rows at the coldest air and
     strongest wind; each row marks the value it uses. Never-freezing points are gaps.
     """
     name = view.sweep_input
-    plot = _Plot("operation", ("Outlet temperature (the case's air and wind)",
+    steam = view.inputs.service == "steam"
+    plot = _Plot("operation", ("Condensate (the case's air and wind)" if steam else
+                               "Outlet temperature (the case's air and wind)",
                                "Tracing duty (coldest air, strongest wind)",
                                "Time until the stopped line freezes (coldest air, strongest wind)"))
     x = display.value(view.sweep_values, name)
     hover = lambda y_name: _hover(display, name, y_name)  # noqa: E731
-    plot.add(_line(x, display.value(view.sweep_outlet, "outlet_temperature"), "outlet temperature",
-                   line=dict(color="#111111", width=2.5), hovertemplate=hover("outlet_temperature")), 1, 1)
+    if steam:
+        plot.add(_line(x, display.value(view.sweep_condensate, "condensate_rate"), "condensate",
+                       line=dict(color="#111111", width=2.5), hovertemplate=hover("condensate_rate")), 1, 1)
+    else:
+        plot.add(_line(x, display.value(view.sweep_outlet, "outlet_temperature"), "outlet temperature",
+                       line=dict(color="#111111", width=2.5), hovertemplate=hover("outlet_temperature")), 1, 1)
+        plot.hline(float(display.value(view.inlet_temperature, "fluid_temperature")), 1, 1,
+                   line=dict(color=_GREY, width=1, dash="dot"), text="inlet")
     plot.add(_line(x, display.value(view.sweep_tracing, "tracing_per_length"), "tracing duty",
                    line=dict(color=settings.PALETTE[1], width=2.5), hovertemplate=hover("tracing_per_length")),
              2, 1)
@@ -510,15 +527,16 @@ def operation_sweep_figure(view, display: Display) -> go.Figure:
     plot.add(_line(x, display.value(view.sweep_frozen, "freeze_time"), "time to frozen solid",
                    line=dict(color=settings.PALETTE[0], width=2.5, dash="dash"), hovertemplate=hover("freeze_time")),
              3, 1)
-    plot.hline(float(display.value(view.inlet_temperature, "fluid_temperature")), 1, 1,
-               line=dict(color=_GREY, width=1, dash="dot"), text="inlet")
     marker = dict(color="#111111", width=1, dash="dot")
     plot.vline(float(display.value(view.current_operating, name)), 1, 1, line=marker, text="this case")
     for row in (2, 3):
         plot.vline(float(display.value(view.current_design, name)), row, 1, line=marker,
                    text="design" if row == 2 else None)
     plot.axis("x", 3, 1, title=dict(text=display.axis_title(name)))
-    plot.axis("y", 1, 1, title=dict(text=display.axis_title("outlet_temperature", "Outlet")))
+    if steam:
+        plot.axis("y", 1, 1, title=dict(text=display.axis_title("condensate_rate", "Condensate")), rangemode="tozero")
+    else:
+        plot.axis("y", 1, 1, title=dict(text=display.axis_title("outlet_temperature", "Outlet")))
     plot.axis("y", 2, 1, title=dict(text=display.axis_title("tracing_per_length", "Duty")), rangemode="tozero")
     plot.axis("y", 3, 1, title=dict(text=display.axis_title("freeze_time", "Time")), rangemode="tozero")
     return plot.figure(f"The line in operation against {input_label(name).lower()}<br><sup>gaps in the bottom row: "

@@ -15,7 +15,7 @@ __all__ = [
     "EXTRA_SWEEPS", "DEFAULT_SCHEDULE", "RECOMPUTE_DELAY", "EXPENSIVE_DELAY", "MAP_POINTS", "RA_GRID", "RE_GRID",
     "MONTE_CARLO_SAMPLES", "HEAT_LOSS_LIMIT", "SIZING_MAX_THICKNESS", "snapshot_dir", "PALETTE", "MODE_COLOURS",
     "PRETTY_UNITS", "FIGURE_HEIGHT", "FIGURE_WIDTH", "SIDEBAR_WIDTH", "MAP_LOWEST_WIND", "ServeDefaults", "SERVE",
-    "BUNDLE_ENV", "OPERATION", "OPERATION_SWEEPS",
+    "BUNDLE_ENV", "OPERATION", "OPERATION_SERVICES", "OPERATION_SWEEPS",
 ]
 
 #: Unit systems offered by the units switch (keys of :data:`convlib.units.DISPLAY_UNITS`).
@@ -131,6 +131,7 @@ QUANTITIES: dict[str, tuple[str, dict | None, int]] = {
     "initial_temperature": ("temperature", None, 1),
     "pipe_wall_thickness": ("length", None, 3),
     "outlet_temperature": ("temperature", None, 1),
+    "condensate_rate": ("mass_flow", {"SI": "kg/hour", "US": "lb/hour"}, 3),
     "temperature_drop": ("temperature_difference", None, 3),
     "line_loss": ("power", {"SI": "kW", "US": "Btu/hour"}, 3),
     "tracing_per_length": ("heat_per_length", None, 3),
@@ -145,7 +146,7 @@ PRETTY_UNITS = {
     "W/m**2": "W/m²", "Btu/hour/foot": "Btu/(h·ft)", "Btu/hour/foot**2": "Btu/(h·ft²)", "Btu/hour": "Btu/h",
     "W/m**2/K": "W/(m²·K)", "Btu/hour/foot**2/delta_degF": "Btu/(h·ft²·°F)", "W/m/K": "W/(m·K)",
     "Btu*inch/hour/foot**2/delta_degF": "Btu·in/(h·ft²·°F)", "percent": "%", "": "–", "ft/s": "ft/s",
-    "hour": "h", "lb/hour": "lb/h", "kg/s": "kg/s",
+    "hour": "h", "lb/hour": "lb/h", "kg/s": "kg/s", "kg/hour": "kg/h",
 }
 
 #: Sweeps offered in addition to the study's own (used when the study has none of that input).
@@ -185,6 +186,9 @@ OPERATION = {
     "pipe_wall_thickness": 0.005,      # [m]
     "sweep_points": 21,
 }
+
+#: What the line of the "In operation" panel carries: value -> label.
+OPERATION_SERVICES = {"water": "water (liquid)", "steam": "saturated steam"}
 
 #: Inputs the "In operation" sweeps offer: name -> (label, lowest, highest) [SI]; the highest widens to
 #: include the case (x 1.5 for wind, x 2 for insulation, + 10 K for air).

@@ -27,7 +27,8 @@ _GROUPS = (
 )
 #: Controls whose default follows the case until the user changes them.
 _FOLLOW_CASE = ("design_air_temperature", "pipe_wall_thickness")
-_CARDS = ("outlet_temperature", "line_loss", "tracing_per_length", "time_to_freezing_point", "time_to_frozen")
+_CARDS = ("outlet_temperature", "condensate", "line_loss", "tracing_per_length", "time_to_freezing_point",
+          "time_to_frozen")
 
 
 def _defaults() -> dict:
@@ -52,6 +53,8 @@ class OperationPanel(Panel):
     mass_flow, fluid_pressure, maintain_temperature, design_air_temperature, design_wind_speed,
     tracing_margin, initial_temperature, pipe_wall_thickness : float
         Inputs [SI], as in :class:`dashboard.compute.OperationInputs`.
+    service : str
+        What the line carries, a key of :data:`dashboard.settings.OPERATION_SERVICES`.
     """
 
     view = traitlets.Instance(OperationView, allow_none=True)
@@ -65,8 +68,11 @@ class OperationPanel(Panel):
     tracing_margin = traitlets.Float(TRACING_MARGIN)
     initial_temperature = traitlets.Float(settings.OPERATION["initial_temperature"])
     pipe_wall_thickness = traitlets.Float(settings.OPERATION["pipe_wall_thickness"])
+    service = traitlets.Unicode("water")
 
     INPUTS = tuple(name for _, names in _GROUPS for name in names)
+    #: Every setting the app listens to (the numeric inputs, the service and the sweep).
+    SETTINGS = (*INPUTS, "service", "sweep_input")
 
     def __init__(self, **kwargs):
         super().__init__(**kwargs)
@@ -74,10 +80,16 @@ class OperationPanel(Panel):
         self._follow = dict.fromkeys(_FOLLOW_CASE, True)
         self.controls = {name: QuantityControl(name, getattr(self, name), self.units, self._control_changed)
                          for name in self.INPUTS}
+        self.service_box = widgets.ToggleButtons(options=[(label, key) for key, label in
+                                                          settings.OPERATION_SERVICES.items()],
+                                                 value=self.service, description="Carries", style=DESCRIPTION_STYLE)
+        self.service_box.add_class("cl-operation-service")
+        traitlets.link((self.service_box, "value"), (self, "service"))
         columns = []
         for title, names in _GROUPS:
             head = widgets.HTML(f'<div class="cl-section">{html.escape(title)}</div>')
-            columns.append(widgets.VBox([head, *(self.controls[n].box for n in names)],
+            extra = [self.service_box] if title == "Flow" else []
+            columns.append(widgets.VBox([head, *extra, *(self.controls[n].box for n in names)],
                                         layout=widgets.Layout(width="400px", margin="0 12px 0 0")))
         self.length_note = widgets.HTML()
         self.length_note.add_class("cl-hint")
@@ -102,11 +114,11 @@ class OperationPanel(Panel):
 
     # ------------------------------------------------------------------ interface
     def interactive(self):
-        return [*self.controls.values(), self.sweep_box]
+        return [*self.controls.values(), self.service_box, self.sweep_box]
 
     def inputs(self) -> OperationInputs:
         """The panel's inputs [SI]."""
-        return OperationInputs(**{name: getattr(self, name) for name in self.INPUTS})
+        return OperationInputs(**{name: getattr(self, name) for name in self.INPUTS}, service=self.service)
 
     def reset(self):
         super().reset()
@@ -116,6 +128,7 @@ class OperationPanel(Panel):
                 setattr(self, name, value)
                 self.controls[name].set_si(value)
             self.sweep_input = "wind_speed"
+            self.service = "water"
 
     def set_case_defaults(self, design_air_temperature: float, pipe_wall_thickness: float) -> None:
         """Defaults that follow the line (coldest air, pipe wall); a value the user has set is kept."""
@@ -142,10 +155,17 @@ class OperationPanel(Panel):
 
     def _render_cards(self, v: OperationView) -> None:
         d = self.display
-        drop = v.inlet_temperature - v.outlet_temperature
-        self._card("outlet_temperature", "Outlet", d.number(v.outlet_temperature, "outlet_temperature"),
-                   d.label("outlet_temperature"),
-                   f"{'drop' if drop >= 0 else 'rise'} {d.text(abs(drop), 'temperature_drop')} from the inlet")
+        steam = v.inputs.service == "steam"
+        self.cards["outlet_temperature"].layout.display = "none" if steam else None
+        self.cards["condensate"].layout.display = None if steam else "none"
+        if steam:
+            self._card("condensate", "Condensate", d.number(v.condensate_rate, "condensate_rate"),
+                       d.label("condensate_rate"), f"steam at {d.text(v.outlet_temperature, 'fluid_temperature')}")
+        else:
+            drop = v.inlet_temperature - v.outlet_temperature
+            self._card("outlet_temperature", "Outlet", d.number(v.outlet_temperature, "outlet_temperature"),
+                       d.label("outlet_temperature"),
+                       f"{'drop' if drop >= 0 else 'rise'} {d.text(abs(drop), 'temperature_drop')} from the inlet")
         self._card("line_loss", "Lost along the line" if v.q_total >= 0 else "Gained along the line",
                    d.number(abs(v.q_total), "line_loss"), d.label("line_loss"),
                    f"over {d.text(v.length, 'length')}")
@@ -195,9 +215,11 @@ class OperationPanel(Panel):
             return
         d = self.display
         self._render_cards(v)
-        self.length_note.value = (f"Line: {html.escape(d.text(v.length, 'length'))} (the case's run length), inlet "
-                                  f"{html.escape(d.text(v.inlet_temperature, 'fluid_temperature'))}. Tracing and "
-                                  f"freeze: coldest air, strongest wind, no sun.")
+        self.controls["mass_flow"].box.layout.display = "none" if v.inputs.service == "steam" else None
+        carries = ("saturated steam at " if v.inputs.service == "steam" else "inlet ") + d.text(
+            v.inlet_temperature, "fluid_temperature")
+        self.length_note.value = (f"Line: {html.escape(d.text(v.length, 'length'))} (the case's run length), "
+                                  f"{html.escape(carries)}. Tracing and freeze: coldest air, strongest wind, no sun.")
         self.show_figure(operation_profile_figure(v, d))
         self._show_sweep_figure(operation_sweep_figure(v, d))
         self.notes.value = message_html(v.notes, "warning") + message_html(

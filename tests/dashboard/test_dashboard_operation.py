@@ -63,6 +63,34 @@ def test_cards_and_profile_equal_convlib_operation(app, panel, study):
         assert caution[:40] in panel.notes.value.replace("&#x27;", "'")
 
 
+def test_saturated_steam_shows_condensate_from_convlib_steam_line(panel, study):
+    case = study.case
+    panel.controls["fluid_pressure"].widget.value = "3.5"  # bar(a) on screen
+    panel.service_box.value = "steam"
+    assert panel.service == "steam" and panel.fluid_pressure == pytest.approx(3.5e5)
+    s = op.steam_line(case.diameter, 3.5e5, _layers(case), air_temperature=case.air_temperature,
+                      wind_speed=case.wind_speed, length=case.length, **_options(case))
+    d = Display("SI")
+    assert panel.card_text("condensate") == d.text(float(s.condensate_rate) / 3600, "condensate_rate")
+    assert panel.card_text("condensate").endswith(" kg/h")
+    assert panel.cards["outlet_temperature"].layout.display == "none"
+    assert panel.controls["mass_flow"].box.layout.display == "none"
+    assert panel.card_text("line_loss") == d.text(float(s.q_total), "line_loss")
+    flat = trace(panel.plot, "fluid temperature")
+    np.testing.assert_allclose(flat.y, d.value(np.full(2, float(s.saturation_temperature)), "fluid_temperature"))
+    grid = panel.view.sweep_values
+    swept = op.steam_line(case.diameter, 3.5e5, _layers(case), air_temperature=case.air_temperature, wind_speed=grid,
+                          length=case.length, **_options(case))
+    np.testing.assert_allclose(trace(panel.sweep_plot, "condensate").y,
+                               d.value(np.asarray(swept.condensate_rate) / 3600, "condensate_rate"), rtol=1e-9)
+    notes = panel.notes.value
+    assert "saturated steam at the pressure given" in notes and "trap" in notes  # case at 160 C, steam at 138.9 C
+    panel.service_box.value = "water"  # liquid at 160 C boils at 3.5 bar: said, not computed
+    assert "boil" in panel.message.value and panel.view.inputs.service == "steam"
+    panel.controls["fluid_pressure"].widget.value = "10"
+    assert panel.cards["outlet_temperature"].layout.display is None and panel.view.inputs.service == "water"
+
+
 def test_sweep_against_insulation_is_vectorized_convlib(panel, study):
     case = study.case
     panel.sweep_input = "insulation_thickness"
