@@ -330,7 +330,8 @@ def _weather_bins(args):
 
 _LINE_UNITS = {"length": "m", "equivalent_length": "m", "outer_diameter": "m", "fluid_temperature": "K",
                "air_temperature": "K", "surface_temperature": "K", "dew_point": "K", "q_per_length": "W/m",
-               "q_total": "W", "operating_hours": "h", "heat_kwh": "kWh", "purchased_kwh": "kWh", "co2_kg": "kg"}
+               "q_total": "W", "operating_hours": "h", "heat_kwh": "kWh", "purchased_kwh": "kWh", "co2_kg": "kg",
+               "outlet_temperature": "K", "tracing_duty_per_length": "W/m", "tracing_duty": "W", "condensate": "kg/h"}
 
 
 def _cmd_lines(args) -> int:
@@ -374,6 +375,12 @@ def _cmd_lines(args) -> int:
           f"{t['q_total'] / 1000:.1f} kW, {t['heat_kwh'] / 1000:.1f} MWh/yr, purchased "
           f"{t['purchased_kwh'] / 1000:.1f} MWh/yr, cost {t['cost']:.0f}/yr, CO2 {t['co2_kg'] / 1000:.1f} t/yr; "
           f"{t['touch_flags']} touch and {t['condensation_flags']} condensation flag(s) (flags, not verdicts)")
+    extras = [f"{label} {t[name]:.{digits}f} {unit} on {int(np.sum(~np.isnan(getattr(result, name))))} line(s)"
+              for name, label, unit, digits in (("condensate", "steam condensate", "kg/h", 1),
+                                                ("tracing_duty", "tracing duty", "W", 0))
+              if np.any(~np.isnan(getattr(result, name)))]
+    if extras:
+        print("; ".join(extras))
     if args.output:
         print(f"results written to {args.output}")
     for c in result.cautions:

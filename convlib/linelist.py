@@ -32,6 +32,9 @@ column                 default   meaning [default unit]
 ``maintain_temperature`` none    temperature a tracer holds [K]: tracing duty
                                  (:func:`convlib.operation.tracing_duty`, default margin)
 ``minimum_ambient``    air       design minimum air temperature for the tracing duty [K]
+``steam_pressure``     none      absolute pressure of a saturated steam line [Pa]: condensate formed by
+                                 the line's loss (:func:`convlib.operation.condensate_rate`); the
+                                 fluid temperature should be the saturation temperature (else a note)
 =====================  ========  ======================================================================
 
 Give each line ``nps`` or ``outer_diameter``, not both. Columns with an empty header are ignored; an
@@ -90,7 +93,7 @@ from pydantic import ValidationError
 from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, DEFAULT_COOLING_COP, DEFAULT_HEATING_EFFICIENCY,
                      FITTING_EQUIVALENT_LENGTH, TOUCH_LIMIT_METAL_JACKET, WeatherBins)
 from .lines import LineSpec
-from .operation import line_temperature_profile, tracing_duty
+from .operation import condensate_rate, line_temperature_profile, saturation_temperature, tracing_duty
 from .pipe import Layer, insulated_pipe
 from .pipe_sizes import nominal_pipe
 from .properties import dew_point
@@ -110,11 +113,11 @@ COLUMNS = {
     "sky_view_fraction": "dimensionless", "wind_speed": "speed", "jacket_emissivity": "dimensionless",
     "operating_hours": "count", **{name: "count" for name in FITTING_EQUIVALENT_LENGTH},
     "mass_flow": "mass_flow", "fluid": "text", "fluid_pressure": "pressure", "fluid_phase": "text",
-    "maintain_temperature": "temperature", "minimum_ambient": "temperature",
+    "maintain_temperature": "temperature", "minimum_ambient": "temperature", "steam_pressure": "pressure",
 }
 #: Optional columns of lines in operation (not part of a LineSpec): outlet temperature and tracing duty.
 OPERATION_COLUMNS = ("mass_flow", "fluid", "fluid_pressure", "fluid_phase", "maintain_temperature",
-                     "minimum_ambient")
+                     "minimum_ambient", "steam_pressure")
 FLUID_PHASES = ("liquid", "gas")
 REQUIRED = ("tag", "length", "fluid_temperature", "air_temperature")
 LOCATIONS = ("indoor", "outdoor")
@@ -290,9 +293,9 @@ def _parse_row(row: int, cells: dict, units: dict) -> ParsedLine | RowError:
         if operation["fluid_phase"] not in FLUID_PHASES:
             problems.append(f"fluid_phase: unknown phase {cells['fluid_phase']!r}; choose one of: "
                             f"{', '.join(FLUID_PHASES)}")
-    for name in ("fluid_pressure", "maintain_temperature", "minimum_ambient"):
+    for name in ("fluid_pressure", "steam_pressure", "maintain_temperature", "minimum_ambient"):
         if operation.get(name, 1.0) <= 0:
-            problems.append(f"{name}: must be greater than 0 {'Pa' if name == 'fluid_pressure' else 'K'}; "
+            problems.append(f"{name}: must be greater than 0 {'Pa' if name.endswith('pressure') else 'K'}; "
                             f"got {cells[name]!r}")
     if hours is not None and hours > 8784.0:
         problems.append(f"operating_hours: {hours:g} h is more than a (leap) year of 8784 h")
@@ -417,6 +420,7 @@ class LineListResult:
     outlet_temperature: np.ndarray         # NaN without mass_flow [K]
     tracing_duty_per_length: np.ndarray    # NaN without maintain_temperature [W/m]
     tracing_duty: np.ndarray               # over the equivalent length [W]
+    condensate: np.ndarray                 # NaN without steam_pressure [kg/h]
     notes: tuple[str, ...]
     errors: tuple[RowError, ...] = ()
     settings: dict = field(default_factory=dict)
@@ -445,7 +449,8 @@ class LineListResult:
                 for row in zip(*values)]
 
 
-_SUMMED = ("length", "equivalent_length", "q_total", "heat_kwh", "purchased_kwh", "cost", "co2_kg", "tracing_duty")
+_SUMMED = ("length", "equivalent_length", "q_total", "heat_kwh", "purchased_kwh", "cost", "co2_kg", "tracing_duty",
+           "condensate")
 
 
 def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
@@ -593,6 +598,24 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
         tracing_duty(d[i], maintain[i], layers, air_temperature=coldest[i], wind_speed=wind[i],
                      jacket_emissivity=eps[i], sky_view_fraction=sky[i],
                      sky_temperature=sky_of(coldest[i], i)).duty_per_length))
+    steam, condensate, t_sat = col(g.get("steam_pressure") for g in given), np.full(n, np.nan), np.full(n, np.nan)
+
+    def saturated(idx):
+        condensate[idx] = condensate_rate(q[idx] * leq[idx], steam[idx])
+        t_sat[idx] = saturation_temperature(steam[idx])
+
+    steamy = np.flatnonzero(ok & ~np.isnan(steam))
+    try:
+        saturated(steamy)
+    except ValueError:  # one by one, so that only the line with an impossible pressure loses its condensate
+        for i in steamy:
+            try:
+                saturated(np.array([i]))
+            except ValueError as exc:
+                notes[int(i)].append(f"condensate not computed: {exc}")
+    for i in np.flatnonzero(np.abs(tf - t_sat) > 1.0):
+        notes[int(i)].append(f"fluid temperature {tf[i] - 273.15:.1f} degC is not the saturation temperature "
+                             f"{t_sat[i] - 273.15:.1f} degC at steam_pressure: condensate from the loss as given")
     humid = np.flatnonzero(ok & ~np.isnan(rh))
     try:
         dew[humid] = dew_point(ta[humid], rh[humid])
@@ -614,7 +637,7 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
         q_per_length=q[keep], q_total=(q * leq)[keep], operating_hours=hours[keep], heat_kwh=heat[keep],
         purchased_kwh=purchased[keep], cost=(purchased * price)[keep], co2_kg=(purchased * co2)[keep],
         touch_flag=(ts > limit)[keep], condensation_flag=(ts < dew)[keep], outlet_temperature=outlet[keep],
-        tracing_duty_per_length=duty[keep], tracing_duty=(duty * leq)[keep],
+        tracing_duty_per_length=duty[keep], tracing_duty=(duty * leq)[keep], condensate=condensate[keep],
         notes=tuple("; ".join(texts[flags[i]] + notes[i]) for i in keep),
         errors=tuple(sorted(errors, key=lambda e: e.row)),
         settings={"energy_price": price, "heating_efficiency": eff, "cooling_cop": cop, "co2_per_kwh": co2,
@@ -634,6 +657,7 @@ OUTPUT_COLUMNS = (
     ("touch_flag", "touch_flag", None), ("condensation_flag", "condensation_flag", None),
     ("outlet_temperature[degC]", "outlet_temperature", ("temperature", "degC")),
     ("tracing_duty[W/m]", "tracing_duty_per_length", None), ("tracing_duty_total[W]", "tracing_duty", None),
+    ("condensate[kg/h]", "condensate", None),
 )
 
 

@@ -31,7 +31,7 @@ from .validation import as_array, check_choice
 __all__ = [
     "TRACING_MARGIN", "LATENT_HEAT_OF_FUSION", "WATER_FREEZING_TEMPERATURE", "CARBON_STEEL_DENSITY",
     "CARBON_STEEL_SPECIFIC_HEAT", "CAUTION_FREEZE", "CAUTION_TRACING", "CAUTION_STEAM",
-    "LineProfile", "line_temperature_profile", "latent_heat_of_vaporization",
+    "LineProfile", "line_temperature_profile", "saturation_temperature", "latent_heat_of_vaporization",
     "condensate_rate", "SteamLine", "steam_line", "TracingDuty", "tracing_duty", "FreezeTime", "freeze_time",
 ]
 
@@ -314,6 +314,15 @@ def _saturated(key, steam_pressure, quality, fluid):
     return np.asarray(values, dtype=float).reshape(p.shape)
 
 
+def saturation_temperature(steam_pressure, fluid="Water"):
+    """Saturation temperature [K] at ``steam_pressure`` [Pa], from CoolProp (IAPWS-95 for water).
+
+    >>> round(float(saturation_temperature(101325.0)) - 273.15, 2)
+    99.97
+    """
+    return _saturated("T", steam_pressure, 0.0, fluid)
+
+
 def latent_heat_of_vaporization(steam_pressure, fluid="Water"):
     """Latent heat :math:`h_{fg} = h_g - h_f` at saturation [J/kg] at ``steam_pressure`` [Pa], from CoolProp.
 
@@ -377,7 +386,7 @@ def steam_line(pipe_outer_diameter, steam_pressure, layers=(), *, air_temperatur
     (179.9, 5346, 9.55)
     """
     run = as_array("length", length, unit="m", low=0.0)
-    t_sat, h_fg = _saturated("T", steam_pressure, 0.0, "Water"), latent_heat_of_vaporization(steam_pressure)
+    t_sat, h_fg = saturation_temperature(steam_pressure), latent_heat_of_vaporization(steam_pressure)
     r = insulated_pipe(pipe_outer_diameter, t_sat, layers, air_temperature=air_temperature, length=1.0,
                        **pipe_options)
     shape = np.broadcast_shapes(r.q_per_length.shape, run.shape, h_fg.shape)

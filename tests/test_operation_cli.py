@@ -130,6 +130,24 @@ def test_line_list_operation_columns():
     assert rows[1]["outlet_temperature"] is None and rows[0]["tracing_duty_per_length"] is None
 
 
+def test_line_list_steam_pressure_gives_condensate():
+    # condensate = 3600 Q / h_fg(p), h_fg from CoolProp's IAPWS-95 steam tables (convlib.operation.condensate_rate)
+    text = ("tag,nps,length[m],fluid_temperature[degC],air_temperature[degC],layers[mm],steam_pressure\n"
+            "LP,6,260,138.86,-10,80@0.045,3.5 bar\n"
+            "OFF,4,100,150,10,50@0.045,3.5 bar\n"
+            "HW,4,100,80,10,50@0.045,\n"
+            "CRIT,4,100,150,10,50@0.045,300 bar\n"
+            "NEG,4,100,150,10,50@0.045,-1\n")
+    res = run_line_list(io.StringIO(text))
+    assert [e.row for e in res.errors] == [6] and "steam_pressure" in res.errors[0].reason
+    lp = cl.insulated_pipe(0.1683, 412.01, [Layer(0.08, 0.045)], air_temperature=263.15)
+    assert res.q_total[0] == pytest.approx(260.0 * float(lp.q_per_length), rel=1e-3)
+    assert res.condensate[0] == pytest.approx(float(cl.condensate_rate(res.q_total[0], 3.5e5)), rel=1e-12)
+    assert "saturation temperature" not in res.notes[0] and "saturation temperature 138.9" in res.notes[1]
+    assert res.condensate[2] != res.condensate[2] and "condensate not computed" in res.notes[3]
+    assert res.totals["condensate"] == pytest.approx(res.condensate[0] + res.condensate[1], rel=1e-12)
+
+
 def test_line_list_fluid_columns():
     text = ("tag,nps,length[m],fluid_temperature[degC],air_temperature[degC],layers[mm],mass_flow,fluid,"
             "fluid_pressure,fluid_phase\n"
