@@ -7,7 +7,7 @@ The public surface (names are stable; see DEVELOPERS.md):
 >>> round(float(r.q_per_length))
 245
 """
-__version__ = "0.1.0"
+__version__ = "0.2.0"
 
 from . import correlations, geometry, radiation, regimes  # noqa: E402
 from .correlations import catalog, nusselt
