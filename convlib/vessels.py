@@ -55,10 +55,11 @@ from .validation import as_array, check_choice
 __all__ = ["GROUND_CONDUCTIVITY", "FLOORS", "WIND_DIRECTIONS", "SQUARE_CYLINDER_RE_RANGE", "Face", "FacesResult",
            "disc_as_plate", "vertical_tank", "spherical_tank", "rectangular_duct", "nusselt_square_cylinder_jakob"]
 
-#: Conductivity of the soil under a tank [W/m/K]. Common practice for moist soil, no source
-#: (Incropera et al., 6th ed., Table A.3 gives 0.52 W/m/K for "soil" at 300 K, from memory;
-#: wet clay and sand reach 1.5-2.5). Override with the site's value.
-GROUND_CONDUCTIVITY = 1.0
+#: Conductivity of the soil under a tank [W/m/K]: the value EN ISO 13370 (heat transfer via the ground)
+#: takes for clay or silt when the soil is unknown; sand or gravel 2.0, homogeneous rock 3.5 (from memory).
+#: Dry soil is far lower (Incropera et al., 6th ed., Table A.3: 0.52 W/m/K, from memory). Override with
+#: the site's value.
+GROUND_CONDUCTIVITY = 1.5
 
 FLOORS = ("ground", "open", "none")
 WIND_DIRECTIONS = ("along", "across")
@@ -276,7 +277,7 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
 
     >>> r = vertical_tank(10.0, 12.0, surface_temperature=333.15, air_temperature=283.15)
     >>> [f.name for f in r.faces], round(float(r.q_total) / 1e3, 1)
-    (['wall', 'roof', 'floor'], 252.3)
+    (['wall', 'roof', 'floor'], 252.8)
     """
     check_choice("floor", floor, FLOORS)
     d = as_array("diameter", diameter, unit="m", low=0.0, low_inclusive=False)

@@ -247,7 +247,7 @@ def test_freeze_time_constant_coefficient_matches_hand_calculation(wind):
     u = float(cl.insulated_pipe(d, t0, layers, air_temperature=ta, wind_speed=wind).q_per_length) / (t0 - ta)
     bore = d - 2 * wall
     water = PropsSI("D", "T", t0, "P", 101325.0, "Water") * math.pi * bore ** 2 / 4
-    steel = 7850.0 * 490.0 * math.pi * (d ** 2 - bore ** 2) / 4  # carbon steel, common practice (brief)
+    steel = 7800.0 * 450.0 * math.pi * (d ** 2 - bore ** 2) / 4  # steel, DIN EN 12524 (test below)
     sensible, solid = _hand_freeze(u, water, water * cw + steel, t0, 273.15, ta, L_FUSION)
     assert float(f.hours_to_freezing_point) == pytest.approx(sensible, rel=1e-6)
     assert float(f.hours_to_freeze_solid) == pytest.approx(solid, rel=1e-6)
@@ -272,7 +272,7 @@ def test_freeze_time_lies_between_constant_coefficient_bounds():
     assert u0 > uf * 1.02
     bore = d - 2 * wall
     water = PropsSI("D", "T", t0, "P", 101325.0, "Water") * math.pi * bore ** 2 / 4  # IAPWS-95 via CoolProp
-    capacity = water * cw + 7850.0 * 490.0 * math.pi * (d ** 2 - bore ** 2) / 4  # carbon steel, common practice
+    capacity = water * cw + 7800.0 * 450.0 * math.pi * (d ** 2 - bore ** 2) / 4  # steel, DIN EN 12524
     assert float(f.heat_capacity_per_length) == pytest.approx(capacity, rel=5e-4)  # density from the 1 K table
     fast, _ = _hand_freeze(u0, 1.0, capacity, t0, 273.15, ta, 0.0)
     slow, _ = _hand_freeze(uf, 1.0, capacity, t0, 273.15, ta, 0.0)
@@ -322,3 +322,11 @@ def test_freeze_time_never_when_the_line_stays_above_freezing_and_vectorized():
 def test_bad_inputs_name_the_field(call, field):
     with pytest.raises(ValueError, match=field):
         call()
+
+
+def test_steel_wall_defaults_are_the_standard_design_values():
+    # DIN EN 12524:2000 / EN ISO 10456 design values for steel, as tabulated in the `ht` package (ASHRAE/DIN
+    # building materials): 7800 kg/m3, 450 J/kg/K
+    from ht.insulation import Cp_material, rho_material
+    assert op.CARBON_STEEL_DENSITY == rho_material("Metals, steel") == 7800.0
+    assert op.CARBON_STEEL_SPECIFIC_HEAT == Cp_material("Metals, steel") == 450.0
