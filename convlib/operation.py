@@ -40,9 +40,10 @@ __all__ = [
 #: calculated loss for electric trace heating (from memory; check the edition that governs).
 TRACING_MARGIN = 0.20
 
-#: Latent heat of fusion of ice at 0 degC and 1 atm [J/kg]: 333.55 kJ/kg
-#: (CRC Handbook of Chemistry and Physics, "Properties of ice and supercooled water"; from memory).
-LATENT_HEAT_OF_FUSION = 333.55e3
+#: Latent heat of fusion of ice at 0 degC and 1 atm [J/kg]: 333.42 kJ/kg, the enthalpy of liquid water
+#: (IAPWS-95) less that of ice Ih (IAPWS R10-06(2009)) at 273.15 K and 101325 Pa, as the ``iapws``
+#: package computes it (checked in the tests); handbooks round it to 333.5-333.6 kJ/kg.
+LATENT_HEAT_OF_FUSION = 333.42e3
 
 #: Freezing point of water at 1 atm [K] (0 degC; the ice point of the ITS-90 scale is 273.15 K).
 WATER_FREEZING_TEMPERATURE = 273.15

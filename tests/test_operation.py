@@ -6,7 +6,8 @@ References used below:
 - Independent reference model: the outer surface of an insulated line solved per temperature with
   scipy's brentq, natural convection from the `ht` package's Churchill-Chu function, air and water properties
   from CoolProp called directly, the line marched with scipy's solve_ivp.
-- Steam tables (IAPWS), latent heat of fusion of ice (CRC Handbook), as named beside each check.
+- Steam tables (IAPWS), latent heat of fusion of ice (IAPWS-95 and IAPWS R10-06 through the `iapws` package; the CRC
+  Handbook's rounded value), as named beside each check.
 """
 import math
 
@@ -23,7 +24,16 @@ from convlib import operation as op
 
 G = 9.80665  # standard gravity [m/s2], 3rd CGPM (1901), exact
 SIGMA = 5.670374419e-8  # Stefan-Boltzmann [W/m2/K4], CODATA 2018 (exact since SI 2019)
-L_FUSION = 333.55e3  # CRC Handbook of Chemistry and Physics / IAPWS: latent heat of fusion of ice 333.55 kJ/kg (from memory)
+L_FUSION_CRC = 333.55e3  # CRC Handbook of Chemistry and Physics, latent heat of fusion of ice 333.55 kJ/kg (from memory)
+
+
+def _latent_heat_of_fusion_iapws():
+    """h(liquid, IAPWS-95) - h(ice Ih, IAPWS R10-06(2009)) at 273.15 K, 101325 Pa, with the `iapws` package [J/kg]."""
+    from iapws import IAPWS95, _Ice
+    return 1e3 * (IAPWS95(T=273.15, P=0.101325).h - _Ice(273.15, 0.101325)["h"])
+
+
+L_FUSION = _latent_heat_of_fusion_iapws()
 
 INSULATED = dict(pipe_outer_diameter=0.0603, layers=[Layer(0.03, 0.04)])  # 2 in line, 30 mm of k = 0.04
 
@@ -230,6 +240,11 @@ def test_tracing_duty_grows_with_wind_and_is_zero_above_ambient():
 
 
 # --------------------------------------------------------------------------- freeze
+def test_latent_heat_of_fusion_is_the_iapws_value():
+    assert op.LATENT_HEAT_OF_FUSION == pytest.approx(L_FUSION, abs=10.0)  # 333.42 kJ/kg, rounded to 10 J/kg
+    assert L_FUSION == pytest.approx(L_FUSION_CRC, rel=5e-4)              # the handbook's rounded value
+
+
 def _hand_freeze(u, water_mass, capacity, t0, tf, ta, latent):
     """Constant U' [W/m/K] and heat capacity [J/m/K]: sensible and latent times [h] (analytic solution)."""
     sensible = capacity / u * math.log((t0 - ta) / (tf - ta))
@@ -243,7 +258,7 @@ def test_freeze_time_constant_coefficient_matches_hand_calculation(wind):
     d, wall, t0, ta, cw = 0.0603, 0.00391, 288.15, 253.15, 4200.0
     layers = [Layer(0.025, 0.04)]
     f = op.freeze_time(d, wall, t0, layers, air_temperature=ta, wind_speed=wind, water_specific_heat=cw,
-                       constant_coefficient=True)
+                       constant_coefficient=True, latent_heat=L_FUSION)  # the default: test above
     u = float(cl.insulated_pipe(d, t0, layers, air_temperature=ta, wind_speed=wind).q_per_length) / (t0 - ta)
     bore = d - 2 * wall
     water = PropsSI("D", "T", t0, "P", 101325.0, "Water") * math.pi * bore ** 2 / 4
