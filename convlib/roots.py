@@ -11,8 +11,8 @@ the zero of a nonlinear function without using derivatives", *Advances in Engine
 :math:`c` it last discarded, and takes the inverse quadratic interpolation through the three when
 :math:`\phi^2 < \xi` and :math:`(1 - \phi)^2 < 1 - \xi` (:math:`\xi = (a - b)/(c - b)`,
 :math:`\phi = (f_a - f_b)/(f_c - f_b)`), else bisection; every step moves at least the tolerance.
-It stops when the bracket is narrower than twice the tolerance, so the returned point (the end
-with the smaller :math:`|f|`) lies within ``xatol + xrtol |x|`` of the root.
+It stops when the bracket is narrower than the tolerance, so the returned point (the end with the
+smaller :math:`|f|`) lies within ``xatol + xrtol |x|`` of the root.
 
 It replaces, for the small arrays of interactive use, a general-purpose implementation whose fixed
 cost per call dominated there (``benchmarks/run.py`` measures both).
@@ -80,28 +80,34 @@ def find_root(f, lo, hi, args=(), *, xatol=0.0, xrtol=4.0 * np.finfo(float).eps,
         idx = np.flatnonzero(search)
         a, b, fa, fb = a[idx], b[idx], fa[idx], fb[idx]
         c, fc, t = a.copy(), fa.copy(), np.full(idx.size, 0.5)
+        active = tuple(e[idx] for e in extra)  # the arguments of the elements still searching
         xm = a
         for it in range(1, maxiter + 1):
             if idx.size == 0:
                 break
             xt = a + t * (b - a)
-            ft = np.asarray(f(xt, *(e[idx] for e in extra)), dtype=float)
+            ft = np.asarray(f(xt, *active), dtype=float)
             same = np.sign(ft) == np.sign(fa)
             c, fc = np.where(same, a, b), np.where(same, fa, fb)
             b, fb = np.where(same, b, a), np.where(same, fb, fa)
             a, fa = xt, ft
             smaller = np.abs(fa) < np.abs(fb)
             xm, fm = np.where(smaller, a, b), np.where(smaller, fa, fb)
-            tlim = (2.0 * eps_m * np.abs(xm) + eps_a) / np.abs(b - c)
+            tol = 2.0 * eps_m * np.abs(xm) + eps_a
             finite = np.isfinite(ft)
-            done = finite & ((fm == 0) | (tlim > 0.5))
-            x[idx[done]], success[idx[done]], iterations[idx] = xm[done], True, it
-            # next step: inverse quadratic interpolation where it is safe, else bisection
+            # the root lies in [a, b] and xm is one of its ends: done when it is narrower than 2 tol
+            done = finite & ((fm == 0) | (np.abs(b - a) < 2.0 * tol))
+            iterations[idx] = it
+            keep = finite & ~done
+            if not keep.all():
+                x[idx[done]], success[idx[done]] = xm[done], True
+                idx, a, b, c, fa, fb, fc, xm, tol = (v[keep] for v in (idx, a, b, c, fa, fb, fc, xm, tol))
+                active = tuple(e[keep] for e in active)
+            # next step: inverse quadratic interpolation where it is safe, else bisection, at least tol inside
+            tlim = tol / np.abs(b - c)
             xi, phi = (a - b) / (c - b), (fa - fb) / (fc - fb)
             quadratic = (phi ** 2 < xi) & ((1.0 - phi) ** 2 < 1.0 - xi)
             t_iqi = fa / (fb - fa) * fc / (fb - fc) + (c - a) / (b - a) * fa / (fc - fa) * fb / (fc - fb)
             t = np.clip(np.where(quadratic, t_iqi, 0.5), tlim, 1.0 - tlim)
-            keep = finite & ~done
-            idx, a, b, c, fa, fb, fc, t, xm = (v[keep] for v in (idx, a, b, c, fa, fb, fc, t, xm))
         x[idx] = xm  # out of iterations: the best estimate, not converged
     return RootResult(x=x.reshape(shape), success=success.reshape(shape), iterations=iterations.reshape(shape))
