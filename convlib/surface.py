@@ -331,8 +331,9 @@ def bare_surface(
         A convective coefficient [W/m2/K] > 0 to use instead of the correlations (one a
         specification prescribes, a measured one, a textbook's); radiation is still computed
         from the emissivity (give ``emissivity=0`` when the value is a combined coefficient).
-        Flagged ``COEFFICIENT_GIVEN`` (informational); Nusselt, Rayleigh, Reynolds and the
-        regime are still reported for the physical situation.
+        Flagged ``COEFFICIENT_GIVEN`` (informational); the Nusselt number is that of the given
+        coefficient, while Rayleigh, Reynolds, the regime and ``h_natural`` / ``h_forced`` are
+        still those of the physical situation (to compare the given value with the correlations).
     strict : bool
         Raise ``ValueError`` if any correlation is evaluated outside its range.
 

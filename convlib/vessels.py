@@ -532,7 +532,7 @@ def rectangular_duct(width, height, length, *, air_temperature, surface_temperat
         fixed = 1.0 / as_array("inner_coefficient", inner_coefficient, unit="W/m2/K", low=0.0, low_inclusive=False)
     inner = _known_temperature(surface_temperature, fluid_temperature, "duct", layers=layers,
                                inner_coefficient=inner_coefficient)
-    drops, _ = _layer_drops(layers, "flat", w)
+    _layer_drops(layers, "flat", w)  # checks the layers
     grow = sum((2.0 * layer.thickness for layer in layers), np.zeros(()))
     w_out, h_out = w + grow, h + grow
     across = wind_direction == "across" and convection_coefficient is None
