@@ -22,7 +22,7 @@ from convlib.study import StudySpec, load_demo_study, run_study
 from . import compute, settings, storage
 from .display import input_label
 from .panels import (InsulationPanel, LinePanel, OperationPanel, RegimePanel, SnapshotPanel, SpreadPanel,
-                     SweepPanel, UncertaintyPanel)
+                     SweepPanel, UncertaintyPanel, VesselPanel)
 from .panels.base import message_html
 from .report import render_report
 from .runner import Runner
@@ -88,10 +88,11 @@ class App(widgets.VBox):
         self.uncertainty = UncertaintyPanel(study)
         self.insulation = InsulationPanel(settings.HEAT_LOSS_LIMIT)
         self.operation = OperationPanel()
+        self.vessels = VesselPanel()
         self.snapshots = SnapshotPanel(self.snapshot_dir)
         self.panels = {"sweep": self.sweep, "regimes": self.regimes, "spread": self.spread,
                        "uncertainty": self.uncertainty, "insulation": self.insulation, "operation": self.operation,
-                       "snapshots": self.snapshots}
+                       "vessels": self.vessels, "snapshots": self.snapshots}
         for key, panel in self.panels.items():
             panel.add_class(f"cl-panel-{key}")
         self.order = [key for key, _ in settings.PANELS]
@@ -128,6 +129,7 @@ class App(widgets.VBox):
         self.uncertainty.observe(self._on_monte_carlo_settings, ["samples", "seed", "model_form"])
         self.insulation.observe(self._on_sizing_settings, ["touch_limit", "heat_loss_limit", "still_air"])
         self.operation.observe(self._on_operation_settings, list(OperationPanel.SETTINGS))
+        self.vessels.observe(self._on_vessel_settings, list(VesselPanel.SETTINGS))
         self.line.schedule.observe(self._on_schedule, "value")
         self.snapshots.on_action(self._on_snapshot_action)
         self._apply_case(self.line.case)
@@ -165,6 +167,11 @@ class App(widgets.VBox):
         self.uncertainty.monte_carlo_stale = self.uncertainty.monte_carlo is not None
         self.insulation.applicable = case.kind == "insulated"
         self._operation_defaults(case)
+        self._operation_quiet = True  # the refresh below recomputes
+        try:
+            self.vessels.set_case_defaults(compute.vessel_defaults(case))
+        finally:
+            self._operation_quiet = False
         for key, panel in self.panels.items():
             panel.stale = key != "snapshots"
         self.refresh(self.visible)
@@ -234,6 +241,13 @@ class App(widgets.VBox):
             self.refresh("operation")
         else:
             self.operation.stale = True
+
+    @_guarded
+    def _on_vessel_settings(self, change):
+        if self.visible == "vessels" and not self._operation_quiet:
+            self.refresh("vessels")
+        else:
+            self.vessels.stale = True
 
     @_guarded
     def _on_schedule(self, change):
@@ -318,6 +332,11 @@ class App(widgets.VBox):
                 return
             inputs, axis = panel.inputs(), panel.sweep_input
             self._submit("operation", panel, lambda: compute.operation_view(case, inputs, axis),
+                         lambda view: setattr(panel, "view", view), delay=settings.EXPENSIVE_DELAY / 2)
+        elif key == "vessels":
+            panel = self.vessels
+            inputs, axis = panel.inputs(), panel.sweep_input
+            self._submit("vessels", panel, lambda: compute.vessel_view(case, inputs, axis),
                          lambda view: setattr(panel, "view", view), delay=settings.EXPENSIVE_DELAY / 2)
         elif key == "snapshots":
             self._list_snapshots()

@@ -3,8 +3,9 @@
 These functions touch no widget: the app runs them (in a worker thread when a
 kernel loop is running) and pushes what they return into the panels. All
 numbers come from :mod:`convlib`: :func:`convlib.study.evaluate_case`,
-:func:`convlib.study.run_study`, :func:`convlib.correlations.nusselt` and the
-sizing functions of :mod:`convlib.design`.
+:func:`convlib.study.run_study`, :func:`convlib.correlations.nusselt`, the
+sizing functions of :mod:`convlib.design`, :mod:`convlib.operation` and
+:mod:`convlib.vessels`.
 """
 from __future__ import annotations
 
@@ -16,6 +17,7 @@ import numpy as np
 from convlib import correlations as corr
 from convlib import design
 from convlib import operation as op
+from convlib import vessels
 from convlib.geometry import SHAPES
 from convlib.pipe import Layer
 from convlib.pipe_sizes import nominal_pipe, nominal_sizes
@@ -30,7 +32,8 @@ __all__ = [
     "CaseSummary", "summarize_case", "study_for_case", "sweep_axes", "sweep_study", "LawCurve", "RegimeView",
     "regime_view", "RegimeMap", "regime_map", "uncertainty_study", "monte_carlo_settings", "Sizing",
     "InsulationView", "insulation_view", "OperationInputs", "OperationView", "operation_view", "operation_layers",
-    "operation_options", "design_air_temperature", "pipe_wall_thickness",
+    "operation_options", "design_air_temperature", "pipe_wall_thickness", "VesselInputs", "VesselView",
+    "vessel_defaults", "vessel_view",
 ]
 
 
@@ -512,3 +515,98 @@ def operation_view(case: CaseSpec, inputs: OperationInputs, sweep_input: str = "
         sweep_tracing=np.asarray(st.duty_per_length, float),
         sweep_freezing_point=seconds(sf.hours_to_freezing_point), sweep_frozen=seconds(sf.hours_total),
         current_operating=float(current[0]), current_design=float(current[1]), notes=notes, cautions=cautions)
+
+
+# ----------------------------------------------------------------------------- tanks and ducts
+@dataclass(frozen=True)
+class VesselInputs:
+    """Inputs of the "Tanks & ducts" panel (SI); the air, wind, emissivity and sky come from the case."""
+
+    shape: str                       # key of settings.VESSEL_SHAPES
+    vessel_diameter: float           # tank or sphere [m]
+    vessel_height: float             # wall of a vertical tank [m]
+    duct_width: float                # [m]
+    duct_height: float               # [m]
+    duct_length: float               # [m]
+    contents_temperature: float      # [K]
+    vessel_insulation: float         # thickness on every exposed face [m], 0: bare
+    vessel_insulation_k: float       # [W/m/K]
+    floor: str = "ground"            # vertical tank: key of settings.VESSEL_FLOORS
+    wind_direction: str = "along"    # duct: key of settings.VESSEL_WIND
+
+
+@dataclass(frozen=True)
+class VesselView:
+    """Faces of a tank, sphere or duct, their total, and the total against one input (SI)."""
+
+    inputs: VesselInputs
+    air_temperature: float
+    wind_speed: float
+    outdoor: bool
+    faces: tuple[dict, ...]          # name, shape, area [m2], surface_temperature [K], q_per_area [W/m2], q_total [W]
+    q_total: float                   # [W]
+    area: float                      # exposed (and ground-contact) area [m2]
+    sweep_input: str
+    sweep_values: np.ndarray
+    sweep_faces: dict                # face name -> (n,) q_total [W]
+    sweep_total: np.ndarray          # (n,) [W]
+    current: float                   # the case's value of the swept input
+    notes: tuple[str, ...]
+    cautions: tuple[str, ...]
+
+
+def vessel_defaults(case: CaseSpec) -> dict:
+    """Contents temperature and insulation of the panel taken from the line: its fluid (or surface) temperature,
+    its insulation when insulated."""
+    out = {"contents_temperature": case.fluid_temperature if case.kind == "insulated" else case.surface_temperature}
+    if case.kind == "insulated":
+        out.update(vessel_insulation=case.insulation_thickness, vessel_insulation_k=case.insulation_conductivity)
+    return out
+
+
+def vessel_view(case: CaseSpec, inputs: VesselInputs, sweep_input: str = "vessel_insulation") -> VesselView:
+    """:func:`convlib.vessels.vertical_tank`, :func:`~convlib.vessels.spherical_tank` or
+    :func:`~convlib.vessels.rectangular_duct` with the contents at ``inputs.contents_temperature`` and one
+    insulation layer on every exposed face, at the case's air, wind, emissivity and sky (outdoors when the case
+    sees the sky), and the same against ``sweep_input`` in one vectorized call."""
+    i = inputs
+    for name, value, choices in (("shape", i.shape, settings.VESSEL_SHAPES), ("floor", i.floor, settings.VESSEL_FLOORS),
+                                 ("wind_direction", i.wind_direction, settings.VESSEL_WIND),
+                                 ("sweep input", sweep_input, settings.VESSEL_SWEEPS)):
+        if value not in choices:
+            raise ValueError(f"unknown {name} {value!r}; choose one of: {', '.join(choices)}")
+    outdoor = case.sky_view_fraction > 0
+
+    def run(thickness=i.vessel_insulation, wind=case.wind_speed, air=case.air_temperature):
+        layers = [Layer(thickness, i.vessel_insulation_k)]
+        common = dict(air_temperature=air, fluid_temperature=i.contents_temperature, emissivity=case.emissivity,
+                      wind_speed=wind, outdoor=outdoor, pressure=case.pressure, convection_factor=case.convection_factor)
+        if i.shape == "vertical_tank":
+            return vessels.vertical_tank(i.vessel_diameter, i.vessel_height, wall_layers=layers, roof_layers=layers,
+                                         floor=i.floor, **common)
+        if i.shape == "sphere":
+            return vessels.spherical_tank(i.vessel_diameter, layers=layers, **common)
+        return vessels.rectangular_duct(i.duct_width, i.duct_height, i.duct_length, layers=layers,
+                                        wind_direction=i.wind_direction, **common)
+
+    base = run()
+    _, low, high = settings.VESSEL_SWEEPS[sweep_input]
+    current = {"vessel_insulation": i.vessel_insulation, "wind_speed": case.wind_speed,
+               "air_temperature": case.air_temperature}[sweep_input]
+    grid = np.linspace(min(low, current), max(high, 1.5 * current if sweep_input != "air_temperature" else current
+                                                  + 10.0), settings.VESSEL["sweep_points"])
+    key = {"vessel_insulation": "thickness", "wind_speed": "wind", "air_temperature": "air"}[sweep_input]
+    swept = run(**{key: grid})
+    limit = design.TOUCH_LIMIT_METAL_JACKET
+    hot = [f for f in base.faces if f.surface is not None and float(f.surface_temperature) > limit]
+    cautions = ((design.CAUTION_TOUCH,) if hot else ()) + (
+        (design.CAUTION_CONDENSATION,) if i.contents_temperature < case.air_temperature else ())
+    return VesselView(
+        inputs=i, air_temperature=case.air_temperature, wind_speed=case.wind_speed, outdoor=outdoor,
+        faces=tuple({"name": f.name, "shape": f.shape, "area": _item(f.area),
+                     "surface_temperature": _item(f.surface_temperature), "q_per_area": _item(f.q_per_area),
+                     "q_total": _item(f.q_total)} for f in base.faces),
+        q_total=_item(base.q_total), area=_item(base.area), sweep_input=sweep_input, sweep_values=grid,
+        sweep_faces={f.name: np.broadcast_to(np.asarray(f.q_total, float), grid.shape).copy() for f in swept.faces},
+        sweep_total=np.broadcast_to(np.asarray(swept.q_total, float), grid.shape).copy(), current=float(current),
+        notes=tuple(base.notes), cautions=cautions)

@@ -31,6 +31,7 @@ _INPUT_LABELS = {
     "wind_speed": "Wind speed", "emissivity": "Emissivity", "sky_view_fraction": "Sky view fraction",
     "solar_irradiance": "Solar irradiance", "pressure": "Air pressure", "insulation_thickness": "Insulation thickness",
     "insulation_conductivity": "Insulation conductivity", "convection_factor": "Convection factor",
+    "vessel_insulation": "Insulation thickness",
 }
 
 

@@ -42,6 +42,7 @@ _GRIDS = {
     "uncertainty": dict(rows=1, cols=2, column_widths=[0.5, 0.5], horizontal_spacing=0.26),
     "insulation": dict(rows=2, cols=1, shared_xaxes=True, vertical_spacing=0.1),
     "operation": dict(rows=3, cols=1, shared_xaxes=True, vertical_spacing=0.09),
+    "vessels": dict(rows=1, cols=2, column_widths=[0.34, 0.66], horizontal_spacing=0.12),
 }
 
 
@@ -542,6 +543,42 @@ def operation_sweep_figure(view, display: Display) -> go.Figure:
     return plot.figure(f"The line in operation against {input_label(name).lower()}<br><sup>gaps in the bottom row: "
                        f"the stopped line settles above {zero} there</sup>", height=720,
                        legend=dict(orientation="h", y=-0.08, font=dict(size=11)))
+
+
+# ----------------------------------------------------------------------------- tanks and ducts
+def vessel_figure(view, display: Display) -> go.Figure:
+    """Heat flow per face (bars) and the faces and total against one input (:class:`compute.VesselView`)."""
+    name = view.sweep_input
+    plot = _Plot("vessels", ("Per face, this case", f"Against {input_label(name).lower()}"))
+    names = [f["name"] for f in view.faces]
+    colours = {n: settings.PALETTE[k % len(settings.PALETTE)] for k, n in enumerate(names)}
+    plot.add(dict(type="bar", x=names, y=display.value(np.array([f["q_total"] for f in view.faces]), "face_loss"),
+                  marker=dict(color=[colours[n] for n in names]), name="per face", showlegend=False,
+                  customdata=[[display.number(f["surface_temperature"], "surface_temperature"),
+                               display.number(f["area"], "face_area")] for f in view.faces],
+                  hovertemplate=(f"%{{x}}: %{{y:.4g}} {display.label('face_loss')}<br>surface %{{customdata[0]}} "
+                                 f"{display.label('surface_temperature')}, %{{customdata[1]}} "
+                                 f"{display.label('face_area')}<extra></extra>")), 1, 1)
+    x = display.value(view.sweep_values, name)
+    hover = _hover(display, name, "face_loss")
+    plot.add(_line(x, display.value(view.sweep_total, "face_loss"), "total", hovertemplate=hover,
+                   line=dict(color="#111111", width=2.8)), 1, 2)
+    if len(names) > 1:
+        for n in names:
+            plot.add(_line(x, display.value(view.sweep_faces[n], "face_loss"), n, hovertemplate=hover,
+                           line=dict(color=colours[n], width=1.8)), 1, 2)
+    plot.vline(float(display.value(view.current, name)), 1, 2, line=dict(color="#111111", width=1, dash="dot"),
+               text="this case")
+    plot.axis("y", 1, 1, title=dict(text=display.axis_title("face_loss", "Heat flow")))
+    plot.axis("x", 1, 2, title=dict(text=display.axis_title(name)))
+    plot.axis("y", 1, 2, title=dict(text=display.axis_title("face_loss", "Heat flow")))
+    i = view.inputs
+    what = settings.VESSEL_SHAPES[i.shape]
+    return plot.figure(f"Heat flow of the {what}<br><sup>contents at "
+                       f"{display.text(i.contents_temperature, 'contents_temperature')}, air "
+                       f"{display.text(view.air_temperature, 'air_temperature')}, wind "
+                       f"{display.text(view.wind_speed, 'wind_speed')}, {'outdoors' if view.outdoor else 'indoors'}"
+                       f"; positive: a loss</sup>", height=430, legend=dict(orientation="h", y=-0.2, font=dict(size=11)))
 
 
 # ----------------------------------------------------------------------------- maps (report)

@@ -15,7 +15,8 @@ __all__ = [
     "EXTRA_SWEEPS", "DEFAULT_SCHEDULE", "RECOMPUTE_DELAY", "EXPENSIVE_DELAY", "MAP_POINTS", "RA_GRID", "RE_GRID",
     "MONTE_CARLO_SAMPLES", "HEAT_LOSS_LIMIT", "SIZING_MAX_THICKNESS", "snapshot_dir", "PALETTE", "MODE_COLOURS",
     "PRETTY_UNITS", "FIGURE_HEIGHT", "FIGURE_WIDTH", "SIDEBAR_WIDTH", "MAP_LOWEST_WIND", "ServeDefaults", "SERVE",
-    "BUNDLE_ENV", "OPERATION", "OPERATION_SERVICES", "OPERATION_SWEEPS",
+    "BUNDLE_ENV", "OPERATION", "OPERATION_SERVICES", "OPERATION_SWEEPS", "VESSEL", "VESSEL_SHAPES", "VESSEL_FLOORS",
+    "VESSEL_WIND", "VESSEL_SWEEPS",
 ]
 
 #: Unit systems offered by the units switch (keys of :data:`convlib.units.DISPLAY_UNITS`).
@@ -89,6 +90,15 @@ CONTROLS: dict[str, ControlSetting] = {
                                           {"SI": 0.5, "US": 1.0}),
     "pipe_wall_thickness": ControlSetting("Pipe wall", "length", 0.0005, 0.05, {"SI": 0.01, "US": 0.001},
                                           widget="text"),
+    # "Tanks & ducts" panel
+    "vessel_diameter": ControlSetting("Diameter", "length", 0.3, 80.0, {"SI": 0.1, "US": 0.5}, _METRES, "text"),
+    "vessel_height": ControlSetting("Wall height", "length", 0.3, 40.0, {"SI": 0.1, "US": 0.5}, _METRES, "text"),
+    "duct_width": ControlSetting("Duct width", "length", 0.05, 5.0, {"SI": 0.01, "US": 0.05}, _METRES, "text"),
+    "duct_height": ControlSetting("Duct height", "length", 0.05, 5.0, {"SI": 0.01, "US": 0.05}, _METRES, "text"),
+    "duct_length": ControlSetting("Duct run", "length", 0.5, 5000.0, {"SI": 1.0, "US": 5.0}, _METRES, "text"),
+    "contents_temperature": ControlSetting("Contents at", "temperature", 213.15, 673.15, {"SI": 1.0, "US": 2.0}),
+    "vessel_insulation": ControlSetting("Insulation", "length", 0.0, 0.4, {"SI": 1.0, "US": 0.05}),
+    "vessel_insulation_k": ControlSetting("Insulation k", "conductivity", 0.01, 0.2, {"SI": 0.001, "US": 0.005}),
 }
 
 #: Displayed quantities: name -> (kind, units per system or None for convlib's display unit, significant digits).
@@ -137,6 +147,17 @@ QUANTITIES: dict[str, tuple[str, dict | None, int]] = {
     "tracing_per_length": ("heat_per_length", None, 3),
     "tracing_total": ("power", {"SI": "kW", "US": "Btu/hour"}, 3),
     "freeze_time": ("time", None, 3),
+    # "Tanks & ducts" panel
+    "vessel_diameter": ("length", _METRES, 3),
+    "vessel_height": ("length", _METRES, 3),
+    "duct_width": ("length", _METRES, 3),
+    "duct_height": ("length", _METRES, 3),
+    "duct_length": ("length", _METRES, 4),
+    "contents_temperature": ("temperature", None, 1),
+    "vessel_insulation": ("length", None, 3),
+    "vessel_insulation_k": ("conductivity", None, 3),
+    "face_loss": ("power", {"SI": "kW", "US": "Btu/hour"}, 3),
+    "face_area": ("area", None, 3),
     "position": ("length", _METRES, 4),
 }
 
@@ -146,7 +167,7 @@ PRETTY_UNITS = {
     "W/m**2": "W/m²", "Btu/hour/foot": "Btu/(h·ft)", "Btu/hour/foot**2": "Btu/(h·ft²)", "Btu/hour": "Btu/h",
     "W/m**2/K": "W/(m²·K)", "Btu/hour/foot**2/delta_degF": "Btu/(h·ft²·°F)", "W/m/K": "W/(m·K)",
     "Btu*inch/hour/foot**2/delta_degF": "Btu·in/(h·ft²·°F)", "percent": "%", "": "–", "ft/s": "ft/s",
-    "hour": "h", "lb/hour": "lb/h", "kg/s": "kg/s", "kg/hour": "kg/h",
+    "hour": "h", "lb/hour": "lb/h", "kg/s": "kg/s", "kg/hour": "kg/h", "m**2": "m²", "foot**2": "ft²",
 }
 
 #: Sweeps offered in addition to the study's own (used when the study has none of that input).
@@ -169,6 +190,7 @@ PANELS = (
     ("uncertainty", "Uncertainty"),
     ("insulation", "Insulation"),
     ("operation", "In operation"),
+    ("vessels", "Tanks & ducts"),
     ("snapshots", "Snapshots"),
 )
 
@@ -185,6 +207,20 @@ OPERATION = {
     "initial_temperature": 278.15,     # [K] water when the flow stops
     "pipe_wall_thickness": 0.005,      # [m]
     "sweep_points": 21,
+}
+
+#: The "Tanks & ducts" panel: what it shows, its defaults [SI] and the inputs its sweep offers
+#: (name -> (label, lowest, highest) [SI]; the highest widens to include the case).
+VESSEL_SHAPES = {"vertical_tank": "vertical tank", "sphere": "sphere", "duct": "rectangular duct"}
+VESSEL = {"shape": "vertical_tank", "vessel_diameter": 3.0, "vessel_height": 6.0, "duct_width": 0.6,
+          "duct_height": 0.4, "duct_length": 20.0, "vessel_insulation": 0.1, "vessel_insulation_k": 0.04,
+          "floor": "ground", "wind_direction": "along", "sweep_points": 21}
+VESSEL_FLOORS = {"ground": "on the ground", "open": "open underneath", "none": "left out"}
+VESSEL_WIND = {"along": "along the duct", "across": "across the duct"}
+VESSEL_SWEEPS = {
+    "vessel_insulation": ("Insulation thickness", 0.0, 0.2),
+    "wind_speed": ("Wind speed", 0.0, 15.0),
+    "air_temperature": ("Air temperature", 233.15, 313.15),
 }
 
 #: What the line of the "In operation" panel carries: value -> label.

@@ -8,6 +8,7 @@ from .snapshots import SnapshotPanel
 from .spread import SpreadPanel
 from .sweep import SweepPanel
 from .uncertainty import UncertaintyPanel
+from .vessels import VesselPanel
 
 __all__ = ["Panel", "LinePanel", "SweepPanel", "RegimePanel", "SpreadPanel", "UncertaintyPanel", "InsulationPanel",
-           "OperationPanel", "SnapshotPanel"]
+           "OperationPanel", "VesselPanel", "SnapshotPanel"]

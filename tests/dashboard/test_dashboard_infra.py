@@ -13,7 +13,7 @@ from convlib.units import from_si
 
 from convlib.study import run_study
 
-from dashboard import compute, figures, serve, storage
+from dashboard import compute, figures, serve, settings, storage
 from dashboard.display import Display, format_number
 from dashboard.panels.base import sync_figure
 from dashboard.runner import Runner
@@ -173,6 +173,9 @@ def test_every_figure_is_valid_plotly(monkeypatch, study):
              figures.insulation_figure(compute.insulation_view(study.case, 333.15, 60.0, True), d),
              figures.map_figure(run_study(spec.model_copy(update={"sweeps": [], "tornado": [], "uncertainty": None}))
                                 .maps[0], d),
+             figures.vessel_figure(compute.vessel_view(study.case, compute.VesselInputs(
+                 shape="vertical_tank", contents_temperature=353.15,
+                 **{k: v for k, v in settings.VESSEL.items() if k.startswith(("vessel_", "duct_"))})), d),
              figures.empty_figure("t", "m")]
     for fig in built:
         go.Figure(fig.to_dict())  # validates every property

@@ -1,0 +1,177 @@
+"""Tanks and ducts: heat flow face by face and against one input (convlib.vessels)."""
+from __future__ import annotations
+
+import html
+
+import ipywidgets as widgets
+import traitlets
+
+from .. import settings
+from ..compute import VesselInputs, VesselView
+from ..figures import vessel_figure
+from .base import Panel, card_html, card_value_text, message_html
+from .controls import DESCRIPTION_STYLE, QuantityControl
+
+__all__ = ["VesselPanel"]
+
+#: Numeric controls per shape (the others are hidden).
+_SIZES = {"vertical_tank": ("vessel_diameter", "vessel_height"), "sphere": ("vessel_diameter",),
+          "duct": ("duct_width", "duct_height", "duct_length")}
+_NUMERIC = ("vessel_diameter", "vessel_height", "duct_width", "duct_height", "duct_length", "contents_temperature",
+            "vessel_insulation", "vessel_insulation_k")
+#: Controls whose default follows the line until the user changes them.
+_FOLLOW_CASE = ("contents_temperature", "vessel_insulation", "vessel_insulation_k")
+_MAX_FACES = 3
+
+
+class VesselPanel(Panel):
+    """A vertical tank, a sphere or a rectangular duct beside the line, at the line's air, wind and emissivity.
+
+    Traits
+    ------
+    view : VesselView or None
+        Results (set by the app).
+    shape, floor, wind_direction, sweep_input : str
+        Keys of :data:`dashboard.settings.VESSEL_SHAPES`, ``VESSEL_FLOORS``, ``VESSEL_WIND``, ``VESSEL_SWEEPS``.
+    vessel_diameter, vessel_height, duct_width, duct_height, duct_length, contents_temperature, vessel_insulation,
+    vessel_insulation_k : float
+        Inputs [SI], as in :class:`dashboard.compute.VesselInputs`.
+    """
+
+    view = traitlets.Instance(VesselView, allow_none=True)
+    shape = traitlets.Unicode(settings.VESSEL["shape"])
+    floor = traitlets.Unicode(settings.VESSEL["floor"])
+    wind_direction = traitlets.Unicode(settings.VESSEL["wind_direction"])
+    sweep_input = traitlets.Unicode("vessel_insulation")
+    vessel_diameter = traitlets.Float(settings.VESSEL["vessel_diameter"])
+    vessel_height = traitlets.Float(settings.VESSEL["vessel_height"])
+    duct_width = traitlets.Float(settings.VESSEL["duct_width"])
+    duct_height = traitlets.Float(settings.VESSEL["duct_height"])
+    duct_length = traitlets.Float(settings.VESSEL["duct_length"])
+    contents_temperature = traitlets.Float(353.15)
+    vessel_insulation = traitlets.Float(settings.VESSEL["vessel_insulation"])
+    vessel_insulation_k = traitlets.Float(settings.VESSEL["vessel_insulation_k"])
+
+    #: Every setting the app listens to.
+    SETTINGS = ("shape", "floor", "wind_direction", "sweep_input", *_NUMERIC)
+
+    def __init__(self, **kwargs):
+        super().__init__(**kwargs)
+        self._case_defaults = {}
+        self._follow = dict.fromkeys(_FOLLOW_CASE, True)
+        self.controls = {name: QuantityControl(name, getattr(self, name), self.units, self._control_changed)
+                         for name in _NUMERIC}
+        self.choices = {}
+        for name, options, label in (("shape", settings.VESSEL_SHAPES, "What"),
+                                     ("floor", settings.VESSEL_FLOORS, "Floor"),
+                                     ("wind_direction", settings.VESSEL_WIND, "Wind"),
+                                     ("sweep_input", {k: v[0] for k, v in settings.VESSEL_SWEEPS.items()},
+                                      "Sweep against")):
+            box = widgets.Dropdown(options=[(text, key) for key, text in options.items()], value=getattr(self, name),
+                                   description=label, style=DESCRIPTION_STYLE, layout=widgets.Layout(width="400px"))
+            box.add_class(f"cl-vessel-{name.replace('_', '-')}")
+            traitlets.link((box, "value"), (self, name))
+            self.choices[name] = box
+        size = widgets.VBox([widgets.HTML('<div class="cl-section">Size</div>'), self.choices["shape"],
+                             *(self.controls[n].box for n in _SIZES["vertical_tank"] + _SIZES["duct"]),
+                             self.choices["floor"], self.choices["wind_direction"]],
+                            layout=widgets.Layout(width="400px", margin="0 12px 0 0"))
+        contents = widgets.VBox([widgets.HTML('<div class="cl-section">Contents and insulation</div>'),
+                                 *(self.controls[n].box for n in _FOLLOW_CASE)],
+                                layout=widgets.Layout(width="400px"))
+        self.inputs_box = widgets.HBox([size, contents], layout=widgets.Layout(flex_flow="row wrap"))
+        self.hint = widgets.HTML()
+        self.hint.add_class("cl-hint")
+        self.cards = [widgets.HTML() for _ in range(_MAX_FACES + 1)]
+        for k, card in enumerate(self.cards):
+            card.add_class("cl-card")
+            card.add_class("cl-card-vessel-total" if k == 0 else f"cl-card-vessel-face-{k}")
+        self.card_row = widgets.HBox(self.cards, layout=widgets.Layout(flex_flow="row wrap", width="100%"))
+        self.notes = widgets.HTML()
+        self.children = [self.inputs_box, self.message, self.card_row, self.hint, self.notes,
+                         self.choices["sweep_input"], self.plot_box]
+        self._show_shape_controls()
+
+    # ------------------------------------------------------------------ interface
+    def interactive(self):
+        return [*self.controls.values(), *self.choices.values()]
+
+    def inputs(self) -> VesselInputs:
+        """The panel's inputs [SI]."""
+        return VesselInputs(shape=self.shape, floor=self.floor, wind_direction=self.wind_direction,
+                            **{name: getattr(self, name) for name in _NUMERIC})
+
+    def reset(self):
+        super().reset()
+        self._follow = dict.fromkeys(_FOLLOW_CASE, True)
+        defaults = {name: settings.VESSEL[name] for name in _NUMERIC if name in settings.VESSEL}
+        with self.hold_trait_notifications():
+            for name, value in {**defaults, **self._case_defaults}.items():
+                setattr(self, name, value)
+                self.controls[name].set_si(value)
+            for name in ("shape", "floor", "wind_direction"):
+                setattr(self, name, settings.VESSEL[name])
+            self.sweep_input = "vessel_insulation"
+
+    def set_case_defaults(self, defaults: dict) -> None:
+        """Contents temperature and insulation that follow the line; a value the user has set is kept."""
+        self._case_defaults = dict(defaults)
+        for name, value in self._case_defaults.items():
+            if self._follow[name] and getattr(self, name) != value:
+                self.controls[name].set_si(value)
+                setattr(self, name, value)
+
+    def card_text(self, index: int) -> str:
+        """Plain text of a card's value and unit (0: the total, then the faces in order)."""
+        return card_value_text(self.cards[index].value)
+
+    def _control_changed(self, name, value):
+        if name in self._follow:
+            self._follow[name] = False
+        setattr(self, name, value)
+
+    @traitlets.observe("shape")
+    def _shape_changed(self, change):
+        if hasattr(self, "controls"):
+            self._show_shape_controls()
+
+    def _show_shape_controls(self):
+        shown = set(_SIZES[self.shape])
+        for name in _SIZES["vertical_tank"] + _SIZES["duct"]:
+            self.controls[name].box.layout.display = None if name in shown else "none"
+        self.choices["floor"].layout.display = None if self.shape == "vertical_tank" else "none"
+        self.choices["wind_direction"].layout.display = None if self.shape == "duct" else "none"
+
+    @traitlets.observe("units")
+    def _units_changed(self, change):
+        if hasattr(self, "controls"):
+            for control in self.controls.values():
+                control.set_system(change["new"])
+
+    # ------------------------------------------------------------------ rendering
+    @traitlets.observe("view", "units")
+    def _render(self, change=None):
+        v = self.view
+        if v is None or not hasattr(self, "cards"):
+            return
+        d = self.display
+        flow = "Loss" if v.q_total >= 0 else "Gain"
+        self.cards[0].value = card_html(f"{flow}, all faces", d.number(abs(v.q_total), "face_loss"),
+                                        d.label("face_loss"), f"over {d.text(v.area, 'face_area')}")
+        for k, card in enumerate(self.cards[1:]):
+            if k < len(v.faces):
+                f = v.faces[k]
+                card.value = card_html(f["name"], d.number(f["q_total"], "face_loss"), d.label("face_loss"),
+                                       f"surface {d.text(f['surface_temperature'], 'surface_temperature')}")
+                card.layout.display = None
+            else:
+                card.value, card.layout.display = "", "none"
+        bare_floor = v.inputs.shape == "vertical_tank" and v.inputs.floor == "ground"
+        self.hint.value = html.escape(
+            f"At the line's air ({d.text(v.air_temperature, 'air_temperature')}), wind "
+            f"({d.text(v.wind_speed, 'wind_speed')}), emissivity and sky ({'outdoors' if v.outdoor else 'indoors'}); "
+            f"the insulation on every exposed face" + ("; the floor on the ground has none, and the soil is at the "
+                                                       "air temperature." if bare_floor else "."))
+        self.notes.value = message_html(v.notes, "info") + message_html(v.cautions, "caution")
+        self.show_figure(vessel_figure(v, d))
+        self.set_message()

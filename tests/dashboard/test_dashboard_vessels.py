@@ -1,0 +1,90 @@
+"""Headless tests of the "Tanks & ducts" panel: cards and figure equal convlib.vessels called directly."""
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from convlib import vessels
+from convlib.pipe import Layer
+
+from dashboard import settings
+from dashboard.display import Display
+
+from dashboard_helpers import show, trace
+
+
+@pytest.fixture
+def panel(app):
+    show(app, "vessels")
+    return app.vessels
+
+
+def _common(case):
+    return dict(air_temperature=case.air_temperature, emissivity=case.emissivity, wind_speed=case.wind_speed,
+                outdoor=case.sky_view_fraction > 0, pressure=case.pressure)
+
+
+def test_tank_faces_follow_the_line_and_equal_convlib(panel, study):
+    case = study.case
+    assert panel.contents_temperature == case.fluid_temperature          # follows the line
+    assert panel.vessel_insulation == case.insulation_thickness
+    layers = [Layer(case.insulation_thickness, case.insulation_conductivity)]
+    r = vessels.vertical_tank(settings.VESSEL["vessel_diameter"], settings.VESSEL["vessel_height"],
+                              fluid_temperature=case.fluid_temperature, wall_layers=layers, roof_layers=layers,
+                              **_common(case))
+    d = Display("SI")
+    assert panel.card_text(0) == d.text(float(r.q_total), "face_loss")
+    for k, face in enumerate(r.faces, start=1):
+        assert panel.card_text(k) == d.text(float(face.q_total), "face_loss")
+    bars = trace(panel.plot, "per face")
+    assert list(bars.x) == ["wall", "roof", "floor"]
+    np.testing.assert_allclose(bars.y, d.value(np.array([float(f.q_total) for f in r.faces]), "face_loss"))
+    # the sweep over insulation thickness: one vectorized convlib call
+    grid = panel.view.sweep_values
+    swept = vessels.vertical_tank(settings.VESSEL["vessel_diameter"], settings.VESSEL["vessel_height"],
+                                  fluid_temperature=case.fluid_temperature,
+                                  wall_layers=[Layer(grid, case.insulation_conductivity)],
+                                  roof_layers=[Layer(grid, case.insulation_conductivity)], **_common(case))
+    np.testing.assert_allclose(trace(panel.plot, "total").y, d.value(swept.q_total, "face_loss"), rtol=1e-9)
+    assert grid[0] == 0.0 and grid[-1] >= case.insulation_thickness
+    assert any("ISO 13732-1" in c or "touch" in c.lower() for c in panel.view.cautions) == any(
+        float(f.surface_temperature) > 333.15 for f in r.faces if f.surface is not None)
+
+
+def test_duct_against_wind_and_user_values_are_kept(app, panel, study):
+    case = study.case
+    panel.choices["shape"].value = "duct"
+    panel.controls["duct_width"].widget.value = "1.2"           # m on screen
+    panel.controls["contents_temperature"].widget.value = 30.0  # degC: the user's, no longer the line's
+    panel.choices["sweep_input"].value = "wind_speed"
+    assert panel.duct_width == pytest.approx(1.2) and panel.contents_temperature == pytest.approx(303.15)
+    layers = [Layer(case.insulation_thickness, case.insulation_conductivity)]
+    r = vessels.rectangular_duct(1.2, settings.VESSEL["duct_height"], settings.VESSEL["duct_length"],
+                                 fluid_temperature=303.15, layers=layers, **_common(case))
+    d = Display("SI")
+    assert [panel.card_text(k) for k in range(4)] == [d.text(float(r.q_total), "face_loss"),
+                                                      *(d.text(float(f.q_total), "face_loss") for f in r.faces)]
+    grid = panel.view.sweep_values
+    swept = vessels.rectangular_duct(1.2, settings.VESSEL["duct_height"], settings.VESSEL["duct_length"],
+                                     fluid_temperature=303.15, layers=layers,
+                                     **{**_common(case), "wind_speed": grid})
+    for face in swept.faces:
+        np.testing.assert_allclose(trace(panel.plot, face.name).y, d.value(face.q_total, "face_loss"), rtol=1e-9)
+    assert panel.controls["vessel_height"].box.layout.display == "none"
+    assert panel.choices["wind_direction"].layout.display is None
+    # a change of the line keeps the user's contents temperature
+    app.line.controls["air_temperature"].widget.value = 0.0
+    assert panel.contents_temperature == pytest.approx(303.15)
+
+
+def test_sphere_shows_one_face_and_converts_units(app, panel, study):
+    panel.choices["shape"].value = "sphere"
+    assert panel.cards[1].layout.display is None and panel.cards[2].layout.display == "none"
+    assert panel.card_text(2) == ""
+    case = study.case
+    r = vessels.spherical_tank(settings.VESSEL["vessel_diameter"], fluid_temperature=case.fluid_temperature,
+                               layers=[Layer(case.insulation_thickness, case.insulation_conductivity)],
+                               **_common(case))
+    app.units_switch.value = "US"
+    assert panel.card_text(1) == Display("US").text(float(r.q_total), "face_loss")
+    assert panel.card_text(1).endswith("Btu/h")
+    assert "legs, nozzles" in panel.notes.value
