@@ -46,6 +46,7 @@ class CaseSummary:
     q_total: float
     q_convection_per_length: float
     q_radiation_per_length: float
+    q_solar_per_length: float        # absorbed sun [W/m]
     surface_temperature: float
     air_temperature: float
     h_convection: float
@@ -81,7 +82,8 @@ def summarize_case(case: CaseSpec) -> CaseSummary:
     return CaseSummary(
         q_per_length=_item(r.q_per_length), q_total=_item(r.q_total),
         q_convection_per_length=_item(r.q_convection_per_length),
-        q_radiation_per_length=_item(r.q_radiation_per_length), surface_temperature=ts,
+        q_radiation_per_length=_item(r.q_radiation_per_length),
+        q_solar_per_length=_item(r.q_solar_per_length), surface_temperature=ts,
         air_temperature=case.air_temperature, h_convection=_item(r.h_convection), h_radiation=_item(r.h_radiation),
         nusselt=_item(r.nusselt), rayleigh=_item(r.rayleigh), reynolds=_item(r.reynolds),
         richardson=ri if np.isfinite(ri) else None, prandtl=_item(r.prandtl),

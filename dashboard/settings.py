@@ -75,6 +75,8 @@ CONTROLS: dict[str, ControlSetting] = {
     "emissivity": ControlSetting("Emissivity", "dimensionless", 0.02, 1.0, {"SI": 0.01, "US": 0.01}),
     "sky_view_fraction": ControlSetting("Sky view", "dimensionless", 0.0, 1.0, {"SI": 0.05, "US": 0.05}),
     "relative_humidity": ControlSetting("Humidity", "dimensionless", 0.05, 1.0, {"SI": 1.0, "US": 1.0}, _PERCENT),
+    "solar_irradiance": ControlSetting("Sun on the line", "heat_flux", 0.0, 1400.0, {"SI": 10.0, "US": 5.0}),
+    "pressure": ControlSetting("Air pressure", "pressure", 2.0e4, 2.0e5, {"SI": 0.1, "US": 0.1}, widget="text"),
     "heat_loss_limit": ControlSetting("Heat-loss limit", "heat_per_length", 1.0, 5000.0, {"SI": 1.0, "US": 1.0},
                                       widget="text"),
     # "In operation" panel

@@ -20,7 +20,7 @@ __all__ = ["LinePanel", "nps_label", "validation_text"]
 
 _NUMERIC = ("diameter", "length", "height", "width", "surface_temperature", "fluid_temperature",
             "insulation_thickness", "insulation_conductivity", "air_temperature", "surroundings_temperature",
-            "wind_speed", "emissivity", "sky_view_fraction", "relative_humidity")
+            "wind_speed", "emissivity", "sky_view_fraction", "solar_irradiance", "relative_humidity", "pressure")
 _WIDE = widgets.Layout(width="100%")
 #: Dropdown value meaning "the shape's default law" (CaseSpec ``None``).
 DEFAULT_LAW = "(default)"
@@ -111,7 +111,7 @@ class LinePanel(Panel):
             c["fluid_temperature"].box, c["insulation_thickness"].box, c["insulation_conductivity"].box,
             head("Surroundings"), c["air_temperature"].box, self.same_surroundings,
             c["surroundings_temperature"].box, c["wind_speed"].box, c["emissivity"].box, self.sky,
-            c["sky_view_fraction"].box, c["relative_humidity"].box,
+            c["sky_view_fraction"].box, c["solar_irradiance"].box, c["relative_humidity"].box, c["pressure"].box,
             head("Correlations"), self.natural, self.forced,
         ], layout=widgets.Layout(width="100%"))
         self.inputs.add_class("cl-inputs")
@@ -275,6 +275,7 @@ class LinePanel(Panel):
             c[name].show(kind == "insulated")
         c["surroundings_temperature"].show(not self.same_surroundings.value)
         c["sky_view_fraction"].show(self.sky.value == "outdoors")
+        c["solar_irradiance"].show(self.sky.value == "outdoors" or c["solar_irradiance"].si > 0)
         self.forced.disabled = False
 
     def _values(self) -> dict:
@@ -293,7 +294,7 @@ class LinePanel(Panel):
             surroundings_temperature=None if self.same_surroundings.value else c["surroundings_temperature"],
             wind_speed=c["wind_speed"], emissivity=c["emissivity"],
             sky_view_fraction=c["sky_view_fraction"] if self.sky.value == "outdoors" else 0.0,
-            relative_humidity=c["relative_humidity"],
+            relative_humidity=c["relative_humidity"], solar_irradiance=c["solar_irradiance"], pressure=c["pressure"],
             natural=None if self.natural.value == DEFAULT_LAW else self.natural.value,
             forced=None if self.forced.value == DEFAULT_LAW else self.forced.value)
         return values
@@ -323,10 +324,11 @@ class LinePanel(Panel):
             return
         d = self.display
         q = s.q_per_length
+        sun = f" · sun −{d.number(s.q_solar_per_length, 'q_per_length')}" if s.q_solar_per_length > 0 else ""
         self._card("q_per_length", "Heat loss" if q >= 0 else "Heat gain", d.number(abs(q), "q_per_length"),
                    d.label("q_per_length"),
                    f"conv. {d.number(s.q_convection_per_length, 'q_per_length')} · rad. "
-                   f"{d.number(s.q_radiation_per_length, 'q_per_length')}")
+                   f"{d.number(s.q_radiation_per_length, 'q_per_length')}{sun}")
         length = self.case.length if self.case is not None else None
         self._card("q_total", "Total " + ("loss" if s.q_total >= 0 else "gain"), d.number(abs(s.q_total), "q_total"),
                    d.label("q_total"), "" if length is None else f"over {d.text(length, 'length')}")

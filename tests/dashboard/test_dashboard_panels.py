@@ -56,6 +56,21 @@ def test_wind_slider_changes_card_and_sweep_to_convlib_values(app, study):
     assert any(s.x0 == pytest.approx(5.0) for s in plot.layout.shapes)
 
 
+def test_sun_and_air_pressure_controls_reach_the_case(app, study):
+    assert study.case.sky_view_fraction > 0  # the demo line is outdoors: the sun control is shown
+    assert app.line.controls["solar_irradiance"].box.layout.display is None
+    app.line.controls["solar_irradiance"].widget.value = 500.0  # W/m2 on screen
+    app.line.controls["pressure"].widget.value = "80"           # kPa on screen (a site at altitude)
+    case = study.case.model_copy(update={"solar_irradiance": 500.0, "pressure": 80e3})
+    assert app.line.case.solar_irradiance == pytest.approx(500.0) and app.line.case.pressure == pytest.approx(80e3)
+    r = evaluate_case(case)
+    assert app.line.card_text("q_per_length") == _q_text("SI", r.q_per_length)
+    d = Display("SI")
+    assert f"sun −{d.number(float(r.q_solar_per_length), 'q_per_length')}" in app.line.cards["q_per_length"].value
+    app.line.sky.value = "indoors"  # a line indoors with a sun value keeps showing it (it still counts)
+    assert app.line.controls["solar_irradiance"].box.layout.display is None
+
+
 def test_sweep_marks_laws_outside_their_range(app, study):
     axis = next(a for a in app.sweep.axes if a.input == "diameter")
     app.sweep.sweep_input = "diameter"
