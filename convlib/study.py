@@ -18,6 +18,7 @@ correlations of the geometry.
 from __future__ import annotations
 
 import math
+import warnings
 from typing import Callable, Literal
 
 import numpy as np
@@ -489,8 +490,9 @@ def _relative_spread(values: np.ndarray, ok: np.ndarray) -> tuple[list, list]:
     count = ok.sum(axis=0)
     high = np.where(ok, values, -np.inf).max(axis=0)
     low = np.where(ok, values, np.inf).min(axis=0)
-    median = np.array([np.median(col[m]) if m.sum() else np.nan for col, m in zip(values.T, ok.T)])
-    with np.errstate(all="ignore"):
+    with np.errstate(all="ignore"), warnings.catch_warnings():
+        warnings.simplefilter("ignore", RuntimeWarning)  # all-NaN columns: no applicable law there
+        median = np.nanmedian(np.where(ok, values, np.nan), axis=0)
         spread = (high - low) / np.abs(median)
     out = [float(x) if (c >= 2 and math.isfinite(x)) else None for x, c in zip(spread, count)]
     return out, count.astype(int).tolist()
