@@ -92,8 +92,7 @@ def _cmd_tank(args) -> int:
                          "surface-temperature" if args.surface_temperature else "fluid-temperature")}
     common = dict(air_temperature=parse(args.air_temperature, "temperature", "air-temperature"),
                   emissivity=args.emissivity, wind_speed=parse(args.wind_speed, "speed", "wind-speed"),
-                  outdoor=args.outdoor, convection_coefficient=None if args.convection_coefficient is None else
-                  parse(args.convection_coefficient, "coefficient", "convection-coefficient"), **temperature)
+                  outdoor=args.outdoor, **temperature, **_coefficients(args))
     diameter = parse(args.diameter, "length", "diameter")
     if args.shape == "sphere":
         if args.height is not None or args.roof_layer or args.floor_layer:
@@ -103,15 +102,13 @@ def _cmd_tank(args) -> int:
         wall = {} if args.wall_thickness is None else dict(
             wall_thickness=parse(args.wall_thickness, "length", "wall-thickness"),
             wall_conductivity=parse(args.wall_conductivity, "conductivity", "wall-conductivity"))
-        inner = None if args.inner_coefficient is None else parse(args.inner_coefficient, "coefficient",
-                                                                  "inner-coefficient")
-        r = spherical_tank(diameter, layers=layers(args.wall_layer), inner_coefficient=inner, **wall, **common)
+        r = spherical_tank(diameter, layers=layers(args.wall_layer), **wall, **common)
     else:
         if args.height is None:
             raise ValueError("--height is required for a vertical tank")
-        if args.wall_thickness is not None or args.inner_coefficient is not None:
-            raise ValueError("--wall-thickness, --wall-conductivity and --inner-coefficient are for --shape sphere; "
-                             "a vertical tank's shell is taken as thin")
+        if args.wall_thickness is not None or args.wall_conductivity is not None:
+            raise ValueError("--wall-thickness and --wall-conductivity are for --shape sphere; a vertical tank's "
+                             "shell is taken as thin")
         ground = None if args.ground_temperature is None else parse(args.ground_temperature, "temperature",
                                                                     "ground-temperature")
         r = vertical_tank(diameter, parse(args.height, "length", "height"), wall_layers=layers(args.wall_layer),
@@ -128,17 +125,21 @@ def _cmd_duct(args) -> int:
     temperature = ({"surface_temperature": parse(args.surface_temperature, "temperature", "surface-temperature")}
                    if args.surface_temperature else
                    {"fluid_temperature": parse(args.fluid_temperature, "temperature", "fluid-temperature")})
-    optional = {name: None if getattr(args, name) is None else parse(getattr(args, name), "coefficient",
-                                                                     name.replace("_", "-"))
-                for name in ("inner_coefficient", "convection_coefficient")}
     air = parse(args.air_temperature, "temperature", "air-temperature")
     r = rectangular_duct(parse(args.width, "length", "width"), parse(args.height, "length", "height"),
                          parse(args.length, "length", "length"), air_temperature=air,
                          layers=[parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])],
                          wind_speed=parse(args.wind_speed, "speed", "wind-speed"), wind_direction=args.wind_direction,
-                         emissivity=args.emissivity, outdoor=args.outdoor, **optional, **temperature)
+                         emissivity=args.emissivity, outdoor=args.outdoor, **_coefficients(args), **temperature)
     _emit_faces(args, "duct faces", r, air)
     return 0
+
+
+def _coefficients(args) -> dict:
+    """The optional inside film and given outer convective coefficient of a tank or duct [W/m2/K]."""
+    return {name: None if getattr(args, name) is None else parse(getattr(args, name), "coefficient",
+                                                                 name.replace("_", "-"))
+            for name in ("inner_coefficient", "convection_coefficient")}
 
 
 def _emit_faces(args, title, r, air_temperature) -> None:
@@ -207,7 +208,7 @@ def add_commands(sub) -> None:
     tank.add_argument("--height", help="wall height of a vertical tank, e.g. 12m")
     tank.add_argument("--wall-thickness", help="sphere: shell wall, e.g. 20mm (with --wall-conductivity)")
     tank.add_argument("--wall-conductivity", help="sphere: shell wall conductivity, e.g. 45 (W/m/K)")
-    tank.add_argument("--inner-coefficient", help="sphere: film coefficient inside, e.g. 200 (W/m2/K)")
+    tank.add_argument("--inner-coefficient", help="film coefficient inside, every face, e.g. 200 (W/m2/K)")
     tank.add_argument("--convection-coefficient", help=GIVEN_COEFFICIENT_HELP)
     tank.add_argument("--surface-temperature", help="known temperature of every face (a bare tank), e.g. 60degC")
     tank.add_argument("--fluid-temperature", help="temperature of the contents (with layers), e.g. 80degC")

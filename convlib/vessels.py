@@ -229,8 +229,9 @@ def _total(faces, notes):
 def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None, fluid_temperature=None,
                   wall_layers=(), roof_layers=(), floor="ground", floor_layers=(), emissivity=0.9, wind_speed=0.0,
                   outdoor=False, sky_temperature=None, surroundings_temperature=None, ground_temperature=None,
-                  ground_conductivity=GROUND_CONDUCTIVITY, pressure=101325.0, exact_properties=False,
-                  convection_factor=1.0, convection_coefficient=None, tolerance=1e-6) -> FacesResult:
+                  ground_conductivity=GROUND_CONDUCTIVITY, inner_coefficient=None, pressure=101325.0,
+                  exact_properties=False, convection_factor=1.0, convection_coefficient=None,
+                  tolerance=1e-6) -> FacesResult:
     r"""Heat lost (or gained) by a vertical cylindrical tank, face by face.
 
     Parameters
@@ -263,6 +264,9 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
         Undisturbed soil temperature [K]; default the air temperature (say the annual mean of the site).
     ground_conductivity : numeric
         Soil [W/m/K]; default :data:`GROUND_CONDUCTIVITY`.
+    inner_coefficient : numeric, optional
+        Film coefficient between the contents and the shell [W/m2/K] (with ``fluid_temperature``), on
+        every face; default none (the thin shell at the contents' temperature).
     tolerance : float
         Surface temperature solve [K].
 
@@ -290,8 +294,12 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
         inner = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
         if any(len(tuple(x)) for x in (wall_layers, roof_layers)) or (floor != "ground" and len(tuple(floor_layers))):
             raise ValueError("layers need fluid_temperature: with surface_temperature every face is bare")
+        if inner_coefficient is not None:
+            raise ValueError("inner_coefficient needs fluid_temperature: with surface_temperature the shell is bare")
     else:
         inner = as_array("fluid_temperature", fluid_temperature, unit="K", low=0.0, low_inclusive=False)
+    film = np.zeros(()) if inner_coefficient is None else 1.0 / as_array(
+        "inner_coefficient", inner_coefficient, unit="W/m2/K", low=0.0, low_inclusive=False)  # [m2 K/W]
     wall_layers, roof_layers, floor_layers = list(wall_layers), list(roof_layers), list(floor_layers)
     if floor == "none" and floor_layers:
         raise ValueError("floor_layers need floor='ground' or 'open'; the floor is left out")
@@ -301,16 +309,16 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
                   convection_coefficient=convection_coefficient)
     notes = []
 
-    def solve(outer, layers, kind, inner_diameter):
-        if not layers:
+    def solve(outer, layers, kind, inner_diameter, fixed):
+        if not layers and not np.any(fixed > 0):
             return inner, inner_diameter
-        return _solve_face(outer, inner, layers, kind, inner_diameter, tolerance)
+        return _solve_face(outer, inner, layers, kind, inner_diameter, tolerance, fixed)
 
-    # wall: a vertical cylinder of the insulated outer diameter
+    # wall: a vertical cylinder of the insulated outer diameter (the film per metre: 1/(h_i pi D))
     _, d_wall = _layer_drops(wall_layers, "cylinder", d)
     wall = OuterSurface.build("vertical_cylinder", diameter=d_wall, length=h,
                               sky_view_fraction=_sky(outdoor, "vertical_cylinder"), **common)
-    ts_wall, _ = solve(wall, wall_layers, "cylinder", d)
+    ts_wall, _ = solve(wall, wall_layers, "cylinder", d, film / (np.pi * d))
     faces = [_face("wall", wall, ts_wall, np.pi * d_wall * h)]
 
     # roof: the disc as its equivalent plate, facing up
@@ -318,17 +326,18 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
     plate_length, plate_width = disc_as_plate(d)
     roof = OuterSurface.build("horizontal_plate_up", length=plate_length, width=plate_width,
                               sky_view_fraction=_sky(outdoor, "horizontal_plate_up"), **common)
-    ts_roof, _ = solve(roof, roof_layers, "flat", d)
+    ts_roof, _ = solve(roof, roof_layers, "flat", d, film)
     faces.append(_face("roof", roof, ts_roof, disc_area))
     notes.append("roof as a plate with the disc's A/P = D/4 and mean chord pi D/4; heat per area times pi D^2/4")
 
     if floor == "open":
         under = OuterSurface.build("horizontal_plate_down", length=plate_length, width=plate_width,
                                    sky_view_fraction=_sky(outdoor, "horizontal_plate_down"), **common)
-        ts_floor, _ = solve(under, floor_layers, "flat", d)
+        ts_floor, _ = solve(under, floor_layers, "flat", d, film)
         faces.append(_face("floor", under, ts_floor, disc_area))
     elif floor == "ground":
-        faces.append(_ground_floor(d, inner, floor_layers, air_temperature, ground_temperature, ground_conductivity))
+        faces.append(_ground_floor(d, inner, floor_layers, air_temperature, ground_temperature, ground_conductivity,
+                                   film))
         notes.append("floor on the ground: disc on a semi-infinite soil, S = 2 D (steady state; an estimate)")
     else:
         notes.append("floor left out of the total")
@@ -416,14 +425,16 @@ def spherical_tank(diameter, *, air_temperature, surface_temperature=None, fluid
     return _total([_face("shell", outer, ts, np.pi * d_out ** 2)], notes)
 
 
-def _ground_floor(d, floor_temperature, layers, air_temperature, ground_temperature, ground_conductivity):
-    """Floor face on the soil: layers in series with the disc's spreading resistance 1/(2 D k)."""
+def _ground_floor(d, floor_temperature, layers, air_temperature, ground_temperature, ground_conductivity,
+                  film=0.0):
+    """Floor face on the soil: inner film [m2 K/W] and layers in series with the disc's spreading resistance
+    1/(2 D k)."""
     k_soil = as_array("ground_conductivity", ground_conductivity, unit="W/m/K", low=0.0, low_inclusive=False)
     t_ground = as_array("air_temperature" if ground_temperature is None else "ground_temperature",
                         air_temperature if ground_temperature is None else ground_temperature, unit="K", low=0.0,
                         low_inclusive=False)
     area = np.pi * d ** 2 / 4.0
-    slab = np.zeros(())  # [m2 K/W] of the floor layers
+    slab = np.asarray(film, dtype=float)  # [m2 K/W] of the film and the floor layers
     for layer in layers:
         if not isinstance(layer, Layer):
             raise ValueError(f"floor_layers must be Layer objects (thickness, conductivity); got {layer!r}")

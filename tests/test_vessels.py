@@ -317,3 +317,27 @@ def test_insulated_duct_across_wind_iterates_to_a_consistent_surface():
 def test_bad_inputs_name_the_field(call, field):
     with pytest.raises(ValueError, match=field):
         call()
+
+
+def test_inner_film_of_a_tank_adds_in_series_on_every_face():
+    # wall per metre: (Tf - Ts) / (1/(h_i pi D) + ln(D_o/D)/(2 pi k)); roof per m2: (Tf - Ts) / (1/h_i + t/k);
+    # floor on the ground: film, then the spreading resistance 1/(2 D k_soil) (analytic, as the tests above)
+    d, h, tf, ta, t, k, h_in = 4.0, 6.0, 333.15, 278.15, 0.05, 0.04, 25.0
+    kw = dict(air_temperature=ta, emissivity=0.5)
+    r = v.vertical_tank(d, h, fluid_temperature=tf, wall_layers=[Layer(t, k)], roof_layers=[Layer(t, k)],
+                        inner_coefficient=h_in, ground_conductivity=1.2, **kw)
+    d_out = d + 2 * t
+    r_wall = 1 / (h_in * math.pi * d) + math.log(d_out / d) / (2 * math.pi * k)  # [K m/W]
+    ts = brentq(lambda s: (tf - s) / r_wall - math.pi * d_out * float(cl.bare_surface(
+        "vertical_cylinder", surface_temperature=s, diameter=d_out, length=h, **kw).q_per_area), ta, tf, xtol=1e-10)
+    assert float(r.face("wall").surface_temperature) == pytest.approx(ts, abs=1e-5)
+    length, width = _disc_plate(d)
+    ts_roof = brentq(lambda s: (tf - s) / (1 / h_in + t / k) - float(cl.bare_surface(
+        "horizontal_plate_up", surface_temperature=s, length=length, width=width, **kw).q_per_area), ta, tf,
+        xtol=1e-10)
+    assert float(r.face("roof").surface_temperature) == pytest.approx(ts_roof, abs=1e-5)
+    area = math.pi * d ** 2 / 4
+    assert float(r.face("floor").q_total) == pytest.approx((tf - ta) / (1 / (h_in * area) + 1 / (2 * d * 1.2)),
+                                                           rel=1e-12)
+    with pytest.raises(ValueError, match="inner_coefficient"):
+        v.vertical_tank(d, h, surface_temperature=tf, inner_coefficient=h_in, **kw)
