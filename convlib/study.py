@@ -34,8 +34,8 @@ from .surface import bare_surface
 
 __all__ = [
     "SCHEMA_VERSION", "INPUTS", "CaseSpec", "SweepAxis", "MapSpec", "TornadoInput", "Distribution",
-    "UncertaintySpec", "StudySpec", "StudyResult", "evaluate_case", "run_study", "axis_values", "load_demo_study",
-    "cautions_for",
+    "UncertaintySpec", "StudySpec", "StudyResult", "evaluate_case", "run_study", "run_sweep", "axis_values",
+    "load_demo_study", "cautions_for",
 ]
 
 SCHEMA_VERSION = 1
@@ -654,6 +654,23 @@ def cautions_for(surface_temperature: float, air_temperature: float, dew: float,
     if air_temperature <= 273.15 or (fluid_temperature is not None and fluid_temperature <= 273.15):
         out.append(CAUTION_FREEZE)
     return out
+
+
+def run_sweep(spec: StudySpec, axis: SweepAxis) -> SweepResult:
+    """One sweep of the study's case and nothing else: the curve of every compared correlation, their
+    spread and the model-form band along ``axis`` (what :func:`run_study` puts in ``sweeps`` for it).
+
+    For interactive use, where the base-case comparison and the other parts are not redrawn.
+
+    Examples
+    --------
+    >>> spec = StudySpec(case=CaseSpec(kind="bare", surface_temperature=353.15, diameter=0.1))
+    >>> s = run_sweep(spec, SweepAxis(input="wind_speed", start=0.0, stop=4.0, count=3))
+    >>> s.input, len(s.default.q_per_length)
+    ('wind_speed', 3)
+    """
+    spec = StudySpec.model_validate({**spec.model_dump(), "sweeps": [axis.model_dump()]})  # the axis applies
+    return _sweep(spec, spec.sweeps[0])
 
 
 def run_study(spec: StudySpec, progress: Callable[[float, str], None] | None = None) -> StudyResult:

@@ -78,7 +78,7 @@ class App(widgets.VBox):
         self.runner = runner or Runner()
         self.snapshot_dir = Path(snapshot_dir or settings.snapshot_dir()).expanduser()
         self.summary: compute.CaseSummary | None = None
-        self._sweep_cache = None
+        self._sweep_cache: dict[str, tuple] = {}  # panel key -> (spec and axis JSON, result)
         self._case_serial = 0
         self._operation_quiet = False
         self.line = LinePanel(study.case, units=units)
@@ -300,11 +300,19 @@ class App(widgets.VBox):
             if axis is None:
                 return
             token = (spec.model_dump_json(), axis.model_dump_json())
-            if self._sweep_cache is not None and self._sweep_cache[0] == token:
-                self._show_sweep(self._sweep_cache[1], key)
+            full = self._sweep_cache.get("spread")  # (token, StudyResult): holds the sweep too
+            if full is not None and full[0] == token:
+                self._show_sweep(full[1] if key == "spread" else full[1].sweeps[0], key)
                 return
-            self._submit("sweep", self.panels[key], lambda: (token, compute.sweep_study(spec, axis)),
-                         lambda out: self._store_sweep(out, key))
+            if key == "sweep":  # the sweep alone: no base-case comparison to redraw
+                own = self._sweep_cache.get("sweep")
+                if own is not None and own[0] == token:
+                    self._show_sweep(own[1], key)
+                    return
+                work = lambda: (token, compute.sweep_only(spec, axis))  # noqa: E731
+            else:
+                work = lambda: (token, compute.sweep_study(spec, axis))  # noqa: E731
+            self._submit(key, self.panels[key], work, lambda out: self._store_sweep(out, key))
         elif key == "regimes":
             self._submit("regimes", self.regimes, lambda: compute.regime_view(case, summary),
                          lambda view: setattr(self.regimes, "view", view))
@@ -342,12 +350,15 @@ class App(widgets.VBox):
             self._list_snapshots()
 
     def _store_sweep(self, out, key):
-        self._sweep_cache = out
+        self._sweep_cache[key] = out
         self._show_sweep(out[1], key)
 
     def _show_sweep(self, result, key):
         panel = self.panels[key]
-        panel.result = result
+        if panel.result is not None and panel.result == result:
+            panel.redraw()  # equal numbers (a sweep of wind does not depend on the case's wind): move the marker
+        else:
+            panel.result = result
         panel.stale = False
         panel.set_message()
 

@@ -23,13 +23,14 @@ from convlib.pipe import Layer
 from convlib.pipe_sizes import nominal_pipe, nominal_sizes
 from convlib.properties import dew_point
 from convlib.regimes import FLOW_LIMITS, Flag, flow_names, mode_names
-from convlib.study import (INPUTS, CaseSpec, StudyResult, StudySpec, SweepAxis, UncertaintySpec, cautions_for,
-                           evaluate_case, run_study)
+from convlib.study import (INPUTS, CaseSpec, StudyResult, StudySpec, SweepAxis, SweepResult, UncertaintySpec,
+                           cautions_for, evaluate_case, run_study, run_sweep)
 
 from . import settings
 
 __all__ = [
-    "CaseSummary", "summarize_case", "study_for_case", "sweep_axes", "sweep_study", "LawCurve", "RegimeView",
+    "CaseSummary", "summarize_case", "study_for_case", "sweep_axes", "sweep_study", "sweep_only", "LawCurve",
+    "RegimeView",
     "regime_view", "RegimeMap", "regime_map", "uncertainty_study", "monte_carlo_settings", "Sizing",
     "InsulationView", "insulation_view", "OperationInputs", "OperationView", "operation_view", "operation_layers",
     "operation_options", "design_air_temperature", "pipe_wall_thickness", "VesselInputs", "VesselView",
@@ -131,8 +132,13 @@ def sweep_axes(study: StudySpec, case: CaseSpec) -> list[SweepAxis]:
 
 
 def sweep_study(spec: StudySpec, axis: SweepAxis) -> StudyResult:
-    """Base case, correlation comparison and one sweep (:func:`convlib.study.run_study`)."""
+    """Base case, correlation comparison and one sweep (:func:`convlib.study.run_study`): the spread panel."""
     return run_study(spec.model_copy(update={"sweeps": [axis], "maps": [], "tornado": [], "uncertainty": None}))
+
+
+def sweep_only(spec: StudySpec, axis: SweepAxis) -> SweepResult:
+    """One sweep and nothing else (:func:`convlib.study.run_sweep`): the sweep panel."""
+    return run_sweep(spec, axis)
 
 
 def uncertainty_study(spec: StudySpec, *, run_monte_carlo: bool, samples: int | None = None,

@@ -377,3 +377,14 @@ def test_sweep_band_contains_default_demo():
         assert len(sweep.band_low) == len(sweep.values) == len(sweep.band_high)
         for low, q, high in zip(sweep.band_low, sweep.default.q_per_length, sweep.band_high, strict=True):
             assert low <= q <= high, sweep.input
+
+
+def test_run_sweep_is_the_sweep_of_run_study():
+    spec = S.load_demo_study()
+    axis = S.SweepAxis(input="wind_speed", start=0.0, stop=12.0, count=13)
+    alone = S.run_sweep(spec, axis)
+    full = S.run_study(spec.model_copy(update={"sweeps": [axis], "maps": [], "tornado": [], "uncertainty": None}))
+    assert alone.model_dump() == full.sweeps[0].model_dump()  # same code path: identical, not close
+    bare = S.StudySpec(case=S.CaseSpec(kind="bare", surface_temperature=353.15, diameter=0.1))
+    with pytest.raises(ValueError, match="fluid_temperature"):
+        S.run_sweep(bare, S.SweepAxis(input="fluid_temperature", start=300.0, stop=400.0, count=3))

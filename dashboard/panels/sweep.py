@@ -3,7 +3,7 @@ from __future__ import annotations
 
 import ipywidgets as widgets
 import traitlets
-from convlib.study import StudyResult, SweepAxis
+from convlib.study import SweepAxis, SweepResult
 
 from ..display import input_label
 from ..figures import sweep_figure
@@ -22,8 +22,8 @@ class SweepPanel(Panel):
         The sweeps offered (set by the app).
     sweep_input : str
         The selected input (linked with the correlation-spread panel).
-    result : StudyResult or None
-        Base case and the selected sweep (set by the app).
+    result : SweepResult or None
+        The selected sweep (set by the app).
     current : float or None
         The case's value of the swept input [SI] (drawn when the next result arrives).
     chosen : tuple
@@ -32,7 +32,7 @@ class SweepPanel(Panel):
 
     axes = traitlets.List(traitlets.Instance(SweepAxis))
     sweep_input = traitlets.Unicode("", allow_none=True)
-    result = traitlets.Instance(StudyResult, allow_none=True)
+    result = traitlets.Instance(SweepResult, allow_none=True)
     current = traitlets.Float(None, allow_none=True)
     chosen = traitlets.Tuple((None, None))
 
@@ -69,9 +69,9 @@ class SweepPanel(Panel):
 
     @traitlets.observe("result", "units")
     def _render(self, change=None):
-        if self.result is None or not self.result.sweeps:
+        if self.result is None:
             return
-        sweep = self.result.sweeps[0]
+        sweep = self.result
         axis = next((a for a in self.axes if a.input == sweep.input), None)
         fig = sweep_figure(sweep, self.display, current=self.current, log_x=bool(axis and axis.scale == "log"),
                            chosen=self.chosen)

@@ -110,7 +110,7 @@ def test_units_switch_converts_controls_cards_and_axes(app, study):
     assert "[ft/s]" in app.sweep.plot.layout.xaxis.title.text
     assert "Btu/(h·ft)" in app.sweep.plot.layout.yaxis.title.text
     np.testing.assert_allclose(trace(app.sweep.plot, "total (selected laws)").x,
-                               from_si(np.array(app.sweep.result.sweeps[0].values), "speed", "ft/s"))
+                               from_si(np.array(app.sweep.result.values), "speed", "ft/s"))
     # a key press on the slider in US units: one step (in degF) up from the shown value
     air.value = air.value + air.step
     expected = study.case.model_copy(update={"air_temperature": app.line.case.air_temperature})
