@@ -44,6 +44,8 @@ FIELDS = {
     "q_per_area": ("q/A", "heat_flux", "{:.1f}"),
     "steam_pressure": ("p_steam", "pressure", "{:.4g}"),
     "condensate_rate": ("condensate", "mass_flow", "{:.2f}"),
+    "required_thickness": ("t_required", "length", "{:.1f}"),
+    "commercial_thickness": ("t_listed", "length", "{:.0f}"),
 }
 
 
@@ -76,8 +78,8 @@ def table(rows: list[dict], units: str, out=sys.stdout) -> None:
             label, kind, fmt = FIELDS[name]
             unit = display_unit(kind, units)
             heads.append(f"{label} [{pretty_unit(unit)}]" if unit else label)
-            for cell, row in zip(cells, rows):
-                cell.append(fmt.format(float(from_si(row[name], kind, unit))))
+            for cell, row in zip(cells, rows):  # None: no value (e.g. a limit not reachable)
+                cell.append("-" if row[name] is None else fmt.format(float(from_si(row[name], kind, unit))))
         else:
             heads.append(name)
             for cell, row in zip(cells, rows):

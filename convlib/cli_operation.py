@@ -9,7 +9,9 @@ import numpy as np
 from .cli_common import (GIVEN_COEFFICIENT_HELP, emit, nominal_pipe, output_options, outside, parse, parse_layer,
                          pipe_diameter, pipe_size_options, surface_cautions)
 from .operation import TRACING_MARGIN, freeze_time, line_temperature_profile, steam_line, tracing_duty
-from .vessels import FLOORS, GROUND_CONDUCTIVITY, WIND_DIRECTIONS, rectangular_duct, spherical_tank, vertical_tank
+from .pipe import Layer
+from .vessels import (FLOORS, GROUND_CONDUCTIVITY, WIND_DIRECTIONS, insulation_per_face, rectangular_duct,
+                      spherical_tank, vertical_tank)
 
 
 def _cmd_trace(args) -> int:
@@ -102,7 +104,8 @@ def _cmd_tank(args) -> int:
         wall = {} if args.wall_thickness is None else dict(
             wall_thickness=parse(args.wall_thickness, "length", "wall-thickness"),
             wall_conductivity=parse(args.wall_conductivity, "conductivity", "wall-conductivity"))
-        r = spherical_tank(diameter, layers=layers(args.wall_layer), **wall, **common)
+        def build(extra):
+            return spherical_tank(diameter, layers=[*extra, *layers(args.wall_layer)], **wall, **common)
     else:
         if args.height is None:
             raise ValueError("--height is required for a vertical tank")
@@ -111,12 +114,35 @@ def _cmd_tank(args) -> int:
                              "shell is taken as thin")
         ground = None if args.ground_temperature is None else parse(args.ground_temperature, "temperature",
                                                                     "ground-temperature")
-        r = vertical_tank(diameter, parse(args.height, "length", "height"), wall_layers=layers(args.wall_layer),
-                          roof_layers=layers(args.roof_layer), floor=args.floor,
-                          floor_layers=layers(args.floor_layer), ground_temperature=ground,
-                          ground_conductivity=args.ground_conductivity, **common)
-    _emit_faces(args, "tank faces", r, common["air_temperature"])
+        height = parse(args.height, "length", "height")
+
+        def build(extra):
+            return vertical_tank(diameter, height, wall_layers=[*extra, *layers(args.wall_layer)],
+                                 roof_layers=[*extra, *layers(args.roof_layer)], floor=args.floor,
+                                 floor_layers=layers(args.floor_layer), ground_temperature=ground,
+                                 ground_conductivity=args.ground_conductivity, **common)
+    _emit_faces(args, "tank faces", build([]), common["air_temperature"], _sizing(args, build))
     return 0
+
+
+def _sizing(args, build) -> list[dict]:
+    """Rows of insulation per face for ``--touch-limit`` / ``--heat-flux-limit`` (none without a limit)."""
+    limits = {name: getattr(args, name) for name in ("touch_limit", "heat_flux_limit") if getattr(args, name)}
+    if not limits:
+        return []
+    if len(limits) > 1 or args.insulation_conductivity is None:
+        raise ValueError("to size insulation give one of --touch-limit or --heat-flux-limit, and "
+                         "--insulation-conductivity")
+    k = parse(args.insulation_conductivity, "conductivity", "insulation-conductivity")
+    limit = ({"surface_limit": parse(args.touch_limit, "temperature", "touch-limit")} if args.touch_limit else
+             {"heat_flux_limit": parse(args.heat_flux_limit, "heat_flux", "heat-flux-limit")})
+    sized = insulation_per_face(lambda t: build([Layer(t, k, name="sized insulation")]), **limit)
+    def known(x):
+        return None if np.isnan(x) else x
+    return [{"tag": f.face, "limit on": "surface temperature" if args.touch_limit else "heat flux",
+             "required_thickness": known(f.required), "commercial_thickness": known(f.commercial),
+             "notes": "not reachable within 300 mm" if np.isnan(f.required) else (
+                 "beyond the listed thicknesses" if np.isnan(f.commercial) else "-")} for f in sized]
 
 
 def _cmd_duct(args) -> int:
@@ -142,8 +168,9 @@ def _coefficients(args) -> dict:
             for name in ("inner_coefficient", "convection_coefficient")}
 
 
-def _emit_faces(args, title, r, air_temperature) -> None:
-    """Face rows, the total and the notes of a vessel or duct; hot/cold cautions from the exposed faces."""
+def _emit_faces(args, title, r, air_temperature, sizing=()) -> None:
+    """Face rows, the total and the notes of a vessel or duct, and any sizing rows; hot/cold cautions from the
+    exposed faces."""
     rows = [{"tag": f.name, "shape": f.shape, "area": float(f.area), "surface_temperature": float(f.surface_temperature),
              "q_per_area": float(f.q_per_area), "q_total": float(f.q_total),
              "warnings": [] if f.surface is None else f.surface.warning_messages()} for f in r.faces]
@@ -153,7 +180,9 @@ def _emit_faces(args, title, r, air_temperature) -> None:
         extra["text"] = [f"\ntotal {total:.0f} W", *r.notes]
     exposed = [{"surface_temperature": float(f.surface_temperature), "air_temperature": air_temperature}
                for f in r.faces if f.surface is not None]
-    emit(args, [(title, rows)], surface_cautions(exposed), extra)
+    sections = [(title, rows)] + ([("insulation per face (sized; the layers given stay outside it)", list(sizing))]
+                                  if sizing else [])
+    emit(args, sections, surface_cautions(exposed), extra)
 
 
 def add_commands(sub) -> None:
@@ -223,6 +252,9 @@ def add_commands(sub) -> None:
     tank.add_argument("--ground-temperature", help="undisturbed soil temperature (default the air temperature)")
     tank.add_argument("--ground-conductivity", type=float, default=GROUND_CONDUCTIVITY,
                       help=f"soil W/m/K (default {GROUND_CONDUCTIVITY:g})")
+    tank.add_argument("--insulation-conductivity", help="size insulation of this k, e.g. 0.04 (W/m/K), for a limit:")
+    tank.add_argument("--touch-limit", help="hottest jacket (or, on a cold tank, coldest), e.g. 60degC")
+    tank.add_argument("--heat-flux-limit", help="largest heat flow per area, e.g. 50 (W/m2)")
     tank.add_argument("--tag", default="tank", help="label for the output")
     output_options(tank)
     tank.set_defaults(func=_cmd_tank)

@@ -41,19 +41,23 @@ from __future__ import annotations
 
 import dataclasses
 from dataclasses import dataclass
+from typing import NamedTuple
 
 import numpy as np
 
 from .correlations.mixed import combine, default_mixing_exponent
+from .design import COMMERCIAL_THICKNESSES
 from .pipe import Layer, _solve_surface, _stack_flow
 from .properties import fluid_properties
 from .radiation import SKY_VIEW_FRACTION_TYPICAL
 from .regimes import Flag, convection_mode
+from .roots import find_root
 from .surface import GRAVITY, OuterSurface, SurfaceResult
 from .validation import as_array, check_choice
 
 __all__ = ["GROUND_CONDUCTIVITY", "FLOORS", "WIND_DIRECTIONS", "SQUARE_CYLINDER_RE_RANGE", "Face", "FacesResult",
-           "disc_as_plate", "vertical_tank", "spherical_tank", "rectangular_duct", "nusselt_square_cylinder_jakob"]
+           "disc_as_plate", "vertical_tank", "spherical_tank", "rectangular_duct", "FaceThickness",
+           "insulation_per_face", "nusselt_square_cylinder_jakob"]
 
 #: Conductivity of the soil under a tank [W/m/K]: the value EN ISO 13370 (heat transfer via the ground)
 #: takes for clay or silt when the soil is unknown; sand or gravel 2.0, homogeneous rock 3.5 (from memory).
@@ -423,6 +427,89 @@ def spherical_tank(diameter, *, air_temperature, surface_temperature=None, fluid
         ts = inner
     notes = ["legs, nozzles and manways left out"]
     return _total([_face("shell", outer, ts, np.pi * d_out ** 2)], notes)
+
+
+class FaceThickness(NamedTuple):
+    """Insulation of one face that meets a limit: the exact thickness and the next listed one [m]
+    (NaN: not reachable within the largest thickness tried, or no listed thickness large enough)."""
+
+    face: str
+    required: float
+    commercial: float
+
+
+def insulation_per_face(build, *, surface_limit=None, heat_flux_limit=None, max_thickness=0.3,
+                        commercial_thicknesses=COMMERCIAL_THICKNESSES, tolerance=1e-5) -> tuple[FaceThickness, ...]:
+    r"""Smallest insulation on each exposed face of a vessel or duct that meets a limit.
+
+    ``build(thickness)`` returns the :class:`FacesResult` of the vessel with ``thickness`` [m] (an array) of
+    insulation on every exposed face, e.g. ``lambda t: vertical_tank(10, 12, fluid_temperature=..., air_temperature=...,
+    wall_layers=[Layer(t, 0.04)], roof_layers=[Layer(t, 0.04)])``. Each face is sized alone (faces do not
+    exchange heat here); a floor on the ground is not sized.
+
+    Parameters
+    ----------
+    build : callable
+        ``build(thickness) -> FacesResult`` for one vessel (scalar inputs otherwise).
+    surface_limit : numeric, optional
+        Outer surface temperature [K]: at most this on a face that loses heat (touch protection,
+        :data:`convlib.design.TOUCH_LIMIT_METAL_JACKET`), at least this on one that gains heat (above the
+        dew point plus a margin against condensation).
+    heat_flux_limit : numeric, optional
+        Largest heat flow per exposed area [W/m2] (either direction). Give one of the two limits.
+    max_thickness : float
+        Largest thickness tried [m].
+    commercial_thicknesses : sequence of float
+        Listed thicknesses [m]; default :data:`convlib.design.COMMERCIAL_THICKNESSES` (common practice).
+    tolerance : float
+        On the thickness [m].
+
+    Examples
+    --------
+    A 6 m x 8 m tank at 90 degC in still air at 30 degC, k = 0.04, jacket emissivity 0.1: the wall and roof
+    under a 50 W/m2 loss:
+
+    >>> size = insulation_per_face(lambda t: vertical_tank(
+    ...     6.0, 8.0, fluid_temperature=363.15, air_temperature=303.15, floor="none", emissivity=0.1,
+    ...     wall_layers=[Layer(t, 0.04)], roof_layers=[Layer(t, 0.04)]), heat_flux_limit=50.0)
+    >>> [(f.face, round(f.required * 1000, 1), round(f.commercial * 1000)) for f in size]
+    [('wall', 37.1, 40), ('roof', 39.3, 40)]
+    """
+    if (surface_limit is None) == (heat_flux_limit is None):
+        raise ValueError("give surface_limit or heat_flux_limit, one of them")
+    if surface_limit is not None:
+        limit = float(as_array("surface_limit", surface_limit, unit="K", low=0.0, low_inclusive=False))
+    else:
+        limit = float(as_array("heat_flux_limit", heat_flux_limit, unit="W/m2", low=0.0, low_inclusive=False))
+    t_max = float(as_array("max_thickness", max_thickness, unit="m", low=0.0, low_inclusive=False))
+    steps = np.sort(as_array("commercial_thicknesses", commercial_thicknesses, unit="m", low=0.0,
+                             low_inclusive=False).ravel())
+    bare = build(np.zeros(1))
+    names = [f.name for f in bare.faces if f.surface is not None]
+    hot = np.array([float(np.ravel(bare.face(n).q_total)[0]) >= 0.0 for n in names])
+
+    def excess(t, index):
+        """> 0 while face ``index`` (per element) misses the limit at thickness ``t``."""
+        r = build(t)
+        rows = np.arange(t.size)
+        if surface_limit is not None:
+            ts = np.stack([np.broadcast_to(r.face(n).surface_temperature, t.shape) for n in names])[index, rows]
+            return np.where(hot[index], ts - limit, limit - ts)
+        flux = np.stack([np.broadcast_to(r.face(n).q_per_area, t.shape) for n in names])[index, rows]
+        return np.abs(flux) - limit
+
+    index = np.arange(len(names))
+    at_zero, at_max = excess(np.zeros(len(names)), index), excess(np.full(len(names), t_max), index)
+    required = np.where(at_zero <= 0, 0.0, np.nan)
+    todo = (at_zero > 0) & (at_max <= 0)
+    if todo.any():
+        res = find_root(excess, np.zeros(int(todo.sum())), np.full(int(todo.sum()), t_max), args=(index[todo],),
+                        xatol=tolerance, xrtol=0.0)
+        required[todo] = np.where(res.success, res.x, np.nan)
+    position = np.searchsorted(steps, np.where(np.isnan(required), np.inf, required) - 1e-9)
+    commercial = np.where(required == 0, 0.0, np.where(position < steps.size,
+                                                        steps[np.minimum(position, steps.size - 1)], np.nan))
+    return tuple(FaceThickness(n, float(r), float(c)) for n, r, c in zip(names, required, commercial))
 
 
 def _ground_floor(d, floor_temperature, layers, air_temperature, ground_temperature, ground_conductivity,

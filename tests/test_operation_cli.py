@@ -94,6 +94,24 @@ def test_sphere_tank_and_given_coefficient_through_the_command_line():
     assert json.loads(line.stdout)["line"]["results"][0]["q_per_length"] == pytest.approx(q, rel=1e-9)
 
 
+def test_tank_insulation_sized_per_face_through_the_command_line():
+    proc = run("tank", "--diameter", "6m", "--height", "8m", "--fluid-temperature", "200degC", "--air-temperature",
+               "30degC", "--emissivity", "0.1", "--insulation-conductivity", "0.04", "--touch-limit", "60degC",
+               "--json")
+    assert proc.returncode == 0, proc.stderr
+    rows = json.loads(proc.stdout)["insulation per face (sized; the layers given stay outside it)"]["results"]
+    sized = cl.vessels.insulation_per_face(lambda t: cl.vertical_tank(
+        6.0, 8.0, fluid_temperature=473.15, air_temperature=303.15, emissivity=0.1, wall_layers=[Layer(t, 0.04)],
+        roof_layers=[Layer(t, 0.04)]), surface_limit=333.15)
+    assert [r["tag"] for r in rows] == ["wall", "roof"]
+    for row, f in zip(rows, sized):
+        assert row["required_thickness"] == pytest.approx(f.required, rel=1e-9)
+        assert row["commercial_thickness"] == f.commercial
+    bad = run("tank", "--diameter", "6m", "--height", "8m", "--fluid-temperature", "200degC", "--air-temperature",
+              "30degC", "--touch-limit", "60degC")
+    assert bad.returncode == 2 and "--insulation-conductivity" in bad.stderr
+
+
 def test_duct_json_is_the_library_duct():
     proc = run("duct", "--width", "600mm", "--height", "400mm", "--length", "20m", "--fluid-temperature", "13degC",
                "--air-temperature", "32degC", "--layer", "25mm,0.035", "--inner-coefficient", "15", "--json")
