@@ -561,6 +561,8 @@ class VesselView:
     current: float                   # the case's value of the swept input
     notes: tuple[str, ...]
     cautions: tuple[str, ...]
+    sizing_limit: float = float("nan")  # surface limit of the sizing [K]: touch (hot) or dew point + margin (cold)
+    sizing: tuple = ()               # convlib.vessels.FaceThickness per exposed face at that limit, in still air
 
 
 def vessel_defaults(case: CaseSpec) -> dict:
@@ -586,7 +588,7 @@ def vessel_view(case: CaseSpec, inputs: VesselInputs, sweep_input: str = "vessel
     outdoor = case.sky_view_fraction > 0
 
     def run(thickness=i.vessel_insulation, wind=case.wind_speed, air=case.air_temperature):
-        layers = [Layer(thickness, i.vessel_insulation_k)]
+        layers = [Layer(thickness, i.vessel_insulation_k, name="insulation")]
         common = dict(air_temperature=air, fluid_temperature=i.contents_temperature, emissivity=case.emissivity,
                       wind_speed=wind, outdoor=outdoor, pressure=case.pressure, convection_factor=case.convection_factor)
         if i.shape == "vertical_tank":
@@ -607,6 +609,11 @@ def vessel_view(case: CaseSpec, inputs: VesselInputs, sweep_input: str = "vessel
     swept = run(**{key: grid})
     limit = design.TOUCH_LIMIT_METAL_JACKET
     hot = [f for f in base.faces if f.surface is not None and float(f.surface_temperature) > limit]
+    # sized at the case's air in still air (the worst case for both): a hot vessel for the touch limit, a cold
+    # one above the dew point plus a margin
+    sizing_limit = (limit if i.contents_temperature >= case.air_temperature else
+                    _item(dew_point(case.air_temperature, case.relative_humidity, case.pressure))
+                    + design.CONDENSATION_MARGIN)
     cautions = ((design.CAUTION_TOUCH,) if hot else ()) + (
         (design.CAUTION_CONDENSATION,) if i.contents_temperature < case.air_temperature else ())
     return VesselView(
@@ -617,4 +624,5 @@ def vessel_view(case: CaseSpec, inputs: VesselInputs, sweep_input: str = "vessel
         q_total=_item(base.q_total), area=_item(base.area), sweep_input=sweep_input, sweep_values=grid,
         sweep_faces={f.name: np.broadcast_to(np.asarray(f.q_total, float), grid.shape).copy() for f in swept.faces},
         sweep_total=np.broadcast_to(np.asarray(swept.q_total, float), grid.shape).copy(), current=float(current),
-        notes=tuple(base.notes), cautions=cautions)
+        notes=tuple(base.notes), cautions=cautions, sizing_limit=sizing_limit,
+        sizing=vessels.insulation_per_face(lambda t: run(thickness=t, wind=0.0), surface_limit=sizing_limit))

@@ -4,6 +4,7 @@ from __future__ import annotations
 import html
 
 import ipywidgets as widgets
+import numpy as np
 import traitlets
 
 from .. import settings
@@ -142,6 +143,26 @@ class VesselPanel(Panel):
         self.choices["floor"].layout.display = None if self.shape == "vertical_tank" else "none"
         self.choices["wind_direction"].layout.display = None if self.shape == "duct" else "none"
 
+    def _sizing_text(self, v: VesselView) -> str:
+        """One line: the insulation each face needs for the touch limit (hot) or against condensation (cold)."""
+        if not v.sizing:
+            return ""
+        d = self.display
+        hot = v.inputs.contents_temperature >= v.air_temperature
+        limit = d.text(v.sizing_limit, "surface_temperature")
+        what = (f"to keep the jacket at or below {limit} (touch)" if hot else
+                f"to keep the jacket at or above {limit} (dew point + margin)")
+        parts = []
+        for f in v.sizing:
+            if np.isnan(f.required):
+                parts.append(f"{f.face} not reachable")
+            elif np.isnan(f.commercial):
+                parts.append(f"{f.face} {d.text(f.required, 'vessel_insulation')} (beyond the listed thicknesses)")
+            else:
+                parts.append(f"{f.face} {d.text(f.required, 'vessel_insulation')} "
+                             f"(listed {d.text(f.commercial, 'vessel_insulation')})")
+        return f"Insulation of this k {what}, in still air at this air temperature: " + "; ".join(parts)
+
     @traitlets.observe("units")
     def _units_changed(self, change):
         if hasattr(self, "controls"):
@@ -172,6 +193,7 @@ class VesselPanel(Panel):
             f"({d.text(v.wind_speed, 'wind_speed')}), emissivity and sky ({'outdoors' if v.outdoor else 'indoors'}); "
             f"the insulation on every exposed face" + ("; the floor on the ground has none, and the soil is at the "
                                                        "air temperature." if bare_floor else "."))
-        self.notes.value = message_html(v.notes, "info") + message_html(v.cautions, "caution")
+        self.notes.value = message_html([self._sizing_text(v)], "info") + message_html(v.notes, "info") + \
+            message_html(v.cautions, "caution")
         self.show_figure(vessel_figure(v, d))
         self.set_message()

@@ -50,6 +50,21 @@ def test_tank_faces_follow_the_line_and_equal_convlib(panel, study):
         float(f.surface_temperature) > 333.15 for f in r.faces if f.surface is not None)
 
 
+def test_insulation_sized_per_face_in_still_air(panel, study):
+    # convlib.vessels.insulation_per_face at the touch limit (hot contents), the case's air, no wind
+    case = study.case
+    sized = vessels.insulation_per_face(lambda t: vessels.vertical_tank(
+        settings.VESSEL["vessel_diameter"], settings.VESSEL["vessel_height"], fluid_temperature=case.fluid_temperature,
+        wall_layers=[Layer(t, case.insulation_conductivity)], roof_layers=[Layer(t, case.insulation_conductivity)],
+        **{**_common(case), "wind_speed": 0.0}), surface_limit=333.15)
+    d = Display("SI")
+    text = panel.notes.value
+    assert "at or below 60.0 °C (touch), in still air" in text
+    for f in sized:
+        assert f"{f.face} {d.text(f.required, 'vessel_insulation')} (listed {d.text(f.commercial, 'vessel_insulation')})" \
+            in text
+
+
 def test_duct_against_wind_and_user_values_are_kept(app, panel, study):
     case = study.case
     panel.choices["shape"].value = "duct"
