@@ -229,7 +229,8 @@ class App(widgets.VBox):
         wall = compute.pipe_wall_thickness(case.diameter, nps, line.schedule.value)
         self._operation_quiet = True  # the caller recomputes
         try:
-            self.operation.set_case_defaults(compute.design_air_temperature(case), wall)
+            self.operation.set_case_defaults({"design_air_temperature": compute.design_air_temperature(case),
+                                              "pipe_wall_thickness": wall})
         finally:
             self._operation_quiet = False
 

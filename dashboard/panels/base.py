@@ -17,7 +17,7 @@ from .. import settings
 from ..display import Display
 from ..figures import TEMPLATE
 
-__all__ = ["Panel", "sync_figure", "message_html", "figure_widget", "BUNDLE_ENV", "card_html", "card_value_text"]
+__all__ = ["Panel", "InputsPanel", "sync_figure", "message_html", "figure_widget", "BUNDLE_ENV", "card_html", "card_value_text"]
 
 BUNDLE_ENV = settings.BUNDLE_ENV
 
@@ -196,6 +196,45 @@ class Panel(widgets.VBox):
         else:
             sync_figure(self.plot, fig)
         return self.plot
+
+
+class InputsPanel(Panel):
+    """A panel with numeric inputs of its own (``self.controls``: name -> QuantityControl, built by the
+    subclass with :meth:`_control_changed` as their callback), some of whose defaults follow the line
+    (:attr:`FOLLOW_CASE`) until the user sets them."""
+
+    FOLLOW_CASE: tuple[str, ...] = ()
+
+    def __init__(self, **kwargs):
+        self._case_defaults = {}
+        self._follow = dict.fromkeys(self.FOLLOW_CASE, True)
+        super().__init__(**kwargs)
+
+    def reset_inputs(self, defaults: dict) -> None:
+        """Every control back to ``defaults`` (then the line's defaults), following the line again."""
+        self._follow = dict.fromkeys(self.FOLLOW_CASE, True)
+        for name, value in {**defaults, **self._case_defaults}.items():
+            setattr(self, name, value)
+            self.controls[name].set_si(value)
+
+    def set_case_defaults(self, defaults: dict) -> None:
+        """Defaults that follow the line (SI, by input name); a value the user has set is kept."""
+        self._case_defaults = dict(defaults)
+        for name, value in self._case_defaults.items():
+            if self._follow[name] and getattr(self, name) != value:
+                self.controls[name].set_si(value)
+                setattr(self, name, value)
+
+    def _control_changed(self, name, value):
+        if name in self._follow:
+            self._follow[name] = False
+        setattr(self, name, value)
+
+    @traitlets.observe("units")
+    def _units_changed(self, change):
+        if hasattr(self, "controls"):
+            for control in self.controls.values():
+                control.set_system(change["new"])
 
 
 def card_html(title: str, value: str, unit: str = "", sub: str = "") -> str:

@@ -11,7 +11,7 @@ from convlib.operation import CAUTION_FREEZE, CAUTION_TRACING, TRACING_MARGIN
 from .. import settings
 from ..compute import OperationInputs, OperationView
 from ..figures import TEMPLATE, operation_profile_figure, operation_sweep_figure
-from .base import Panel, figure_widget, message_html, sync_figure, card_html, card_value_text
+from .base import InputsPanel, figure_widget, message_html, sync_figure, card_html, card_value_text
 from .controls import DESCRIPTION_STYLE, QuantityControl
 
 __all__ = ["OperationPanel", "NOT_APPLICABLE"]
@@ -39,7 +39,7 @@ def _defaults() -> dict:
             "initial_temperature": o["initial_temperature"], "pipe_wall_thickness": o["pipe_wall_thickness"]}
 
 
-class OperationPanel(Panel):
+class OperationPanel(InputsPanel):
     """The line in operation.
 
     Traits
@@ -71,13 +71,12 @@ class OperationPanel(Panel):
     service = traitlets.Unicode("water")
 
     INPUTS = tuple(name for _, names in _GROUPS for name in names)
+    FOLLOW_CASE = _FOLLOW_CASE
     #: Every setting the app listens to (the numeric inputs, the service and the sweep).
     SETTINGS = (*INPUTS, "service", "sweep_input")
 
     def __init__(self, **kwargs):
         super().__init__(**kwargs)
-        self._case_defaults = {}
-        self._follow = dict.fromkeys(_FOLLOW_CASE, True)
         self.controls = {name: QuantityControl(name, getattr(self, name), self.units, self._control_changed)
                          for name in self.INPUTS}
         self.service_box = widgets.ToggleButtons(options=[(label, key) for key, label in
@@ -122,27 +121,10 @@ class OperationPanel(Panel):
 
     def reset(self):
         super().reset()
-        self._follow = dict.fromkeys(_FOLLOW_CASE, True)
         with self.hold_trait_notifications():
-            for name, value in {**_defaults(), **self._case_defaults}.items():
-                setattr(self, name, value)
-                self.controls[name].set_si(value)
+            self.reset_inputs(_defaults())
             self.sweep_input = "wind_speed"
             self.service = "water"
-
-    def set_case_defaults(self, design_air_temperature: float, pipe_wall_thickness: float) -> None:
-        """Defaults that follow the line (coldest air, pipe wall); a value the user has set is kept."""
-        self._case_defaults = {"design_air_temperature": design_air_temperature,
-                               "pipe_wall_thickness": pipe_wall_thickness}
-        for name, value in self._case_defaults.items():
-            if self._follow[name] and getattr(self, name) != value:
-                self.controls[name].set_si(value)
-                setattr(self, name, value)
-
-    def _control_changed(self, name, value):
-        if name in self._follow:
-            self._follow[name] = False
-        setattr(self, name, value)
 
     # ------------------------------------------------------------------ cards
     def _card(self, key: str, title: str, value: str, unit: str = "", sub: str = "") -> None:
@@ -194,12 +176,6 @@ class OperationPanel(Panel):
             self.sweep_plot_box.children = (self.sweep_plot,)
         else:
             sync_figure(self.sweep_plot, fig)
-
-    @traitlets.observe("units")
-    def _units_changed(self, change):
-        if hasattr(self, "controls"):
-            for control in self.controls.values():
-                control.set_system(change["new"])
 
     @traitlets.observe("view", "units", "applicable")
     def _render(self, change=None):

@@ -10,7 +10,7 @@ import traitlets
 from .. import settings
 from ..compute import VesselInputs, VesselView
 from ..figures import vessel_figure
-from .base import Panel, card_html, card_value_text, message_html
+from .base import InputsPanel, card_html, card_value_text, message_html
 from .controls import DESCRIPTION_STYLE, QuantityControl
 
 __all__ = ["VesselPanel"]
@@ -25,7 +25,7 @@ _FOLLOW_CASE = ("contents_temperature", "vessel_insulation", "vessel_insulation_
 _MAX_FACES = 3
 
 
-class VesselPanel(Panel):
+class VesselPanel(InputsPanel):
     """A vertical tank, a sphere or a rectangular duct beside the line, at the line's air, wind and emissivity.
 
     Traits
@@ -55,11 +55,10 @@ class VesselPanel(Panel):
 
     #: Every setting the app listens to.
     SETTINGS = ("shape", "floor", "wind_direction", "sweep_input", *_NUMERIC)
+    FOLLOW_CASE = _FOLLOW_CASE
 
     def __init__(self, **kwargs):
         super().__init__(**kwargs)
-        self._case_defaults = {}
-        self._follow = dict.fromkeys(_FOLLOW_CASE, True)
         self.controls = {name: QuantityControl(name, getattr(self, name), self.units, self._control_changed)
                          for name in _NUMERIC}
         self.choices = {}
@@ -104,32 +103,15 @@ class VesselPanel(Panel):
 
     def reset(self):
         super().reset()
-        self._follow = dict.fromkeys(_FOLLOW_CASE, True)
-        defaults = {name: settings.VESSEL[name] for name in _NUMERIC if name in settings.VESSEL}
         with self.hold_trait_notifications():
-            for name, value in {**defaults, **self._case_defaults}.items():
-                setattr(self, name, value)
-                self.controls[name].set_si(value)
+            self.reset_inputs({name: settings.VESSEL[name] for name in _NUMERIC if name in settings.VESSEL})
             for name in ("shape", "floor", "wind_direction"):
                 setattr(self, name, settings.VESSEL[name])
             self.sweep_input = "vessel_insulation"
 
-    def set_case_defaults(self, defaults: dict) -> None:
-        """Contents temperature and insulation that follow the line; a value the user has set is kept."""
-        self._case_defaults = dict(defaults)
-        for name, value in self._case_defaults.items():
-            if self._follow[name] and getattr(self, name) != value:
-                self.controls[name].set_si(value)
-                setattr(self, name, value)
-
     def card_text(self, index: int) -> str:
         """Plain text of a card's value and unit (0: the total, then the faces in order)."""
         return card_value_text(self.cards[index].value)
-
-    def _control_changed(self, name, value):
-        if name in self._follow:
-            self._follow[name] = False
-        setattr(self, name, value)
 
     @traitlets.observe("shape")
     def _shape_changed(self, change):
@@ -162,12 +144,6 @@ class VesselPanel(Panel):
                 parts.append(f"{f.face} {d.text(f.required, 'vessel_insulation')} "
                              f"(listed {d.text(f.commercial, 'vessel_insulation')})")
         return f"Insulation of this k {what}, in still air at this air temperature: " + "; ".join(parts)
-
-    @traitlets.observe("units")
-    def _units_changed(self, change):
-        if hasattr(self, "controls"):
-            for control in self.controls.values():
-                control.set_system(change["new"])
 
     # ------------------------------------------------------------------ rendering
     @traitlets.observe("view", "units")
