@@ -593,7 +593,7 @@ def vessel_view(case: CaseSpec, inputs: VesselInputs, sweep_input: str = "vessel
                       wind_speed=wind, outdoor=outdoor, pressure=case.pressure, convection_factor=case.convection_factor)
         if i.shape == "vertical_tank":
             return vessels.vertical_tank(i.vessel_diameter, i.vessel_height, wall_layers=layers, roof_layers=layers,
-                                         floor=i.floor, **common)
+                                         floor=i.floor, floor_layers=layers if i.floor == "open" else [], **common)
         if i.shape == "sphere":
             return vessels.spherical_tank(i.vessel_diameter, layers=layers, **common)
         return vessels.rectangular_duct(i.duct_width, i.duct_height, i.duct_length, layers=layers,

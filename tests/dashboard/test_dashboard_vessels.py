@@ -91,6 +91,17 @@ def test_duct_against_wind_and_user_values_are_kept(app, panel, study):
     assert panel.contents_temperature == pytest.approx(303.15)
 
 
+def test_open_floor_is_insulated_like_the_other_exposed_faces(panel, study):
+    case = study.case
+    panel.choices["floor"].value = "open"
+    layers = [Layer(case.insulation_thickness, case.insulation_conductivity)]
+    r = vessels.vertical_tank(settings.VESSEL["vessel_diameter"], settings.VESSEL["vessel_height"],
+                              fluid_temperature=case.fluid_temperature, wall_layers=layers, roof_layers=layers,
+                              floor="open", floor_layers=layers, **_common(case))
+    assert panel.card_text(3) == Display("SI").text(float(r.face("floor").q_total), "face_loss")
+    assert [f.face for f in panel.view.sizing] == ["wall", "roof", "floor"]
+
+
 def test_sphere_shows_one_face_and_converts_units(app, panel, study):
     panel.choices["shape"].value = "sphere"
     assert panel.cards[1].layout.display is None and panel.cards[2].layout.display == "none"
