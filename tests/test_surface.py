@@ -302,3 +302,16 @@ def test_given_convection_coefficient_replaces_the_correlations(wind):
                     strict=True)
     with pytest.raises(ValueError, match="convection_coefficient"):
         cl.bare_surface(surface_temperature=320.0, air_temperature=290.0, diameter=0.2, convection_coefficient=-1.0)
+
+
+def test_textbook_plate_in_different_orientations():
+    # Cengel, Heat and Mass Transfer, ch. 9 example "Cooling of a plate in different orientations" (from memory):
+    # a 0.6 m x 0.6 m plate at 90 C, one side insulated, air at 30 C, convection only: vertical 115 W (Churchill-Chu),
+    # horizontal hot face down 64 W (0.27 Ra^(1/4), L = A/P). The book's air properties at 60 C differ from
+    # CoolProp's by about 1 %: tolerance 3 %. (The faces of ducts and the floors of tanks on legs are these plates.)
+    kw = dict(surface_temperature=363.15, air_temperature=303.15, emissivity=0.0, length=0.6, width=0.6)
+    vertical = cl.bare_surface("vertical_plate", height=0.6, width=0.6, surface_temperature=363.15,
+                               air_temperature=303.15, emissivity=0.0)
+    down = cl.bare_surface("horizontal_plate_down", **kw)
+    assert float(vertical.q_total) == pytest.approx(115.0, rel=0.03)
+    assert float(down.q_total) == pytest.approx(64.0, rel=0.03)
