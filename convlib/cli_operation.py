@@ -87,14 +87,7 @@ def _cmd_tank(args) -> int:
     def layers(texts):
         return [parse_layer(t, i + 1) for i, t in enumerate(texts or [])]
 
-    if (args.surface_temperature is None) == (args.fluid_temperature is None):
-        raise ValueError("give --surface-temperature (a bare tank) or --fluid-temperature (with layers), not both")
-    temperature = {"surface_temperature" if args.surface_temperature else "fluid_temperature":
-                   parse(args.surface_temperature or args.fluid_temperature, "temperature",
-                         "surface-temperature" if args.surface_temperature else "fluid-temperature")}
-    common = dict(air_temperature=parse(args.air_temperature, "temperature", "air-temperature"),
-                  emissivity=args.emissivity, wind_speed=parse(args.wind_speed, "speed", "wind-speed"),
-                  outdoor=args.outdoor, **temperature, **_coefficients(args))
+    common = _exposure(args, "tank")
     diameter = parse(args.diameter, "length", "diameter")
     if args.shape == "sphere":
         if args.height is not None or args.roof_layer or args.floor_layer:
@@ -146,26 +139,40 @@ def _sizing(args, build) -> list[dict]:
 
 
 def _cmd_duct(args) -> int:
-    if (args.surface_temperature is None) == (args.fluid_temperature is None):
-        raise ValueError("give --surface-temperature (a bare duct) or --fluid-temperature (with layers), not both")
-    temperature = ({"surface_temperature": parse(args.surface_temperature, "temperature", "surface-temperature")}
-                   if args.surface_temperature else
-                   {"fluid_temperature": parse(args.fluid_temperature, "temperature", "fluid-temperature")})
-    air = parse(args.air_temperature, "temperature", "air-temperature")
+    common = _exposure(args, "duct")
     r = rectangular_duct(parse(args.width, "length", "width"), parse(args.height, "length", "height"),
-                         parse(args.length, "length", "length"), air_temperature=air,
+                         parse(args.length, "length", "length"),
                          layers=[parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])],
-                         wind_speed=parse(args.wind_speed, "speed", "wind-speed"), wind_direction=args.wind_direction,
-                         emissivity=args.emissivity, outdoor=args.outdoor, **_coefficients(args), **temperature)
-    _emit_faces(args, "duct faces", r, air)
+                         wind_direction=args.wind_direction, **common)
+    _emit_faces(args, "duct faces", r, common["air_temperature"])
     return 0
 
 
-def _coefficients(args) -> dict:
-    """The optional inside film and given outer convective coefficient of a tank or duct [W/m2/K]."""
-    return {name: None if getattr(args, name) is None else parse(getattr(args, name), "coefficient",
-                                                                 name.replace("_", "-"))
-            for name in ("inner_coefficient", "convection_coefficient")}
+def _exposure(args, what: str) -> dict:
+    """The inputs a tank and a duct share (options of :func:`_exposure_options`), SI, as keyword arguments."""
+    if (args.surface_temperature is None) == (args.fluid_temperature is None):
+        raise ValueError(f"give --surface-temperature (a bare {what}) or --fluid-temperature (with layers), not both")
+    known = "surface_temperature" if args.surface_temperature else "fluid_temperature"
+    out = {known: parse(getattr(args, known), "temperature", known.replace("_", "-")),
+           "air_temperature": parse(args.air_temperature, "temperature", "air-temperature"),
+           "wind_speed": parse(args.wind_speed, "speed", "wind-speed"), "emissivity": args.emissivity,
+           "outdoor": args.outdoor}
+    for name in ("inner_coefficient", "convection_coefficient"):  # [W/m2/K], optional
+        value = getattr(args, name)
+        out[name] = None if value is None else parse(value, "coefficient", name.replace("_", "-"))
+    return out
+
+
+def _exposure_options(p, what: str, contents: str, sky: str) -> None:
+    """Options of the contents, air, wind, emissivity, sky and coefficients shared by ``tank`` and ``duct``."""
+    p.add_argument("--surface-temperature", help=f"known temperature of every face (a bare {what}), e.g. 60degC")
+    p.add_argument("--fluid-temperature", help=f"temperature of the {contents} (with layers), e.g. 80degC")
+    p.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. 10degC")
+    p.add_argument("--wind-speed", default="0", help="wind speed (default 0: still air)")
+    p.add_argument("--emissivity", type=float, default=0.9, help="emissivity of the outer surfaces")
+    p.add_argument("--outdoor", action="store_true", help=f"faces see the sky ({sky})")
+    p.add_argument("--inner-coefficient", help="film coefficient inside, every face, e.g. 200 (W/m2/K)")
+    p.add_argument("--convection-coefficient", help=GIVEN_COEFFICIENT_HELP)
 
 
 def _emit_faces(args, title, r, air_temperature, sizing=()) -> None:
@@ -237,14 +244,7 @@ def add_commands(sub) -> None:
     tank.add_argument("--height", help="wall height of a vertical tank, e.g. 12m")
     tank.add_argument("--wall-thickness", help="sphere: shell wall, e.g. 20mm (with --wall-conductivity)")
     tank.add_argument("--wall-conductivity", help="sphere: shell wall conductivity, e.g. 45 (W/m/K)")
-    tank.add_argument("--inner-coefficient", help="film coefficient inside, every face, e.g. 200 (W/m2/K)")
-    tank.add_argument("--convection-coefficient", help=GIVEN_COEFFICIENT_HELP)
-    tank.add_argument("--surface-temperature", help="known temperature of every face (a bare tank), e.g. 60degC")
-    tank.add_argument("--fluid-temperature", help="temperature of the contents (with layers), e.g. 80degC")
-    tank.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. 10degC")
-    tank.add_argument("--wind-speed", default="0", help="wind speed (default 0: still air)")
-    tank.add_argument("--emissivity", type=float, default=0.9, help="emissivity of the outer surfaces")
-    tank.add_argument("--outdoor", action="store_true", help="faces see the sky (wall 0.5, roof 1)")
+    _exposure_options(tank, "tank", "contents", "wall 0.5, roof 1")
     for face in ("wall", "roof", "floor"):
         tank.add_argument(f"--{face}-layer", action="append", help=f"{face} layer THICKNESS,CONDUCTIVITY[,NAME]")
     tank.add_argument("--floor", choices=FLOORS, default="ground", help="on the ground (default), open underneath, "
@@ -263,17 +263,10 @@ def add_commands(sub) -> None:
     duct.add_argument("--width", required=True, help="duct width (sheet metal; layers add outside), e.g. 600mm")
     duct.add_argument("--height", required=True, help="duct height, e.g. 400mm")
     duct.add_argument("--length", required=True, help="duct run, e.g. 20m")
-    duct.add_argument("--surface-temperature", help="known temperature of every face (a bare duct), e.g. 40degC")
-    duct.add_argument("--fluid-temperature", help="temperature of the air inside (with layers), e.g. 14degC")
-    duct.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. 30degC")
+    _exposure_options(duct, "duct", "air inside", "sides 0.5, top 1")
     duct.add_argument("--layer", action="append", help="layer of every face, THICKNESS,CONDUCTIVITY[,NAME]")
-    duct.add_argument("--inner-coefficient", help="film coefficient inside, e.g. 15 (W/m2/K)")
-    duct.add_argument("--wind-speed", default="0", help="wind speed (default 0: still air)")
     duct.add_argument("--wind-direction", choices=WIND_DIRECTIONS, default="along",
                       help="wind along the duct (plate laws, default) or across it (square-section law)")
-    duct.add_argument("--emissivity", type=float, default=0.9, help="emissivity of the outer surfaces")
-    duct.add_argument("--outdoor", action="store_true", help="faces see the sky (sides 0.5, top 1)")
-    duct.add_argument("--convection-coefficient", help=GIVEN_COEFFICIENT_HELP)
     duct.add_argument("--tag", default="duct", help="label for the output")
     output_options(duct)
     duct.set_defaults(func=_cmd_duct)
