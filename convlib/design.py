@@ -25,7 +25,7 @@ from .validation import as_array
 __all__ = [
     "COMMERCIAL_THICKNESSES", "TOUCH_LIMIT_METAL_JACKET", "TOUCH_LIMIT_NONMETAL_JACKET", "CONDENSATION_MARGIN",
     "CAUTION_TOUCH", "CAUTION_CONDENSATION", "FITTING_EQUIVALENT_LENGTH",
-    "ThicknessResult", "thickness_for_surface_temperature", "thickness_for_heat_loss",
+    "ThicknessResult", "listed_thickness", "thickness_for_surface_temperature", "thickness_for_heat_loss",
     "thickness_against_condensation", "critical_thickness", "WeatherBins", "AnnualEnergy", "annual_energy",
     "equivalent_length",
 ]
@@ -104,14 +104,29 @@ def _evaluate(thickness, point, insulation_conductivity, outer_layers, options):
                           **options)
 
 
+def listed_thickness(required, commercial_thicknesses=COMMERCIAL_THICKNESSES):
+    """The listed thickness at or above each ``required`` one [m]; 0 stays 0, NaN where none is large enough
+    (or ``required`` is NaN).
+
+    >>> listed_thickness([0.0, 0.0301, 0.05, 0.25]).tolist()
+    [0.0, 0.04, 0.05, nan]
+    """
+    steps = np.sort(as_array("commercial_thicknesses", commercial_thicknesses, unit="m", low=0.0,
+                             low_inclusive=False).ravel())
+    required = np.asarray(required, dtype=float)
+    index = np.searchsorted(steps, np.where(np.isnan(required), np.inf, required) - 1e-9)
+    return np.where(required == 0, 0.0, np.where(index < steps.size, steps[np.minimum(index, steps.size - 1)],
+                                                 np.nan))
+
+
 def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, outer_layers, max_thickness,
           commercial_thicknesses, options, cautions, shape, low_thickness=None):
     """Thickness where sign * (metric - limit) turns <= 0, per point."""
     point = tuple(pipe[k] for k in _PIPE_KEYS)
     limit = pipe["limit"]
     t_max = float(as_array("max_thickness", max_thickness, unit="m", low=0.0, low_inclusive=False))
-    steps = np.sort(as_array("commercial_thicknesses", commercial_thicknesses, unit="m", low=0.0,
-                             low_inclusive=False).ravel())
+    largest = float(np.max(as_array("commercial_thicknesses", commercial_thicknesses, unit="m", low=0.0,
+                                    low_inclusive=False)))  # checked before the search
 
     def excess(t, lim, *pt):
         return sign * (metric(_evaluate(t, pt, insulation_conductivity, outer_layers, options)) - lim)
@@ -131,9 +146,7 @@ def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, out
         res = find_root(excess, t_low[todo], np.full(int(todo.sum()), t_max),
                         args=(limit[todo], *(a[todo] for a in point)), xatol=1e-6, xrtol=0.0)
         required[todo] = res.x
-    index = np.searchsorted(steps, np.where(np.isnan(required), np.inf, required) - 1e-9)
-    commercial = np.where(required == 0, 0.0, np.where(index < steps.size,
-                                                                steps[np.minimum(index, steps.size - 1)], np.nan))
+    commercial = listed_thickness(required, commercial_thicknesses)
     at_commercial = np.full_like(limit, np.nan)
     has = ~np.isnan(commercial)
     if has.any():
@@ -146,7 +159,7 @@ def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, out
     beyond = achievable & ~has
     if beyond.any():
         messages.append(f"{int(beyond.sum())} case(s) need more than the largest listed thickness "
-                        f"({steps[-1] * 1000:g} mm)")
+                        f"({largest * 1000:g} mm)")
     return ThicknessResult(
         required_thickness=required.reshape(shape), commercial_thickness=commercial.reshape(shape),
         achievable=achievable.reshape(shape), value_at_commercial=at_commercial.reshape(shape),

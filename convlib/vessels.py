@@ -46,7 +46,7 @@ from typing import NamedTuple
 import numpy as np
 
 from .correlations.mixed import combine, default_mixing_exponent
-from .design import COMMERCIAL_THICKNESSES
+from .design import COMMERCIAL_THICKNESSES, listed_thickness
 from .pipe import Layer, _solve_surface, _stack_flow
 from .properties import fluid_properties
 from .radiation import SKY_VIEW_FRACTION_TYPICAL
@@ -195,6 +195,13 @@ def _solve_face(outer, fluid_temperature, layers, kind, inner_diameter, toleranc
     return ts, outer_diameter
 
 
+def _film(inner_coefficient):
+    """Resistance of the inside film per m2 of inner surface [m2 K/W]: 1/h_i, 0 without one."""
+    if inner_coefficient is None:
+        return np.zeros(())
+    return 1.0 / as_array("inner_coefficient", inner_coefficient, unit="W/m2/K", low=0.0, low_inclusive=False)
+
+
 def _known_temperature(surface_temperature, fluid_temperature, what, **inside):
     """The temperature given inside [K]: a bare ``what``'s surface or its contents, exactly one of them.
 
@@ -302,8 +309,7 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
             raise ValueError("inner_coefficient needs fluid_temperature: with surface_temperature the shell is bare")
     else:
         inner = as_array("fluid_temperature", fluid_temperature, unit="K", low=0.0, low_inclusive=False)
-    film = np.zeros(()) if inner_coefficient is None else 1.0 / as_array(
-        "inner_coefficient", inner_coefficient, unit="W/m2/K", low=0.0, low_inclusive=False)  # [m2 K/W]
+    film = _film(inner_coefficient)
     wall_layers, roof_layers, floor_layers = list(wall_layers), list(roof_layers), list(floor_layers)
     if floor == "none" and floor_layers:
         raise ValueError("floor_layers need floor='ground' or 'open'; the floor is left out")
@@ -410,9 +416,7 @@ def spherical_tank(diameter, *, air_temperature, surface_temperature=None, fluid
         k_wall = as_array("wall_conductivity", wall_conductivity, unit="W/m/K", low=0.0, low_inclusive=False)
         d_inner = d - 2.0 * t
         fixed = fixed + _shell_drop("sphere", 0.5 * d_inner, 0.5 * d) / k_wall
-    if inner_coefficient is not None:
-        h_in = as_array("inner_coefficient", inner_coefficient, unit="W/m2/K", low=0.0, low_inclusive=False)
-        fixed = fixed + 1.0 / (h_in * np.pi * d_inner ** 2)
+    fixed = fixed + _film(inner_coefficient) / (np.pi * d_inner ** 2)
     inner = _known_temperature(surface_temperature, fluid_temperature, "shell", layers=layers,
                                wall_thickness=wall_thickness, inner_coefficient=inner_coefficient)
     _, d_out = _layer_drops(layers, "sphere", d)
@@ -482,8 +486,6 @@ def insulation_per_face(build, *, surface_limit=None, heat_flux_limit=None, max_
     else:
         limit = float(as_array("heat_flux_limit", heat_flux_limit, unit="W/m2", low=0.0, low_inclusive=False))
     t_max = float(as_array("max_thickness", max_thickness, unit="m", low=0.0, low_inclusive=False))
-    steps = np.sort(as_array("commercial_thicknesses", commercial_thicknesses, unit="m", low=0.0,
-                             low_inclusive=False).ravel())
     bare = build(np.zeros(1))
     names = [f.name for f in bare.faces if f.surface is not None]
     hot = np.array([float(np.ravel(bare.face(n).q_total)[0]) >= 0.0 for n in names])
@@ -506,9 +508,7 @@ def insulation_per_face(build, *, surface_limit=None, heat_flux_limit=None, max_
         res = find_root(excess, np.zeros(int(todo.sum())), np.full(int(todo.sum()), t_max), args=(index[todo],),
                         xatol=tolerance, xrtol=0.0)
         required[todo] = np.where(res.success, res.x, np.nan)
-    position = np.searchsorted(steps, np.where(np.isnan(required), np.inf, required) - 1e-9)
-    commercial = np.where(required == 0, 0.0, np.where(position < steps.size,
-                                                        steps[np.minimum(position, steps.size - 1)], np.nan))
+    commercial = listed_thickness(required, commercial_thicknesses)
     return tuple(FaceThickness(n, float(r), float(c)) for n, r, c in zip(names, required, commercial))
 
 
@@ -625,9 +625,7 @@ def rectangular_duct(width, height, length, *, air_temperature, surface_temperat
     h = as_array("height", height, unit="m", low=0.0, low_inclusive=False)
     run = as_array("length", length, unit="m", low=0.0, low_inclusive=False)
     layers = list(layers)
-    fixed = np.zeros(())
-    if inner_coefficient is not None:
-        fixed = 1.0 / as_array("inner_coefficient", inner_coefficient, unit="W/m2/K", low=0.0, low_inclusive=False)
+    fixed = _film(inner_coefficient)
     inner = _known_temperature(surface_temperature, fluid_temperature, "duct", layers=layers,
                                inner_coefficient=inner_coefficient)
     _layer_drops(layers, "flat", w)  # checks the layers
