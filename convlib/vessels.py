@@ -490,9 +490,9 @@ def insulation_per_face(build, *, surface_limit=None, heat_flux_limit=None, max_
     names = [f.name for f in bare.faces if f.surface is not None]
     hot = np.array([float(np.ravel(bare.face(n).q_total)[0]) >= 0.0 for n in names])
 
-    def excess(t, index):
-        """> 0 while face ``index`` (per element) misses the limit at thickness ``t``."""
-        r = build(t)
+    def excess(t, index, result=None):
+        """> 0 while face ``index`` (per element) misses the limit at thickness ``t`` (``result``: built already)."""
+        r = build(t) if result is None else result
         rows = np.arange(t.size)
         if surface_limit is not None:
             ts = np.stack([np.broadcast_to(r.face(n).surface_temperature, t.shape) for n in names])[index, rows]
@@ -501,7 +501,8 @@ def insulation_per_face(build, *, surface_limit=None, heat_flux_limit=None, max_
         return np.abs(flux) - limit
 
     index = np.arange(len(names))
-    at_zero, at_max = excess(np.zeros(len(names)), index), excess(np.full(len(names), t_max), index)
+    at_zero = excess(np.zeros(len(names)), index, bare)  # the bare faces, evaluated once
+    at_max = excess(np.full(len(names), t_max), index)
     required = np.where(at_zero <= 0, 0.0, np.nan)
     todo = (at_zero > 0) & (at_max <= 0)
     if todo.any():
