@@ -54,10 +54,12 @@ class VoilaServer:
         Preheated kernels (shared mode only).
     snapshot_dir : path-like, optional
         Snapshot directory of the kernels (default: a fresh temporary directory).
+    extra_args : sequence of str
+        More options of ``python -m dashboard.serve`` (grace times, caps, culling).
     """
 
     def __init__(self, token: str | None = None, pool_size: int = 0, snapshot_dir=None, timeout: float = 120.0,
-                 log_path=None):
+                 log_path=None, extra_args=()):
         self.token = token
         self.pool_size = pool_size
         self.port = free_port()
@@ -69,6 +71,7 @@ class VoilaServer:
         self.timeout = timeout
         self.log_path = Path(log_path or tempfile.mktemp(prefix="convlib-voila-", suffix=".log"))
         self.process: subprocess.Popen | None = None
+        self.extra_args = [str(a) for a in extra_args]
 
     @property
     def base_url(self) -> str:
@@ -89,6 +92,7 @@ class VoilaServer:
         else:
             cmd += ["--pool-size", str(self.pool_size)]
             env["VOILA_TOKEN"] = self.token
+        cmd += self.extra_args  # later options win (e.g. --cull-idle-timeout)
         self._log = open(self.log_path, "wb")
         self.process = subprocess.Popen(cmd, stdout=self._log, stderr=subprocess.STDOUT, env=env,
                                         start_new_session=True, cwd=str(Path(__file__).resolve().parents[1]))

@@ -293,6 +293,20 @@ class ServeDefaults:
     max_kernels: int = 20
     cull_idle_timeout: int = 1800
     cull_interval: int = 300
+    #: a kernel lives this long after its page's last websocket closed (a reload reconnects within it) [s]
+    disconnect_grace: float = 15.0
+    #: a session kernel whose page never connected is ended after this long [s]
+    connect_grace: float = 120.0
+    #: how often kernels without a page are looked for [s]
+    sweep_interval: float = 5.0
+    #: largest websocket message or request body a browser may send [bytes]
+    max_message_bytes: int = 4 * 2**20
+    #: per client address: TCP connections, kernel websockets and session kernels at once
+    max_connections_per_client: int = 128
+    max_sockets_per_client: int = 16
+    max_kernels_per_client: int = 6
+    #: an idle keep-alive TCP connection is closed after this long [s]
+    idle_connection_timeout: float = 60.0
 
 
 SERVE = ServeDefaults()

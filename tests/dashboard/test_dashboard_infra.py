@@ -13,7 +13,7 @@ from convlib.units import from_si
 
 from convlib.study import run_study
 
-from dashboard import compute, figures, serve, settings, storage
+from dashboard import compute, figures, serve, server, settings, storage
 from dashboard.display import Display, format_number
 from dashboard.panels.base import sync_figure
 from dashboard.runner import Runner
@@ -68,7 +68,8 @@ def test_shared_server_command():
                  "--MappingKernelManager.cull_idle_timeout=900", "--MappingKernelManager.cull_interval=60",
                  "--MappingKernelManager.cull_connected=True", "--CappedKernelManager.max_kernels=7",
                  "--Voila.auto_token=True", "--port=8123", "--Voila.ip=0.0.0.0",
-                 "multi_kernel_manager_class=dashboard.serve.CappedKernelManager",
+                 "multi_kernel_manager_class=dashboard.server.CappedKernelManager", "-m dashboard.server",
+                 "--template=convlib",
                  "--VoilaConfiguration.extra_labextensions_path="):
         assert flag in text
     assert "token=" not in text.replace("auto_token", "")  # the token never appears on the command line
@@ -106,11 +107,13 @@ def test_kernel_cap_and_secrets(monkeypatch):
         started.update(kwargs)
         return "kernel-id"
 
-    monkeypatch.setattr(serve.AsyncMappingKernelManager, "start_kernel", fake_start)
+    monkeypatch.setattr(server.AsyncMappingKernelManager, "start_kernel", fake_start)
     monkeypatch.setattr(manager, "list_kernel_ids", lambda: ["a"])
-    env = {"JUPYTER_TOKEN": "secret", "VOILA_TOKEN": "secret", "PATH": os.environ.get("PATH", "")}
+    env = {"JUPYTER_TOKEN": "secret", "VOILA_TOKEN": "secret", "PATH": os.environ.get("PATH", ""),
+           "QUERY_STRING": "token=secret&units=US", "VOILA_REQUEST_URL": "http://h:1/?token=secret"}
     assert asyncio.run(manager.start_kernel(env=env)) == "kernel-id"
     assert "JUPYTER_TOKEN" not in started["env"] and "VOILA_TOKEN" not in started["env"]
+    assert "secret" not in started["env"]["QUERY_STRING"] + started["env"]["VOILA_REQUEST_URL"]
     monkeypatch.setattr(manager, "list_kernel_ids", lambda: ["a", "b"])
     with pytest.raises(Exception, match="already serves 2"):
         asyncio.run(manager.start_kernel())
