@@ -7,8 +7,9 @@ The public surface (names are stable; see DEVELOPERS.md):
 >>> round(float(r.q_per_length))
 245
 """
-__version__ = "0.2.0"
+__version__ = "0.2.0"  # the one place of the version: pyproject.toml reads it (tool.setuptools.dynamic)
 
+from .errors import InputError  # noqa: E402
 from . import correlations, geometry, radiation, regimes  # noqa: E402
 from .correlations import catalog, nusselt
 from .properties import FluidProperties, air, dew_point, fluid_properties
@@ -25,7 +26,7 @@ from .vessels import rectangular_duct, spherical_tank, vertical_tank
 
 __all__ = [
     "air", "fluid_properties", "FluidProperties", "dew_point", "nusselt", "catalog", "correlations",
-    "bare_surface", "SurfaceResult", "geometry", "radiation", "regimes", "__version__",
+    "bare_surface", "SurfaceResult", "geometry", "radiation", "regimes", "__version__", "InputError",
     "insulated_pipe", "Layer", "PipeResult", "Conductivity", "nominal_pipe",
     "StudySpec", "CaseSpec", "StudyResult", "run_study", "snapshot",
     "run_line_list", "read_line_list", "write_results_csv", "LineListResult",

@@ -39,6 +39,7 @@ from .cli_common import (conditions, display_unit, emit, from_si, output_options
 from .cli_operation import add_commands as add_operation_commands
 from .correlations import catalog
 from .demo import load_demo_site, operation_rows
+from .errors import InputError
 from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, WeatherBins, annual_energy, thickness_against_condensation,
                      thickness_for_heat_loss, thickness_for_surface_temperature)
 from .geometry import SHAPES
@@ -60,7 +61,8 @@ def _cmd_surface(args) -> int:
             kwargs[name] = getattr(args, name)
     for required in ("surface_temperature", "air_temperature"):
         if required not in kwargs:
-            raise ValueError(f"--{required.replace('_', '-')} is required")
+            raise InputError(f"--{required.replace('_', '-')} is required", field=f"--{required.replace('_', '-')}",
+                             rule="given", value=None)
     if args.shape in ("horizontal_cylinder", "vertical_cylinder") and "length" not in kwargs:
         kwargs["length"] = 1.0
     rows = [surface_row(args.tag, bare_surface(args.shape, natural=args.natural, forced=args.forced, **kwargs))]
@@ -97,7 +99,9 @@ def _cmd_size(args) -> int:
     cond = conditions(args)
     chosen = [name for name in ("touch_limit", "heat_loss_limit", "relative_humidity") if getattr(args, name)]
     if len(chosen) != 1:
-        raise ValueError("give exactly one limit: --touch-limit, --heat-loss-limit or --relative-humidity")
+        raise InputError("give exactly one limit: --touch-limit, --heat-loss-limit or --relative-humidity",
+                         field="--touch-limit, --heat-loss-limit, --relative-humidity", rule="exactly one of them",
+                         value=chosen)
     if args.touch_limit:
         res = thickness_for_surface_temperature(d, tf, insulation_conductivity=k, outer_layers=outer,
                                                 surface_limit=parse(args.touch_limit, "temperature", "touch-limit"),
@@ -212,17 +216,20 @@ def _load_spec(args):
     from .study import StudySpec, load_demo_study
 
     if args.demo == bool(args.study):
-        raise ValueError("give a study file or --demo (the invented demo study), not both")
+        raise InputError("give a study file or --demo (the invented demo study), not both", field="study, --demo",
+                         rule="exactly one of them", value=(args.study, args.demo))
     if args.demo:
         return load_demo_study()
     try:
         text = open(args.study, encoding="utf-8").read()
     except OSError as exc:
-        raise ValueError(f"cannot read study file {args.study}: {exc.strerror}") from None
+        raise InputError(f"cannot read study file {args.study}: {exc.strerror}", field="study",
+                         rule="a readable file", value=args.study) from None
     try:
         return StudySpec.model_validate_json(text)
     except ValueError as exc:
-        raise ValueError(f"study file {args.study}: {_pydantic_text(exc)}") from None
+        raise InputError(f"study file {args.study}: {_pydantic_text(exc)}", field="study", rule="a valid study",
+                         value=args.study) from None
 
 
 def _pydantic_text(exc) -> str:
@@ -316,10 +323,12 @@ def _weather_bins(args):
         try:
             data = json.loads(open(args.bins, encoding="utf-8").read())
         except (OSError, json.JSONDecodeError) as exc:
-            raise ValueError(f"cannot read weather bins {args.bins}: {exc}") from None
+            raise InputError(f"cannot read weather bins {args.bins}: {exc}", field="--bins",
+                             rule="a readable JSON file", value=args.bins) from None
         missing = {"air_temperature", "hours"} - set(data)
         if missing:
-            raise ValueError(f"weather bins {args.bins}: missing {', '.join(sorted(missing))}")
+            raise InputError(f"weather bins {args.bins}: missing {', '.join(sorted(missing))}", field="--bins",
+                             rule="air_temperature and hours given", value=sorted(missing))
         air = [parse(v, "temperature", "bins air_temperature") for v in data["air_temperature"]]
         wind = [parse(v, "speed", "bins wind_speed") for v in data.get("wind_speed", [0.0] * len(air))]
         return WeatherBins(air, wind, data["hours"])
@@ -338,7 +347,8 @@ def _cmd_lines(args) -> int:
     from .linelist import demo_lines_path, run_line_list, write_results_csv
 
     if args.demo == bool(args.input):
-        raise ValueError("give a line-list CSV file or --demo (the invented Fernhill line list), not both")
+        raise InputError("give a line-list CSV file or --demo (the invented Fernhill line list), not both",
+                         field="input, --demo", rule="exactly one of them", value=(args.input, args.demo))
     source = demo_lines_path() if args.demo else args.input
     energy = load_demo_site()["energy"] if args.demo else {}
     price = args.energy_price if args.energy_price is not None else energy.get("price_per_kwh", 0.0)
@@ -349,7 +359,8 @@ def _cmd_lines(args) -> int:
         result = run_line_list(source, _weather_bins(args), energy_price=price, heating_efficiency=efficiency,
                                cooling_cop=cop, co2_per_kwh=co2, progress=_progress_bar)
     except OSError as exc:
-        raise ValueError(f"cannot read line list {args.input}: {exc.strerror}") from None
+        raise InputError(f"cannot read line list {args.input}: {exc.strerror}", field="input",
+                         rule="a readable file", value=args.input) from None
     if args.output:
         write_results_csv(result, args.output)
     for e in result.errors:

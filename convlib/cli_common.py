@@ -10,6 +10,7 @@ import sys
 
 from . import __version__
 from .design import TOUCH_LIMIT_METAL_JACKET
+from .errors import InputError
 from .pipe import Layer
 from .pipe_sizes import SCHEDULES, nominal_pipe
 from .units import KIND_SI_UNIT, display_unit, from_si, parse
@@ -126,7 +127,8 @@ def emit(args, sections: list[tuple[str, list[dict]]], cautions: list[str], extr
 def parse_layer(text: str, index: int) -> Layer:
     parts = [p.strip() for p in text.split(",")]
     if len(parts) not in (2, 3):
-        raise ValueError(f"--layer {text!r}: write THICKNESS,CONDUCTIVITY[,NAME], e.g. 50mm,0.04,mineral wool")
+        raise InputError(f"--layer {text!r}: write THICKNESS,CONDUCTIVITY[,NAME], e.g. 50mm,0.04,mineral wool",
+                         field="--layer", rule="THICKNESS,CONDUCTIVITY[,NAME]", value=text)
     thickness = parse(parts[0], "length", f"layer {index} thickness")
     conductivity = parse(parts[1], "conductivity", f"layer {index} conductivity")
     return Layer(thickness, conductivity, name=parts[2] if len(parts) == 3 else f"layer {index}")
@@ -134,7 +136,9 @@ def parse_layer(text: str, index: int) -> Layer:
 
 def pipe_diameter(args) -> float:
     if (args.nps is None) == (args.pipe_diameter is None):
-        raise ValueError("give the pipe as --nps (with --schedule) or as --pipe-diameter, not both")
+        raise InputError("give the pipe as --nps (with --schedule) or as --pipe-diameter, not both",
+                         field="--nps, --pipe-diameter", rule="exactly one of them",
+                         value=(args.nps, args.pipe_diameter))
     if args.nps is not None:
         return nominal_pipe(args.nps, args.schedule).outer_diameter
     return parse(args.pipe_diameter, "length", "pipe-diameter")

@@ -8,6 +8,7 @@ import numpy as np
 
 from .cli_common import (GIVEN_COEFFICIENT_HELP, emit, nominal_pipe, output_options, outside, parse, parse_layer,
                          pipe_diameter, pipe_size_options, surface_cautions)
+from .errors import InputError
 from .operation import TRACING_MARGIN, freeze_time, line_temperature_profile, steam_line, tracing_duty
 from .pipe import Layer
 from .vessels import (FLOORS, GROUND_CONDUCTIVITY, WIND_DIRECTIONS, insulation_per_face, rectangular_duct,
@@ -70,7 +71,8 @@ def _cmd_freeze(args) -> int:
     elif args.nps is not None:
         wall = nominal_pipe(args.nps, args.schedule).wall_thickness
     else:
-        raise ValueError("--wall-thickness is required with --pipe-diameter (with --nps it comes from the schedule)")
+        raise InputError("--wall-thickness is required with --pipe-diameter (with --nps it comes from the schedule)",
+                         field="--wall-thickness", rule="given with --pipe-diameter", value=None)
     initial = parse(args.initial_temperature, "temperature", "initial-temperature")
     ambient = parse(args.minimum_ambient, "temperature", "minimum-ambient")
     r = freeze_time(d, wall, initial, layers, air_temperature=ambient, **outside(args))
@@ -91,9 +93,13 @@ def _cmd_tank(args) -> int:
     diameter = parse(args.diameter, "length", "diameter")
     if args.shape == "sphere":
         if args.height is not None or args.roof_layer or args.floor_layer:
-            raise ValueError("a sphere takes no --height, --roof-layer or --floor-layer (its layers: --wall-layer)")
+            raise InputError("a sphere takes no --height, --roof-layer or --floor-layer (its layers: --wall-layer)",
+                             field="--height, --roof-layer, --floor-layer", rule="not given for a sphere",
+                             value=(args.height, args.roof_layer, args.floor_layer))
         if (args.wall_thickness is None) != (args.wall_conductivity is None):
-            raise ValueError("give --wall-thickness and --wall-conductivity together")
+            raise InputError("give --wall-thickness and --wall-conductivity together",
+                             field="--wall-thickness, --wall-conductivity", rule="both or neither",
+                             value=(args.wall_thickness, args.wall_conductivity))
         wall = {} if args.wall_thickness is None else dict(
             wall_thickness=parse(args.wall_thickness, "length", "wall-thickness"),
             wall_conductivity=parse(args.wall_conductivity, "conductivity", "wall-conductivity"))
@@ -101,10 +107,12 @@ def _cmd_tank(args) -> int:
             return spherical_tank(diameter, layers=[*extra, *layers(args.wall_layer)], **wall, **common)
     else:
         if args.height is None:
-            raise ValueError("--height is required for a vertical tank")
+            raise InputError("--height is required for a vertical tank", field="--height",
+                             rule="given for a vertical tank", value=None)
         if args.wall_thickness is not None or args.wall_conductivity is not None:
-            raise ValueError("--wall-thickness and --wall-conductivity are for --shape sphere; a vertical tank's "
-                             "shell is taken as thin")
+            raise InputError("--wall-thickness and --wall-conductivity are for --shape sphere; a vertical tank's "
+                             "shell is taken as thin", field="--wall-thickness, --wall-conductivity",
+                             rule="only with --shape sphere", value=(args.wall_thickness, args.wall_conductivity))
         ground = None if args.ground_temperature is None else parse(args.ground_temperature, "temperature",
                                                                     "ground-temperature")
         height = parse(args.height, "length", "height")
@@ -124,8 +132,10 @@ def _sizing(args, build) -> list[dict]:
     if not limits:
         return []
     if len(limits) > 1 or args.insulation_conductivity is None:
-        raise ValueError("to size insulation give one of --touch-limit or --heat-flux-limit, and "
-                         "--insulation-conductivity")
+        raise InputError("to size insulation give one of --touch-limit or --heat-flux-limit, and "
+                         "--insulation-conductivity",
+                         field="--touch-limit, --heat-flux-limit, --insulation-conductivity",
+                         rule="one limit and --insulation-conductivity", value=(limits, args.insulation_conductivity))
     k = parse(args.insulation_conductivity, "conductivity", "insulation-conductivity")
     limit = ({"surface_limit": parse(args.touch_limit, "temperature", "touch-limit")} if args.touch_limit else
              {"heat_flux_limit": parse(args.heat_flux_limit, "heat_flux", "heat-flux-limit")})
@@ -151,7 +161,9 @@ def _cmd_duct(args) -> int:
 def _exposure(args, what: str) -> dict:
     """The inputs a tank and a duct share (options of :func:`_exposure_options`), SI, as keyword arguments."""
     if (args.surface_temperature is None) == (args.fluid_temperature is None):
-        raise ValueError(f"give --surface-temperature (a bare {what}) or --fluid-temperature (with layers), not both")
+        raise InputError(f"give --surface-temperature (a bare {what}) or --fluid-temperature (with layers), not both",
+                         field="--surface-temperature, --fluid-temperature", rule="exactly one of them",
+                         value=(args.surface_temperature, args.fluid_temperature))
     known = "surface_temperature" if args.surface_temperature else "fluid_temperature"
     out = {known: parse(getattr(args, known), "temperature", known.replace("_", "-")),
            "air_temperature": parse(args.air_temperature, "temperature", "air-temperature"),

@@ -20,6 +20,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from .errors import InputError
 from .roots import find_root
 from .validation import as_array, check_choice
 
@@ -76,11 +77,13 @@ class Conductivity:
         coeffs = tuple(float(c) for c in as_array("conductivity coefficients", coefficients).ravel())
         low, high = (float(v) for v in as_array("valid_range", valid_range, unit="K", low=0.0, low_inclusive=False))
         if not low < high:
-            raise ValueError(f"valid_range must be (low, high) with low < high; got ({low}, {high}) K")
+            raise InputError(f"valid_range must be (low, high) with low < high; got ({low}, {high}) K",
+                             field="valid_range", rule="(low, high) with low < high", value=(low, high))
         probe = np.polynomial.polynomial.polyval(np.linspace(low, high, 200), coeffs)
         if np.any(probe <= 0):
-            raise ValueError(f"conductivity polynomial must be positive over {low:g}..{high:g} K; "
-                             f"it reaches {probe.min():.4g} W/m/K")
+            raise InputError(f"conductivity polynomial must be positive over {low:g}..{high:g} K; "
+                             f"it reaches {probe.min():.4g} W/m/K", field="coefficients",
+                             rule=f"positive over {low:g}..{high:g} K", value=coeffs)
         return cls._with_integral("polynomial", coefficients=coeffs, form=form, valid_range=(low, high))
 
     @classmethod
@@ -90,10 +93,12 @@ class Conductivity:
         t = as_array("conductivity table temperatures", temperatures, unit="K", low=0.0, low_inclusive=False).ravel()
         k = as_array("conductivity table values", conductivities, unit="W/m/K", low=0.0, low_inclusive=False).ravel()
         if t.size < 2 or t.size != k.size:
-            raise ValueError(f"a conductivity table needs at least two (T, k) points of equal count; "
-                             f"got {t.size} temperatures and {k.size} values")
+            raise InputError(f"a conductivity table needs at least two (T, k) points of equal count; "
+                             f"got {t.size} temperatures and {k.size} values", field="temperatures, conductivities",
+                             rule="at least two (T, k) points of equal count", value=(t.size, k.size))
         if np.any(np.diff(t) <= 0):
-            raise ValueError("conductivity table temperatures must increase strictly")
+            raise InputError("conductivity table temperatures must increase strictly", field="temperatures",
+                             rule="strictly increasing", value=tuple(t))
         return cls._with_integral("table", temperatures=tuple(t), values=tuple(k), form=form,
                                   valid_range=(float(t[0]), float(t[-1])))
 

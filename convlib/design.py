@@ -17,6 +17,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .errors import InputError
 from .pipe import Layer, insulated_pipe
 from .properties import dew_point
 from .roots import find_root
@@ -344,7 +345,8 @@ class WeatherBins:
         wind = np.broadcast_to(as_array("bin wind_speed", self.wind_speed, unit="m/s", low=0.0), ta.shape).ravel()
         hours = np.broadcast_to(as_array("bin hours", self.hours, unit="h", low=0.0), ta.shape).ravel()
         if hours.sum() > 8784.0 + 1e-9:
-            raise ValueError(f"bin hours add up to {hours.sum():g} h, more than a (leap) year of 8784 h")
+            raise InputError(f"bin hours add up to {hours.sum():g} h, more than a (leap) year of 8784 h",
+                             field="bin hours", rule="adding up to at most 8784 h", value=float(hours.sum()))
         object.__setattr__(self, "air_temperature", ta)
         object.__setattr__(self, "wind_speed", wind)
         object.__setattr__(self, "hours", hours)
@@ -448,12 +450,13 @@ def equivalent_length(length, fittings: dict | None = None, factors: dict | None
     >>> equivalent_length(40.0, {"gate": 1})
     Traceback (most recent call last):
     ...
-    ValueError: unknown fitting 'gate'; choose one of: valve, flange_pair, support, elbow, strainer
+    convlib.errors.InputError: unknown fitting 'gate'; choose one of: valve, flange_pair, support, elbow, strainer
     """
     table = dict(FITTING_EQUIVALENT_LENGTH if factors is None else factors)
     total = as_array("length", length, unit="m", low=0.0)
     for name, count in (fittings or {}).items():
         if name not in table:
-            raise ValueError(f"unknown fitting {name!r}; choose one of: {', '.join(table)}")
+            rule = f"one of: {', '.join(table)}"
+            raise InputError(f"unknown fitting {name!r}; choose {rule}", field="fittings", rule=rule, value=name)
         total = total + as_array(f"number of {name}", count, low=0.0) * table[name]
     return total

@@ -22,6 +22,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .errors import InputError
 from .validation import as_array, check_choice
 
 __all__ = ["ShapeInfo", "SHAPES", "Dimensions", "dimensions"]
@@ -77,7 +78,7 @@ def dimensions(shape: str, *, diameter=None, length=None, height=None, width=Non
     """Areas and characteristic lengths of a shape from its sizes [m].
 
     Sizes a shape does not take must be left ``None``; missing ones raise
-    ``ValueError`` naming them.
+    ``InputError`` (a ``ValueError``) naming them.
 
     Examples
     --------
@@ -90,20 +91,22 @@ def dimensions(shape: str, *, diameter=None, length=None, height=None, width=Non
     >>> dimensions("sphere", diameter=0.5, width=1.0)
     Traceback (most recent call last):
     ...
-    ValueError: a sphere takes diameter; width does not apply
+    convlib.errors.InputError: a sphere takes diameter; width does not apply
     """
     check_choice("shape", shape, SHAPES)
     info = SHAPES[shape]
     given = {"diameter": diameter, "length": length, "height": height, "width": width}
     extra = [k for k, v in given.items() if v is not None and k not in info.sizes]
     if extra:
-        raise ValueError(f"a {shape.replace('_', ' ')} takes {' and '.join(info.sizes)}; "
-                         f"{', '.join(extra)} does not apply")
+        raise InputError(f"a {shape.replace('_', ' ')} takes {' and '.join(info.sizes)}; "
+                         f"{', '.join(extra)} does not apply", field=", ".join(extra),
+                         rule=f"not given for a {shape.replace('_', ' ')}", value=given[extra[0]])
     if shape == "horizontal_cylinder" and length is None:
         given["length"] = 1.0  # per-metre results do not depend on it
     missing = [k for k in info.sizes if given[k] is None]
     if missing:
-        raise ValueError(f"a {shape.replace('_', ' ')} needs {' and '.join(missing)} [m]")
+        raise InputError(f"a {shape.replace('_', ' ')} needs {' and '.join(missing)} [m]", field=", ".join(missing),
+                         rule=f"given for a {shape.replace('_', ' ')}", value=None)
     s = {k: as_array(k, given[k], unit="m", low=0.0, low_inclusive=False) for k in info.sizes}
     ratio = None
     if shape == "horizontal_cylinder":

@@ -51,7 +51,9 @@ separated by ``;``, from the pipe outwards; empty, ``bare`` or ``none``: a bare 
 
 **Rows.** Row numbers are those of the file (header = row 1; blank lines count, and are skipped).
 A row that fails validation becomes a :class:`RowError` naming the column and the problem; the
-other rows are still computed.
+other rows are still computed. So does a row that the solvers or the property data cannot compute
+(:class:`~convlib.errors.InputError` from the computation). Any other exception is a fault of the
+program, not of the row: it is raised, not reported as a row error.
 
 **Results.** Per line at its design conditions: surface temperature, heat flow per metre and over the
 equivalent length (length plus fittings); per year: heat lost (> 0) or gained (< 0), purchased energy
@@ -92,6 +94,7 @@ from pydantic import ValidationError
 
 from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, DEFAULT_COOLING_COP, DEFAULT_HEATING_EFFICIENCY,
                      FITTING_EQUIVALENT_LENGTH, TOUCH_LIMIT_METAL_JACKET, WeatherBins)
+from .errors import InputError
 from .lines import LineSpec
 from .operation import condensate_rate, line_temperature_profile, saturation_temperature, tracing_duty
 from .pipe import Layer, insulated_pipe
@@ -160,7 +163,7 @@ def demo_lines_path():
 
 # ----------------------------------------------------------------------------- reading
 def _columns(header) -> list[tuple[str, str | None] | None]:
-    """(name, unit) per header cell, None for an empty header cell; ValueError for the whole file."""
+    """(name, unit) per header cell, None for an empty header cell; InputError for the whole file."""
     out, problems, seen = [], [], set()
     for text in ("" if h is None else str(h) for h in header):
         m = _HEADER.match(text)
@@ -190,7 +193,8 @@ def _columns(header) -> list[tuple[str, str | None] | None]:
     if not {"nps", "outer_diameter"} & seen:
         problems.append("give the pipe size in a column 'nps' (with 'schedule') or 'outer_diameter'")
     if problems:
-        raise ValueError(f"line list header: {'; '.join(problems)}; the columns are: {', '.join(COLUMNS)}")
+        raise InputError(f"line list header: {'; '.join(problems)}; the columns are: {', '.join(COLUMNS)}",
+                         field="header", rule=f"columns among: {', '.join(COLUMNS)}", value=list(header))
     return out
 
 
@@ -208,15 +212,18 @@ def _number(cell, column: str, kind: str, unit: str | None) -> float:
         m = _QUANTITY.fullmatch(text)
         if m is None or (m[2] and kind not in _CELL_UNIT_KINDS and (kind, m[2]) != ("dimensionless", "%")):
             extra = f" or a {kind} with its unit (e.g. {_EXAMPLES[kind]})" if kind in _CELL_UNIT_KINDS else ""
-            raise ValueError(f"{column}: {text!r} is not a number{extra}")
+            raise InputError(f"{column}: {text!r} is not a number{extra}", field=column, rule=f"a number{extra}",
+                             value=cell)
         value, unit = float(m[1]), m[2] or unit
     if unit is not None:
         try:
             value = _affine(unit, kind)(value)
         except Exception:  # noqa: BLE001 - pint raises several error types for bad units
-            raise ValueError(f"{column}: {cell!r}: {unit!r} is not a unit of {kind}") from None
+            raise InputError(f"{column}: {cell!r}: {unit!r} is not a unit of {kind}", field=column,
+                             rule=f"a unit of {kind}", value=cell) from None
     if not math.isfinite(value):
-        raise ValueError(f"{column}: must be a finite number; got {cell!r}")
+        raise InputError(f"{column}: must be a finite number; got {cell!r}", field=column, rule="a finite number",
+                         value=cell)
     return value
 
 
@@ -234,7 +241,8 @@ def _nps(cell) -> float:
     try:
         return float(int(mixed[1]) + Fraction(mixed[2]) if mixed else Fraction(text) if "/" in text else text)
     except (ValueError, ZeroDivisionError):
-        raise ValueError(f"nps: {text!r} is not a nominal pipe size (write e.g. 4, 1.5, 1-1/2 or 3/4)") from None
+        raise InputError(f"nps: {text!r} is not a nominal pipe size (write e.g. 4, 1.5, 1-1/2 or 3/4)", field="nps",
+                         rule="a nominal pipe size such as 4, 1.5, 1-1/2 or 3/4", value=cell) from None
 
 
 def _layers(cell, unit: str | None) -> list[dict]:
@@ -243,17 +251,20 @@ def _layers(cell, unit: str | None) -> list[dict]:
     for i, part in enumerate(parts, start=1):
         m = _LAYER.match(part)
         if m is None:
-            raise ValueError(f"layers: layer {i} {part!r} is not THICKNESS@CONDUCTIVITY NAME "
-                             f"(e.g. '50mm@0.04 mineral wool')")
+            raise InputError(f"layers: layer {i} {part!r} is not THICKNESS@CONDUCTIVITY NAME "
+                             f"(e.g. '50mm@0.04 mineral wool')", field="layers",
+                             rule="THICKNESS@CONDUCTIVITY NAME per layer", value=part)
         thickness = _number(m["thickness"], f"layers: layer {i} thickness", "length", unit)
         conductivity = _number(m["conductivity"], f"layers: layer {i} conductivity", "conductivity", None)
         if not 0 <= thickness <= 2.0:
             written = m["thickness"] + (f" {unit}" if unit and _QUANTITY.fullmatch(m["thickness"])[2] == "" else "")
-            raise ValueError(f"layers: layer {i} thickness must be between 0 and 2 m; got {written!r}"
-                             + (" (give a unit, '50mm@0.04', or head the column layers[mm])" if thickness > 2 else ""))
+            raise InputError(f"layers: layer {i} thickness must be between 0 and 2 m; got {written!r}"
+                             + (" (give a unit, '50mm@0.04', or head the column layers[mm])" if thickness > 2 else ""),
+                             field=f"layers: layer {i} thickness", rule="between 0 and 2 m", value=written)
         if not 0 < conductivity <= 500:
-            raise ValueError(f"layers: layer {i} conductivity must be greater than 0 and at most 500 W/m/K; "
-                             f"got {m['conductivity']!r}")
+            raise InputError(f"layers: layer {i} conductivity must be greater than 0 and at most 500 W/m/K; "
+                             f"got {m['conductivity']!r}", field=f"layers: layer {i} conductivity",
+                             rule="greater than 0 and at most 500 W/m/K", value=m["conductivity"])
         layers.append({"thickness": thickness, "conductivity": conductivity, "name": m["name"] or f"layer {i}"})
     return layers
 
@@ -275,8 +286,9 @@ def _parse_row(row: int, cells: dict, units: dict) -> ParsedLine | RowError:
             else:
                 values[name] = _number(cell, name, kind, units.get(name))
                 if kind == "count" and values[name] < 0:
-                    raise ValueError(f"{name}: must be at least 0; got {cell!r}")
-        except ValueError as exc:
+                    raise InputError(f"{name}: must be at least 0; got {cell!r}", field=name, rule="at least 0",
+                                     value=cell)
+        except InputError as exc:
             problems.append(str(exc))
     location = values.pop("location", "indoor").lower()
     if location not in LOCATIONS:
@@ -306,7 +318,7 @@ def _parse_row(row: int, cells: dict, units: dict) -> ParsedLine | RowError:
             values["schedule"] = re.sub(r"^(\d+)\.0*$", r"\1", values["schedule"]).upper()
         try:
             nominal_pipe(values["nps"], values.get("schedule", "40"))
-        except ValueError as exc:
+        except InputError as exc:
             problems.append(f"{'nps' if 'NPS' in str(exc) else 'schedule'}: {exc}")
     if problems:
         return RowError(row, tag, "; ".join(problems))
@@ -344,14 +356,17 @@ def read_line_list(source) -> tuple[list[ParsedLine], list[RowError]]:
 
     Raises
     ------
-    ValueError
-        For the whole file: no header, unknown or repeated column, wrong unit suffix, missing column.
+    InputError
+        (a ``ValueError``) For the whole file: no header, unknown or repeated column, wrong unit suffix,
+        missing column.
     """
     if isinstance(source, (list, tuple)) and source and all(isinstance(s, LineSpec) for s in source):
         return [ParsedLine(i, s, LOCATIONS[s.sky_view_fraction > 0], None) for i, s in enumerate(source, 2)], []
     if isinstance(source, (list, tuple)):
         if not all(isinstance(s, dict) for s in source):
-            raise ValueError("line list rows must all be dicts (column -> value) or all LineSpec objects")
+            raise InputError("line list rows must all be dicts (column -> value) or all LineSpec objects",
+                             field="source", rule="all dicts or all LineSpec objects",
+                             value=sorted({type(s).__name__ for s in source}))
         header = list(dict.fromkeys(k for row in source for k in row))
         records = [header, *([row.get(k) for k in header] for row in source)]
     else:
@@ -362,12 +377,15 @@ def read_line_list(source) -> tuple[list[ParsedLine], list[RowError]]:
                 source = io.StringIO(source.read_text(encoding="utf-8-sig"), newline="")
             records = list(csv.reader(source))
         except UnicodeDecodeError:
-            raise ValueError("line list: the file is not UTF-8 text; save it as 'CSV UTF-8'") from None
+            raise InputError("line list: the file is not UTF-8 text; save it as 'CSV UTF-8'", field="source",
+                             rule="UTF-8 text", value=str(source)) from None
     if not records or all(_blank(c) for c in records[0]):
-        raise ValueError("line list: the first row must be the header (tag, nps or outer_diameter, length, ...)")
+        raise InputError("line list: the first row must be the header (tag, nps or outer_diameter, length, ...)",
+                         field="header", rule="the first row", value=records[0] if records else None)
     if len(records[0]) == 1 and ";" in str(records[0][0]):
-        raise ValueError("line list: the header is separated by ';'; save the sheet as comma-separated CSV "
-                         "with '.' as the decimal mark")
+        raise InputError("line list: the header is separated by ';'; save the sheet as comma-separated CSV "
+                         "with '.' as the decimal mark", field="header", rule="comma-separated",
+                         value=records[0][0])
     columns = _columns(records[0])
     units = {c[0]: c[1] for c in columns if c is not None}
     lines, errors = [], []
@@ -462,7 +480,8 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
     Lines with the same number of layers are solved together, ``chunk_size`` at a time, in one
     :func:`convlib.pipe.insulated_pipe` call (design condition and weather bins on a second axis);
     each line's numbers equal those of a call for that line alone. A chunk the solver rejects
-    is re-solved line by line, so that only the offending rows become errors.
+    (:class:`~convlib.errors.InputError`) is re-solved line by line, so that only the offending rows
+    become errors; any other exception propagates.
 
     Parameters
     ----------
@@ -492,11 +511,14 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
     co2 = float(as_array("co2_per_kwh", co2_per_kwh, unit="kg/kWh", low=0.0))
     limit = float(as_array("touch_limit", touch_limit, unit="K", low=0.0, low_inclusive=False))
     if isinstance(chunk_size, bool) or not isinstance(chunk_size, (int, np.integer)) or chunk_size < 1:
-        raise ValueError(f"chunk_size must be a whole number of at least 1; got {chunk_size!r}")
+        raise InputError(f"chunk_size must be a whole number of at least 1; got {chunk_size!r}", field="chunk_size",
+                         rule="a whole number of at least 1", value=chunk_size)
     if bins is not None and not isinstance(bins, WeatherBins):
-        raise ValueError(f"bins must be a convlib.design.WeatherBins or None; got {type(bins).__name__}")
+        raise InputError(f"bins must be a convlib.design.WeatherBins or None; got {type(bins).__name__}",
+                         field="bins", rule="a convlib.design.WeatherBins or None", value=bins)
     if bins is not None and bins.hours.sum() <= 0:
-        raise ValueError("bins: the hours add up to 0")
+        raise InputError("bins: the hours add up to 0", field="bins", rule="hours adding up to more than 0",
+                         value=bins)
     report = progress or (lambda fraction, text: None)
     lines, errors = read_line_list(source)
     specs, n = [p.spec for p in lines], len(lines)
@@ -547,11 +569,11 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
             idx = members[start:start + chunk_size]
             try:
                 solve(idx)
-            except ValueError:
+            except InputError:  # only input errors become row errors: any other exception is a fault, raised
                 for i in idx:
                     try:
                         solve(np.array([i]))
-                    except ValueError as exc:
+                    except InputError as exc:
                         ok[i] = False
                         errors.append(RowError(lines[i].row, specs[i].tag, f"could not be computed: {exc}"))
             done += idx.size
@@ -574,11 +596,11 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
             members = idx[count[idx] == k]
             try:
                 wanted[members] = compute(members, group_layers(members, extra_axis=False))
-            except ValueError:
+            except InputError:
                 for i in members:
                     try:
                         wanted[[i]] = compute(np.array([i]), group_layers(np.array([i]), extra_axis=False))
-                    except ValueError as exc:
+                    except InputError as exc:
                         notes[int(i)].append(f"{label} not computed: {exc}")
 
     def sky_of(air, idx):
@@ -607,11 +629,11 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
     steamy = np.flatnonzero(ok & ~np.isnan(steam))
     try:
         saturated(steamy)
-    except ValueError:  # one by one, so that only the line with an impossible pressure loses its condensate
+    except InputError:  # one by one, so that only the line with an impossible pressure loses its condensate
         for i in steamy:
             try:
                 saturated(np.array([i]))
-            except ValueError as exc:
+            except InputError as exc:
                 notes[int(i)].append(f"condensate not computed: {exc}")
     for i in np.flatnonzero(np.abs(tf - t_sat) > 1.0):
         notes[int(i)].append(f"fluid temperature {tf[i] - 273.15:.1f} degC is not the saturation temperature "
@@ -619,11 +641,11 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
     humid = np.flatnonzero(ok & ~np.isnan(rh))
     try:
         dew[humid] = dew_point(ta[humid], rh[humid])
-    except ValueError:  # one by one, so that only the line CoolProp refuses loses its dew point
+    except InputError:  # one by one, so that only the line CoolProp refuses loses its dew point
         for i in humid:
             try:
                 dew[i] = dew_point(ta[i], rh[i])
-            except ValueError as exc:
+            except InputError as exc:
                 notes[i].append(f"dew point not computed: {exc}")
     texts = {m: describe_flags(m) for m in np.unique(flags[keep])}
     heat = energy * leq / 1000.0

@@ -9,6 +9,7 @@ from __future__ import annotations
 from pydantic import BaseModel, ConfigDict, Field, model_validator
 
 from .design import equivalent_length
+from .errors import InputError
 from .pipe import Layer
 from .pipe_sizes import nominal_pipe
 
@@ -62,7 +63,9 @@ class LineSpec(BaseModel):
     @model_validator(mode="after")
     def _one_diameter(self):
         if (self.nps is None) == (self.pipe_outer_diameter is None):
-            raise ValueError("give the pipe as nps (with schedule) or as pipe_outer_diameter [m], not both")
+            raise InputError("give the pipe as nps (with schedule) or as pipe_outer_diameter [m], not both",
+                             field="nps, pipe_outer_diameter", rule="exactly one of them",
+                             value=(self.nps, self.pipe_outer_diameter))
         if self.nps is not None:
             nominal_pipe(self.nps, self.schedule)  # raises with the nearest sizes
         equivalent_length(self.length, self.fittings)  # raises on unknown fittings

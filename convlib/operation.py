@@ -24,9 +24,10 @@ from dataclasses import dataclass
 import numpy as np
 from CoolProp import CoolProp as CP
 
+from .errors import InputError
 from .pipe import PipeResult, insulated_pipe
 from .properties import fluid_properties
-from .validation import as_array, check_choice
+from .validation import _show, as_array, check_choice
 
 __all__ = [
     "TRACING_MARGIN", "LATENT_HEAT_OF_FUSION", "WATER_FREEZING_TEMPERATURE", "CARBON_STEEL_DENSITY",
@@ -68,7 +69,7 @@ _MIN_STEP = 1e-9      # smallest normalized step before giving up
 _MAX_STEPS = 20000    # accepted + rejected steps before giving up
 
 
-class _OutOfRange(ValueError):
+class _OutOfRange(InputError):
     """A trial stage left the fluid's property range: the march retries with a smaller step."""
 
 
@@ -90,10 +91,13 @@ def _march(rhs, y0, scale, tolerance, max_step):
     k1, last_error, evaluations = rhs(s, y), None, 1
     while s < 1.0 - 1e-13:
         if h < _MIN_STEP and last_error is not None:
-            raise ValueError(str(last_error)) from None  # the solution itself leaves the range
+            # the solution itself leaves the range
+            raise InputError(str(last_error), field=last_error.field, rule=last_error.rule,
+                             value=last_error.value) from None
         if accepted + rejected >= _MAX_STEPS or h < _MIN_STEP:
-            raise ValueError(f"marching failed to meet the tolerance {tolerance:g} (step {h:.3g} of the "
-                             f"normalized range after {accepted} steps); loosen the tolerance")
+            raise InputError(f"marching failed to meet the tolerance {tolerance:g} (step {h:.3g} of the "
+                             f"normalized range after {accepted} steps); loosen the tolerance", field="tolerance",
+                             rule="met by the marching within its step limits", value=tolerance)
         h = min(h, 1.0 - s)
         try:
             whole = _rk4(rhs, s, y, h, k1)
@@ -109,7 +113,8 @@ def _march(rhs, y0, scale, tolerance, max_step):
             ratio = np.abs(delta) / (tolerance * scale)
         err = float(np.max(ratio, initial=0.0))
         if not np.isfinite(err):
-            raise ValueError("marching met a non-finite value; check the inputs")
+            raise InputError("marching met a non-finite value; check the inputs", field="inputs",
+                             rule="finite values along the march", value=None)
         if err <= 1.0:
             s, y, accepted = (1.0 if h >= 1.0 - s - 1e-13 else s + h), two + delta, accepted + 1
             grid.append(s)
@@ -122,6 +127,16 @@ def _march(rhs, y0, scale, tolerance, max_step):
             rejected += 1
             h *= max(0.1, 0.9 * err ** -0.2)
     return np.array(grid), np.stack(values), accepted, rejected, evaluations
+
+
+def _coolprop(call, value, field):
+    """``call()`` of CoolProp; its ValueError (a state it cannot compute, an unknown fluid) as InputError."""
+    try:
+        return call()
+    except ValueError as err:
+        shown = repr(value) if isinstance(value, str) else _show(np.asarray(value, dtype=float))
+        raise InputError(f"{field}: CoolProp could not compute it for {shown}: {err}", field=field,
+                         rule="a state CoolProp can compute", value=value) from None
 
 
 def _positive(name, value, unit=""):
@@ -202,7 +217,7 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
         Absolute pressure of the fluid [Pa] (a liquid must stay below its boiling point).
     fluid_phase : {"liquid", "gas"}
         What the line carries: the inlet must be below (liquid) or above (gas: air, superheated
-        steam) the boiling point at ``fluid_pressure``, else ``ValueError`` -- so that pressurized hot
+        steam) the boiling point at ``fluid_pressure``, else ``InputError`` -- so that pressurized hot
         water is not silently taken as steam at the default 1 atm. Not checked above the critical pressure.
     specific_heat : numeric, optional
         A fixed specific heat [J/kg/K] instead of CoolProp's.
@@ -244,8 +259,9 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
     if fixed_cp is None:
         try:
             fluid_properties(fluid, tin, pressure=p_fluid)
-        except ValueError as exc:
-            raise ValueError(f"fluid, inlet_temperature or fluid_pressure: {exc}") from None
+        except InputError as exc:
+            raise InputError(f"fluid, inlet_temperature or fluid_pressure: {exc}",
+                             field="fluid, inlet_temperature, fluid_pressure", rule=exc.rule, value=exc.value) from None
         _check_phase(fluid, fluid_phase, tin, np.broadcast_to(p_fluid, shape))
 
     def cp(temperature):
@@ -253,9 +269,10 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
             return np.broadcast_to(fixed_cp, np.shape(temperature))
         try:
             return fluid_properties(fluid, temperature, pressure=p_fluid).cp
-        except ValueError as exc:
+        except InputError as exc:
             raise _OutOfRange(f"fluid {fluid} at fluid_pressure leaves its single-phase range along the line (it "
-                              f"would freeze, boil or condense): {exc}") from None
+                              f"would freeze, boil or condense): {exc}", field="fluid, fluid_pressure",
+                              rule="single-phase all along the line", value=exc.value) from None
 
     loss_at = (lambda t: coefficient * (t - ta)) if constant_coefficient else loss  # noqa: E731
     capacity_in = flow * cp(tin)  # [W/K]
@@ -283,15 +300,18 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
 
 def _check_phase(fluid, phase, inlet, pressure):
     """Raise unless the inlet is on the ``phase`` side of the boiling point at its pressure (CoolProp)."""
-    critical, triple = CP.PropsSI("pcrit", fluid), CP.PropsSI("ptriple", fluid)
+    critical, triple = _coolprop(lambda: (CP.PropsSI("pcrit", fluid), CP.PropsSI("ptriple", fluid)), fluid, "fluid")
     for p in np.unique(pressure[(pressure > triple) & (pressure < critical)]):
-        boiling = CP.PropsSI("T", "P", float(p), "Q", 0.0 if phase == "liquid" else 1.0, fluid)
+        boiling = _coolprop(lambda: CP.PropsSI("T", "P", float(p), "Q", 0.0 if phase == "liquid" else 1.0, fluid),
+                            float(p), "fluid_pressure")
         t = inlet[pressure == p]
         wrong = t >= boiling if phase == "liquid" else t <= boiling
         if np.any(wrong):
-            raise ValueError(f"fluid_phase: {fluid} at inlet_temperature {float(t[wrong][0]):g} K is not {phase} at "
+            raise InputError(f"fluid_phase: {fluid} at inlet_temperature {float(t[wrong][0]):g} K is not {phase} at "
                              f"fluid_pressure {p:g} Pa (boiling point {boiling:.2f} K); give the line's absolute "
-                             f"pressure as fluid_pressure, or fluid_phase='{'gas' if phase == 'liquid' else 'liquid'}'")
+                             f"pressure as fluid_pressure, or fluid_phase='{'gas' if phase == 'liquid' else 'liquid'}'",
+                             field="fluid_phase", rule=f"{phase} at the inlet (boiling point {boiling:.2f} K)",
+                             value=phase)
 
 
 # 8-point Gauss-Legendre nodes and weights on [-1, 1] (Abramowitz & Stegun, Table 25.4)
@@ -310,9 +330,11 @@ def _integral_of_cp(cp, low, high, panels=4):
 # ----------------------------------------------------------------------------- steam lines
 def _saturated(key, steam_pressure, quality, fluid):
     """CoolProp (IAPWS-95 for water) at saturation; the pressure checked between triple and critical points."""
-    p = as_array("steam_pressure", steam_pressure, unit="Pa", low=CP.PropsSI("ptriple", fluid),
-                 high=CP.PropsSI("pcrit", fluid), low_inclusive=False, high_inclusive=False)
-    values = CP.PropsSI(key, "P", np.atleast_1d(p).ravel(), "Q", quality, fluid)
+    triple, critical = _coolprop(lambda: (CP.PropsSI("ptriple", fluid), CP.PropsSI("pcrit", fluid)), fluid, "fluid")
+    p = as_array("steam_pressure", steam_pressure, unit="Pa", low=triple, high=critical, low_inclusive=False,
+                 high_inclusive=False)
+    values = _coolprop(lambda: CP.PropsSI(key, "P", np.atleast_1d(p).ravel(), "Q", quality, fluid), p,
+                       "steam_pressure")
     return np.asarray(values, dtype=float).reshape(p.shape)
 
 
@@ -551,14 +573,16 @@ def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, l
     d = _positive("pipe_outer_diameter", pipe_outer_diameter, "m")
     wall = _positive("pipe_wall_thickness", pipe_wall_thickness, "m")
     if np.any(2.0 * wall >= d):
-        raise ValueError(f"pipe_wall_thickness must be less than half the pipe_outer_diameter; got "
-                         f"{np.max(wall):g} m for a {np.min(d):g} m pipe")
+        raise InputError(f"pipe_wall_thickness must be less than half the pipe_outer_diameter; got "
+                         f"{np.max(wall):g} m for a {np.min(d):g} m pipe", field="pipe_wall_thickness",
+                         rule="less than half the pipe_outer_diameter", value=float(np.max(wall)))
     tf = _positive("freezing_temperature", freezing_temperature, "K")
     t0 = as_array("initial_temperature", initial_temperature, unit="K", low=0.0, low_inclusive=False,
                   high=_WATER_PROPERTY_CEILING)
     if np.any(t0 < tf):
-        raise ValueError(f"initial_temperature must be at least the freezing_temperature "
-                         f"({float(np.max(tf)):g} K); got {float(np.min(t0)):g} K")
+        raise InputError(f"initial_temperature must be at least the freezing_temperature "
+                         f"({float(np.max(tf)):g} K); got {float(np.min(t0)):g} K", field="initial_temperature",
+                         rule="at least the freezing_temperature", value=float(np.min(t0)))
     ta = _positive("air_temperature", air_temperature, "K")
     rho_p = _positive("pipe_density", pipe_density, "kg/m3")
     c_p = _positive("pipe_specific_heat", pipe_specific_heat, "J/kg/K")

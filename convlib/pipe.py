@@ -24,6 +24,7 @@ from dataclasses import dataclass, fields
 import numpy as np
 
 from .conductivity import Conductivity
+from .errors import InputError
 from .regimes import Flag
 from .roots import find_root
 from .surface import OuterSurface, SurfaceResult
@@ -150,7 +151,8 @@ def insulated_pipe(
     layers = list(layers)
     for layer in layers:
         if not isinstance(layer, Layer):
-            raise ValueError(f"layers must be Layer objects (thickness, conductivity); got {layer!r}")
+            raise InputError(f"layers must be Layer objects (thickness, conductivity); got {layer!r}", field="layers",
+                             rule="Layer objects", value=layer)
     radii = [0.5 * d_pipe]
     for layer in layers:
         radii.append(radii[-1] + layer.thickness)
@@ -172,15 +174,18 @@ def insulated_pipe(
                                                                unit="m", low=0.0)
         r_fixed = r_fixed + 1.0 / (np.pi * (d_pipe - 2.0 * wall) * h_in)
     if (pipe_wall_thickness is None) != (pipe_conductivity is None):
-        raise ValueError("give both pipe_wall_thickness [m] and pipe_conductivity [W/m/K], or neither")
+        raise InputError("give both pipe_wall_thickness [m] and pipe_conductivity [W/m/K], or neither",
+                         field="pipe_wall_thickness, pipe_conductivity", rule="both or neither",
+                         value=(pipe_wall_thickness, pipe_conductivity))
     r_film = r_fixed
     r_wall = np.zeros(())
     if pipe_wall_thickness is not None:
         wall = as_array("pipe_wall_thickness", pipe_wall_thickness, unit="m", low=0.0)
         k_wall = as_array("pipe_conductivity", pipe_conductivity, unit="W/m/K", low=0.0, low_inclusive=False)
         if np.any(2.0 * wall >= d_pipe):
-            raise ValueError(f"pipe_wall_thickness must be less than half the pipe_outer_diameter; got "
-                             f"{np.max(wall):g} m for a {np.min(d_pipe):g} m pipe")
+            raise InputError(f"pipe_wall_thickness must be less than half the pipe_outer_diameter; got "
+                             f"{np.max(wall):g} m for a {np.min(d_pipe):g} m pipe", field="pipe_wall_thickness",
+                             rule="less than half the pipe_outer_diameter", value=float(np.max(wall)))
         r_wall = _drops(0.5 * d_pipe - wall, 0.5 * d_pipe) / k_wall
         r_fixed = r_fixed + r_wall
     drops = [_drops(radii[j], radii[j + 1]) for j in range(len(layers))]
@@ -317,6 +322,7 @@ def _solve_surface(residual, args, outer, tolerance, direct):
     converged = direct | success
     if not np.all(converged):
         bad = np.flatnonzero(~converged.ravel())[:3]
-        raise ValueError(f"outer surface temperature could not be found at {np.count_nonzero(~converged)} "
-                         f"point(s) (first indices {bad.tolist()}); check the inputs there")
+        raise InputError(f"outer surface temperature could not be found at {np.count_nonzero(~converged)} "
+                         f"point(s) (first indices {bad.tolist()}); check the inputs there", field="inputs",
+                         rule="a combination whose outer surface temperature the solver finds", value=bad.tolist())
     return ts, converged

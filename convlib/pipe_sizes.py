@@ -9,6 +9,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from .errors import InputError
+
 __all__ = ["PipeSize", "nominal_pipe", "SCHEDULES", "nominal_sizes"]
 
 #: Schedules of ASME B36.10M and B36.19M offered here.
@@ -46,7 +48,9 @@ def nominal_sizes(schedule: str = "40") -> list[float]:
 
 def _check_schedule(schedule: str) -> None:
     if str(schedule) not in SCHEDULES:
-        raise ValueError(f"unknown pipe schedule {schedule!r}; choose one of: {', '.join(SCHEDULES)}")
+        rule = f"one of: {', '.join(SCHEDULES)}"
+        raise InputError(f"unknown pipe schedule {schedule!r}; choose {rule}", field="schedule", rule=rule,
+                         value=schedule)
 
 
 def nominal_pipe(nps: float, schedule: str = "40") -> PipeSize:
@@ -60,7 +64,7 @@ def nominal_pipe(nps: float, schedule: str = "40") -> PipeSize:
     >>> nominal_pipe(4.3, "40")
     Traceback (most recent call last):
     ...
-    ValueError: NPS 4.3 is not a standard size in schedule 40; nearest: 4, 5
+    convlib.errors.InputError: NPS 4.3 is not a standard size in schedule 40; nearest: 4, 5
     """
     schedule = str(schedule)
     _check_schedule(schedule)
@@ -68,10 +72,12 @@ def nominal_pipe(nps: float, schedule: str = "40") -> PipeSize:
     try:
         value = float(nps)
     except (TypeError, ValueError):
-        raise ValueError(f"NPS must be a number such as 2, 0.75 or 1.5; got {nps!r}") from None
+        raise InputError(f"NPS must be a number such as 2, 0.75 or 1.5; got {nps!r}", field="nps", rule="a number",
+                         value=nps) from None
     for i, n in enumerate(sizes):
         if abs(n - value) < 1e-9:
             return PipeSize(float(n), schedule, outer[i] / 1000.0, wall[i] / 1000.0, inner[i] / 1000.0)
     near = sorted(sizes, key=lambda n: abs(n - value))[:2]
-    raise ValueError(f"NPS {value:g} is not a standard size in schedule {schedule}; nearest: "
-                     f"{', '.join(f'{n:g}' for n in sorted(near))}")
+    raise InputError(f"NPS {value:g} is not a standard size in schedule {schedule}; nearest: "
+                     f"{', '.join(f'{n:g}' for n in sorted(near))}", field="nps",
+                     rule=f"a standard size of schedule {schedule}", value=nps)

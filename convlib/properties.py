@@ -48,6 +48,7 @@ import CoolProp
 import numpy as np
 from CoolProp import CoolProp as CP
 
+from convlib.errors import InputError
 from convlib.validation import as_array, check_choice
 
 __all__ = ["FluidProperties", "PropertyTable", "air", "dew_point", "fluid_properties"]
@@ -104,10 +105,11 @@ def _fluid(fluid: str) -> _Fluid:
         state = CoolProp.AbstractState("HEOS", fluid)
     except ValueError:
         names = CP.get_global_param_string("FluidsList").split(",")
-        raise ValueError(
+        raise InputError(
             f"unknown fluid {fluid!r}; use a CoolProp fluid name such as Air, Nitrogen, "
             f"Oxygen, CO2, Water, Helium, Argon ({len(names)} in all: "
-            "CoolProp.CoolProp.get_global_param_string('FluidsList'))"
+            "CoolProp.CoolProp.get_global_param_string('FluidsList'))",
+            field="fluid", rule="a CoolProp fluid name", value=fluid,
         ) from None
     return _Fluid(state.name(), state.Tmin(), state.Tmax(), state.p_critical(), state.p_triple())
 
@@ -125,8 +127,10 @@ def _saturation(name: str, pressure: float) -> tuple[float, float] | None:
         state.update(CoolProp.PQ_INPUTS, pressure, 1.0)
         return bubble, state.T()
     except ValueError as err:
-        raise ValueError(f"CoolProp could not find the saturation temperature of {name} "
-                         f"at {pressure:g} Pa: {err}") from None
+        raise InputError(f"CoolProp could not find the saturation temperature of {name} "
+                         f"at {pressure:g} Pa: {err}", field="pressure",
+                         rule=f"a pressure where CoolProp finds the saturation temperature of {name}",
+                         value=pressure) from None
 
 
 def _phase(info: _Fluid, pressure: float, T_low: float, T_high: float) -> str:
@@ -143,9 +147,11 @@ def _phase(info: _Fluid, pressure: float, T_low: float, T_high: float) -> str:
     if dew - bubble > 0.01:
         point = (f"range {bubble:.2f} to {dew:.2f} K "
                  f"({bubble - 273.15:.2f} to {dew - 273.15:.2f} °C)")
-    raise ValueError(
+    raise InputError(
         f"temperatures straddle the boiling point of {info.name} at {pressure:g} Pa, {point}; "
-        f"got {T_low:g} to {T_high:g} K. Evaluate the liquid and the vapour in separate calls."
+        f"got {T_low:g} to {T_high:g} K. Evaluate the liquid and the vapour in separate calls.",
+        field="temperature", rule=f"all on one side of the boiling point of {info.name} at {pressure:g} Pa",
+        value=(T_low, T_high),
     )
 
 
@@ -165,10 +171,13 @@ def _temperature_range(name: str, pressure: float, phase: str) -> tuple[float, f
         low = saturation[1] + SATURATION_MARGIN
     elif phase == "liquid":
         if saturation is None:
-            raise ValueError(f"{name} has no liquid phase at {pressure:g} Pa")
+            raise InputError(f"{name} has no liquid phase at {pressure:g} Pa", field="pressure",
+                             rule=f"a pressure at which {name} can be liquid", value=pressure)
         high = saturation[0] - SATURATION_MARGIN
     if high - low < GRID_STEP:
-        raise ValueError(f"{name} at {pressure:g} Pa has no {phase} range wider than {GRID_STEP} K")
+        raise InputError(f"{name} at {pressure:g} Pa has no {phase} range wider than {GRID_STEP} K",
+                         field="pressure", rule=f"a pressure with a {phase} range wider than {GRID_STEP} K",
+                         value=pressure)
     return low, high
 
 
@@ -178,8 +187,9 @@ def _check_range(name: str, pressure: float, phase: str, T: np.ndarray) -> None:
         bad = T[(T < low) | (T > high)]
         shown = (f"{bad[0]:g} K" if bad.size == 1
                  else f"{bad.min():g} to {bad.max():g} K ({bad.size} values)")
-        raise ValueError(f"temperature must be between {low:.6g} and {high:.6g} K for {name} "
-                         f"({phase}) at {pressure:g} Pa; got {shown}")
+        rule = f"between {low:.6g} and {high:.6g} K for {name} ({phase}) at {pressure:g} Pa"
+        raise InputError(f"temperature must be {rule}; got {shown}", field="temperature", rule=rule,
+                         value=float(bad[0]) if bad.size == 1 else bad)
 
 
 @dataclass(frozen=True, eq=False)
@@ -243,16 +253,26 @@ def _table(name: str, pressure: float, phase: str) -> PropertyTable:
     state = CoolProp.AbstractState("HEOS", name)
     values = np.empty((n, 5))
     for row, T in enumerate(grid):  # once per table, not on the hot path
-        state.update(CoolProp.PT_INPUTS, pressure, T)
-        values[row] = (state.rhomass(), state.viscosity(), state.conductivity(),
-                       state.cpmass(), state.isobaric_expansion_coefficient())
+        try:
+            state.update(CoolProp.PT_INPUTS, pressure, T)
+            values[row] = (state.rhomass(), state.viscosity(), state.conductivity(),
+                           state.cpmass(), state.isobaric_expansion_coefficient())
+        except ValueError as err:  # CoolProp's own error type for states it cannot compute
+            raise InputError(f"CoolProp could not compute {name} ({phase}) at {pressure:g} Pa and {T:g} K: {err}",
+                             field="temperature, pressure", rule=f"a state of {name} CoolProp can compute",
+                             value=(float(T), pressure)) from None
     return PropertyTable(name, pressure, phase, low, (high - low) / (n - 1), values)
 
 
 def _exact(name: str, T: np.ndarray, pressure: np.ndarray) -> np.ndarray:
     """CoolProp ``PropsSI`` for every point: array (n, 5) like ``PropertyTable.values``."""
-    return np.column_stack([CP.PropsSI(key, "T", T, "P", pressure, f"HEOS::{name}")
-                            for key in _COOLPROP_KEYS])
+    try:
+        return np.column_stack([CP.PropsSI(key, "T", T, "P", pressure, f"HEOS::{name}")
+                                for key in _COOLPROP_KEYS])
+    except ValueError as err:  # CoolProp's own error type for states it cannot compute
+        raise InputError(f"CoolProp could not compute {name} at temperature {T.min():g}-{T.max():g} K and "
+                         f"pressure {pressure.min():g}-{pressure.max():g} Pa: {err}", field="temperature, pressure",
+                         rule=f"states of {name} CoolProp can compute", value=(T, pressure)) from None
 
 
 def _pressure_nodes(p_low: float, p_high: float) -> np.ndarray:
@@ -331,8 +351,8 @@ def fluid_properties(fluid: str, T, pressure=101325.0, exact: bool = False,
 
     Raises
     ------
-    ValueError
-        Unknown fluid or ``beta``; non-finite or non-positive ``T`` or
+    InputError
+        (a ``ValueError``) Unknown fluid or ``beta``; non-finite or non-positive ``T`` or
         ``pressure``; temperatures outside the table range (the message gives
         the range) or straddling the boiling point.
 
@@ -447,7 +467,10 @@ def dew_point(air_temperature, relative_humidity, pressure=101325.0) -> np.ndarr
         result = CP.HAPropsSI("D", "T", unique[:, 0], "R", unique[:, 1], "P", unique[:, 2])
     except ValueError as err:
         low, high = unique.min(axis=0), unique.max(axis=0)
-        raise ValueError(f"CoolProp HAPropsSI could not compute the dew point for air_temperature "
+        raise InputError(f"CoolProp HAPropsSI could not compute the dew point for air_temperature "
                          f"{low[0]:g}-{high[0]:g} K, relative_humidity {low[1]:g}-{high[1]:g}, "
-                         f"pressure {low[2]:g}-{high[2]:g} Pa: {err}") from None
+                         f"pressure {low[2]:g}-{high[2]:g} Pa: {err}",
+                         field="air_temperature, relative_humidity, pressure",
+                         rule="humid air CoolProp HAPropsSI can compute",
+                         value=(unique[:, 0], unique[:, 1], unique[:, 2])) from None
     return np.asarray(result, dtype=float)[inverse.ravel()].reshape(T.shape)

@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from convlib.errors import InputError
 from convlib.validation import as_array, check_choice
 
 __all__ = ["STEFAN_BOLTZMANN", "SKY_MODELS", "SKY_VIEW_FRACTION_TYPICAL", "radiation_coefficient", "net_flux",
@@ -147,7 +148,8 @@ def _sky_swinbank(air_temperature, dew_point):
 
 def _sky_berdahl_martin(air_temperature, dew_point):
     if dew_point is None:
-        raise ValueError("sky model 'berdahl_martin' needs dew_point [K]; got None")
+        raise InputError("sky model 'berdahl_martin' needs dew_point [K]; got None", field="dew_point",
+                         rule="given with the sky model 'berdahl_martin'", value=None)
     dew_celsius_hundredths = (dew_point - 273.15) / 100.0
     sky_emissivity = 0.711 + 0.56 * dew_celsius_hundredths + 0.73 * dew_celsius_hundredths**2
     return sky_emissivity**0.25 * air_temperature
@@ -222,8 +224,9 @@ def sky_temperature(air_temperature, dew_point=None, model="swinbank"):
         above = dew_b > air_b
         if above.any():
             dew_bad, air_bad = dew_b[above][0].item(), air_b[above][0].item()
-            raise ValueError(f"dew_point must be at most air_temperature; got "
-                             f"{dew_bad!r} K with air at {air_bad!r} K")
+            raise InputError(f"dew_point must be at most air_temperature; got "
+                             f"{dew_bad!r} K with air at {air_bad!r} K", field="dew_point",
+                             rule="at most air_temperature", value=dew_bad)
     return _out(function(ta, dew_point))
 
 

@@ -47,6 +47,7 @@ import numpy as np
 from pydantic import BaseModel, ConfigDict, Field, ValidationError, field_validator
 
 from . import __version__
+from .errors import InputError
 from .study import MonteCarloResult, StudyResult, StudySpec, run_study
 
 __all__ = ["SCHEMA_VERSION", "KIND", "MAX_BYTES", "DETERMINISTIC_TOLERANCE", "STANDARD_ERRORS", "SnapshotError",
@@ -127,7 +128,7 @@ def canonical_json(value) -> str:
 def content_hash(document: dict) -> str:
     """SHA-256 (hex) of the canonical JSON of every field of ``document`` except ``sha256``.
 
-    Raises ``ValueError`` naming the first non-finite number (JSON holds none).
+    Raises ``InputError`` (a ``ValueError``) naming the first non-finite number (JSON holds none).
     """
     body = {key: value for key, value in document.items() if key != "sha256"}
     try:
@@ -136,7 +137,8 @@ def content_hash(document: dict) -> str:
         where = _first_nonfinite(body, "")
         if where is None:
             raise
-        raise ValueError(f"cannot store {where[0]} = {where[1]}: snapshot files hold finite numbers only") from None
+        raise InputError(f"cannot store {where[0]} = {where[1]}: snapshot files hold finite numbers only",
+                         field=where[0], rule="a finite number", value=where[1]) from None
     return hashlib.sha256(text.encode("utf-8")).hexdigest()
 
 
@@ -188,7 +190,8 @@ def _check_pair(spec: StudySpec, result: StudyResult) -> None:
     if (spec.uncertainty is None) != (result.monte_carlo is None):
         problems.append("one has a Monte Carlo study and the other not")
     if problems:
-        raise ValueError(f"result does not belong to spec ({'; '.join(problems)}); save run_study(spec)")
+        raise InputError(f"result does not belong to spec ({'; '.join(problems)}); save run_study(spec)",
+                         field="result", rule="the result of run_study(spec)", value="; ".join(problems))
 
 
 def save(path, spec: StudySpec, result: StudyResult, author: str = "", note: str = "",
@@ -227,8 +230,9 @@ def save(path, spec: StudySpec, result: StudyResult, author: str = "", note: str
             raise TypeError(f"{name} must be a {kind.__name__}; got {type(value).__name__}")
     for name, value, limit in (("author", author, 200), ("note", note, 20_000)):
         if not isinstance(value, str) or len(value) > limit:
-            raise ValueError(f"{name} must be text of at most {limit} characters; got {type(value).__name__} "
-                             f"of length {len(value) if isinstance(value, str) else '-'}")
+            raise InputError(f"{name} must be text of at most {limit} characters; got {type(value).__name__} "
+                             f"of length {len(value) if isinstance(value, str) else '-'}", field=name,
+                             rule=f"text of at most {limit} characters", value=value)
     _check_pair(spec, result)
     path = Path(path)
     if path.is_dir():
@@ -244,8 +248,9 @@ def save(path, spec: StudySpec, result: StudyResult, author: str = "", note: str
     document["sha256"] = content_hash(document)
     data = (_pretty(document) + "\n").encode("utf-8")
     if len(data) > MAX_BYTES:
-        raise ValueError(f"snapshot would be {_mb(len(data))}, above the {_mb(MAX_BYTES)} that load() reads; "
-                         f"use fewer sweep or map points")
+        raise InputError(f"snapshot would be {_mb(len(data))}, above the {_mb(MAX_BYTES)} that load() reads; "
+                         f"use fewer sweep or map points", field="spec", rule=f"a snapshot of at most {_mb(MAX_BYTES)}",
+                         value=len(data))
     _write_atomic(path, data, overwrite)
     return path
 
@@ -585,7 +590,7 @@ def verify(source, progress: Callable[[float, str], None] | None = None) -> Veri
     name = str(snap.path) if snap.path is not None else f"snapshot {snap.sha256[:12]}"
     try:
         now = run_study(snap.spec, progress=progress)
-    except Exception as exc:  # the study itself was valid when saved: report, do not crash
+    except InputError as exc:  # valid when saved, refused now: report it; any other exception is a fault, raised
         raise SnapshotError(f"{name}: re-running the study failed with this convlib: {exc}") from exc
     a, b = snap.result.model_dump(mode="json"), now.model_dump(mode="json")
     rows = [_deterministic(key, a[key], b[key]) for key in

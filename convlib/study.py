@@ -26,6 +26,7 @@ from pydantic import BaseModel, ConfigDict, Field, field_validator, model_valida
 
 from . import __version__
 from . import correlations as corr
+from .errors import InputError
 from .geometry import SHAPES
 from .pipe import Layer, insulated_pipe
 from .properties import dew_point
@@ -62,12 +63,18 @@ QUANTITIES = ("q_per_length", "surface_temperature", "h_convection", "h_radiatio
               "q_convection_per_length", "q_radiation_per_length")
 
 
+def _unknown_input(name) -> InputError:
+    rule = f"one of: {', '.join(INPUTS)}"
+    return InputError(f"unknown input {name!r}; choose {rule}", field="input", rule=rule, value=name)
+
+
 def _check_input(name: str, kind: str) -> str:
     if name not in INPUTS:
-        raise ValueError(f"unknown input {name!r}; choose one of: {', '.join(INPUTS)}")
+        raise _unknown_input(name)
     if kind not in INPUTS[name][3]:
         allowed = [k for k, v in INPUTS.items() if kind in v[3]]
-        raise ValueError(f"input {name!r} does not apply to a {kind} case; choose one of: {', '.join(allowed)}")
+        raise InputError(f"input {name!r} does not apply to a {kind} case; choose one of: {', '.join(allowed)}",
+                         field="input", rule=f"one of: {', '.join(allowed)}", value=name)
     return name
 
 
@@ -111,22 +118,27 @@ class CaseSpec(_Model):
     @model_validator(mode="after")
     def _consistent(self):
         if self.shape not in SHAPES:
-            raise ValueError(f"unknown shape {self.shape!r}; choose one of: {', '.join(SHAPES)}")
+            rule = f"one of: {', '.join(SHAPES)}"
+            raise InputError(f"unknown shape {self.shape!r}; choose {rule}", field="shape", rule=rule,
+                             value=self.shape)
         if self.kind == "bare" and self.surface_temperature is None:
-            raise ValueError("a bare case needs surface_temperature [K]")
+            raise InputError("a bare case needs surface_temperature [K]", field="surface_temperature",
+                             rule="given for a bare case", value=None)
         if self.kind == "insulated":
             if self.fluid_temperature is None:
-                raise ValueError("an insulated case needs fluid_temperature [K]")
+                raise InputError("an insulated case needs fluid_temperature [K]", field="fluid_temperature",
+                                 rule="given for an insulated case", value=None)
             if self.shape != "horizontal_cylinder":
-                raise ValueError("insulated cases are horizontal pipes: shape must be 'horizontal_cylinder'")
+                raise InputError("insulated cases are horizontal pipes: shape must be 'horizontal_cylinder'",
+                                 field="shape", rule="'horizontal_cylinder' for an insulated case", value=self.shape)
         info = SHAPES[self.shape]
         for field_name, geometry, key in (("natural", info.natural_geometry, self.natural),
                                           ("forced", info.forced_geometry, self.forced)):
             if key is not None:
                 try:
                     corr.get(geometry, key)
-                except ValueError as exc:
-                    raise ValueError(f"{field_name}: {exc}") from None
+                except InputError as exc:
+                    raise exc.within(field_name) from None
         return self
 
     @property
@@ -150,15 +162,16 @@ class SweepAxis(_Model):
     @model_validator(mode="after")
     def _range(self):
         if self.input not in INPUTS:
-            raise ValueError(f"unknown input {self.input!r}; choose one of: {', '.join(INPUTS)}")
+            raise _unknown_input(self.input)
         unit, low, high, _ = INPUTS[self.input]
         for end in ("start", "stop"):
             value = getattr(self, end)
             if not (low <= value <= high):
-                raise ValueError(f"{end} of the {self.input} axis must be between {low:g} and {high:g} {unit}; "
-                                 f"got {value:g}")
+                raise InputError(f"{end} of the {self.input} axis must be between {low:g} and {high:g} {unit}; "
+                                 f"got {value:g}", field=end, rule=f"between {low:g} and {high:g} {unit}", value=value)
         if self.scale == "log" and min(self.start, self.stop) <= 0:
-            raise ValueError(f"a log axis of {self.input} needs start and stop > 0")
+            raise InputError(f"a log axis of {self.input} needs start and stop > 0", field="start, stop",
+                             rule="> 0 on a log axis", value=(self.start, self.stop))
         return self
 
 
@@ -182,9 +195,12 @@ class MapSpec(_Model):
     @model_validator(mode="after")
     def _distinct(self):
         if self.x.input == self.y.input:
-            raise ValueError(f"a map needs two different inputs; got {self.x.input!r} twice")
+            raise InputError(f"a map needs two different inputs; got {self.x.input!r} twice", field="x, y",
+                             rule="two different inputs", value=self.x.input)
         if self.x.count * self.y.count > 250_000:
-            raise ValueError(f"a map may have at most 250000 points; got {self.x.count} x {self.y.count}")
+            raise InputError(f"a map may have at most 250000 points; got {self.x.count} x {self.y.count}",
+                             field="x.count, y.count", rule="at most 250000 points",
+                             value=(self.x.count, self.y.count))
         return self
 
 
@@ -198,10 +214,10 @@ class TornadoInput(_Model):
     @model_validator(mode="after")
     def _order(self):
         if self.input not in INPUTS:
-            raise ValueError(f"unknown input {self.input!r}; choose one of: {', '.join(INPUTS)}")
+            raise _unknown_input(self.input)
         if not self.low < self.high:
-            raise ValueError(f"tornado range of {self.input}: low must be below high; got {self.low:g}, "
-                             f"{self.high:g}")
+            raise InputError(f"tornado range of {self.input}: low must be below high; got {self.low:g}, "
+                             f"{self.high:g}", field="low, high", rule="low below high", value=(self.low, self.high))
         return self
 
 
@@ -226,18 +242,21 @@ class Distribution(_Model):
     @model_validator(mode="after")
     def _parameters(self):
         if self.input not in INPUTS:
-            raise ValueError(f"unknown input {self.input!r}; choose one of: {', '.join(INPUTS)}")
+            raise _unknown_input(self.input)
         needed = {"normal": ("mean", "std"), "uniform": ("low", "high"), "triangular": ("low", "mode", "high"),
                   "lognormal": ("median", "sigma")}[self.kind]
         missing = [p for p in needed if getattr(self, p) is None]
         if missing:
-            raise ValueError(f"a {self.kind} distribution of {self.input} needs {', '.join(missing)}")
+            raise InputError(f"a {self.kind} distribution of {self.input} needs {', '.join(missing)}",
+                             field=", ".join(missing), rule=f"given for a {self.kind} distribution", value=None)
         if self.kind in ("uniform", "triangular") and not self.low < self.high:
-            raise ValueError(f"{self.kind} distribution of {self.input}: low must be below high; got low "
-                             f"{self.low:g}, high {self.high:g}")
+            raise InputError(f"{self.kind} distribution of {self.input}: low must be below high; got low "
+                             f"{self.low:g}, high {self.high:g}", field="low, high", rule="low below high",
+                             value=(self.low, self.high))
         if self.kind == "triangular" and not self.low <= self.mode <= self.high:
-            raise ValueError(f"triangular distribution of {self.input}: mode must lie between low and high; got "
-                             f"mode {self.mode:g} outside {self.low:g}..{self.high:g}")
+            raise InputError(f"triangular distribution of {self.input}: mode must lie between low and high; got "
+                             f"mode {self.mode:g} outside {self.low:g}..{self.high:g}", field="mode",
+                             rule="between low and high", value=self.mode)
         return self
 
     def sample(self, rng: np.random.Generator, n: int) -> np.ndarray:
@@ -263,7 +282,9 @@ class UncertaintySpec(_Model):
     def _unique(cls, value):
         names = [d.input for d in value]
         if len(set(names)) != len(names):
-            raise ValueError(f"each input may have one distribution; repeated: {sorted({n for n in names if names.count(n) > 1})}")
+            repeated = sorted({n for n in names if names.count(n) > 1})
+            raise InputError(f"each input may have one distribution; repeated: {repeated}", field="distributions",
+                             rule="one distribution per input", value=repeated)
         return value
 
 
@@ -284,8 +305,9 @@ class StudySpec(_Model):
     @model_validator(mode="after")
     def _applicable(self):
         if self.schema_version != SCHEMA_VERSION:
-            raise ValueError(f"schema_version {self.schema_version} is not supported (this convlib reads "
-                             f"{SCHEMA_VERSION})")
+            raise InputError(f"schema_version {self.schema_version} is not supported (this convlib reads "
+                             f"{SCHEMA_VERSION})", field="schema_version", rule=f"{SCHEMA_VERSION}",
+                             value=self.schema_version)
         kind = self.case.kind
         for axis in [*self.sweeps, *(m.x for m in self.maps), *(m.y for m in self.maps), *self.tornado,
                      *(self.uncertainty.distributions if self.uncertainty else [])]:
@@ -295,8 +317,8 @@ class StudySpec(_Model):
             for key in names or ():
                 try:
                     corr.get(geometry, key)
-                except ValueError as exc:
-                    raise ValueError(f"{field_name}: {exc}") from None
+                except InputError as exc:
+                    raise exc.within(field_name) from None
         return self
 
     def compared_methods(self, mode: str) -> list[str]:

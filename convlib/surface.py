@@ -12,6 +12,7 @@ import numpy as np
 
 from . import correlations as corr
 from .correlations.mixed import FLOW_DIRECTIONS, combine, default_mixing_exponent
+from .errors import InputError
 from .geometry import SHAPES, dimensions
 from .properties import fluid_properties
 from .radiation import effective_coefficient, net_flux, sky_temperature as clear_sky_temperature, solar_gain
@@ -139,8 +140,8 @@ class OuterSurface:
                                           ("forced", info.forced_geometry, forced)):
             try:
                 corr.get(geometry, key)
-            except ValueError as exc:
-                raise ValueError(f"{field_name}: {exc}") from None
+            except InputError as exc:
+                raise exc.within(field_name) from None
         n_mix = (np.asarray(default_mixing_exponent(flow_direction, info.round_body)) if mixing_exponent is None
                  else as_array("mixing_exponent", mixing_exponent, low=0.0, low_inclusive=False))
         ratio = np.asarray(1.0) if dims.diameter_over_length is None else dims.diameter_over_length
@@ -335,7 +336,7 @@ def bare_surface(
         coefficient, while Rayleigh, Reynolds, the regime and ``h_natural`` / ``h_forced`` are
         still those of the physical situation (to compare the given value with the correlations).
     strict : bool
-        Raise ``ValueError`` if any correlation is evaluated outside its range.
+        Raise ``InputError`` (a ``ValueError``) if any correlation is evaluated outside its range.
 
     Returns
     -------
@@ -360,5 +361,7 @@ def bare_surface(
     ts = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
     result = conditions.result(conditions.exchange(ts))
     if strict and (result.warnings & ~Flag.INFORMATIONAL).any():
-        raise ValueError("; ".join(summarize_flags(result.warnings & ~Flag.INFORMATIONAL)))
+        raise InputError("; ".join(summarize_flags(result.warnings & ~Flag.INFORMATIONAL)), field="inputs",
+                         rule="within the validity ranges of the correlations (strict=True)",
+                         value=int(np.bitwise_or.reduce(result.warnings & ~Flag.INFORMATIONAL, axis=None)))
     return result

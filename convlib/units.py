@@ -10,6 +10,8 @@ from functools import lru_cache
 
 import numpy as np
 
+from .errors import InputError
+
 __all__ = ["to_si", "from_si", "parse", "DISPLAY_UNITS", "display_unit", "KIND_SI_UNIT"]
 
 #: SI unit of each kind of quantity the library uses.
@@ -57,11 +59,15 @@ def _registry():
 
 
 def display_unit(kind: str, system: str = "SI") -> str:
-    """Display unit of a kind in a unit system; unknown names raise ``ValueError`` listing the choices."""
+    """Display unit of a kind in a unit system; unknown names raise ``InputError`` listing the choices."""
     if system not in DISPLAY_UNITS:
-        raise ValueError(f"unknown unit system {system!r}; choose one of: {', '.join(DISPLAY_UNITS)}")
+        rule = f"one of: {', '.join(DISPLAY_UNITS)}"
+        raise InputError(f"unknown unit system {system!r}; choose {rule}", field="unit system", rule=rule,
+                         value=system)
     if kind not in KIND_SI_UNIT:
-        raise ValueError(f"unknown quantity kind {kind!r}; choose one of: {', '.join(KIND_SI_UNIT)}")
+        rule = f"one of: {', '.join(KIND_SI_UNIT)}"
+        raise InputError(f"unknown quantity kind {kind!r}; choose {rule}", field="quantity kind", rule=rule,
+                         value=kind)
     return DISPLAY_UNITS[system][kind]
 
 
@@ -100,8 +106,8 @@ def from_si(value, kind: str, unit: str):
 def parse(text, kind: str, field: str) -> float:
     """Read a number with an optional unit, e.g. ``"90degC"`` or ``"4.5in"``; plain numbers are SI.
 
-    Raises ``ValueError`` naming the field when the text is not a quantity of
-    the right kind.
+    Raises :class:`~convlib.errors.InputError` (a ``ValueError``) naming the
+    field when the text is not a quantity of the right kind.
 
     Examples
     --------
@@ -112,7 +118,7 @@ def parse(text, kind: str, field: str) -> float:
     >>> parse("3 kg", "length", "diameter")
     Traceback (most recent call last):
     ...
-    ValueError: diameter: '3 kg' is not a length (expected e.g. '0.1 m', '4.5 in', '114.3 mm')
+    convlib.errors.InputError: diameter: '3 kg' is not a length (expected e.g. '0.1 m', '4.5 in', '114.3 mm')
     """
     examples = {"temperature": "'363.15 K', '90 degC', '194 degF'", "length": "'0.1 m', '4.5 in', '114.3 mm'",
                 "speed": "'3 m/s', '10 mph'", "pressure": "'101325 Pa', '79.5 kPa'"}
@@ -124,7 +130,8 @@ def parse(text, kind: str, field: str) -> float:
         value = None
     if value is not None:
         if not np.isfinite(value):
-            raise ValueError(f"{field}: {s!r} is not a finite number")
+            raise InputError(f"{field}: {s!r} is not a finite number", field=field, rule="a finite number",
+                             value=text)
         return value
     ureg = _registry()
     import pint
@@ -134,7 +141,8 @@ def parse(text, kind: str, field: str) -> float:
         value = float(q.to(KIND_SI_UNIT[kind]).magnitude)
     except (pint.errors.PintError, ValueError, TypeError, AttributeError, AssertionError):
         name = kind.replace("_", " ")
-        raise ValueError(f"{field}: {s!r} is not a {name}{hint}") from None
+        raise InputError(f"{field}: {s!r} is not a {name}{hint}", field=field, rule=f"a {name}",
+                         value=text) from None
     if not np.isfinite(value):
-        raise ValueError(f"{field}: {s!r} is not a finite number")
+        raise InputError(f"{field}: {s!r} is not a finite number", field=field, rule="a finite number", value=text)
     return value

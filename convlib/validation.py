@@ -1,12 +1,16 @@
 """Input checks shared by every public function.
 
-Every check raises :class:`ValueError` whose message names the field, the
-allowed range (with units) and the value that was given, so that a user of the
-command line or the dashboard can correct the input without reading code.
+Every check raises :class:`~convlib.errors.InputError` (a :class:`ValueError`)
+whose message names the field, the allowed range (with units) and the value that
+was given, so that a user of the command line or the dashboard can correct the
+input without reading code; its attributes ``field``, ``rule`` and ``value`` hold
+the same for programs.
 """
 from __future__ import annotations
 
 import numpy as np
+
+from .errors import InputError
 
 __all__ = ["as_array", "check_choice"]
 
@@ -19,6 +23,12 @@ def _show(values: np.ndarray) -> str:
     shown = ", ".join(repr(v.item()) for v in flat[:3])
     more = f", ... ({flat.size} values)" if flat.size > 3 else ""
     return f"[{shown}{more}]"
+
+
+def _values(wrong: np.ndarray):
+    """The offending values for ``InputError.value``: a float for one, else a flat array."""
+    flat = np.asarray(wrong, dtype=float).ravel()
+    return float(flat[0]) if flat.size == 1 else flat
 
 
 def as_array(
@@ -48,8 +58,8 @@ def as_array(
 
     Raises
     ------
-    ValueError
-        If the value is not numeric, not finite, or outside the range.
+    InputError
+        If the value is not numeric, not finite, or outside the range (a ``ValueError``).
 
     Examples
     --------
@@ -58,16 +68,18 @@ def as_array(
     >>> as_array("emissivity", 1.2, low=0, high=1)
     Traceback (most recent call last):
     ...
-    ValueError: emissivity must be between 0 and 1; got 1.2
+    convlib.errors.InputError: emissivity must be between 0 and 1; got 1.2
     """
     try:
         arr = np.asarray(value, dtype=float)
     except (TypeError, ValueError):
-        raise ValueError(f"{name} must be a number or an array of numbers; got {value!r}") from None
+        raise InputError(f"{name} must be a number or an array of numbers; got {value!r}",
+                         field=name, rule="a number or an array of numbers", value=value) from None
     unit_text = f" {unit}" if unit else ""
     bad = ~np.isfinite(arr)
     if bad.any():
-        raise ValueError(f"{name} must be a finite number; got {_show(arr[bad])}")
+        raise InputError(f"{name} must be a finite number; got {_show(arr[bad])}",
+                         field=name, rule="a finite number", value=_values(arr[bad]))
     too_low = too_high = np.zeros(arr.shape, dtype=bool)
     if low is not None:
         too_low = arr < low if low_inclusive else arr <= low
@@ -82,7 +94,9 @@ def as_array(
         rule = " and ".join(parts)
         if low is not None and high is not None and low_inclusive and high_inclusive:
             rule = f"between {low:g} and {high:g}{unit_text}"
-        raise ValueError(f"{name} must be {rule}; got {_show(arr[too_low | too_high])}{unit_text}")
+        wrong = arr[too_low | too_high]
+        raise InputError(f"{name} must be {rule}; got {_show(wrong)}{unit_text}", field=name, rule=rule,
+                         value=_values(wrong))
     return arr
 
 
@@ -96,9 +110,10 @@ def check_choice(name: str, value, choices) -> str:
     >>> check_choice("shape", "cube", ["sphere", "vertical_plate"])
     Traceback (most recent call last):
     ...
-    ValueError: unknown shape 'cube'; choose one of: sphere, vertical_plate
+    convlib.errors.InputError: unknown shape 'cube'; choose one of: sphere, vertical_plate
     """
     choices = list(choices)
     if value not in choices:
-        raise ValueError(f"unknown {name} {value!r}; choose one of: {', '.join(map(str, choices))}")
+        rule = f"one of: {', '.join(map(str, choices))}"
+        raise InputError(f"unknown {name} {value!r}; choose {rule}", field=name, rule=rule, value=value)
     return value

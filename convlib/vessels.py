@@ -47,6 +47,7 @@ import numpy as np
 
 from .correlations.mixed import combine, default_mixing_exponent
 from .design import COMMERCIAL_THICKNESSES, listed_thickness
+from .errors import InputError
 from .pipe import Layer, _solve_surface, _stack_flow
 from .properties import fluid_properties
 from .radiation import SKY_VIEW_FRACTION_TYPICAL
@@ -144,7 +145,8 @@ def _layer_drops(layers, kind, inner_diameter):
     drops, radius = [], 0.5 * inner_diameter
     for layer in layers:
         if not isinstance(layer, Layer):
-            raise ValueError(f"layers must be Layer objects (thickness, conductivity); got {layer!r}")
+            raise InputError(f"layers must be Layer objects (thickness, conductivity); got {layer!r}", field="layers",
+                             rule="Layer objects", value=layer)
         if kind == "flat":
             drops.append(layer.thickness)
         else:
@@ -208,13 +210,16 @@ def _known_temperature(surface_temperature, fluid_temperature, what, **inside):
     ``inside`` holds the inputs that need the contents (layers, wall, film): given with a bare surface they raise.
     """
     if (surface_temperature is None) == (fluid_temperature is None):
-        raise ValueError(f"give surface_temperature (a bare {what}) or fluid_temperature (the contents), one of them")
+        raise InputError(f"give surface_temperature (a bare {what}) or fluid_temperature (the contents), one of them",
+                         field="surface_temperature, fluid_temperature", rule="exactly one of them",
+                         value=(surface_temperature, fluid_temperature))
     if fluid_temperature is not None:
         return as_array("fluid_temperature", fluid_temperature, unit="K", low=0.0, low_inclusive=False)
     given = [name for name, value in inside.items() if value is not None and value != []]
     if given:
-        raise ValueError(f"{', '.join(given)} need fluid_temperature: with surface_temperature the {what} is bare "
-                         f"and its outer surface is at that temperature")
+        raise InputError(f"{', '.join(given)} need fluid_temperature: with surface_temperature the {what} is bare "
+                         f"and its outer surface is at that temperature", field=", ".join(given),
+                         rule="only with fluid_temperature", value=inside[given[0]])
     return as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
 
 
@@ -298,21 +303,28 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
     d = as_array("diameter", diameter, unit="m", low=0.0, low_inclusive=False)
     h = as_array("height", height, unit="m", low=0.0, low_inclusive=False)
     if surface_temperature is None and fluid_temperature is None:
-        raise ValueError("give surface_temperature (a bare tank) or fluid_temperature (the contents, with layers)")
+        raise InputError("give surface_temperature (a bare tank) or fluid_temperature (the contents, with layers)",
+                         field="surface_temperature, fluid_temperature", rule="exactly one of them", value=None)
     if surface_temperature is not None and fluid_temperature is not None:
-        raise ValueError("give surface_temperature or fluid_temperature, not both")
+        raise InputError("give surface_temperature or fluid_temperature, not both",
+                         field="surface_temperature, fluid_temperature", rule="exactly one of them",
+                         value=(surface_temperature, fluid_temperature))
     if surface_temperature is not None:
         inner = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
         if any(len(tuple(x)) for x in (wall_layers, roof_layers)) or (floor != "ground" and len(tuple(floor_layers))):
-            raise ValueError("layers need fluid_temperature: with surface_temperature every face is bare")
+            raise InputError("layers need fluid_temperature: with surface_temperature every face is bare",
+                             field="wall_layers, roof_layers, floor_layers", rule="only with fluid_temperature",
+                             value=(wall_layers, roof_layers, floor_layers))
         if inner_coefficient is not None:
-            raise ValueError("inner_coefficient needs fluid_temperature: with surface_temperature the shell is bare")
+            raise InputError("inner_coefficient needs fluid_temperature: with surface_temperature the shell is bare",
+                             field="inner_coefficient", rule="only with fluid_temperature", value=inner_coefficient)
     else:
         inner = as_array("fluid_temperature", fluid_temperature, unit="K", low=0.0, low_inclusive=False)
     film = _film(inner_coefficient)
     wall_layers, roof_layers, floor_layers = list(wall_layers), list(roof_layers), list(floor_layers)
     if floor == "none" and floor_layers:
-        raise ValueError("floor_layers need floor='ground' or 'open'; the floor is left out")
+        raise InputError("floor_layers need floor='ground' or 'open'; the floor is left out", field="floor_layers",
+                         rule="only with floor='ground' or 'open'", value=floor_layers)
     common = dict(air_temperature=air_temperature, wind_speed=wind_speed, emissivity=emissivity,
                   surroundings_temperature=surroundings_temperature, sky_temperature=sky_temperature,
                   pressure=pressure, exact_properties=exact_properties, convection_factor=convection_factor,
@@ -407,12 +419,15 @@ def spherical_tank(diameter, *, air_temperature, surface_temperature=None, fluid
     d = as_array("diameter", diameter, unit="m", low=0.0, low_inclusive=False)
     layers = list(layers)
     if (wall_thickness is None) != (wall_conductivity is None):
-        raise ValueError("give wall_thickness and wall_conductivity together (or neither: a thin shell)")
+        raise InputError("give wall_thickness and wall_conductivity together (or neither: a thin shell)",
+                         field="wall_thickness, wall_conductivity", rule="both or neither",
+                         value=(wall_thickness, wall_conductivity))
     fixed, d_inner = np.zeros(()), d
     if wall_thickness is not None:
         t = as_array("wall_thickness", wall_thickness, unit="m", low=0.0)
         if np.any(2.0 * t >= d):
-            raise ValueError(f"wall_thickness: must be less than half the diameter; got {t} m for {d} m")
+            raise InputError(f"wall_thickness: must be less than half the diameter; got {t} m for {d} m",
+                             field="wall_thickness", rule="less than half the diameter", value=t)
         k_wall = as_array("wall_conductivity", wall_conductivity, unit="W/m/K", low=0.0, low_inclusive=False)
         d_inner = d - 2.0 * t
         fixed = fixed + _shell_drop("sphere", 0.5 * d_inner, 0.5 * d) / k_wall
@@ -480,7 +495,8 @@ def insulation_per_face(build, *, surface_limit=None, heat_flux_limit=None, max_
     [('wall', 37.1, 40), ('roof', 39.3, 40)]
     """
     if (surface_limit is None) == (heat_flux_limit is None):
-        raise ValueError("give surface_limit or heat_flux_limit, one of them")
+        raise InputError("give surface_limit or heat_flux_limit, one of them", field="surface_limit, heat_flux_limit",
+                         rule="exactly one of them", value=(surface_limit, heat_flux_limit))
     if surface_limit is not None:
         limit = float(as_array("surface_limit", surface_limit, unit="K", low=0.0, low_inclusive=False))
     else:
@@ -525,9 +541,11 @@ def _ground_floor(d, floor_temperature, layers, air_temperature, ground_temperat
     slab = np.asarray(film, dtype=float)  # [m2 K/W] of the film and the floor layers
     for layer in layers:
         if not isinstance(layer, Layer):
-            raise ValueError(f"floor_layers must be Layer objects (thickness, conductivity); got {layer!r}")
+            raise InputError(f"floor_layers must be Layer objects (thickness, conductivity); got {layer!r}",
+                             field="floor_layers", rule="Layer objects", value=layer)
         if not layer.conductivity.is_constant:
-            raise ValueError(f"floor_layers on the ground take a constant conductivity; {layer.name!r} has k(T)")
+            raise InputError(f"floor_layers on the ground take a constant conductivity; {layer.name!r} has k(T)",
+                             field="floor_layers", rule="constant conductivity on the ground", value=layer)
         slab = slab + layer.thickness / layer.conductivity.constant_value
     q = (floor_temperature - t_ground) / (slab / area + 1.0 / (2.0 * d * k_soil))
     shape = np.broadcast_shapes(np.shape(q), np.shape(area))

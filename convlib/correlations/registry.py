@@ -13,6 +13,7 @@ from typing import Callable
 
 import numpy as np
 
+from ..errors import InputError
 from ..regimes import Flag, summarize_flags
 from . import forced as _f
 from . import natural as _n
@@ -192,17 +193,19 @@ def methods(geometry: str, mode: str | None = None) -> list[str]:
 
 def _check_geometry(geometry: str) -> None:
     if geometry not in GEOMETRIES:
-        raise ValueError(f"unknown geometry {geometry!r}; choose one of: {', '.join(GEOMETRIES)}")
+        rule = f"one of: {', '.join(GEOMETRIES)}"
+        raise InputError(f"unknown geometry {geometry!r}; choose {rule}", field="geometry", rule=rule, value=geometry)
 
 
 def get(geometry: str, method: str) -> Correlation:
-    """The record for (geometry, method); unknown names raise ``ValueError`` listing the choices."""
+    """The record for (geometry, method); unknown names raise ``InputError`` (a ``ValueError``) listing the choices."""
     _check_geometry(geometry)
     try:
         return _LOOKUP[(geometry, method)]
     except KeyError:
-        raise ValueError(f"unknown method {method!r} for geometry {geometry!r}; choose one of: "
-                         f"{', '.join(methods(geometry))}") from None
+        rule = f"one of: {', '.join(methods(geometry))}"
+        raise InputError(f"unknown method {method!r} for geometry {geometry!r}; choose {rule}", field="method",
+                         rule=rule, value=method) from None
 
 
 def _outside(value, bounds) -> np.ndarray:
@@ -239,7 +242,8 @@ def evaluate(geometry: str, method: str, *, check: bool = True, **groups) -> tup
     rec = get(geometry, method)
     missing = [name for name in rec.inputs if groups.get(name) is None and name not in ("Pr_s", "viscosity_ratio")]
     if missing:
-        raise ValueError(f"{geometry}/{method} needs {', '.join(missing)}; inputs are {', '.join(rec.inputs)}")
+        raise InputError(f"{geometry}/{method} needs {', '.join(missing)}; inputs are {', '.join(rec.inputs)}",
+                         field=", ".join(missing), rule=f"given for {geometry}/{method}", value=None)
     args = {name: np.asarray(groups[name], dtype=float) for name in rec.inputs if groups.get(name) is not None}
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         nu = np.asarray(rec.function(**args), dtype=float)
@@ -293,7 +297,7 @@ def nusselt(geometry: str, method: str, Ra=None, Re=None, Pr=None, Pr_s=None, *,
     Ra, Re, Pr, Pr_s : numeric, optional
         Dimensionless groups the correlation needs [-].
     strict : bool
-        Raise ``ValueError`` instead of warning when any point is out of range.
+        Raise ``InputError`` (a ``ValueError``) instead of warning when any point is out of range.
     full_output : bool
         Return ``(nusselt, flags)`` with the per-point bit mask.
     **extra : numeric
@@ -310,13 +314,15 @@ def nusselt(geometry: str, method: str, Ra=None, Re=None, Pr=None, Pr_s=None, *,
     >>> nusselt("horizontal_cylinder", "churchill", Ra=1e6, Pr=0.71)
     Traceback (most recent call last):
     ...
-    ValueError: unknown method 'churchill' for geometry 'horizontal_cylinder'; choose one of: churchill_chu, churchill_chu_laminar, morgan, kuehn_goldstein
+    convlib.errors.InputError: unknown method 'churchill' for geometry 'horizontal_cylinder'; choose one of: churchill_chu, churchill_chu_laminar, morgan, kuehn_goldstein
     """
     nu, flags = evaluate(geometry, method, Ra=Ra, Re=Re, Pr=Pr, Pr_s=Pr_s, **extra)
     if (flags & ~Flag.INFORMATIONAL).any():
         text = f"{geometry}/{method}: " + "; ".join(summarize_flags(flags & ~Flag.INFORMATIONAL))
         if strict:
-            raise ValueError(text)
+            given = {name: v for name, v in (("Ra", Ra), ("Re", Re), ("Pr", Pr)) if v is not None}
+            raise InputError(text, field=", ".join(given), value=given,
+                             rule=f"within the validity range of {geometry}/{method} (strict=True)")
         if not full_output:
             warnings.warn(text, OutOfRangeWarning, stacklevel=2)
     return (nu, flags) if full_output else nu
