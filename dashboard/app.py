@@ -19,7 +19,7 @@ import traitlets
 from convlib import snapshot as cl_snapshot
 from convlib.study import StudySpec, load_demo_study, run_study
 
-from . import compute, settings, storage
+from . import compute, guard, settings, storage
 from .display import input_label
 from .panels import (InsulationPanel, LinePanel, OperationPanel, RegimePanel, SnapshotPanel, SpreadPanel,
                      SweepPanel, UncertaintyPanel, VesselPanel)
@@ -72,6 +72,8 @@ class App(widgets.VBox):
 
     def __init__(self, study: StudySpec, snapshot_dir=None, runner: Runner | None = None,
                  units: str = settings.DEFAULT_UNIT_SYSTEM):
+        # first: every widget built below handles the page's messages through the guard
+        guard.install(on_refused=self._show_refusal)
         super().__init__()
         self.add_class("cl-app")
         self.study = study
@@ -134,6 +136,12 @@ class App(widgets.VBox):
         self.snapshots.on_action(self._on_snapshot_action)
         self._apply_case(self.line.case)
         self._list_snapshots()
+
+    def _show_refusal(self, widget, text: str) -> None:
+        """Show why a value the page sent for one of this app's widgets was refused (see :mod:`.guard`)."""
+        alert = getattr(self, "alert", None)
+        if alert is not None and guard.owns(self, widget):
+            alert.value = message_html([text], "warning")
 
     # ------------------------------------------------------------------ case changes
     @property
@@ -459,7 +467,9 @@ class App(widgets.VBox):
         def run():
             result = run_study(spec, progress=progress)
             path.parent.mkdir(parents=True, exist_ok=True)
-            return cl_snapshot.save(path, spec, result, author=author, note=note)
+            written = cl_snapshot.save(path, spec, result, author=author, note=note)
+            storage.record_snapshot(path.parent, written)  # the listing that follows need not open it
+            return written
 
         def saved(written):
             panel.set_message([f"Saved {written.name}"], "info")

@@ -13,10 +13,10 @@ from pathlib import Path
 __all__ = [
     "ControlSetting", "CONTROLS", "QUANTITIES", "PANELS", "UNIT_SYSTEMS", "DEFAULT_UNIT_SYSTEM",
     "EXTRA_SWEEPS", "DEFAULT_SCHEDULE", "RECOMPUTE_DELAY", "EXPENSIVE_DELAY", "MAP_POINTS", "RA_GRID", "RE_GRID",
-    "MONTE_CARLO_SAMPLES", "HEAT_LOSS_LIMIT", "SIZING_MAX_THICKNESS", "snapshot_dir", "PALETTE", "MODE_COLOURS",
-    "PRETTY_UNITS", "FIGURE_HEIGHT", "FIGURE_WIDTH", "SIDEBAR_WIDTH", "MAP_LOWEST_WIND", "ServeDefaults", "SERVE",
-    "BUNDLE_ENV", "OPERATION", "OPERATION_SERVICES", "OPERATION_SWEEPS", "VESSEL", "VESSEL_SHAPES", "VESSEL_FLOORS",
-    "VESSEL_WIND", "VESSEL_SWEEPS",
+    "MONTE_CARLO_SAMPLES", "HEAT_LOSS_LIMIT", "SIZING_MAX_THICKNESS", "snapshot_dir", "MAX_SNAPSHOT_BYTES", "PALETTE",
+    "MODE_COLOURS", "PRETTY_UNITS", "FIGURE_HEIGHT", "FIGURE_WIDTH", "SIDEBAR_WIDTH", "MAP_LOWEST_WIND",
+    "ServeDefaults", "SERVE", "BUNDLE_ENV", "OPERATION", "OPERATION_SERVICES", "OPERATION_SWEEPS", "VESSEL",
+    "VESSEL_SHAPES", "VESSEL_FLOORS", "VESSEL_WIND", "VESSEL_SWEEPS",
 ]
 
 #: Unit systems offered by the units switch (keys of :data:`convlib.units.DISPLAY_UNITS`).
@@ -270,6 +270,12 @@ BUNDLE_ENV = "CONVLIB_PLOTLY_BUNDLE"
 def snapshot_dir() -> Path:
     """Directory where snapshots are saved: ``$CONVLIB_SNAPSHOT_DIR``, else ``~/convlib-snapshots``."""
     return Path(os.environ.get("CONVLIB_SNAPSHOT_DIR") or Path.home() / "convlib-snapshots").expanduser()
+
+
+#: Largest snapshot file the listing opens to read its author, note and hash [bytes]; larger files are
+#: listed as "too large to open here" without being read (one 100 MB file would otherwise cost seconds
+#: and hundreds of MB of memory on every listing). The dashboard's own snapshots are about 1 MB.
+MAX_SNAPSHOT_BYTES = 20 * 2**20
 
 
 #: Colours of curves (one per correlation, in registry order), chosen for contrast on white.
