@@ -4,7 +4,7 @@ VENV   ?= .venv
 PY     := $(VENV)/bin/python
 STAMP  := $(VENV)/.installed
 
-.PHONY: demo serve screenshots test bench clean
+.PHONY: demo serve screenshots test bench loadtest clean
 
 # Dashboard server options: make demo PORT=8866; make serve HOST=0.0.0.0 PORT=8866 POOL=2 VOILA_TOKEN=...
 PORT   ?= 8866
@@ -31,6 +31,12 @@ screenshots: $(STAMP)
 
 test: $(STAMP)
 	$(PY) -m pytest -q
+
+# N viewers in headless Chromium against a fresh shared server: make loadtest VIEWERS=10 DURATION=120
+VIEWERS  ?= 10
+DURATION ?= 120
+loadtest: $(STAMP)
+	$(PY) -m dashboard.loadtest --viewers $(VIEWERS) --duration $(DURATION)
 
 bench: $(STAMP)
 	$(PY) benchmarks/run.py
