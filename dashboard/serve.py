@@ -49,7 +49,8 @@ def build_command(*, host: str, port: int, pool_size: int, local: bool, max_kern
                   connect_grace: float = settings.SERVE.connect_grace,
                   max_kernels_per_client: int = settings.SERVE.max_kernels_per_client,
                   max_sockets_per_client: int = settings.SERVE.max_sockets_per_client,
-                  max_connections_per_client: int = settings.SERVE.max_connections_per_client) -> list[str]:
+                  max_connections_per_client: int = settings.SERVE.max_connections_per_client,
+                  behind_proxy: bool = settings.SERVE.behind_proxy) -> list[str]:
     """The command line of the hardened voila (without the token, which travels in the environment)."""
     cmd = [sys.executable, "-m", "dashboard.server", str(notebook), "--no-browser", f"--port={port}",
            f"--Voila.ip={host}", "--strip_sources=True", "--show_tracebacks=False", "--theme=light",
@@ -64,6 +65,8 @@ def build_command(*, host: str, port: int, pool_size: int, local: bool, max_kern
            f"--ConvlibVoila.max_sockets_per_client={max_sockets_per_client}",
            f"--ConvlibVoila.max_connections_per_client={max_connections_per_client}",
            f"--VoilaConfiguration.extra_labextensions_path={_plotly_package_data()}"]
+    if behind_proxy:
+        cmd.append("--ConvlibVoila.behind_proxy=True")
     if pool_size > 0:
         cmd += ["--preheat_kernel=True", f"--pool_size={pool_size}"]
     if not local:
@@ -105,12 +108,16 @@ def _parser() -> argparse.ArgumentParser:
     p.add_argument("--connect-grace", type=float, default=d.connect_grace,
                    help=f"seconds a new session waits for its page to connect (default {d.connect_grace:g})")
     p.add_argument("--max-kernels-per-client", type=int, default=d.max_kernels_per_client,
-                   help="most sessions per client address (behind a reverse proxy, where every viewer has the "
-                        f"proxy's address, raise it to --max-kernels; default {d.max_kernels_per_client})")
+                   help="most sessions per client address (behind a reverse proxy, give --behind-proxy so that each "
+                        f"viewer keeps its own address; default {d.max_kernels_per_client})")
     p.add_argument("--max-sockets-per-client", type=int, default=d.max_sockets_per_client,
                    help=f"most kernel websockets per client address (default {d.max_sockets_per_client})")
     p.add_argument("--max-connections-per-client", type=int, default=d.max_connections_per_client,
                    help=f"most TCP connections per client address (default {d.max_connections_per_client})")
+    p.add_argument("--behind-proxy", action="store_true",
+                   help="a reverse proxy on this machine forwards the viewers: each viewer's address comes from "
+                        "the proxy's X-Real-IP / X-Forwarded-For header, so per-viewer caps still apply (needs "
+                        "--host 127.0.0.1 so that no one reaches the server past the proxy)")
     p.add_argument("--snapshot-dir", default=None, help="where snapshots are saved (default "
                    "$CONVLIB_SNAPSHOT_DIR or ~/convlib-snapshots)")
     p.add_argument("--local", action="store_true", help="one engineer on this machine: loopback, no token, no pool")
@@ -124,6 +131,9 @@ def main(argv=None) -> int:
     env = dict(os.environ)
     if args.local:
         args.host, args.pool_size = "127.0.0.1", 0
+    if args.behind_proxy and args.host not in ("127.0.0.1", "localhost", "::1"):
+        _parser().error(f"--behind-proxy trusts the address the proxy forwards: listen on 127.0.0.1 only "
+                        f"(--host {args.host} would let anyone reach the server past the proxy and choose it)")
     snapshot_dir = Path(args.snapshot_dir or settings.snapshot_dir()).expanduser().resolve()
     env["CONVLIB_SNAPSHOT_DIR"] = str(snapshot_dir)
     env[BUNDLE_ENV] = BUNDLE_PATH
@@ -133,7 +143,8 @@ def main(argv=None) -> int:
                         cull_interval=args.cull_interval, disconnect_grace=args.disconnect_grace,
                         connect_grace=args.connect_grace, max_kernels_per_client=args.max_kernels_per_client,
                         max_sockets_per_client=args.max_sockets_per_client,
-                        max_connections_per_client=args.max_connections_per_client)
+                        max_connections_per_client=args.max_connections_per_client,
+                        behind_proxy=args.behind_proxy)
     shown_host = "localhost" if args.host in ("127.0.0.1", "0.0.0.0", "") else args.host
     url = f"http://{shown_host}:{args.port}/"
     for key in _SECRET_ENV:

@@ -46,7 +46,7 @@ from jupyter_core.utils import ensure_async
 from jupyter_server.base.handlers import JupyterHandler
 from jupyter_server.services.kernels.kernelmanager import AsyncMappingKernelManager
 from tornado import httpserver, ioloop, web
-from traitlets import Float, Integer
+from traitlets import Bool, Float, Integer
 from voila import handler as voila_handler_module
 from voila.app import Voila
 from voila.request_info_handler import RequestInfoSocketHandler
@@ -619,6 +619,10 @@ class ConvlibVoila(Voila):
     idle_connection_timeout = _option(Float, "idle_connection_timeout",
                                       "Seconds before an idle TCP connection is closed.")
     sweep_interval = _option(Float, "sweep_interval", "Seconds between checks for kernels whose page has gone.")
+    behind_proxy = _option(Bool, "behind_proxy",
+                           "A reverse proxy on this machine forwards every viewer: the client address is taken from "
+                           "its X-Real-IP / X-Forwarded-For header (listen on loopback only), and the TCP cap per "
+                           "address is left to the proxy.")
 
     def initialize(self, argv=None):
         super().initialize(argv)
@@ -638,7 +642,11 @@ class ConvlibVoila(Voila):
         app = self.app
 
         def listen(port, address="", **kwargs):
-            server = CappedHTTPServer(app, max_per_client=int(self.max_connections_per_client),
+            per_address = int(self.max_connections_per_client)
+            if self.behind_proxy:  # every connection comes from the proxy: its own limits bound each viewer
+                per_address *= max(1, int(self.kernel_manager.max_kernels if hasattr(self.kernel_manager,
+                                                                                  "max_kernels") else 20))
+            server = CappedHTTPServer(app, max_per_client=per_address, xheaders=bool(self.behind_proxy),
                                       idle_connection_timeout=float(self.idle_connection_timeout),
                                       max_body_size=int(self.max_message_bytes), max_header_size=64 * 1024)
             server.listen(port, address, **kwargs)
@@ -668,4 +676,8 @@ def main(argv=None) -> None:
 
 
 if __name__ == "__main__":
-    main(sys.argv[1:])
+    # run the importable module's copy: the kernel manager class is named as dashboard.server.CappedKernelManager,
+    # and a second copy of this module (as __main__) would hold its own client context and counters
+    from dashboard.server import main as _main
+
+    _main(sys.argv[1:])

@@ -313,6 +313,8 @@ class ServeDefaults:
     max_kernels_per_client: int = 6
     #: an idle keep-alive TCP connection is closed after this long [s]
     idle_connection_timeout: float = 60.0
+    #: a reverse proxy on this machine forwards every viewer: the client is its X-Real-IP / X-Forwarded-For
+    behind_proxy: bool = False
 
 
 SERVE = ServeDefaults()

@@ -58,11 +58,14 @@ class WireClient:
         ``http://127.0.0.1:PORT/``.
     token : str, optional
         Exchanged for the login cookie by :meth:`login`.
+    headers : dict, optional
+        Sent with every request (e.g. the ``X-Real-IP`` a reverse proxy would add).
     """
 
-    def __init__(self, base_url: str, token: str | None = None):
+    def __init__(self, base_url: str, token: str | None = None, headers: dict | None = None):
         self.base_url = base_url.rstrip("/") + "/"
         self.token = token
+        self.headers = dict(headers or {})
         self.cookie = ""
         self.http = AsyncHTTPClient(force_instance=True)
         self.session = uuid.uuid4().hex
@@ -74,7 +77,7 @@ class WireClient:
     async def fetch(self, path: str = "", *, cookie: bool = True, follow: bool = False, timeout: float = 60.0,
                     method: str = "GET", body=None, headers=None):
         """The response (never raises for HTTP status codes)."""
-        hdrs = dict(headers or {})
+        hdrs = {**self.headers, **(headers or {})}
         if cookie and self.cookie:
             hdrs["Cookie"] = self.cookie
         req = HTTPRequest(self.base_url + path.lstrip("/"), method=method, body=body, headers=hdrs,
@@ -103,13 +106,13 @@ class WireClient:
 
     async def channels(self, kernel_id: str, subprotocols=(V1,), cookie: bool = True, timeout: float = 30.0):
         """Open the kernel websocket (raises ``HTTPClientError`` when refused)."""
-        hdrs = {"Cookie": self.cookie} if cookie and self.cookie else {}
+        hdrs = {**self.headers, **({"Cookie": self.cookie} if cookie and self.cookie else {})}
         url = f"{self.ws_base}api/kernels/{kernel_id}/channels?session_id={self.session}"
         req = HTTPRequest(url, headers=hdrs, connect_timeout=timeout, request_timeout=timeout)
         return await websocket_connect(req, subprotocols=list(subprotocols) if subprotocols else None)
 
     async def query_socket(self, kernel_id: str, cookie: bool = True, timeout: float = 30.0):
-        hdrs = {"Cookie": self.cookie} if cookie and self.cookie else {}
+        hdrs = {**self.headers, **({"Cookie": self.cookie} if cookie and self.cookie else {})}
         req = HTTPRequest(f"{self.ws_base}voila/query/{kernel_id}", headers=hdrs, connect_timeout=timeout,
                           request_timeout=timeout)
         return await websocket_connect(req)

@@ -341,3 +341,34 @@ def test_pool_kernels_survive_culling_and_a_culled_page_says_so(culling_server):
         assert "session has ended" in page.inner_text(".cl-session-ended")
         with pytest.raises(Exception):  # the controls are covered
             page.locator(".cl-control-wind-speed .noUi-handle").first.click(timeout=2_000)
+
+
+# ----------------------------------------------------------------------------- behind a reverse proxy
+def test_behind_a_proxy_each_viewer_keeps_its_own_session_cap():
+    """Behind a proxy every viewer arrives from the proxy's address; ``--behind-proxy`` takes the forwarded one."""
+    with VoilaServer(token=TOKEN, pool_size=0, extra_args=[
+            "--behind-proxy", "--max-kernels", "4", "--max-kernels-per-client", "1", "--connect-grace", "300"]) as srv:
+        async def go():
+            first = WireClient(srv.base_url, srv.token, headers={"X-Real-IP": "10.20.0.11"})
+            again = WireClient(srv.base_url, srv.token, headers={"X-Real-IP": "10.20.0.11"})
+            other = WireClient(srv.base_url, srv.token, headers={"X-Real-IP": "10.20.0.12"})
+            for client in (first, again, other):
+                await client.login()
+            kid, page = await first.claim()
+            assert kid, page[:300]
+            refused = await again.fetch("")
+            assert refused.code == 429 and "Too many sessions" in refused.body.decode()
+            kid_other, page = await other.claim()
+            assert kid_other and kid_other != kid, page[:300]
+            for client in (first, again, other):
+                client.close()
+
+        run(go())
+
+
+def test_behind_proxy_refuses_to_listen_beyond_loopback(capsys):
+    from dashboard.serve import main
+
+    with pytest.raises(SystemExit):
+        main(["--behind-proxy", "--host", "0.0.0.0", "--dry-run"])
+    assert "127.0.0.1" in capsys.readouterr().err
