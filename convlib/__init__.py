@@ -41,12 +41,17 @@ def __getattr__(name: str):
         value = importlib.import_module(f"{__name__}.{module or name}")
         if module is not None:
             value = getattr(value, name)
-    elif not name.startswith("__") and importlib.util.find_spec(f"{__name__}.{name}") is not None:
+    elif not name.startswith("__") and _is_module(name):
         value = importlib.import_module(f"{__name__}.{name}")
     else:
         raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
     globals()[name] = value
     return value
+
+
+def _is_module(name: str) -> bool:
+    spec = importlib.util.find_spec(f"{__name__}.{name}")
+    return spec is not None and spec.has_location  # a module file, not e.g. the data folder
 
 
 def __dir__():
