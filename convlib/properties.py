@@ -4,6 +4,10 @@ CoolProp is the source of truth. :func:`fluid_properties` (and :func:`air`)
 interpolates a :class:`PropertyTable` built once per (fluid, pressure, phase)
 on a uniform grid of about 1 K; ``exact=True`` calls CoolProp for every point
 and is the check of the tables (relative error < 0.05 % for every property).
+The table of air at 101325 Pa, the default of every bare-surface and
+insulated-pipe call, ships with the package (:mod:`convlib.air_table`, made
+from CoolProp by the same code): with it CoolProp, slow to import, is imported
+only by calls that need it (other pressures or fluids, ``exact=True``, dew point).
 
 Pressure [Pa] is an input everywhere: at 2000 m the air density is 22 % lower
 and the kinematic viscosity 27 % higher. With at most 8 distinct pressures,
