@@ -39,6 +39,7 @@ loadtest: $(STAMP)
 	$(PY) -m dashboard.loadtest --viewers $(VIEWERS) --duration $(DURATION)
 
 bench: $(STAMP)
+	$(PY) benchmarks/startup.py
 	$(PY) benchmarks/run.py
 	$(PY) benchmarks/dashboard_latency.py
 

@@ -9,20 +9,54 @@ The public surface (names are stable; see DEVELOPERS.md):
 """
 __version__ = "0.2.0"  # the one place of the version: pyproject.toml reads it (tool.setuptools.dynamic)
 
+import importlib  # noqa: E402
+import importlib.util  # noqa: E402
+
 from .errors import InputError  # noqa: E402
-from . import correlations, geometry, radiation, regimes  # noqa: E402
-from .correlations import catalog, nusselt
-from .properties import FluidProperties, air, dew_point, fluid_properties
-from .conductivity import Conductivity
-from .pipe import Layer, PipeResult, insulated_pipe
-from .pipe_sizes import nominal_pipe
-from .surface import SurfaceResult, bare_surface
-from .study import CaseSpec, StudyResult, StudySpec, run_study
-from . import snapshot  # noqa: E402  (after study: it builds on it)
-from .linelist import LineListResult, read_line_list, run_line_list, write_results_csv
-from . import operation, vessels  # noqa: E402
-from .operation import condensate_rate, freeze_time, line_temperature_profile, steam_line, tracing_duty
-from .vessels import rectangular_duct, spherical_tank, vertical_tank
+
+# Public names are imported on first access (PEP 562), so that `import convlib` and the command line start
+# fast: CoolProp, pydantic and the study layer load only when a name that needs them is used.
+_LAZY = {
+    "correlations": None, "geometry": None, "radiation": None, "regimes": None, "snapshot": None,
+    "operation": None, "vessels": None,
+    "catalog": "correlations", "nusselt": "correlations",
+    "FluidProperties": "properties", "air": "properties", "dew_point": "properties", "fluid_properties": "properties",
+    "Conductivity": "conductivity",
+    "Layer": "pipe", "PipeResult": "pipe", "insulated_pipe": "pipe",
+    "nominal_pipe": "pipe_sizes",
+    "SurfaceResult": "surface", "bare_surface": "surface",
+    "CaseSpec": "study", "StudyResult": "study", "StudySpec": "study", "run_study": "study",
+    "LineListResult": "linelist", "read_line_list": "linelist", "run_line_list": "linelist",
+    "write_results_csv": "linelist",
+    "condensate_rate": "operation", "freeze_time": "operation", "line_temperature_profile": "operation",
+    "steam_line": "operation", "tracing_duty": "operation",
+    "rectangular_duct": "vessels", "spherical_tank": "vessels", "vertical_tank": "vessels",
+}
+
+
+def __getattr__(name: str):
+    """A public name (or any submodule, e.g. ``convlib.pipe``), imported on first access."""
+    if name in _LAZY:
+        module = _LAZY[name]
+        value = importlib.import_module(f"{__name__}.{module or name}")
+        if module is not None:
+            value = getattr(value, name)
+    elif not name.startswith("__") and _is_module(name):
+        value = importlib.import_module(f"{__name__}.{name}")
+    else:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    globals()[name] = value
+    return value
+
+
+def _is_module(name: str) -> bool:
+    spec = importlib.util.find_spec(f"{__name__}.{name}")
+    return spec is not None and spec.has_location  # a module file, not e.g. the data folder
+
+
+def __dir__():
+    return sorted(set(globals()) | set(__all__))
+
 
 __all__ = [
     "air", "fluid_properties", "FluidProperties", "dew_point", "nusselt", "catalog", "correlations",

@@ -43,7 +43,6 @@ from .errors import InputError
 from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, WeatherBins, annual_energy, thickness_against_condensation,
                      thickness_for_heat_loss, thickness_for_surface_temperature)
 from .geometry import SHAPES
-from .lines import LineSpec
 from .pipe import insulated_pipe
 from .surface import bare_surface
 
@@ -138,6 +137,8 @@ def _nan_to_none(value):
 
 
 def _cmd_demo(args) -> int:
+    from .lines import LineSpec  # pydantic: imported only by the commands that need it
+
     site = load_demo_site()
     bare = [surface_row(c["tag"], bare_surface(**{k: v for k, v in c.items() if k not in ("tag", "description")}))
             for c in site["surfaces"]]

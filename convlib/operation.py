@@ -22,11 +22,10 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-from CoolProp import CoolProp as CP
 
 from .errors import InputError
 from .pipe import PipeResult, insulated_pipe
-from .properties import fluid_properties
+from .properties import CP, fluid_properties  # CP: CoolProp.CoolProp, imported on first use
 from .validation import _show, as_array, check_choice
 
 __all__ = [

@@ -4,6 +4,10 @@ CoolProp is the source of truth. :func:`fluid_properties` (and :func:`air`)
 interpolates a :class:`PropertyTable` built once per (fluid, pressure, phase)
 on a uniform grid of about 1 K; ``exact=True`` calls CoolProp for every point
 and is the check of the tables (relative error < 0.05 % for every property).
+The table of air at 101325 Pa, the default of every bare-surface and
+insulated-pipe call, ships with the package (:mod:`convlib.air_table`, made
+from CoolProp by the same code): with it CoolProp, slow to import, is imported
+only by calls that need it (other pressures or fluids, ``exact=True``, dew point).
 
 Pressure [Pa] is an input everywhere: at 2000 m the air density is 22 % lower
 and the kinematic viscosity 27 % higher. With at most 8 distinct pressures,
@@ -44,10 +48,9 @@ import math
 from dataclasses import dataclass
 from typing import ClassVar, NamedTuple
 
-import CoolProp
 import numpy as np
-from CoolProp import CoolProp as CP
 
+from convlib._lazy import LazyModule
 from convlib.errors import InputError
 from convlib.validation import as_array, check_choice
 
@@ -59,6 +62,11 @@ MAX_PRESSURE_GROUPS = 8  # more distinct pressures -> interpolation between pres
 NODES_PER_OCTAVE = 8  # pressure nodes p_k = 2**(k / NODES_PER_OCTAVE) Pa
 BETA_CHOICES = (None, "ideal_gas", "coolprop")
 _COOLPROP_KEYS = ("D", "V", "L", "C", "isobaric_expansion_coefficient")
+
+# CoolProp takes about 2.5 s to import: imported at the first call that needs it. The air table at
+# 101325 Pa (and the facts about air it rests on) ships with the package, see convlib.air_table.
+CoolProp = LazyModule("CoolProp")
+CP = LazyModule("CoolProp.CoolProp")
 
 
 @dataclass(frozen=True, eq=False)
@@ -101,6 +109,11 @@ class _Fluid(NamedTuple):
 
 @functools.lru_cache(maxsize=None)
 def _fluid(fluid: str) -> _Fluid:
+    shipped = _shipped(fluid)
+    return shipped.fluid if shipped is not None else _coolprop_fluid(fluid)
+
+
+def _coolprop_fluid(fluid: str) -> _Fluid:
     try:
         state = CoolProp.AbstractState("HEOS", fluid)
     except ValueError:
@@ -117,7 +130,12 @@ def _fluid(fluid: str) -> _Fluid:
 @functools.lru_cache(maxsize=256)
 def _saturation(name: str, pressure: float) -> tuple[float, float] | None:
     """Bubble and dew temperatures [K] at ``pressure``; None if there is no liquid-vapour line."""
-    info = _fluid(name)
+    shipped = _shipped(name, pressure)
+    return shipped.saturation if shipped is not None else _coolprop_saturation(_fluid(name), pressure)
+
+
+def _coolprop_saturation(info: _Fluid, pressure: float) -> tuple[float, float] | None:
+    name = info.name
     if not info.p_triple < pressure < info.p_critical:
         return None
     state = CoolProp.AbstractState("HEOS", name)
@@ -157,8 +175,15 @@ def _phase(info: _Fluid, pressure: float, T_low: float, T_high: float) -> str:
 
 @functools.lru_cache(maxsize=256)
 def _temperature_range(name: str, pressure: float, phase: str) -> tuple[float, float]:
-    info = _fluid(name)
-    saturation = _saturation(name, pressure)
+    shipped = _shipped(name, pressure, phase)
+    if shipped is not None:
+        return shipped.temperature_range
+    return _coolprop_temperature_range(_fluid(name), _saturation(name, pressure), pressure, phase)
+
+
+def _coolprop_temperature_range(info: _Fluid, saturation: tuple[float, float] | None, pressure: float,
+                                phase: str) -> tuple[float, float]:
+    name = info.name
     low, high = info.T_min, info.T_max
     state = CoolProp.AbstractState("HEOS", name)
     if state.has_melting_line():
@@ -247,7 +272,14 @@ class PropertyTable:
 
 @functools.lru_cache(maxsize=128)
 def _table(name: str, pressure: float, phase: str) -> PropertyTable:
-    low, high = _temperature_range(name, pressure, phase)
+    shipped = _shipped(name, pressure, phase)
+    if shipped is not None:
+        return shipped.table
+    return _coolprop_table(name, pressure, phase, *_temperature_range(name, pressure, phase))
+
+
+def _coolprop_table(name: str, pressure: float, phase: str, low: float, high: float) -> PropertyTable:
+    """The table on the grid ``low..high`` [K], every row from CoolProp's ``AbstractState``."""
     n = math.ceil((high - low) / GRID_STEP) + 1
     grid = np.linspace(low, high, n)
     state = CoolProp.AbstractState("HEOS", name)
@@ -262,6 +294,18 @@ def _table(name: str, pressure: float, phase: str) -> PropertyTable:
                              field="temperature, pressure", rule=f"a state of {name} CoolProp can compute",
                              value=(float(T), pressure)) from None
     return PropertyTable(name, pressure, phase, low, (high - low) / (n - 1), values)
+
+
+def _shipped(name: str, pressure: float | None = None, phase: str | None = None):
+    """The data shipped with the package (:mod:`convlib.air_table`) if it serves this fluid, pressure
+    and phase (``None``: any), else None (then CoolProp is asked)."""
+    from convlib import air_table  # it imports this module: imported here, on first use
+
+    shipped = air_table.shipped()
+    if shipped is None or name != shipped.fluid.name or pressure not in (None, shipped.pressure) \
+            or phase not in (None, shipped.phase):
+        return None
+    return shipped
 
 
 def _exact(name: str, T: np.ndarray, pressure: np.ndarray) -> np.ndarray:
