@@ -205,3 +205,54 @@ def test_demo_lists_the_lines_in_operation():
     for tag in ("FH-150", "FH-160", "FH-170", "FH-T2"):
         assert tag in proc.stdout
     assert "no substitute for draining or heat tracing" in proc.stdout
+
+
+ISSUE_12_OUTLET = ("outlet", "--nps", "8", "--inlet-temperature", "95degC", "--mass-flow", "0.002", "--length", "2500m",
+                   "--layer", "80mm,0.03")
+
+
+def test_outlet_trickle_flow_of_issue_12_runs_and_stays_at_the_air():
+    # issue 12 point 3: this command failed with "fluid_temperature must be greater than 0 K"; the water can only
+    # approach the air (analytic bound), NPS 8 = 219.1 mm (ASME B36.10M)
+    proc = run(*ISSUE_12_OUTLET, "--air-temperature=20degC", "--json")
+    assert proc.returncode == 0, proc.stderr
+    payload = json.loads(proc.stdout)
+    row = payload["temperature along the line"]["results"][0]
+    assert row["outlet_temperature"] == pytest.approx(293.15, abs=1e-6) and row["freezes"] is False
+    assert min(payload["profile"]["temperature_K"]) >= 293.15
+
+
+def test_outlet_at_minus_10_reports_where_the_water_freezes():
+    # issue 12 point 3: at -10 degC air the same command reported -1684 K; now the profile stops where the water
+    # reaches 0 degC, at the position the library computes, with a caution
+    proc = run(*ISSUE_12_OUTLET, "--air-temperature=-10degC", "--json")
+    assert proc.returncode == 0, proc.stderr
+    payload = json.loads(proc.stdout)
+    row = payload["temperature along the line"]["results"][0]
+    direct = cl.operation.line_temperature_profile(0.2191, 368.15, [Layer(0.08, 0.03)], mass_flow=0.002,
+                                                   length=2500.0, air_temperature=263.15)
+    assert row["freezes"] is True and row["outlet_temperature"] == 273.15
+    assert row["freezing_position"] == pytest.approx(float(direct.freezing_position), rel=1e-12)
+    assert payload["temperature along the line"]["units"]["freezing_position"] == "m"
+    assert min(payload["profile"]["temperature_K"]) >= 273.15
+    assert max(payload["profile"]["position_m"]) == pytest.approx(row["freezing_position"], rel=1e-12)
+    assert cl.operation.CAUTION_LINE_FREEZE in payload["cautions"]
+    text = run(*ISSUE_12_OUTLET, "--air-temperature=-10degC")
+    assert text.returncode == 0 and "reaches 0 degC at" in text.stdout and "burst" in text.stdout
+
+
+def test_outlet_keep_above_gives_the_library_minimum_flow():
+    proc = run("outlet", "--nps", "8", "--inlet-temperature", "95degC", "--air-temperature=-10degC", "--length",
+               "2500m", "--layer", "80mm,0.03", "--keep-above", "5degC", "--mass-flow", "300kg/h", "--json")
+    assert proc.returncode == 0, proc.stderr
+    payload = json.loads(proc.stdout)
+    (title, rows), = [(t, v) for t, v in payload.items() if t.startswith("minimum flow")]
+    direct = cl.operation.minimum_flow(0.2191, 368.15, [Layer(0.08, 0.03)], outlet_limit=278.15, length=2500.0,
+                                       air_temperature=263.15)
+    row = rows["results"][0]
+    assert row["minimum_mass_flow"] == pytest.approx(float(direct.mass_flow), rel=1e-12)
+    assert rows["units"]["minimum_mass_flow"] == "kg/s"
+    assert row["enough"] == ("yes" if 300 / 3600 >= float(direct.mass_flow) else "no")
+    both = run("outlet", "--nps", "8", "--inlet-temperature", "95degC", "--air-temperature=-10degC", "--length",
+               "2500m", "--keep-above", "5degC", "--keep-below", "5degC")
+    assert both.returncode != 0 and "--keep-above" in both.stderr
