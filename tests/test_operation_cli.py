@@ -6,6 +6,7 @@ import json
 import subprocess
 import sys
 
+import numpy as np
 import pytest
 
 import convlib as cl
@@ -256,3 +257,36 @@ def test_outlet_keep_above_gives_the_library_minimum_flow():
     both = run("outlet", "--nps", "8", "--inlet-temperature", "95degC", "--air-temperature=-10degC", "--length",
                "2500m", "--keep-above", "5degC", "--keep-below", "5degC")
     assert both.returncode != 0 and "--keep-above" in both.stderr
+
+
+def test_line_list_trickle_flow_reports_the_freezing_position():
+    # issue 12 point 3 through a line list: the outlet stops at 0 degC where the library's profile does, the note
+    # gives the position and the freeze caution is among the result's cautions
+    text = ("tag,nps,length[m],fluid_temperature[degC],air_temperature[degC],layers[mm],mass_flow\n"
+            "TR-1,8,2500,95,-10,80@0.03,0.002\n"
+            "TR-2,8,2500,95,20,80@0.03,0.002\n")
+    res = run_line_list(io.StringIO(text))
+    direct = cl.operation.line_temperature_profile(0.2191, 368.15, [Layer(0.08, 0.03)], mass_flow=0.002,
+                                                   length=2500.0, air_temperature=263.15)
+    assert res.freezing_position[0] == pytest.approx(float(direct.freezing_position), rel=1e-9)
+    assert res.outlet_temperature[0] == 273.15 and "reaches 0 degC" in res.notes[0]
+    assert np.isnan(res.freezing_position[1]) and res.outlet_temperature[1] == pytest.approx(293.15, abs=1e-6)
+    assert cl.operation.CAUTION_LINE_FREEZE in res.cautions
+
+
+def test_lines_command_prints_losses_and_gains_apart_and_warns_of_design_air(tmp_path):
+    # issue 12 point 4: the table, JSON and CSV of `lines` without --bins
+    src = tmp_path / "lines.csv"
+    src.write_text("tag,nps,length,fluid_temperature[degC],air_temperature[degC],layers[mm]\n"
+                   "HW-1,4,100,90,20,50@0.04\nCHW-1,4,100,6,20,30@0.035\n")
+    res = run_line_list(str(src))
+    proc = run("lines", str(src), "-o", str(tmp_path / "out.csv"))
+    assert proc.returncode == 0, proc.stderr
+    assert f"heat lost by hot lines (1): {res.totals['q_lost'] / 1000:.1f} kW" in proc.stdout
+    assert f"heat gained by cold lines (1): {res.totals['q_gained'] / 1000:.1f} kW" in proc.stdout
+    assert res.warnings[0] in proc.stdout
+    payload = json.loads(run("lines", str(src), "--json").stdout)
+    assert payload["warnings"] == list(res.warnings)
+    assert payload["totals"]["q_gained"] == pytest.approx(res.totals["q_gained"], rel=1e-12)
+    assert payload["totals_units"]["q_gained"] == "W" and "q_total" not in payload["totals"]
+    assert res.warnings[0] in (tmp_path / "out.csv").read_text()
