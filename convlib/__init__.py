@@ -21,7 +21,8 @@ from .study import CaseSpec, StudyResult, StudySpec, run_study
 from . import snapshot  # noqa: E402  (after study: it builds on it)
 from .linelist import LineListResult, read_line_list, run_line_list, write_results_csv
 from . import operation, vessels  # noqa: E402
-from .operation import condensate_rate, freeze_time, line_temperature_profile, steam_line, tracing_duty
+from .operation import (condensate_rate, freeze_time, line_temperature_profile, minimum_flow, steam_line,
+                        tracing_duty)
 from .vessels import rectangular_duct, spherical_tank, vertical_tank
 
 __all__ = [
@@ -30,6 +31,6 @@ __all__ = [
     "insulated_pipe", "Layer", "PipeResult", "Conductivity", "nominal_pipe",
     "StudySpec", "CaseSpec", "StudyResult", "run_study", "snapshot",
     "run_line_list", "read_line_list", "write_results_csv", "LineListResult",
-    "operation", "vessels", "line_temperature_profile", "steam_line", "condensate_rate", "tracing_duty",
-    "freeze_time", "vertical_tank", "spherical_tank", "rectangular_duct",
+    "operation", "vessels", "line_temperature_profile", "minimum_flow", "steam_line", "condensate_rate",
+    "tracing_duty", "freeze_time", "vertical_tank", "spherical_tank", "rectangular_duct",
 ]

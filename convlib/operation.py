@@ -480,9 +480,9 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
         q_at_freezing = line.coefficient(theta_f) * theta_f
         q_line = np.where(at_cut, q_at_freezing[None], np.where(after, np.nan, q_line))
         temperature = np.where(at_cut, tf[None], np.where(after, np.nan, temperature))
-        notes.append(f"{int(freezes.sum())} case(s): the fluid reaches its freezing point "
-                     f"{float(np.nanmin(tf)):g} K {float(np.nanmin(x_freeze)):.1f} m from the inlet"
-                     + (" (nearest)" if freezes.sum() > 1 else "") + "; the profile stops there")
+        notes.append(f"{int(freezes.sum())} case(s): the fluid reaches its freezing point ({float(np.nanmin(tf)):g} K) "
+                     f"{float(np.nanmin(x_freeze)):.1f} m from the inlet" + (" (nearest)" if freezes.sum() > 1 else "")
+                     + ", before the outlet; the profile stops there")
         cautions.append(CAUTION_LINE_FREEZE)
     drop = flow * _integral_of_cp(line.cp, t_out, tin)
     with np.errstate(divide="ignore", invalid="ignore"):
