@@ -340,8 +340,8 @@ def _weather_bins(args):
 _LINE_UNITS = {"length": "m", "equivalent_length": "m", "outer_diameter": "m", "fluid_temperature": "K",
                "air_temperature": "K", "surface_temperature": "K", "dew_point": "K", "q_per_length": "W/m",
                "q_total": "W", "operating_hours": "h", "heat_kwh": "kWh", "purchased_kwh": "kWh", "co2_kg": "kg",
-               "outlet_temperature": "K", "freezing_position": "m", "tracing_duty_per_length": "W/m", "tracing_duty": "W",
-               "condensate": "kg/h"}
+               "outlet_temperature": "K", "freezing_position": "m", "tracing_duty_per_length": "W/m",
+               "tracing_duty": "W", "condensate": "kg/h"}
 _TOTAL_UNITS = {"length": "m", "equivalent_length": "m", "q_lost": "W", "q_gained": "W", "heat_lost_kwh": "kWh/yr",
                 "heat_gained_kwh": "kWh/yr", "purchased_kwh": "kWh/yr", "co2_kg": "kg/yr", "tracing_duty": "W",
                 "condensate": "kg/h"}

@@ -12,7 +12,7 @@ from .errors import InputError
 from .operation import (TRACING_MARGIN, freeze_time, line_temperature_profile, minimum_flow, steam_line,
                         tracing_duty)
 from .pipe import Layer
-from .units import from_si
+from .units import display_unit, from_si
 from .vessels import (FLOORS, GROUND_CONDUCTIVITY, WIND_DIRECTIONS, insulation_per_face, rectangular_duct,
                       spherical_tank, vertical_tank)
 
@@ -51,11 +51,10 @@ def _cmd_outlet(args) -> int:
     if keep is not None:
         option = "keep-above" if args.keep_above is not None else "keep-below"
         limit = parse(keep, "temperature", option)
+        side = "above" if option == "keep-below" else "below"
         if (limit > inlet) != (option == "keep-below"):
-            raise InputError(f"--{option} {keep}: the limit must be {'above' if option == 'keep-below' else 'below'} "
-                             f"the inlet temperature", field=f"--{option}", rule="on the cooling side of the inlet "
-                             "temperature" if option == "keep-above" else "on the warming side of the inlet temperature",
-                             value=keep)
+            raise InputError(f"--{option} {keep}: the limit must be {side} the inlet temperature", field=f"--{option}",
+                             rule=f"{side} the inlet temperature", value=keep)
         m = minimum_flow(pipe_diameter(args), inlet, layers, outlet_limit=limit, length=length, **common)
         row = {"tag": args.tag, "fluid_temperature": inlet, "outlet_limit": limit, "air_temperature": air,
                "equilibrium_temperature": float(m.equilibrium_temperature),
@@ -64,7 +63,13 @@ def _cmd_outlet(args) -> int:
             row["mass_flow"] = flow
             row["enough"] = "yes" if flow >= float(m.mass_flow) else "no"
         sections.append((f"minimum flow to keep the outlet {option.split('-')[1]} the limit", [row]))
-        notes += list(m.notes)
+        if args.json or not bool(m.any_flow):
+            notes += list(m.notes)
+        else:
+            unit = display_unit("temperature", args.units)
+            settles = float(from_si(float(m.equilibrium_temperature), "temperature", unit))
+            text.append(f"any flow keeps the outlet {option.split('-')[1]} the limit: with no flow the line settles "
+                        f"at {settles:.1f} {pretty_unit(unit)}")
         cautions += list(m.cautions)
         if flow is None:
             flow = float(m.mass_flow) if float(m.mass_flow) > 0 else None

@@ -33,7 +33,8 @@ from .validation import _show, as_array, check_choice
 __all__ = [
     "TRACING_MARGIN", "LATENT_HEAT_OF_FUSION", "WATER_FREEZING_TEMPERATURE", "CARBON_STEEL_DENSITY",
     "CARBON_STEEL_SPECIFIC_HEAT", "CAUTION_FREEZE", "CAUTION_TRACING", "CAUTION_STEAM",
-    "CAUTION_LINE_FREEZE", "LineProfile", "line_temperature_profile", "MinimumFlow", "minimum_flow", "saturation_temperature", "latent_heat_of_vaporization",
+    "CAUTION_LINE_FREEZE", "LineProfile", "line_temperature_profile", "MinimumFlow", "minimum_flow",
+    "saturation_temperature", "latent_heat_of_vaporization",
     "condensate_rate", "SteamLine", "steam_line", "TracingDuty", "tracing_duty", "FreezeTime", "freeze_time",
 ]
 
@@ -84,7 +85,8 @@ def _rk4(rhs, s, y, h, k1):
 
 def _march(rhs, y0, scale, tolerance, max_step):
     """dy/ds = rhs(s, y) from s = 0 to 1 by RK4 with step doubling (module docstring); a step passes when every
-    element's error estimate is <= tolerance * scale (an array, or a callable of y at the step's start). Returns s grid, y stacked on it, accepted, rejected, evaluations.
+    element's error estimate is <= tolerance * scale (an array, or a callable of y at the step's start).
+    Returns s grid, y stacked on it, accepted, rejected, evaluations.
     """
     s, y, h = 0.0, np.asarray(y0, dtype=float), float(max_step)
     grid, values = [0.0], [y]
@@ -197,7 +199,7 @@ class LineProfile:
     inlet_loss_coefficient: np.ndarray   # U' = q'(T_in) / (T_in - T_a) [W/m/K]
     steps: int                           # accepted steps
     rejected_steps: int
-    evaluations: int                     # calls of insulated_pipe for q'(T), each over all cases
+    evaluations: int                     # calls of insulated_pipe for q'(T) (setup, march, freezing point)
     equilibrium_temperature: np.ndarray  # fluid temperature at which q' = 0 [K]: the air's, or below it under a sky
     freezes: np.ndarray                  # bool: the water reaches its freezing point within the length
     freezing_position: np.ndarray        # distance from the inlet where it does [m]; NaN where it does not
@@ -448,7 +450,6 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
         theta = np.abs(state(y[0])[1])
         return np.stack([1.0 / np.where(theta > 0, theta, 1.0), np.ones(shape)])
 
-    before = line.evaluations[0]
     grid, values, accepted, rejected, _ = _march(rhs, np.zeros((2, *shape)), scale, tol, step)
     temperature, theta = state(values[:, 0])
     q_line = line.coefficient(theta) * theta
@@ -469,7 +470,8 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
         s0, s1 = take(position, cut - 1) / run, take(position, cut) / run
         h = s1 - s0
         t = np.where(freezes, (x_freeze / run - s0) / np.where(h > 0, h, 1.0), 0.0)
-        h00, h10, h01, h11 = 2 * t ** 3 - 3 * t ** 2 + 1, t ** 3 - 2 * t ** 2 + t, -2 * t ** 3 + 3 * t ** 2, t ** 3 - t ** 2
+        h00, h10 = 2 * t ** 3 - 3 * t ** 2 + 1, t ** 3 - 2 * t ** 2 + t       # cubic Hermite basis
+        h01, h11 = -2 * t ** 3 + 3 * t ** 2, t ** 3 - t ** 2
         qn_f = (h00 * take(qn, cut - 1) + h10 * h * take(slope, cut - 1) + h01 * take(qn, cut)
                 + h11 * h * take(slope, cut))     # cubic Hermite between the march points
         q_total = np.where(freezes, qn_f * capacity_in, q_total)
@@ -491,7 +493,7 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
         outlet_temperature=t_out, q_total=q_total, enthalpy_drop=drop, energy_balance_error=balance,
         fraction=grid, position=position, temperature=temperature, q_per_length=q_line,
         inlet_loss_coefficient=line.coefficient_in.copy(), steps=accepted, rejected_steps=rejected,
-        evaluations=line.evaluations[0] - before + 2, equilibrium_temperature=t_eq.copy(), freezes=freezes,
+        evaluations=line.evaluations[0], equilibrium_temperature=t_eq.copy(), freezes=freezes,
         freezing_position=x_freeze, notes=tuple(notes), cautions=tuple(cautions))
 
 
