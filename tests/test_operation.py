@@ -330,6 +330,47 @@ def test_minimum_flow_any_flow_and_refusals():
         op.minimum_flow(**NPS8, inlet_temperature=368.15, outlet_limit=272.0, length=100.0, air_temperature=263.15)
 
 
+def test_random_lines_from_trickle_to_full_flow_stay_between_inlet_and_equilibrium():
+    # analytic bounds of m cp dT/dx = -q'(T) with q' increasing in T and zero at T_eq: T moves monotonically from
+    # T_in towards T_eq and never passes it; where it reaches 0 degC first the water freezes there. 40 random lines
+    # at once (fixed seed): flows 1e-4 to 10 kg/s, 10 m to 5 km, air -30 to 40 degC, inlet 5 to 95 degC, some outdoors.
+    rng = np.random.default_rng(12)
+    n = 40
+    tin, ta = 278.15 + 90.0 * rng.random(n), 243.15 + 70.0 * rng.random(n)
+    flow, run = 10.0 ** rng.uniform(-4, 1, n), 10.0 ** rng.uniform(1, np.log10(5000.0), n)
+    sky = np.where(rng.random(n) < 0.3, 0.5, 0.0)
+    p = op.line_temperature_profile(0.1143, tin, [Layer(0.05, 0.04)], mass_flow=flow, length=run, air_temperature=ta,
+                                    sky_view_fraction=sky)
+    t_eq, t = p.equilibrium_temperature, p.temperature
+    low, high = np.minimum(tin, t_eq), np.maximum(tin, t_eq)
+    finite = ~np.isnan(t)
+    assert np.all((t >= low - 1e-9) | ~finite) and np.all((t <= high + 1e-9) | ~finite)
+    step = np.diff(np.where(finite, t, np.nan), axis=0) * np.sign(t_eq - tin)
+    assert np.all((step >= -1e-9) | np.isnan(step))                     # monotone towards the equilibrium
+    # freezing exactly where the water, cooling towards an equilibrium below 0 degC, gets to 0 degC within the line
+    assert np.all(p.freezes <= (t_eq < 273.15)) and np.all(p.outlet_temperature[p.freezes] == 273.15)
+    assert np.all(p.freezing_position[p.freezes] <= run[p.freezes])
+    assert np.all(p.outlet_temperature[~p.freezes] >= 273.15 - 1e-9)
+    assert p.freezes.any() and (~p.freezes).any() and np.nanmax(np.abs(p.energy_balance_error)) < 1e-5
+
+
+def test_random_minimum_flows_put_the_outlet_on_the_limit():
+    # the quadrature of minimum_flow and the march of line_temperature_profile are two algorithms for one energy
+    # balance: at the minimum flow the march's outlet is the limit (to the marching tolerance, 1e-6 K per step)
+    rng = np.random.default_rng(7)
+    n = 30
+    tin, ta = 278.15 + 90.0 * rng.random(n), 243.15 + 70.0 * rng.random(n)
+    run = 10.0 ** rng.uniform(1, np.log10(5000.0), n)
+    floor = np.maximum(ta, 273.15)   # a hot line kept above 0 degC and the air; a cold one below the air
+    limit = np.where(tin > ta, floor + (tin - floor) * rng.uniform(0.05, 0.95, n),
+                     tin + (ta - tin) * rng.uniform(0.05, 0.95, n))
+    kw = dict(length=run, air_temperature=ta, wind_speed=3.0)
+    m = op.minimum_flow(0.1143, tin, [Layer(0.05, 0.04)], outlet_limit=limit, **kw)
+    assert not m.any_flow.any() and np.all(m.mass_flow > 0)
+    p = op.line_temperature_profile(0.1143, tin, [Layer(0.05, 0.04)], mass_flow=m.mass_flow, **kw)
+    np.testing.assert_allclose(p.outlet_temperature, limit, atol=5e-5)   # 6e-6 K seen with this seed
+
+
 # --------------------------------------------------------------------------- steam
 def test_condensate_rate_from_steam_tables():
     # IAPWS-IF97 steam tables (e.g. Cengel, Table A-5, from memory): h_fg = 2256.5 kJ/kg at 101.325 kPa,
