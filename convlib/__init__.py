@@ -29,6 +29,7 @@ _LAZY = {
     "LineListResult": "linelist", "read_line_list": "linelist", "run_line_list": "linelist",
     "write_results_csv": "linelist",
     "condensate_rate": "operation", "freeze_time": "operation", "line_temperature_profile": "operation",
+    "minimum_flow": "operation",
     "steam_line": "operation", "tracing_duty": "operation",
     "rectangular_duct": "vessels", "spherical_tank": "vessels", "vertical_tank": "vessels",
 }
@@ -64,6 +65,6 @@ __all__ = [
     "insulated_pipe", "Layer", "PipeResult", "Conductivity", "nominal_pipe",
     "StudySpec", "CaseSpec", "StudyResult", "run_study", "snapshot",
     "run_line_list", "read_line_list", "write_results_csv", "LineListResult",
-    "operation", "vessels", "line_temperature_profile", "steam_line", "condensate_rate", "tracing_duty",
-    "freeze_time", "vertical_tank", "spherical_tank", "rectangular_duct",
+    "operation", "vessels", "line_temperature_profile", "minimum_flow", "steam_line", "condensate_rate",
+    "tracing_duty", "freeze_time", "vertical_tank", "spherical_tank", "rectangular_duct",
 ]

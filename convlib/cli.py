@@ -341,7 +341,11 @@ def _weather_bins(args):
 _LINE_UNITS = {"length": "m", "equivalent_length": "m", "outer_diameter": "m", "fluid_temperature": "K",
                "air_temperature": "K", "surface_temperature": "K", "dew_point": "K", "q_per_length": "W/m",
                "q_total": "W", "operating_hours": "h", "heat_kwh": "kWh", "purchased_kwh": "kWh", "co2_kg": "kg",
-               "outlet_temperature": "K", "tracing_duty_per_length": "W/m", "tracing_duty": "W", "condensate": "kg/h"}
+               "outlet_temperature": "K", "freezing_position": "m", "tracing_duty_per_length": "W/m",
+               "tracing_duty": "W", "condensate": "kg/h"}
+_TOTAL_UNITS = {"length": "m", "equivalent_length": "m", "q_lost": "W", "q_gained": "W", "heat_lost_kwh": "kWh/yr",
+                "heat_gained_kwh": "kWh/yr", "purchased_kwh": "kWh/yr", "co2_kg": "kg/yr", "tracing_duty": "W",
+                "condensate": "kg/h"}
 
 
 def _cmd_lines(args) -> int:
@@ -369,6 +373,7 @@ def _cmd_lines(args) -> int:
     if args.json:
         json.dump({"lines": {"results": result.rows(), "units": _LINE_UNITS},
                    "errors": [e._asdict() for e in result.errors], "totals": result.totals,
+                   "totals_units": _TOTAL_UNITS, "warnings": list(result.warnings),
                    "settings": result.settings, "output": args.output, "cautions": list(result.cautions),
                    "convlib_version": __version__}, sys.stdout, indent=2)
         print()
@@ -383,10 +388,14 @@ def _cmd_lines(args) -> int:
                      "warnings": [row["notes"]] if row["notes"] else []})
     table(rows, args.units)
     t = result.totals
-    print(f"\n{t['lines']} lines computed, {t['rows_with_errors']} row(s) with errors; total "
-          f"{t['q_total'] / 1000:.1f} kW, {t['heat_kwh'] / 1000:.1f} MWh/yr, purchased "
-          f"{t['purchased_kwh'] / 1000:.1f} MWh/yr, cost {t['cost']:.0f}/yr, CO2 {t['co2_kg'] / 1000:.1f} t/yr; "
-          f"{t['touch_flags']} touch and {t['condensation_flags']} condensation flag(s) (flags, not verdicts)")
+    print(f"\n{t['lines']} lines computed, {t['rows_with_errors']} row(s) with errors")
+    print(f"heat lost by hot lines ({t['lines_losing']}): {_power_text(t['q_lost'], args.units)}, "
+          f"{_energy_text(t['heat_lost_kwh'], args.units)}")
+    print(f"heat gained by cold lines ({t['lines_gaining']}): {_power_text(t['q_gained'], args.units)}, "
+          f"{_energy_text(t['heat_gained_kwh'], args.units)}")
+    print(f"purchased energy {_energy_text(t['purchased_kwh'], args.units)}, cost {t['cost']:.0f}/yr, "
+          f"CO2 {t['co2_kg'] / 1000:.1f} t/yr; {t['touch_flags']} touch and {t['condensation_flags']} "
+          f"condensation flag(s) (flags, not verdicts)")
     extras = [f"{label} {t[name]:.{digits}f} {unit} on {int(np.sum(~np.isnan(getattr(result, name))))} line(s)"
               for name, label, unit, digits in (("condensate", "steam condensate", "kg/h", 1),
                                                 ("tracing_duty", "tracing duty", "W", 0))
@@ -395,9 +404,20 @@ def _cmd_lines(args) -> int:
         print("; ".join(extras))
     if args.output:
         print(f"results written to {args.output}")
-    for c in result.cautions:
+    for c in (*result.warnings, *result.cautions):
         print(c)
     return 1 if result.errors else 0
+
+
+def _power_text(watts: float, units: str) -> str:
+    """A design heat flow [W] in kW (SI) or Btu/h (US)."""
+    return f"{watts / 1000:.1f} kW" if units == "SI" else f"{float(from_si(watts, 'power', 'Btu/hour')):,.0f} Btu/h"
+
+
+def _energy_text(kwh: float, units: str) -> str:
+    """An annual energy [kWh/yr] in MWh/yr (SI) or MMBtu/yr (US)."""
+    return (f"{kwh / 1000:.1f} MWh/yr" if units == "SI" else
+            f"{float(from_si(kwh * 3.6e6, 'energy', 'MMBtu')):,.1f} MMBtu/yr")
 
 
 def _cmd_report(args) -> int:

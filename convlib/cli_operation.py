@@ -7,10 +7,12 @@ from __future__ import annotations
 import numpy as np
 
 from .cli_common import (GIVEN_COEFFICIENT_HELP, emit, nominal_pipe, output_options, outside, parse, parse_layer,
-                         pipe_diameter, pipe_size_options, surface_cautions)
+                         pipe_diameter, pipe_size_options, pretty_unit, surface_cautions)
 from .errors import InputError
-from .operation import TRACING_MARGIN, freeze_time, line_temperature_profile, steam_line, tracing_duty
+from .operation import (TRACING_MARGIN, freeze_time, line_temperature_profile, minimum_flow, steam_line,
+                        tracing_duty)
 from .pipe import Layer
+from .units import display_unit, from_si
 from .vessels import (FLOORS, GROUND_CONDUCTIVITY, WIND_DIRECTIONS, insulation_per_face, rectangular_duct,
                       spherical_tank, vertical_tank)
 
@@ -33,19 +35,74 @@ def _cmd_outlet(args) -> int:
     layers = [parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
     inlet = parse(args.inlet_temperature, "temperature", "inlet-temperature")
     air = parse(args.air_temperature, "temperature", "air-temperature")
-    mass_flow = parse(args.mass_flow, "mass_flow", "mass-flow")
     length = parse(args.length, "length", "length")
-    r = line_temperature_profile(pipe_diameter(args), inlet, layers, mass_flow=mass_flow, length=length,
-                                 air_temperature=air, fluid=args.fluid,
-                                 fluid_pressure=parse(args.fluid_pressure, "pressure", "fluid-pressure"),
-                                 **outside(args))
-    row = {"tag": args.tag, "fluid_temperature": inlet, "outlet_temperature": float(r.outlet_temperature),
-           "air_temperature": air, "q_total": float(r.q_total), "warnings": []}
-    emit(args, [("temperature along the line", [row])], [],
-          {"text": [f"energy balance: loss {float(r.q_total):.6g} W vs enthalpy drop {float(r.enthalpy_drop):.6g} W "
-                    f"({float(r.energy_balance_error):.1e} relative); {int(np.max(r.steps))} steps"]}
-          if not args.json else {"profile": {"position_m": np.asarray(r.position).ravel().tolist(),
-                                             "temperature_K": np.asarray(r.temperature).ravel().tolist()}})
+    if args.keep_above is not None and args.keep_below is not None:
+        raise InputError("give --keep-above (a hot line) or --keep-below (a cold line), not both",
+                         field="--keep-above, --keep-below", rule="at most one of them",
+                         value=(args.keep_above, args.keep_below))
+    keep = args.keep_above if args.keep_above is not None else args.keep_below
+    if args.mass_flow is None and keep is None:
+        raise InputError("give --mass-flow, or --keep-above / --keep-below for the minimum flow",
+                         field="--mass-flow", rule="given unless --keep-above or --keep-below is", value=None)
+    common = dict(air_temperature=air, fluid=args.fluid,
+                  fluid_pressure=parse(args.fluid_pressure, "pressure", "fluid-pressure"), **outside(args))
+    sections, notes, cautions, text, extra = [], [], [], [], {}
+    flow = None if args.mass_flow is None else parse(args.mass_flow, "mass_flow", "mass-flow")
+    if keep is not None:
+        option = "keep-above" if args.keep_above is not None else "keep-below"
+        limit = parse(keep, "temperature", option)
+        side = "above" if option == "keep-below" else "below"
+        if (limit > inlet) != (option == "keep-below"):
+            raise InputError(f"--{option} {keep}: the limit must be {side} the inlet temperature", field=f"--{option}",
+                             rule=f"{side} the inlet temperature", value=keep)
+        m = minimum_flow(pipe_diameter(args), inlet, layers, outlet_limit=limit, length=length, **common)
+        row = {"tag": args.tag, "fluid_temperature": inlet, "outlet_limit": limit, "air_temperature": air,
+               "equilibrium_temperature": float(m.equilibrium_temperature),
+               "minimum_mass_flow": float(m.mass_flow), "warnings": []}
+        if flow is not None:
+            row["mass_flow"] = flow
+            row["enough"] = "yes" if flow >= float(m.mass_flow) else "no"
+        sections.append((f"minimum flow to keep the outlet {option.split('-')[1]} the limit", [row]))
+        if args.json or not bool(m.any_flow):
+            notes += list(m.notes)
+        else:
+            unit = display_unit("temperature", args.units)
+            settles = float(from_si(float(m.equilibrium_temperature), "temperature", unit))
+            text.append(f"any flow keeps the outlet {option.split('-')[1]} the limit: with no flow the line settles "
+                        f"at {settles:.1f} {pretty_unit(unit)}")
+        cautions += list(m.cautions)
+        if flow is None:
+            flow = float(m.mass_flow) if float(m.mass_flow) > 0 else None
+    if flow is not None:
+        r = line_temperature_profile(pipe_diameter(args), inlet, layers, mass_flow=flow, length=length, **common)
+        freezes = bool(r.freezes)
+        row = {"tag": args.tag, "mass_flow": flow, "fluid_temperature": inlet,
+               "outlet_temperature": float(r.outlet_temperature), "air_temperature": air, "q_total": float(r.q_total)}
+        if args.json:
+            row.update(equilibrium_temperature=float(r.equilibrium_temperature), freezes=freezes,
+                       freezing_position=float(r.freezing_position) if freezes else None)
+        else:
+            unit = "foot" if args.units == "US" else "m"
+            row["freezes"] = (f"at {float(from_si(float(r.freezing_position), 'length', unit)):.1f} "
+                              f"{pretty_unit(unit)}" if freezes else "no")
+        row["warnings"] = []
+        sections.append(("temperature along the line", [row]))
+        cautions += list(r.cautions)
+        if not freezes or args.json:
+            notes += list(r.notes)
+        else:
+            text.append(f"the water reaches 0 degC {row['freezes']} from the inlet, before the outlet: the profile "
+                        f"stops there and the outlet temperature shown is the freezing point")
+        text.append(f"energy balance: loss {float(r.q_total):.6g} W vs enthalpy drop {float(r.enthalpy_drop):.6g} W "
+                    f"({float(r.energy_balance_error):.1e} relative); {int(np.max(r.steps))} steps")
+        keep_points = ~np.isnan(np.asarray(r.position).ravel())
+        extra["profile"] = {"position_m": np.asarray(r.position).ravel()[keep_points].tolist(),
+                            "temperature_K": np.asarray(r.temperature).ravel()[keep_points].tolist()}
+    if args.json:
+        extra.update(notes=notes)
+    else:
+        extra = {"text": [*text, *notes]}
+    emit(args, sections, cautions, extra)
     return 0
 
 
@@ -207,11 +264,16 @@ def _emit_faces(args, title, r, air_temperature, sizing=()) -> None:
 def add_commands(sub) -> None:
     """Add the commands of lines in operation to the ``convlib`` subparsers ``sub``."""
     layer_help = "THICKNESS,CONDUCTIVITY[,NAME] from the pipe outwards, e.g. --layer 25mm,0.04,mineral wool"
-    outlet = sub.add_parser("outlet", help="temperature along a line with flow: outlet temperature and loss")
+    outlet = sub.add_parser("outlet", help="temperature along a line with flow: outlet temperature and loss, "
+                            "where water reaches 0 degC, the minimum flow for an outlet limit")
     pipe_size_options(outlet)
     outlet.add_argument("--inlet-temperature", required=True, help="fluid temperature at the inlet, e.g. 115degC")
     outlet.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. -5degC")
-    outlet.add_argument("--mass-flow", required=True, help="mass flow, e.g. 12 (kg/s) or 43000 kg/h")
+    outlet.add_argument("--mass-flow", help="mass flow, e.g. 12 (kg/s) or 43000 kg/h (optional with --keep-above)")
+    outlet.add_argument("--keep-above", help="minimum flow that keeps the outlet of a hot line at or above this, "
+                        "e.g. 5degC (with --mass-flow: also whether that flow is enough)")
+    outlet.add_argument("--keep-below", help="minimum flow that keeps the outlet of a cold line at or below this, "
+                        "e.g. 8degC")
     outlet.add_argument("--length", required=True, help="line length, e.g. 1400 or 1.4km")
     outlet.add_argument("--fluid", default="Water", help="CoolProp fluid name (default Water)")
     outlet.add_argument("--fluid-pressure", default="101325", help="fluid pressure, e.g. 6bar (default 1 atm)")

@@ -60,9 +60,12 @@ equivalent length (length plus fittings); per year: heat lost (> 0) or gained (<
 (hot service, fluid above the design air: net loss / efficiency; cold service: net gain / COP), its
 cost and CO2. With :class:`~convlib.design.WeatherBins`, outdoor lines see each bin's air temperature
 and wind, indoor lines keep their design air and wind; a given ``operating_hours`` scales every bin's
-hours by ``operating_hours / total bin hours``. ``touch_flag`` (surface above a touch limit) and
-``condensation_flag`` (surface below the dew point of the line's air) are flags for review, not
-verdicts (:data:`~convlib.design.CAUTION_TOUCH`, :data:`~convlib.design.CAUTION_CONDENSATION`).
+hours by ``operating_hours / total bin hours``; without them every line takes its design condition for
+all its hours, and :attr:`LineListResult.warnings` says so. Totals never net a cold line's gain against
+a hot line's loss: heat lost by hot lines and heat gained by cold lines are summed apart.
+``touch_flag`` (surface above a touch limit) and ``condensation_flag`` (surface below the dew point
+of the line's air) are flags for review, not verdicts (:data:`~convlib.design.CAUTION_TOUCH`,
+:data:`~convlib.design.CAUTION_CONDENSATION`).
 
 Examples
 --------
@@ -96,7 +99,8 @@ from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, DEFAULT_COOLING_COP, D
                      FITTING_EQUIVALENT_LENGTH, TOUCH_LIMIT_METAL_JACKET, WeatherBins)
 from .errors import InputError
 from .lines import LineSpec
-from .operation import condensate_rate, line_temperature_profile, saturation_temperature, tracing_duty
+from .operation import (CAUTION_LINE_FREEZE, condensate_rate, line_temperature_profile, saturation_temperature,
+                        tracing_duty)
 from .pipe import Layer, insulated_pipe
 from .pipe_sizes import nominal_pipe
 from .properties import dew_point
@@ -105,8 +109,8 @@ from .regimes import describe_flags
 from .units import from_si, to_si
 from .validation import as_array
 
-__all__ = ["COLUMNS", "OUTPUT_COLUMNS", "OUTDOOR_SKY_VIEW_FRACTION", "RowError", "ParsedLine", "LineListResult",
-           "read_line_list", "run_line_list", "write_results_csv", "demo_lines_path"]
+__all__ = ["COLUMNS", "OUTPUT_COLUMNS", "OUTDOOR_SKY_VIEW_FRACTION", "WARNING_DESIGN_AIR_ALL_YEAR", "RowError",
+           "ParsedLine", "LineListResult", "read_line_list", "run_line_list", "write_results_csv", "demo_lines_path"]
 
 #: Input columns and the kind of quantity of their unit suffix ("text" and "count" take none).
 COLUMNS = {
@@ -403,6 +407,11 @@ def read_line_list(source) -> tuple[list[ParsedLine], list[RowError]]:
 
 
 # ----------------------------------------------------------------------------- computing
+def _one_side(name: str, sign: float, doc: str) -> property:
+    """A read-only property: ``max(sign * self.<name>, 0)`` per line."""
+    return property(lambda self: np.maximum(sign * getattr(self, name), 0.0), doc=doc)
+
+
 @dataclass(frozen=True)
 class LineListResult:
     """Per-line results (arrays in file order, one entry per computed line), failed rows, settings.
@@ -435,7 +444,8 @@ class LineListResult:
     co2_kg: np.ndarray
     touch_flag: np.ndarray
     condensation_flag: np.ndarray
-    outlet_temperature: np.ndarray         # NaN without mass_flow [K]
+    outlet_temperature: np.ndarray         # NaN without mass_flow [K]; the freezing point where the water freezes
+    freezing_position: np.ndarray          # where the water reaches 0 degC [m from the inlet]; NaN if it does not
     tracing_duty_per_length: np.ndarray    # NaN without maintain_temperature [W/m]
     tracing_duty: np.ndarray               # over the equivalent length [W]
     condensate: np.ndarray                 # NaN without steam_pressure [kg/h]
@@ -446,18 +456,37 @@ class LineListResult:
     def __len__(self) -> int:
         return len(self.tag)
 
+    # heat on each side, positive numbers, 0 for a line on the other side: never netted across lines
+    q_lost = _one_side("q_total", 1.0, "Heat lost at the design conditions by each line that loses heat [W].")
+    q_gained = _one_side("q_total", -1.0, "Heat gained at the design conditions by each line that gains heat [W].")
+    heat_lost_kwh = _one_side("heat_kwh", 1.0, "Annual heat lost by each line whose year is a loss [kWh/yr].")
+    heat_gained_kwh = _one_side("heat_kwh", -1.0, "Annual heat gained by each line whose year is a gain [kWh/yr].")
+
     @property
     def totals(self) -> dict:
-        """Sums over the computed lines (cold lines count negative in ``q_total`` and ``heat_kwh``)."""
+        """Sums over the computed lines. Heat is never netted across lines: ``q_lost`` / ``heat_lost_kwh`` sum the
+        lines that lose heat (hot lines), ``q_gained`` / ``heat_gained_kwh`` those that gain it (cold lines), both
+        positive [W], [kWh/yr]; ``lines_losing`` and ``lines_gaining`` count them (at the design conditions).
+        Purchased energy, cost and CO2 are sums of per-line figures, each already on the right side.
+        ``annual_basis`` says what the annual figures assume (see :attr:`warnings`)."""
         sums = {name: float(np.nansum(getattr(self, name))) for name in _SUMMED}
         return {"lines": len(self), "rows_with_errors": len(self.errors), **sums,
+                "lines_losing": int(np.sum(self.q_total > 0)), "lines_gaining": int(np.sum(self.q_total < 0)),
+                "annual_basis": "weather bins" if self.settings.get("weather_bins") else ANNUAL_BASIS_DESIGN,
                 "touch_flags": int(np.sum(self.touch_flag)), "condensation_flags": int(np.sum(self.condensation_flag))}
+
+    @property
+    def warnings(self) -> tuple[str, ...]:
+        """Warnings on the whole result: :data:`WARNING_DESIGN_AIR_ALL_YEAR` when no weather bins were given."""
+        return () if self.settings.get("weather_bins") or not len(self) else (WARNING_DESIGN_AIR_ALL_YEAR,)
 
     @property
     def cautions(self) -> tuple[str, ...]:
         """The cautions that apply: touch and condensation where any line is flagged."""
         return tuple(text for text, flags in ((CAUTION_TOUCH, self.touch_flag),
-                                              (CAUTION_CONDENSATION, self.condensation_flag)) if np.any(flags))
+                                              (CAUTION_CONDENSATION, self.condensation_flag),
+                                              (CAUTION_LINE_FREEZE, ~np.isnan(self.freezing_position)))
+                     if np.any(flags))
 
     def rows(self) -> list[dict]:
         """One dict per computed line with SI values (None for a missing dew point), e.g. for JSON."""
@@ -467,8 +496,15 @@ class LineListResult:
                 for row in zip(*values)]
 
 
-_SUMMED = ("length", "equivalent_length", "q_total", "heat_kwh", "purchased_kwh", "cost", "co2_kg", "tracing_duty",
-           "condensate")
+_SUMMED = ("length", "equivalent_length", "q_lost", "q_gained", "heat_lost_kwh", "heat_gained_kwh", "purchased_kwh",
+           "cost", "co2_kg", "tracing_duty", "condensate")
+
+ANNUAL_BASIS_DESIGN = "design air for all operating hours"
+#: Warning of every output of a line list computed without weather bins.
+WARNING_DESIGN_AIR_ALL_YEAR = (
+    "Warning: no weather bins were given, so the annual figures take each line's design air temperature and wind "
+    "for every operating hour (8,760 h/yr unless operating_hours is given). For outdoor lines a cold design "
+    "condition overstates the annual loss; give weather bins (CLI: --bins FILE.json) for annual energy.")
 
 
 def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
@@ -588,7 +624,7 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
     flow, maintain = col(g.get("mass_flow") for g in given), col(g.get("maintain_temperature") for g in given)
     coldest = col(g.get("minimum_ambient") for g in given)
     coldest = np.where(np.isnan(coldest), ta, coldest)
-    outlet, duty = np.full(n, np.nan), np.full(n, np.nan)
+    outlet, duty, frozen_at = np.full(n, np.nan), np.full(n, np.nan), np.full(n, np.nan)
 
     def operate(idx, wanted, label, compute):
         """Per layer count at once; a group the solver rejects is redone line by line (notes on those lines)."""
@@ -609,13 +645,21 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
     fluid = [(g.get("fluid", "Water"), g.get("fluid_phase", "liquid")) for g in given]
     fluid_pressure = col(g.get("fluid_pressure", 101325.0) for g in given)
     flowing = np.flatnonzero(ok & ~np.isnan(flow))
+
+    def outlet_of(i, layers, name, phase):
+        p = line_temperature_profile(d[i], tf[i], layers, mass_flow=flow[i], length=leq[i], air_temperature=ta[i],
+                                     fluid=name, fluid_pressure=fluid_pressure[i], fluid_phase=phase,
+                                     wind_speed=wind[i], jacket_emissivity=eps[i], sky_view_fraction=sky[i],
+                                     sky_temperature=sky_of(ta[i], i))
+        frozen_at[i] = p.freezing_position
+        return p.outlet_temperature
+
     for name, phase in sorted({fluid[i] for i in flowing}):
         operate(np.array([i for i in flowing if fluid[i] == (name, phase)]), outlet, "outlet temperature",
-                lambda i, layers, name=name, phase=phase: line_temperature_profile(
-                    d[i], tf[i], layers, mass_flow=flow[i], length=leq[i], air_temperature=ta[i], fluid=name,
-                    fluid_pressure=fluid_pressure[i], fluid_phase=phase, wind_speed=wind[i],
-                    jacket_emissivity=eps[i], sky_view_fraction=sky[i],
-                    sky_temperature=sky_of(ta[i], i)).outlet_temperature)
+                lambda i, layers, name=name, phase=phase: outlet_of(i, layers, name, phase))
+    for i in np.flatnonzero(~np.isnan(frozen_at)):
+        notes[int(i)].append(f"the water reaches 0 degC {frozen_at[i]:.1f} m from the inlet, before the outlet "
+                             f"(outlet temperature shown: 0 degC)")
     operate(np.flatnonzero(ok & ~np.isnan(maintain)), duty, "tracing duty", lambda i, layers: (
         tracing_duty(d[i], maintain[i], layers, air_temperature=coldest[i], wind_speed=wind[i],
                      jacket_emissivity=eps[i], sky_view_fraction=sky[i],
@@ -659,6 +703,7 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
         q_per_length=q[keep], q_total=(q * leq)[keep], operating_hours=hours[keep], heat_kwh=heat[keep],
         purchased_kwh=purchased[keep], cost=(purchased * price)[keep], co2_kg=(purchased * co2)[keep],
         touch_flag=(ts > limit)[keep], condensation_flag=(ts < dew)[keep], outlet_temperature=outlet[keep],
+        freezing_position=frozen_at[keep],
         tracing_duty_per_length=duty[keep], tracing_duty=(duty * leq)[keep], condensate=condensate[keep],
         notes=tuple("; ".join(texts[flags[i]] + notes[i]) for i in keep),
         errors=tuple(sorted(errors, key=lambda e: e.row)),
@@ -674,10 +719,13 @@ OUTPUT_COLUMNS = (
     *((f"{name}[degC]", name, ("temperature", "degC"))
       for name in ("fluid_temperature", "air_temperature", "surface_temperature", "dew_point")),
     ("q_per_length[W/m]", "q_per_length", None), ("q_total[W]", "q_total", None),
+    ("heat_lost[W]", "q_lost", None), ("heat_gained[W]", "q_gained", None),
     ("operating_hours[h]", "operating_hours", None), ("annual_heat[kWh]", "heat_kwh", None),
+    ("annual_heat_lost[kWh]", "heat_lost_kwh", None), ("annual_heat_gained[kWh]", "heat_gained_kwh", None),
     ("purchased_energy[kWh]", "purchased_kwh", None), ("cost", "cost", None), ("co2[kg]", "co2_kg", None),
     ("touch_flag", "touch_flag", None), ("condensation_flag", "condensation_flag", None),
     ("outlet_temperature[degC]", "outlet_temperature", ("temperature", "degC")),
+    ("freezing_position[m]", "freezing_position", None),
     ("tracing_duty[W/m]", "tracing_duty_per_length", None), ("tracing_duty_total[W]", "tracing_duty", None),
     ("condensate[kg/h]", "condensate", None),
 )
@@ -701,6 +749,9 @@ def write_results_csv(result: LineListResult, path) -> None:
     as in the input; temperatures in degC; ``annual_heat`` is ``heat_kwh``, ``co2`` is ``co2_kg``)
     and ``notes`` (warnings, or why a row failed). Rows in file order; the last row has ``row`` =
     ``TOTAL``, the sums of the summed columns and the number of flagged lines in the flag columns.
+    Heat is never netted across lines: the TOTAL row leaves the signed ``q_total`` and ``annual_heat``
+    empty and sums ``heat_lost`` (hot lines) and ``heat_gained`` (cold lines) separately; its notes carry
+    :attr:`LineListResult.warnings`.
     """
     columns = [getattr(result, a) if conv is None else from_si(np.asarray(getattr(result, a), dtype=float), *conv)
                for _, a, conv in OUTPUT_COLUMNS]  # whole columns converted at once
@@ -712,8 +763,9 @@ def write_results_csv(result: LineListResult, path) -> None:
     for _, attribute, _ in OUTPUT_COLUMNS:
         total.append(_cell(totals[attribute]) if attribute in _SUMMED else
                      str(totals[attribute + "s"]) if attribute.endswith("_flag") else "")
-    total.append(f"sums over the {len(result)} computed lines; {len(result.errors)} row(s) with errors not included; "
-                 f"flag columns count flagged lines (flags for review, not verdicts)")
+    total.append(" ".join([f"sums over the {len(result)} computed lines; {len(result.errors)} row(s) with errors not "
+                           f"included; heat lost by hot lines and gained by cold lines summed apart, never netted; "
+                           f"flag columns count flagged lines (flags for review, not verdicts).", *result.warnings]))
     path = Path(path)
     fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.", suffix=".tmp")
     try:

@@ -507,6 +507,7 @@ def operation_view(case: CaseSpec, inputs: OperationInputs, sweep_input: str = "
     else:
         position, temperature = np.asarray(p.position, float), np.asarray(p.temperature, float)
         outlet, condensate = _item(p.outlet_temperature), float("nan")
+        notes, cautions = (*p.notes, *notes), (*p.cautions, *cautions)  # where the water would freeze
         sweep_outlet = np.asarray(sp.outlet_temperature, float)
         sweep_condensate = np.full(sweep_outlet.shape, np.nan)
     return OperationView(

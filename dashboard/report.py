@@ -79,9 +79,13 @@ def _study_rows(spec, d: Display) -> list[str]:
 
 def _results(res, d: Display) -> str:
     b = res.base
-    rows = [("Heat loss per length", d.text(b.q_per_length[0], "q_per_length")),
-            ("  convection part", d.text(b.q_convection_per_length[0], "q_per_length")),
-            ("  radiation part", d.text(b.q_radiation_per_length[0], "q_per_length")),
+    # a loss and a gain are named as such, never shown as a negative loss; the parts keep the sign of the total
+    gains = b.q_per_length[0] < 0
+    sign = -1.0 if gains else 1.0
+    rows = [("Heat gained per length (the line is colder than its surroundings)" if gains else "Heat lost per length",
+             d.text(sign * b.q_per_length[0], "q_per_length")),
+            ("  convection part", d.text(sign * b.q_convection_per_length[0], "q_per_length")),
+            ("  radiation part", d.text(sign * b.q_radiation_per_length[0], "q_per_length")),
             ("Surface temperature", d.text(b.surface_temperature[0], "surface_temperature")),
             ("Dew point of the air", d.text(res.dew_point, "dew_point")),
             ("h convection", d.text(b.h_convection[0], "h_convection")),

@@ -296,6 +296,38 @@ def test_without_bins_the_design_condition_runs_all_year_or_the_given_hours():
     assert res.operating_hours.tolist() == [8760.0, 2000.0]
 
 
+HOT_AND_CHILLED = ("tag,nps,length,fluid_temperature[degC],air_temperature[degC],layers[mm]",
+                   "HW-1,4,100,90,20,50@0.04", "CHW-1,4,100,6,20,30@0.035")
+
+
+def test_hot_loss_and_chilled_gain_are_not_netted_and_design_air_all_year_is_warned():
+    # issue 12 point 4: a total netted the chilled-water gain against the hot-water loss. Expected values: direct
+    # insulated_pipe calls per line, summed by hand on each side; without bins each line runs 8760 h at its design air
+    res = run_line_list(csv_text(*HOT_AND_CHILLED))
+    hot, cold = (float(cl.insulated_pipe(0.1143, tf, [cl.Layer(t, k)], air_temperature=293.15).q_per_length) * 100
+                 for tf, t, k in ((363.15, 0.05, 0.04), (279.15, 0.03, 0.035)))
+    assert hot > 0 > cold
+    t = res.totals
+    assert t["q_lost"] == pytest.approx(hot, rel=1e-9) and t["q_gained"] == pytest.approx(-cold, rel=1e-9)
+    assert t["heat_lost_kwh"] == pytest.approx(hot * 8760 / 1000, rel=1e-9)
+    assert t["heat_gained_kwh"] == pytest.approx(-cold * 8760 / 1000, rel=1e-9)
+    assert t["annual_basis"] == "design air for all operating hours"
+    assert len(res.warnings) == 1 and "8,760 h/yr" in res.warnings[0]
+    # with weather bins the annual figures follow them and the warning goes
+    binned = run_line_list(csv_text(*HOT_AND_CHILLED), BINS)
+    assert binned.warnings == () and binned.totals["annual_basis"] == "weather bins"
+
+
+def test_written_csv_totals_row_carries_the_design_air_warning(tmp_path):
+    res = run_line_list(csv_text(*HOT_AND_CHILLED))
+    write_results_csv(res, tmp_path / "out.csv")
+    with open(tmp_path / "out.csv", newline="", encoding="utf-8") as fh:
+        total = list(csv.DictReader(fh))[-1]
+    assert total["row"] == "TOTAL" and res.warnings[0] in total["notes"]
+    assert float(total["heat_gained[W]"]) == pytest.approx(res.totals["q_gained"], rel=1e-6)
+    assert total["q_total[W]"] == ""
+
+
 def magnus_dew_point(t_celsius, rh):
     """Dew point [degC] over water, Magnus form of Alduchov & Eskridge (1996), their coefficients
     17.625 and 243.04 degC; doi:10.1175/1520-0450(1996)035<0601:IMFAOS>2.0.CO;2."""
@@ -323,8 +355,16 @@ def test_touch_and_condensation_flags():
 def test_totals_are_the_sums(demo):
     t = demo.totals
     assert t["lines"] == len(demo) and t["rows_with_errors"] == 0
-    for name in ("length", "equivalent_length", "q_total", "heat_kwh", "purchased_kwh", "cost", "co2_kg"):
+    for name in ("length", "equivalent_length", "purchased_kwh", "cost", "co2_kg"):
         assert t[name] == pytest.approx(sum(float(v) for v in getattr(demo, name)), rel=1e-12)
+    # heat: lines that lose and lines that gain summed apart (issue 12 point 4), by hand over the per-line values
+    q, e = [float(v) for v in demo.q_total], [float(v) for v in demo.heat_kwh]
+    assert t["q_lost"] == pytest.approx(sum(v for v in q if v > 0), rel=1e-12)
+    assert t["q_gained"] == pytest.approx(-sum(v for v in q if v < 0), rel=1e-12)
+    assert t["heat_lost_kwh"] == pytest.approx(sum(v for v in e if v > 0), rel=1e-12)
+    assert t["heat_gained_kwh"] == pytest.approx(-sum(v for v in e if v < 0), rel=1e-12)
+    assert t["lines_losing"] + t["lines_gaining"] == len(demo) and t["lines_gaining"] > 0
+    assert "q_total" not in t and "heat_kwh" not in t   # no net figure that hides a cold line's gain
     assert t["touch_flags"] == sum(bool(f) for f in demo.touch_flag)
     assert t["condensation_flags"] == sum(bool(f) for f in demo.condensation_flag)
 
@@ -364,8 +404,11 @@ def test_written_csv_round_trips_with_errors_and_totals(tmp_path):
     errors = {int(r["row"]): r["notes"] for r in body if r["status"] == "error"}
     assert errors == {e.row: e.reason for e in res.errors}
     assert total["row"] == "TOTAL"
-    assert float(total["annual_heat[kWh]"]) == pytest.approx(res.totals["heat_kwh"], rel=1e-6)
-    assert float(total["q_total[W]"]) == pytest.approx(res.totals["q_total"], rel=1e-6)
+    assert total["annual_heat[kWh]"] == "" and total["q_total[W]"] == ""   # never netted across lines
+    for column, name in (("heat_lost[W]", "q_lost"), ("heat_gained[W]", "q_gained"),
+                         ("annual_heat_lost[kWh]", "heat_lost_kwh"), ("annual_heat_gained[kWh]", "heat_gained_kwh")):
+        assert float(total[column]) == pytest.approx(res.totals[name], rel=1e-6)
+        assert float(total[column]) == pytest.approx(sum(float(r[column]) for r in ok), rel=1e-6)
     assert int(total["touch_flag"]) == res.totals["touch_flags"]
     assert "not included" in total["notes"]
 

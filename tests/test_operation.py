@@ -190,6 +190,187 @@ def test_scalar_list_ndarray_inputs_agree():
     assert lists.temperature.shape == (lists.fraction.size, 2) == lists.position.shape
 
 
+# --------------------------------------------------------------------------- trickle flow, freezing, minimum flow
+# The line of issue 12: NPS 8 schedule 40 (219.1 mm outer diameter, ASME B36.10M) under 80 mm of k = 0.03 W/m/K.
+NPS8 = dict(pipe_outer_diameter=0.2191, layers=[Layer(0.08, 0.03)])
+
+
+def _inlet_coefficient(tin, ta, **kw):
+    """U' = q'(Tin)/(Tin - Ta) of the NPS 8 line [W/m/K], the coefficient of the constant-coefficient model."""
+    return cl.insulated_pipe(NPS8["pipe_outer_diameter"], tin, NPS8["layers"], air_temperature=ta,
+                             **kw).q_per_length / (tin - ta)
+
+
+@pytest.mark.parametrize("flow", [0.002, 0.02, 0.2, 2.0])
+def test_outlet_is_the_exponential_from_trickle_to_full_flow(flow):
+    # Incropera et al., Fundamentals of Heat and Mass Transfer, eq. 8.45b (constant ambient temperature form, with
+    # U' in place of h P): T_out = Ta + (Tin - Ta) exp(-U' L / (m cp)). U'L/(m cp) runs from about 0.04 (full flow)
+    # to about 100 (trickle): the outlet excess over the air is then ~1e-42 K; the march carries ln(T - Ta), so the
+    # profile follows the exponential to 1e-6 relative down to 1e-12 K (a double near 300 K resolves 6e-14 K).
+    tin, ta, cp, run = 368.15, 293.15, 4190.0, 2500.0
+    p = op.line_temperature_profile(**NPS8, inlet_temperature=tin, mass_flow=flow, length=run, air_temperature=ta,
+                                    specific_heat=cp, constant_coefficient=True)
+    ntu = _inlet_coefficient(tin, ta) * run / (flow * cp)
+    excess = (tin - ta) * np.exp(-ntu)
+    assert float(p.outlet_temperature - ta) == pytest.approx(float(excess), rel=1e-6, abs=1e-12)
+    exact = (tin - ta) * np.exp(-ntu * p.position / run)
+    np.testing.assert_allclose(p.temperature - ta, exact, rtol=1e-6, atol=1e-12)
+    assert np.all(p.temperature >= ta) and np.all(np.diff(p.temperature) <= 0)   # never below the air
+    assert float(p.q_total) == pytest.approx(float(flow * cp * (tin - ta - excess)), rel=1e-6)
+    assert not bool(p.freezes) and np.isnan(p.freezing_position)
+
+
+def test_trickle_flow_of_issue_12_settles_at_the_air_temperature():
+    # issue 12: `outlet --nps 8 --inlet-temperature 95degC --air-temperature=20degC --mass-flow 0.002 --length 2500m
+    # --layer 80mm,0.03` failed with "fluid_temperature must be greater than 0 K". Analytic bound: the water decays
+    # towards the air and never passes it; with U'L/(m cp) near 100 it arrives within 1e-6 K. The heat lost is the
+    # enthalpy drop, m (h(Tin) - h(Tout)) from CoolProp (IAPWS-95) directly, to the 5e-4 of the cp tables.
+    tin, ta, flow = 368.15, 293.15, 0.002
+    p = op.line_temperature_profile(**NPS8, inlet_temperature=tin, mass_flow=flow, length=2500.0, air_temperature=ta)
+    assert np.all(p.temperature >= ta) and np.all(np.diff(p.temperature) <= 0)
+    assert float(p.outlet_temperature) == pytest.approx(ta, abs=1e-6)
+    h_in, h_out = (PropsSI("H", "T", t, "P", 101325.0, "Water") for t in (tin, float(p.outlet_temperature)))
+    assert float(p.q_total) == pytest.approx(flow * (h_in - h_out), rel=5e-4)
+    assert abs(float(p.energy_balance_error)) < 1e-6 and float(p.equilibrium_temperature) == ta
+
+
+def test_freezing_position_is_the_exponential_one():
+    # constant U' and cp: the water reaches Tf where (Tf - Ta) = (Tin - Ta) exp(-U' x / (m cp)), i.e.
+    # x_f = m cp / U' ln((Tin - Ta)/(Tf - Ta)) (Incropera et al., eq. 8.45b solved for x).
+    tin, ta, cp, tf = np.array([368.15, 333.15]), 263.15, 4190.0, 273.15
+    flow = np.array([0.002, 0.02])
+    p = op.line_temperature_profile(**NPS8, inlet_temperature=tin, mass_flow=flow, length=2500.0, air_temperature=ta,
+                                    specific_heat=cp, constant_coefficient=True, freezing_temperature=tf)
+    x_f = flow * cp / _inlet_coefficient(tin, ta) * np.log((tin - ta) / (tf - ta))
+    assert np.all(p.freezes) and np.all(x_f < 2500.0)
+    np.testing.assert_allclose(p.freezing_position, x_f, rtol=1e-9)
+    np.testing.assert_array_equal(p.outlet_temperature, tf)
+    np.testing.assert_allclose(p.q_total, flow * cp * (tin - tf), rtol=1e-6)   # heat lost up to the freezing point
+    # the profile stops at the freezing point: last point (x_f, Tf), nothing below it
+    np.testing.assert_allclose(np.nanmax(p.position, axis=0), x_f, rtol=1e-9)
+    assert np.nanmin(p.temperature) == tf and op.CAUTION_LINE_FREEZE in p.cautions
+
+
+def test_freezing_position_of_issue_12_against_independent_reference_model():
+    # issue 12: at -10 degC air the same line reported -1684 K. Reference: the brentq surface + ht Churchill-Chu +
+    # CoolProp model above, marched with solve_ivp (rtol 1e-10) to the event T = 273.15 K (water cp taken at
+    # 273.16 K, the triple point, below it). Tolerance 2e-4 as for the outlet (property tables).
+    d, t_ins, k_ins, ta, eps, flow, tin = 0.2191, 0.08, 0.03, 263.15, 0.9, 0.002, 368.15
+
+    def rhs(x, y):
+        cp = PropsSI("C", "T", max(y[0], 273.16), "P", 101325.0, "Water")
+        return [-_reference_loss(y[0], d, t_ins, k_ins, ta, eps) / (flow * cp)]
+
+    def frozen(x, y):
+        return y[0] - 273.15
+    frozen.terminal = True
+
+    ref = solve_ivp(rhs, (0.0, 2500.0), [tin], rtol=1e-10, atol=1e-8, events=frozen)
+    x_ref = float(ref.t_events[0][0])
+    p = op.line_temperature_profile(d, tin, [Layer(t_ins, k_ins)], mass_flow=flow, length=2500.0, air_temperature=ta,
+                                    jacket_emissivity=eps)
+    assert bool(p.freezes) and float(p.outlet_temperature) == 273.15
+    assert float(p.freezing_position) == pytest.approx(x_ref, rel=2e-4)
+    assert np.nanmin(p.temperature) >= 273.15 and np.all(np.isfinite(p.q_total))
+    # heat lost up to the freezing point: the march's integral of q' agrees with m (h(Tin) - h(0 degC))
+    assert abs(float(p.energy_balance_error)) < 1e-5
+
+
+def test_outdoor_trickle_settles_at_the_sky_equilibrium_not_below():
+    # a line that also radiates to a sky colder than the air settles where q'(T) = 0, below the air temperature;
+    # the fluid approaches that equilibrium and never passes it (same analytic argument as for the air)
+    kw = dict(air_temperature=283.15, sky_view_fraction=0.5)
+    p = op.line_temperature_profile(**NPS8, inlet_temperature=368.15, mass_flow=0.002, length=2500.0, **kw)
+    t_eq = float(p.equilibrium_temperature)
+    assert t_eq < 283.15 - 1.0
+    q_eq = cl.insulated_pipe(NPS8["pipe_outer_diameter"], t_eq, NPS8["layers"], **kw).q_per_length
+    assert abs(float(q_eq)) < 1e-5   # W/m: the definition of the equilibrium
+    assert np.all(p.temperature >= t_eq) and float(p.outlet_temperature) == pytest.approx(t_eq, abs=1e-6)
+
+
+def test_minimum_flow_is_the_exponential_one():
+    # constant U' and cp: T_out = T_lim at m = U' L / (cp ln((Tin - Ta)/(T_lim - Ta))) (eq. 8.45b solved for m);
+    # a hot line kept above its limit and a chilled line (6 degC in 30 degC air) kept below 8 degC
+    tin, limit, ta = np.array([368.15, 279.15]), np.array([278.15, 281.15]), np.array([263.15, 303.15])
+    cp, run = 4190.0, 2500.0
+    m = op.minimum_flow(**NPS8, inlet_temperature=tin, outlet_limit=limit, length=run, air_temperature=ta,
+                        specific_heat=cp, constant_coefficient=True)
+    exact = _inlet_coefficient(tin, ta) * run / (cp * np.log((tin - ta) / (limit - ta)))
+    # 1e-7: U' here is from insulated_pipe's default surface tolerance, the library's from a 1e-8 K solve
+    np.testing.assert_allclose(m.mass_flow, exact, rtol=1e-7)
+    assert not np.any(m.any_flow)
+
+
+def test_minimum_flow_against_independent_reference_model():
+    # the outlet of the reference model (brentq surface + ht Churchill-Chu + CoolProp, solve_ivp) at the minimum
+    # flow is the limit, to the 2e-4 of the property tables on the temperature drop
+    d, t_ins, k_ins, ta, eps, tin, limit = 0.2191, 0.08, 0.03, 263.15, 0.9, 368.15, 278.15
+    m = float(op.minimum_flow(d, tin, [Layer(t_ins, k_ins)], outlet_limit=limit, length=2500.0, air_temperature=ta,
+                              jacket_emissivity=eps).mass_flow)
+
+    def rhs(x, y):
+        return [-_reference_loss(y[0], d, t_ins, k_ins, ta, eps) / (m * PropsSI("C", "T", y[0], "P", 101325.0,
+                                                                                  "Water"))]
+
+    t_out = solve_ivp(rhs, (0.0, 2500.0), [tin], rtol=1e-10, atol=1e-8).y[0, -1]
+    assert tin - t_out == pytest.approx(tin - limit, rel=2e-4)
+    # and the library's own march at that flow lands on the limit (two different algorithms)
+    p = op.line_temperature_profile(d, tin, [Layer(t_ins, k_ins)], mass_flow=m, length=2500.0, air_temperature=ta,
+                                    jacket_emissivity=eps)
+    assert float(p.outlet_temperature) == pytest.approx(limit, abs=1e-4) and not bool(p.freezes)
+
+
+def test_minimum_flow_any_flow_and_refusals():
+    # the line settles at the air (10 degC): an outlet kept above 5 degC holds at any flow (0 returned, flagged)
+    m = op.minimum_flow(**NPS8, inlet_temperature=368.15, outlet_limit=278.15, length=2500.0, air_temperature=283.15)
+    assert float(m.mass_flow) == 0.0 and bool(m.any_flow) and m.notes
+    with pytest.raises(ValueError, match="outlet_limit"):   # no flow keeps the outlet above its inlet
+        op.minimum_flow(**NPS8, inlet_temperature=368.15, outlet_limit=370.0, length=100.0, air_temperature=263.15)
+    with pytest.raises(ValueError, match="outlet_limit"):   # water below 0 degC has frozen
+        op.minimum_flow(**NPS8, inlet_temperature=368.15, outlet_limit=272.0, length=100.0, air_temperature=263.15)
+
+
+def test_random_lines_from_trickle_to_full_flow_stay_between_inlet_and_equilibrium():
+    # analytic bounds of m cp dT/dx = -q'(T) with q' increasing in T and zero at T_eq: T moves monotonically from
+    # T_in towards T_eq and never passes it; where it reaches 0 degC first the water freezes there. 40 random lines
+    # at once (fixed seed): flows 1e-4 to 10 kg/s, 10 m to 5 km, air -30 to 40 degC, inlet 5 to 95 degC, some outdoors.
+    rng = np.random.default_rng(12)
+    n = 40
+    tin, ta = 278.15 + 90.0 * rng.random(n), 243.15 + 70.0 * rng.random(n)
+    flow, run = 10.0 ** rng.uniform(-4, 1, n), 10.0 ** rng.uniform(1, np.log10(5000.0), n)
+    sky = np.where(rng.random(n) < 0.3, 0.5, 0.0)
+    p = op.line_temperature_profile(0.1143, tin, [Layer(0.05, 0.04)], mass_flow=flow, length=run, air_temperature=ta,
+                                    sky_view_fraction=sky)
+    t_eq, t = p.equilibrium_temperature, p.temperature
+    low, high = np.minimum(tin, t_eq), np.maximum(tin, t_eq)
+    finite = ~np.isnan(t)
+    assert np.all((t >= low - 1e-9) | ~finite) and np.all((t <= high + 1e-9) | ~finite)
+    step = np.diff(np.where(finite, t, np.nan), axis=0) * np.sign(t_eq - tin)
+    assert np.all((step >= -1e-9) | np.isnan(step))                     # monotone towards the equilibrium
+    # freezing exactly where the water, cooling towards an equilibrium below 0 degC, gets to 0 degC within the line
+    assert np.all(p.freezes <= (t_eq < 273.15)) and np.all(p.outlet_temperature[p.freezes] == 273.15)
+    assert np.all(p.freezing_position[p.freezes] <= run[p.freezes])
+    assert np.all(p.outlet_temperature[~p.freezes] >= 273.15 - 1e-9)
+    assert p.freezes.any() and (~p.freezes).any() and np.nanmax(np.abs(p.energy_balance_error)) < 1e-5
+
+
+def test_random_minimum_flows_put_the_outlet_on_the_limit():
+    # the quadrature of minimum_flow and the march of line_temperature_profile are two algorithms for one energy
+    # balance: at the minimum flow the march's outlet is the limit (to the marching tolerance, 1e-6 K per step)
+    rng = np.random.default_rng(7)
+    n = 30
+    tin, ta = 278.15 + 90.0 * rng.random(n), 243.15 + 70.0 * rng.random(n)
+    run = 10.0 ** rng.uniform(1, np.log10(5000.0), n)
+    floor = np.maximum(ta, 273.15)   # a hot line kept above 0 degC and the air; a cold one below the air
+    limit = np.where(tin > ta, floor + (tin - floor) * rng.uniform(0.05, 0.95, n),
+                     tin + (ta - tin) * rng.uniform(0.05, 0.95, n))
+    kw = dict(length=run, air_temperature=ta, wind_speed=3.0)
+    m = op.minimum_flow(0.1143, tin, [Layer(0.05, 0.04)], outlet_limit=limit, **kw)
+    assert not m.any_flow.any() and np.all(m.mass_flow > 0)
+    p = op.line_temperature_profile(0.1143, tin, [Layer(0.05, 0.04)], mass_flow=m.mass_flow, **kw)
+    np.testing.assert_allclose(p.outlet_temperature, limit, atol=5e-5)   # 6e-6 K seen with this seed
+
+
 # --------------------------------------------------------------------------- steam
 def test_condensate_rate_from_steam_tables():
     # IAPWS-IF97 steam tables (e.g. Cengel, Table A-5, from memory): h_fg = 2256.5 kJ/kg at 101.325 kPa,
@@ -321,8 +502,8 @@ def test_freeze_time_never_when_the_line_stays_above_freezing_and_vectorized():
     (lambda: op.line_temperature_profile(0.06, 350.0, mass_flow=1.0, length=10.0, air_temperature=280.0,
                                          fluid_pressure=0.0), "fluid_pressure"),
     (lambda: op.line_temperature_profile(0.06, 300.0, mass_flow=0.01, length=2000.0, air_temperature=250.0,
-                                         constant_coefficient=True),
-     "fluid_pressure leaves its single-phase range"),  # the water would freeze before the outlet
+                                         constant_coefficient=True, freezing_temperature=None),
+     "fluid_pressure leaves its single-phase range"),  # the water would freeze before the outlet, check off
     (lambda: op.line_temperature_profile(0.06, 423.15, mass_flow=1.0, length=10.0, air_temperature=280.0),
      "fluid_pressure"),  # water at 150 C is steam at the default 1 atm: pressurized hot water needs its pressure
     (lambda: op.line_temperature_profile(0.06, 350.0, mass_flow=1.0, length=10.0, air_temperature=280.0,

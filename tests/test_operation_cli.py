@@ -6,6 +6,7 @@ import json
 import subprocess
 import sys
 
+import numpy as np
 import pytest
 
 import convlib as cl
@@ -205,3 +206,87 @@ def test_demo_lists_the_lines_in_operation():
     for tag in ("FH-150", "FH-160", "FH-170", "FH-T2"):
         assert tag in proc.stdout
     assert "no substitute for draining or heat tracing" in proc.stdout
+
+
+ISSUE_12_OUTLET = ("outlet", "--nps", "8", "--inlet-temperature", "95degC", "--mass-flow", "0.002", "--length", "2500m",
+                   "--layer", "80mm,0.03")
+
+
+def test_outlet_trickle_flow_of_issue_12_runs_and_stays_at_the_air():
+    # issue 12 point 3: this command failed with "fluid_temperature must be greater than 0 K"; the water can only
+    # approach the air (analytic bound), NPS 8 = 219.1 mm (ASME B36.10M)
+    proc = run(*ISSUE_12_OUTLET, "--air-temperature=20degC", "--json")
+    assert proc.returncode == 0, proc.stderr
+    payload = json.loads(proc.stdout)
+    row = payload["temperature along the line"]["results"][0]
+    assert row["outlet_temperature"] == pytest.approx(293.15, abs=1e-6) and row["freezes"] is False
+    assert min(payload["profile"]["temperature_K"]) >= 293.15
+
+
+def test_outlet_at_minus_10_reports_where_the_water_freezes():
+    # issue 12 point 3: at -10 degC air the same command reported -1684 K; now the profile stops where the water
+    # reaches 0 degC, at the position the library computes, with a caution
+    proc = run(*ISSUE_12_OUTLET, "--air-temperature=-10degC", "--json")
+    assert proc.returncode == 0, proc.stderr
+    payload = json.loads(proc.stdout)
+    row = payload["temperature along the line"]["results"][0]
+    direct = cl.operation.line_temperature_profile(0.2191, 368.15, [Layer(0.08, 0.03)], mass_flow=0.002,
+                                                   length=2500.0, air_temperature=263.15)
+    assert row["freezes"] is True and row["outlet_temperature"] == 273.15
+    assert row["freezing_position"] == pytest.approx(float(direct.freezing_position), rel=1e-12)
+    assert payload["temperature along the line"]["units"]["freezing_position"] == "m"
+    assert min(payload["profile"]["temperature_K"]) >= 273.15
+    assert max(payload["profile"]["position_m"]) == pytest.approx(row["freezing_position"], rel=1e-12)
+    assert cl.operation.CAUTION_LINE_FREEZE in payload["cautions"]
+    text = run(*ISSUE_12_OUTLET, "--air-temperature=-10degC")
+    assert text.returncode == 0 and "reaches 0 degC at" in text.stdout and "burst" in text.stdout
+
+
+def test_outlet_keep_above_gives_the_library_minimum_flow():
+    proc = run("outlet", "--nps", "8", "--inlet-temperature", "95degC", "--air-temperature=-10degC", "--length",
+               "2500m", "--layer", "80mm,0.03", "--keep-above", "5degC", "--mass-flow", "300kg/h", "--json")
+    assert proc.returncode == 0, proc.stderr
+    payload = json.loads(proc.stdout)
+    (title, rows), = [(t, v) for t, v in payload.items() if t.startswith("minimum flow")]
+    direct = cl.operation.minimum_flow(0.2191, 368.15, [Layer(0.08, 0.03)], outlet_limit=278.15, length=2500.0,
+                                       air_temperature=263.15)
+    row = rows["results"][0]
+    assert row["minimum_mass_flow"] == pytest.approx(float(direct.mass_flow), rel=1e-12)
+    assert rows["units"]["minimum_mass_flow"] == "kg/s"
+    assert row["enough"] == ("yes" if 300 / 3600 >= float(direct.mass_flow) else "no")
+    both = run("outlet", "--nps", "8", "--inlet-temperature", "95degC", "--air-temperature=-10degC", "--length",
+               "2500m", "--keep-above", "5degC", "--keep-below", "5degC")
+    assert both.returncode != 0 and "--keep-above" in both.stderr
+
+
+def test_line_list_trickle_flow_reports_the_freezing_position():
+    # issue 12 point 3 through a line list: the outlet stops at 0 degC where the library's profile does, the note
+    # gives the position and the freeze caution is among the result's cautions
+    text = ("tag,nps,length[m],fluid_temperature[degC],air_temperature[degC],layers[mm],mass_flow\n"
+            "TR-1,8,2500,95,-10,80@0.03,0.002\n"
+            "TR-2,8,2500,95,20,80@0.03,0.002\n")
+    res = run_line_list(io.StringIO(text))
+    direct = cl.operation.line_temperature_profile(0.2191, 368.15, [Layer(0.08, 0.03)], mass_flow=0.002,
+                                                   length=2500.0, air_temperature=263.15)
+    assert res.freezing_position[0] == pytest.approx(float(direct.freezing_position), rel=1e-9)
+    assert res.outlet_temperature[0] == 273.15 and "reaches 0 degC" in res.notes[0]
+    assert np.isnan(res.freezing_position[1]) and res.outlet_temperature[1] == pytest.approx(293.15, abs=1e-6)
+    assert cl.operation.CAUTION_LINE_FREEZE in res.cautions
+
+
+def test_lines_command_prints_losses_and_gains_apart_and_warns_of_design_air(tmp_path):
+    # issue 12 point 4: the table, JSON and CSV of `lines` without --bins
+    src = tmp_path / "lines.csv"
+    src.write_text("tag,nps,length,fluid_temperature[degC],air_temperature[degC],layers[mm]\n"
+                   "HW-1,4,100,90,20,50@0.04\nCHW-1,4,100,6,20,30@0.035\n")
+    res = run_line_list(str(src))
+    proc = run("lines", str(src), "-o", str(tmp_path / "out.csv"))
+    assert proc.returncode == 0, proc.stderr
+    assert f"heat lost by hot lines (1): {res.totals['q_lost'] / 1000:.1f} kW" in proc.stdout
+    assert f"heat gained by cold lines (1): {res.totals['q_gained'] / 1000:.1f} kW" in proc.stdout
+    assert res.warnings[0] in proc.stdout
+    payload = json.loads(run("lines", str(src), "--json").stdout)
+    assert payload["warnings"] == list(res.warnings)
+    assert payload["totals"]["q_gained"] == pytest.approx(res.totals["q_gained"], rel=1e-12)
+    assert payload["totals_units"]["q_gained"] == "W" and "q_total" not in payload["totals"]
+    assert res.warnings[0] in (tmp_path / "out.csv").read_text()

@@ -156,3 +156,15 @@ def test_snapshot_spec_holds_the_sweep_on_screen(app):
     assert "fluid_temperature" in [s.input for s in spec.sweeps]
     assert spec.case == app.line.case
     assert compute.study_for_case(app.study, app.line.case).tornado == spec.tornado
+
+
+def test_report_names_a_gain_as_a_gain(tmp_path):
+    # issue 12 point 4: a chilled line (6 degC in 30 degC air) gains heat; the report says so with a positive value
+    # instead of a negative "loss". Expected value: the study's own base result, sign turned.
+    from convlib.study import CaseSpec, StudySpec
+    spec = StudySpec(name="chilled", case=CaseSpec(fluid_temperature=279.15, air_temperature=303.15))
+    path = cl_snapshot.save(tmp_path / "c.snapshot.json", spec, run_study(spec))
+    text = render_report(path, "SI")
+    q = cl_snapshot.load(path).result.base.q_per_length[0]
+    assert q < 0 and "Heat gained per length" in text and "Heat lost per length" not in text
+    assert Display("SI").text(-q, "q_per_length") in text
