@@ -40,6 +40,7 @@ from .cli_operation import add_commands as add_operation_commands
 from .correlations import catalog
 from .demo import load_demo_site, operation_rows
 from .errors import InputError
+from .files import parse_json, read_capped
 from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, WeatherBins, annual_energy, thickness_against_condensation,
                      thickness_for_heat_loss, thickness_for_surface_temperature)
 from .geometry import SHAPES
@@ -48,6 +49,10 @@ from .pipe import insulated_pipe
 from .surface import bare_surface
 
 __all__ = ["main", "load_demo_site"]
+
+MAX_STUDY_BYTES = 10_000_000   #: largest study file read [bytes] (a study spec is a few kB)
+MAX_BINS_BYTES = 10_000_000    #: largest weather-bins file read [bytes]
+MAX_BINS = 10_000              #: most weather bins (hourly bins of a leap year: 8784)
 
 # ----------------------------------------------------------------------------- commands
 def _cmd_surface(args) -> int:
@@ -220,13 +225,9 @@ def _load_spec(args):
                          rule="exactly one of them", value=(args.study, args.demo))
     if args.demo:
         return load_demo_study()
+    data = read_capped(args.study, MAX_STUDY_BYTES, label=f"study file {args.study}", field="study")
     try:
-        text = open(args.study, encoding="utf-8").read()
-    except OSError as exc:
-        raise InputError(f"cannot read study file {args.study}: {exc.strerror}", field="study",
-                         rule="a readable file", value=args.study) from None
-    try:
-        return StudySpec.model_validate_json(text)
+        return StudySpec.model_validate(parse_json(data, label=f"study file {args.study}", field="study"))
     except ValueError as exc:
         raise InputError(f"study file {args.study}: {_pydantic_text(exc)}", field="study", rule="a valid study",
                          value=args.study) from None
@@ -320,15 +321,18 @@ def _weather_bins(args):
     """Weather bins from --bins FILE.json ({"air_temperature": [...], "wind_speed": [...], "hours": [...]},
     numbers SI or text with units such as "-5degC"), the demo site's bins with --demo, else None."""
     if args.bins:
-        try:
-            data = json.loads(open(args.bins, encoding="utf-8").read())
-        except (OSError, json.JSONDecodeError) as exc:
-            raise InputError(f"cannot read weather bins {args.bins}: {exc}", field="--bins",
-                             rule="a readable JSON file", value=args.bins) from None
+        label = f"weather bins {args.bins}"
+        data = parse_json(read_capped(args.bins, MAX_BINS_BYTES, label=label, field="--bins"), label=label,
+                          field="--bins")
         missing = {"air_temperature", "hours"} - set(data)
         if missing:
             raise InputError(f"weather bins {args.bins}: missing {', '.join(sorted(missing))}", field="--bins",
                              rule="air_temperature and hours given", value=sorted(missing))
+        for key in ("air_temperature", "wind_speed", "hours"):
+            if key in data and (not isinstance(data[key], list) or len(data[key]) > MAX_BINS):
+                raise InputError(f"{label}: {key} must be a list of at most {MAX_BINS} values; got "
+                                 f"{type(data[key]).__name__}", field=f"--bins {key}",
+                                 rule=f"a list of at most {MAX_BINS} values", value=type(data[key]).__name__)
         air = [parse(v, "temperature", "bins air_temperature") for v in data["air_temperature"]]
         wind = [parse(v, "speed", "bins wind_speed") for v in data.get("wind_speed", [0.0] * len(air))]
         return WeatherBins(air, wind, data["hours"])
