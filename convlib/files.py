@@ -30,6 +30,7 @@ import secrets
 import stat
 import time
 from pathlib import Path
+from collections.abc import Callable
 from typing import Any
 
 from .errors import InputError
@@ -39,10 +40,11 @@ try:  # POSIX: a live writer holds a lock on its temporary file, so cleaners can
 except ImportError:  # pragma: no cover - Windows: debris is recognised by its age instead
     fcntl = None
 
-__all__ = ["TEMP_SUFFIX", "MAX_DEPTH", "STALE_AFTER_S", "read_capped", "parse_json", "write_atomic",
-           "remove_stale_temporaries"]
+__all__ = ["TEMP_SUFFIX", "HEAD_BYTES", "MAX_DEPTH", "STALE_AFTER_S", "read_capped", "read_json", "parse_json",
+           "write_atomic", "remove_stale_temporaries"]
 
 TEMP_SUFFIX = ".convlib.tmp"   #: ending of convlib's temporary files (hidden: they also start with a dot)
+HEAD_BYTES = 65536             #: bytes read first, to refuse a file plainly not of its kind before reading the rest
 MAX_DEPTH = 64                 #: deepest nesting of arrays and objects accepted in a JSON file
 STALE_AFTER_S = 3600.0         #: without file locks (Windows): age after which a temporary file is debris [s]
 _BLANKS = re.compile(rb"(?:\xef\xbb\xbf)?[ \t\r\n]*")
@@ -66,7 +68,8 @@ def _text_path(path, label, field) -> Path:
     return Path(text)
 
 
-def read_capped(path, max_bytes: int, *, label: str | None = None, field: str = "path") -> bytes:
+def read_capped(path, max_bytes: int, *, label: str | None = None, field: str = "path",
+                check_head: Callable[[bytes], None] | None = None) -> bytes:
     """The bytes of a regular file of at most ``max_bytes``, checked before it is read.
 
     Parameters
@@ -80,6 +83,9 @@ def read_capped(path, max_bytes: int, *, label: str | None = None, field: str = 
         How messages name the file (default: the path).
     field : str
         The ``field`` of the :class:`~convlib.errors.InputError` raised.
+    check_head : callable, optional
+        Called with the first :data:`HEAD_BYTES` bytes before the rest is read; it raises to
+        refuse the file (a file that is plainly not of its kind costs no more than its head).
 
     Raises
     ------
@@ -124,7 +130,15 @@ def read_capped(path, max_bytes: int, *, label: str | None = None, field: str = 
         if opened.st_size > max_bytes:
             raise refuse(f"file is {_megabytes(opened.st_size)}, larger than the {_megabytes(max_bytes)} limit", rule)
         try:
-            data = fh.read(max_bytes + 1)
+            data = fh.read(min(HEAD_BYTES, max_bytes + 1))
+            if check_head is not None:
+                check_head(data)
+            # read(n) allocates n bytes at once: ask for what fstat promised (+1 to see the end), then
+            # for at most the cap in small steps if the file grew meanwhile
+            parts = [data, fh.read(max(0, min(opened.st_size, max_bytes) + 1 - len(data)))]
+            while parts[-1] and sum(map(len, parts)) <= max_bytes:
+                parts.append(fh.read(min(2**20, max_bytes + 1 - sum(map(len, parts)))))
+            data = b"".join(parts)
         except OSError as exc:
             raise refuse(f"cannot read the file ({exc.strerror or exc})") from None
     if len(data) > max_bytes:  # grew while being read
@@ -162,6 +176,42 @@ def _depth_beyond(value, limit: int) -> bool:
     return False
 
 
+def _check_start(data: bytes, label: str, field: str, top: type | None, complete: bool = True) -> None:
+    """Refuse from its first characters a file that cannot hold a JSON value of type ``top``
+    (``complete``: ``data`` is the whole file, not only its head)."""
+    def refuse(problem, rule="a valid JSON file"):
+        return _refuse(label, problem, field=field, rule=rule, value=label)
+
+    first = _BLANKS.match(data).end()  # an index: no copy of a large file
+    head = data[first:first + 1]
+    if not head:
+        if complete:
+            raise refuse("the file is empty")
+        return
+    if top not in (dict, list) or head == (b"{" if top is dict else b"["):
+        return
+    kind = "object" if top is dict else "array"
+    if head in (b"{", b"["):
+        raise refuse(f"the top level is a JSON {'list' if head == b'[' else 'dict'}, not an {kind}")
+    try:
+        data[first:first + 4].decode("utf-8")
+    except UnicodeDecodeError as exc:
+        if exc.start == 0:
+            raise refuse(f"not UTF-8 text (byte {first})", "UTF-8 text") from None
+    raise refuse(f"not valid JSON here: the file must start with '{'{' if top is dict else '['}' (a JSON {kind}), "
+                 f"not {head.decode('ascii', 'replace')!r}")
+
+
+def read_json(path, max_bytes: int, *, label: str | None = None, field: str = "path", max_depth: int = MAX_DEPTH,
+              top: type | None = dict) -> Any:
+    """:func:`read_capped` then :func:`parse_json`; a file not starting like JSON of type ``top`` is
+    refused after reading its first :data:`HEAD_BYTES` only."""
+    label = label or str(path)
+    data = read_capped(path, max_bytes, label=label, field=field,
+                       check_head=lambda head: _check_start(head, label, field, top, complete=False))
+    return parse_json(data, label=label, field=field, max_depth=max_depth, top=top)
+
+
 def parse_json(data: bytes, *, label: str, field: str = "path", max_depth: int = MAX_DEPTH,
                top: type | None = dict) -> Any:
     """Strict JSON from the bytes of a file: UTF-8, no duplicate keys, finite numbers, bounded nesting.
@@ -173,21 +223,7 @@ def parse_json(data: bytes, *, label: str, field: str = "path", max_depth: int =
     def refuse(problem, rule="a valid JSON file"):
         return _refuse(label, problem, field=field, rule=rule, value=label)
 
-    first = _BLANKS.match(data).end()  # an index: no copy of a large file
-    head = data[first:first + 1]
-    if not head:
-        raise refuse("the file is empty")
-    if top in (dict, list) and head != (b"{" if top is dict else b"["):
-        kind = "object" if top is dict else "array"
-        if head in (b"{", b"["):
-            raise refuse(f"the top level is a JSON {'list' if head == b'[' else 'dict'}, not an {kind}")
-        try:
-            data[first:first + 4].decode("utf-8")
-        except UnicodeDecodeError as exc:
-            if exc.start == 0:
-                raise refuse(f"not UTF-8 text (byte {first})", "UTF-8 text") from None
-        raise refuse(f"not valid JSON here: the file must start with '{'{' if top is dict else '['}' "
-                     f"(a JSON {kind}), not {head.decode('ascii', 'replace')!r}")
+    _check_start(data, label, field, top)
     try:
         text = data.decode("utf-8-sig")
     except UnicodeDecodeError as exc:
@@ -205,7 +241,8 @@ def parse_json(data: bytes, *, label: str, field: str = "path", max_depth: int =
         raise refuse(f"not valid JSON here: nested more than {max_depth} levels deep",
                      f"nesting at most {max_depth} deep") from None
     if top is not None and not isinstance(value, top):
-        raise refuse(f"the top level is a JSON {type(value).__name__}, not {'an object' if top is dict else 'an array'}")
+        wanted = "an object" if top is dict else "an array"
+        raise refuse(f"the top level is a JSON {type(value).__name__}, not {wanted}")
     if _depth_beyond(value, max_depth):
         raise refuse(f"not valid JSON here: nested more than {max_depth} levels deep",
                      f"nesting at most {max_depth} deep")

@@ -27,8 +27,7 @@ file in the same directory, fsync, rename; debris of killed saves is removed by 
 next save) and read as data only: never executed or unpickled. Loading never writes;
 it checks the size with ``stat`` before reading, reads regular files only, follows a
 symbolic link only within its folder, refuses duplicate keys, NaN/Infinity and nesting
-deeper than :data:`convlib.files.MAX_DEPTH` (:func:`convlib.files.read_capped`,
-:func:`convlib.files.parse_json`).
+deeper than :data:`convlib.files.MAX_DEPTH` (:func:`convlib.files.read_json`).
 """
 from __future__ import annotations
 
@@ -49,7 +48,7 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError, field_valida
 
 from . import __version__
 from .errors import InputError
-from .files import parse_json, read_capped, write_atomic
+from .files import read_json, write_atomic
 from .study import MonteCarloResult, StudyResult, StudySpec, run_study
 
 __all__ = ["SCHEMA_VERSION", "KIND", "MAX_BYTES", "DETERMINISTIC_TOLERANCE", "STANDARD_ERRORS", "SnapshotError",
@@ -225,7 +224,8 @@ def save(path, spec: StudySpec, result: StudyResult, author: str = "", note: str
 
     Examples
     --------
-    >>>     >>> from convlib.study import CaseSpec
+    >>> import tempfile
+    >>> from convlib.study import CaseSpec
     >>> spec = StudySpec(case=CaseSpec(kind="bare", surface_temperature=353.15, diameter=0.1))
     >>> folder = tempfile.TemporaryDirectory()
     >>> path = save(Path(folder.name) / "s.json", spec, run_study(spec), author="A. Engineer")
@@ -306,8 +306,7 @@ def load(path) -> Snapshot:
         return SnapshotError(f"{path}: {problem}")
 
     try:
-        document = parse_json(read_capped(path, MAX_BYTES, label=str(path), field="snapshot"),
-                              label=str(path), field="snapshot")
+        document = read_json(path, MAX_BYTES, label=str(path), field="snapshot")
     except InputError as exc:
         raise SnapshotError(str(exc), rule=exc.rule, value=exc.value) from None
     if document.get("kind") != KIND:
