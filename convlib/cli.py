@@ -40,7 +40,7 @@ from .cli_operation import add_commands as add_operation_commands
 from .correlations import catalog
 from .demo import load_demo_site, operation_rows
 from .errors import InputError
-from .files import parse_json, read_capped
+from .files import read_json
 from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, WeatherBins, annual_energy, thickness_against_condensation,
                      thickness_for_heat_loss, thickness_for_surface_temperature)
 from .geometry import SHAPES
@@ -225,9 +225,9 @@ def _load_spec(args):
                          rule="exactly one of them", value=(args.study, args.demo))
     if args.demo:
         return load_demo_study()
-    data = read_capped(args.study, MAX_STUDY_BYTES, label=f"study file {args.study}", field="study")
+    data = read_json(args.study, MAX_STUDY_BYTES, label=f"study file {args.study}", field="study")
     try:
-        return StudySpec.model_validate(parse_json(data, label=f"study file {args.study}", field="study"))
+        return StudySpec.model_validate(data)
     except ValueError as exc:
         raise InputError(f"study file {args.study}: {_pydantic_text(exc)}", field="study", rule="a valid study",
                          value=args.study) from None
@@ -322,8 +322,7 @@ def _weather_bins(args):
     numbers SI or text with units such as "-5degC"), the demo site's bins with --demo, else None."""
     if args.bins:
         label = f"weather bins {args.bins}"
-        data = parse_json(read_capped(args.bins, MAX_BINS_BYTES, label=label, field="--bins"), label=label,
-                          field="--bins")
+        data = read_json(args.bins, MAX_BINS_BYTES, label=label, field="--bins")
         missing = {"air_temperature", "hours"} - set(data)
         if missing:
             raise InputError(f"weather bins {args.bins}: missing {', '.join(sorted(missing))}", field="--bins",

@@ -130,7 +130,7 @@ OUTDOOR_SKY_VIEW_FRACTION = 0.5
 HOURS_PER_YEAR = 8760.0
 MAX_BYTES = 32_000_000     #: largest line-list file read [bytes] (refused from its size before reading)
 MAX_ROWS = 200_000         #: most rows of a line list, header and blank rows included
-MAX_CELLS = 5_000_000      #: most cells of a line list (bounds memory of a file of many short cells)
+MAX_CELLS = 5_000_000      #: most cells of a line list (line breaks + commas; bounds memory of tiny cells)
 #: First characters that make a spreadsheet treat a cell as a formula; such text cells are written with a
 #: leading apostrophe (OWASP, "CSV Injection"); numbers in numeric columns are written as numbers.
 FORMULA_PREFIXES = ("=", "+", "-", "@", "\t", "\r")
@@ -372,19 +372,19 @@ def _records(source) -> list[list[str]]:
         except UnicodeDecodeError as exc:
             raise InputError(f"{label}: the file is not UTF-8 text (byte {exc.start}); save it as 'CSV UTF-8'",
                              field="source", rule="UTF-8 text", value=str(source)) from None
-    records, cells = [], 0
+    rows, separators = data.count("\n") + data.count("\r"), data.count(",")  # bounds of rows and cells, in C
+    if rows > 2 * MAX_ROWS or rows + separators > MAX_CELLS:
+        raise InputError(f"{label}: more than {MAX_ROWS} rows or {MAX_CELLS} cells; split the list",
+                         field="source", rule=f"at most {MAX_ROWS} rows and {MAX_CELLS} cells", value=rows)
     reader = csv.reader(io.StringIO(data, newline=""))
     try:
-        for record in reader:
-            cells += len(record)
-            if len(records) >= MAX_ROWS or cells > MAX_CELLS:
-                raise InputError(f"{label}: more than {MAX_ROWS} rows or {MAX_CELLS} cells; split the list",
-                                 field="source", rule=f"at most {MAX_ROWS} rows and {MAX_CELLS} cells",
-                                 value=len(records) + 1)
-            records.append(record)
+        records = list(reader)
     except csv.Error as exc:
         raise InputError(f"{label}: not readable as CSV at row {reader.line_num}: {exc}", field="source",
                          rule="comma-separated text", value=reader.line_num) from None
+    if len(records) > MAX_ROWS:
+        raise InputError(f"{label}: {len(records)} rows, more than {MAX_ROWS}; split the list", field="source",
+                         rule=f"at most {MAX_ROWS} rows", value=len(records))
     return records
 
 
