@@ -332,9 +332,17 @@ def _weather_bins(args):
                 raise InputError(f"{label}: {key} must be a list of at most {MAX_BINS} values; got "
                                  f"{type(data[key]).__name__}", field=f"--bins {key}",
                                  rule=f"a list of at most {MAX_BINS} values", value=type(data[key]).__name__)
-        air = [parse(v, "temperature", "bins air_temperature") for v in data["air_temperature"]]
-        wind = [parse(v, "speed", "bins wind_speed") for v in data.get("wind_speed", [0.0] * len(air))]
-        return WeatherBins(air, wind, data["hours"])
+        counts = {key: len(data[key]) for key in ("air_temperature", "wind_speed", "hours") if key in data}
+        if len(set(counts.values())) != 1 or not counts["hours"]:
+            raise InputError(f"{label}: the lists must have one value per bin, at least one bin; got "
+                             + ", ".join(f"{n} {key}" for key, n in counts.items()), field="--bins",
+                             rule="lists of equal length, at least one bin", value=counts)
+        try:
+            air = [parse(v, "temperature", "bins air_temperature") for v in data["air_temperature"]]
+            wind = [parse(v, "speed", "bins wind_speed") for v in data.get("wind_speed", [0.0] * len(air))]
+            return WeatherBins(air, wind, data["hours"])
+        except InputError as exc:  # say which file
+            raise InputError(f"{label}: {exc}", field=exc.field, rule=exc.rule, value=exc.value) from None
     if args.demo:
         return WeatherBins(**load_demo_site()["weather_bins"])
     return None

@@ -408,8 +408,8 @@ def read_line_list(source) -> tuple[list[ParsedLine], list[RowError]]:
     InputError
         (a ``ValueError``) For the whole file: not a readable regular file, larger than
         :data:`MAX_BYTES` (checked with ``stat`` before reading), more than :data:`MAX_ROWS`
-        rows or :data:`MAX_CELLS` cells, not UTF-8, not CSV (a cell beyond 131072 characters), no header, unknown or repeated column, wrong unit suffix,
-        missing column.
+        rows or :data:`MAX_CELLS` cells, not UTF-8, not CSV (a cell beyond 131072 characters), no header,
+        unknown or repeated column, wrong unit suffix, missing column.
     """
     if isinstance(source, (list, tuple)) and source and all(isinstance(s, LineSpec) for s in source):
         return [ParsedLine(i, s, LOCATIONS[s.sky_view_fraction > 0], None) for i, s in enumerate(source, 2)], []

@@ -297,8 +297,9 @@ def load(path) -> Snapshot:
     SnapshotError
         (an :class:`~convlib.errors.InputError`) Missing or unreadable file, a directory, pipe or
         device, a symbolic link leading out of its folder, larger than :data:`MAX_BYTES` (refused
-        before reading), not JSON or truncated, duplicate keys, NaN, nested too deep, not a snapshot, written by a newer convlib, missing or invalid fields, or a hash
-        that does not match the content ("tampered or corrupted").
+        before reading), not JSON or truncated, duplicate keys, NaN, nested too deep, not a snapshot,
+        written by a newer convlib, missing or invalid fields, or a hash that does not match the
+        content ("tampered or corrupted").
     """
     path = Path(path)
 

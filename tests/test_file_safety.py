@@ -176,6 +176,11 @@ DAMAGED = {
         ("missing hours", lambda v: b'{"air_temperature": [268.15]}', "missing hours"),
         ("air temperature a number", lambda v: b'{"air_temperature": 268.15, "hours": [10]}', "must be a list"),
         ("hours an object", lambda v: b'{"air_temperature": [268.15], "hours": {"a": 1}}', "must be a list"),
+        ("no bins", lambda v: b'{"air_temperature": [], "hours": []}', "at least one bin"),
+        ("lists of different lengths", lambda v: b'{"air_temperature": [268.15, 283.15], "hours": [10]}',
+         "one value per bin"),
+        ("a bin as an object", lambda v: b'{"air_temperature": [{"degC": -5}], "hours": [10]}', "not a temperature"),
+        ("hours as words", lambda v: b'{"air_temperature": [268.15], "hours": ["many"]}', "bin hours"),
         ("too many bins", lambda v: json.dumps({"air_temperature": [280.0] * 10_001,
                                                 "hours": [0.1] * 10_001}).encode(), "at most 10000"),
         ("duplicate key", lambda v: b'{"hours": [1], "hours": [2], "air_temperature": [270]}', "duplicate key"),
@@ -488,3 +493,20 @@ def test_written_csv_neutralises_formulas_in_error_rows(tmp_path):
     _, rows = _written(result, tmp_path / "out.csv")
     assert [line[1] for line in rows[:-1]] == ["'=1+1", "'@A1"]
     assert all(not cell.startswith(PREFIXES) or float(cell) < 0 for line in rows for cell in line)
+
+
+# ----------------------------------------------------------------------------- the command line
+def test_command_line_reports_hostile_files_in_one_line(tmp_path, capsys):
+    """`convlib run`, `lines --bins` and `verify` on a huge, a nested and a piped file: one line, exit 2."""
+    huge = _sparse(tmp_path / "huge.json", 100 * MB, head=b"{")
+    nested = _write(tmp_path, "weather", _nested(100_000, closed=False))
+    commands = [["run", str(huge)], ["lines", "--demo", "--bins", str(nested)], ["verify", str(huge)]]
+    if hasattr(os, "mkfifo"):
+        os.mkfifo(tmp_path / "pipe.json")
+        commands.append(["run", str(tmp_path / "pipe.json")])
+    for argv in commands:
+        assert cli.main(argv) == 2, argv
+        err = capsys.readouterr().err
+        assert err.startswith("convlib: error: ") and err.count("\n") == 1 and "Traceback" not in err, err
+        words = ("larger than", "nested more than", "not a regular file", "not valid JSON")
+        assert any(word in err for word in words), err
