@@ -510,3 +510,22 @@ def test_command_line_reports_hostile_files_in_one_line(tmp_path, capsys):
         assert err.startswith("convlib: error: ") and err.count("\n") == 1 and "Traceback" not in err, err
         words = ("larger than", "nested more than", "not a regular file", "not valid JSON")
         assert any(word in err for word in words), err
+
+
+@posix_only
+def test_results_csv_and_report_replace_a_link_instead_of_writing_through_it(study, tmp_path):
+    """`convlib lines -o` and `convlib report -o` onto a link to a file elsewhere leave that file alone."""
+    folder, outside = tmp_path / "out", tmp_path / "precious.txt"
+    folder.mkdir()
+    outside.write_text("precious")
+    (folder / "results.csv").symlink_to(outside)
+    (folder / "report.html").symlink_to(outside)
+    spec, result = study
+    snap = snapshot.save(folder / "a.snapshot.json", spec, result)
+    write_results_csv(run_line_list(demo_lines_path()), folder / "results.csv")
+    assert cli.main(["report", str(snap), "-o", str(folder / "report.html"), "--overwrite"]) == 0
+    assert outside.read_text() == "precious"
+    assert not any(p.is_symlink() for p in folder.iterdir())
+    assert (folder / "results.csv").read_text(encoding="utf-8").startswith("row,tag,status")
+    assert "<html" in (folder / "report.html").read_text(encoding="utf-8").lower()
+    assert _only(folder) == ["a.snapshot.json", "report.html", "results.csv"]
