@@ -24,6 +24,7 @@ from __future__ import annotations
 
 import contextlib
 import json
+import math
 import os
 import re
 import secrets
@@ -48,6 +49,7 @@ HEAD_BYTES = 65536             #: bytes read first, to refuse a file plainly not
 MAX_DEPTH = 64                 #: deepest nesting of arrays and objects accepted in a JSON file
 STALE_AFTER_S = 3600.0         #: without file locks (Windows): age after which a temporary file is debris [s]
 _BLANKS = re.compile(rb"(?:\xef\xbb\xbf)?[ \t\r\n]*")
+_MAX_DIGITS = 30               # longest integer accepted in JSON (Python refuses beyond 4300 digits)
 _NAME_PART = 100               # characters of the target's name kept in a temporary file's name
 _O = {name: getattr(os, name, 0) for name in ("O_NOFOLLOW", "O_NONBLOCK", "O_CLOEXEC", "O_BINARY")}
 
@@ -164,6 +166,19 @@ def _constant(name):
     raise _Refused(f"{name} is not JSON (numbers must be finite)")
 
 
+def _float(text):
+    value = float(text)
+    if not math.isfinite(value):
+        raise _Refused(f"number {text[:40]} is out of range (numbers must be finite)")
+    return value
+
+
+def _int(text):
+    if len(text) > _MAX_DIGITS:
+        raise _Refused(f"integer of {len(text)} digits is out of range (at most {_MAX_DIGITS})")
+    return int(text)
+
+
 def _depth_beyond(value, limit: int) -> bool:
     """Whether arrays/objects nest deeper than ``limit`` (iterative: no recursion on hostile input)."""
     stack = [(value, 1)]
@@ -214,7 +229,8 @@ def read_json(path, max_bytes: int, *, label: str | None = None, field: str = "p
 
 def parse_json(data: bytes, *, label: str, field: str = "path", max_depth: int = MAX_DEPTH,
                top: type | None = dict) -> Any:
-    """Strict JSON from the bytes of a file: UTF-8, no duplicate keys, finite numbers, bounded nesting.
+    """Strict JSON from the bytes of a file: UTF-8, no duplicate keys, finite numbers (no ``NaN``, no
+    ``1e400``, integers of at most 30 digits), bounded nesting.
 
     ``top`` is the required type of the top level (``None``: any). Raises
     :class:`~convlib.errors.InputError` whose message starts with ``label``; a text that
@@ -229,13 +245,14 @@ def parse_json(data: bytes, *, label: str, field: str = "path", max_depth: int =
     except UnicodeDecodeError as exc:
         raise refuse(f"not UTF-8 text (byte {exc.start})", "UTF-8 text") from None
     try:
-        value = json.loads(text, object_pairs_hook=_pairs, parse_constant=_constant)
+        value = json.loads(text, object_pairs_hook=_pairs, parse_constant=_constant, parse_float=_float,
+                           parse_int=_int)
     except json.JSONDecodeError as exc:
         closer = {dict: "}", list: "]"}.get(top, "")
         hint = "; the file looks truncated (it does not end with '" + closer + "')" \
             if closer and not text[-4096:].rstrip().endswith(closer) else ""
         raise refuse(f"not valid JSON: {exc.msg} at line {exc.lineno} column {exc.colno}{hint}") from None
-    except _Refused as exc:
+    except (_Refused, ValueError) as exc:
         raise refuse(f"not valid JSON: {exc}") from None
     except RecursionError:
         raise refuse(f"not valid JSON here: nested more than {max_depth} levels deep",
