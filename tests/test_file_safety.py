@@ -28,7 +28,9 @@ import threading
 import time
 import tracemalloc
 
+import hypothesis
 import pytest
+from hypothesis import strategies as st
 
 from convlib import cli, files, linelist, snapshot
 from convlib.errors import InputError
@@ -534,3 +536,25 @@ def test_results_csv_and_report_replace_a_link_instead_of_writing_through_it(stu
     assert (folder / "results.csv").read_text(encoding="utf-8").startswith("row,tag,status")
     assert "<html" in (folder / "report.html").read_text(encoding="utf-8").lower()
     assert _only(folder) == ["a.snapshot.json", "report.html", "results.csv"]
+
+
+# ----------------------------------------------------------------------------- random damage
+@pytest.mark.parametrize("kind", LOADERS)
+@hypothesis.settings(max_examples=100, deadline=None, suppress_health_check=[hypothesis.HealthCheck.too_slow])
+@hypothesis.given(edits=st.lists(st.tuples(st.floats(0, 1), st.integers(0, 16), st.binary(max_size=8)),
+                                 min_size=1, max_size=4),
+                  cut=st.one_of(st.none(), st.floats(0, 1)))
+def test_randomly_damaged_files_load_or_raise_input_error(kind, valid, tmp_path_factory, edits, cut):
+    """Random byte replacements and truncations: the loader returns or raises InputError, nothing else."""
+    data = bytearray(valid[kind])
+    for where, length, replacement in edits:
+        at = int(where * len(data))
+        data[at:at + length] = replacement
+    if cut is not None:
+        data = data[: int(cut * len(data))]
+    path = tmp_path_factory.mktemp("damaged") / "file"
+    path.write_bytes(bytes(data))
+    try:
+        LOADERS[kind][0](path)
+    except InputError:
+        pass
