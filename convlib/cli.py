@@ -40,6 +40,7 @@ from .cli_operation import add_commands as add_operation_commands
 from .correlations import catalog
 from .demo import load_demo_site, operation_rows
 from .errors import InputError
+from .files import read_json
 from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, WeatherBins, annual_energy, thickness_against_condensation,
                      thickness_for_heat_loss, thickness_for_surface_temperature)
 from .geometry import SHAPES
@@ -47,6 +48,10 @@ from .pipe import insulated_pipe
 from .surface import bare_surface
 
 __all__ = ["main", "load_demo_site"]
+
+MAX_STUDY_BYTES = 10_000_000   #: largest study file read [bytes] (a study spec is a few kB)
+MAX_BINS_BYTES = 10_000_000    #: largest weather-bins file read [bytes]
+MAX_BINS = 10_000              #: most weather bins (hourly bins of a leap year: 8784)
 
 # ----------------------------------------------------------------------------- commands
 def _cmd_surface(args) -> int:
@@ -221,13 +226,9 @@ def _load_spec(args):
                          rule="exactly one of them", value=(args.study, args.demo))
     if args.demo:
         return load_demo_study()
+    data = read_json(args.study, MAX_STUDY_BYTES, label=f"study file {args.study}", field="study")
     try:
-        text = open(args.study, encoding="utf-8").read()
-    except OSError as exc:
-        raise InputError(f"cannot read study file {args.study}: {exc.strerror}", field="study",
-                         rule="a readable file", value=args.study) from None
-    try:
-        return StudySpec.model_validate_json(text)
+        return StudySpec.model_validate(data)
     except ValueError as exc:
         raise InputError(f"study file {args.study}: {_pydantic_text(exc)}", field="study", rule="a valid study",
                          value=args.study) from None
@@ -321,18 +322,28 @@ def _weather_bins(args):
     """Weather bins from --bins FILE.json ({"air_temperature": [...], "wind_speed": [...], "hours": [...]},
     numbers SI or text with units such as "-5degC"), the demo site's bins with --demo, else None."""
     if args.bins:
-        try:
-            data = json.loads(open(args.bins, encoding="utf-8").read())
-        except (OSError, json.JSONDecodeError) as exc:
-            raise InputError(f"cannot read weather bins {args.bins}: {exc}", field="--bins",
-                             rule="a readable JSON file", value=args.bins) from None
+        label = f"weather bins {args.bins}"
+        data = read_json(args.bins, MAX_BINS_BYTES, label=label, field="--bins")
         missing = {"air_temperature", "hours"} - set(data)
         if missing:
             raise InputError(f"weather bins {args.bins}: missing {', '.join(sorted(missing))}", field="--bins",
                              rule="air_temperature and hours given", value=sorted(missing))
-        air = [parse(v, "temperature", "bins air_temperature") for v in data["air_temperature"]]
-        wind = [parse(v, "speed", "bins wind_speed") for v in data.get("wind_speed", [0.0] * len(air))]
-        return WeatherBins(air, wind, data["hours"])
+        for key in ("air_temperature", "wind_speed", "hours"):
+            if key in data and (not isinstance(data[key], list) or len(data[key]) > MAX_BINS):
+                raise InputError(f"{label}: {key} must be a list of at most {MAX_BINS} values; got "
+                                 f"{type(data[key]).__name__}", field=f"--bins {key}",
+                                 rule=f"a list of at most {MAX_BINS} values", value=type(data[key]).__name__)
+        counts = {key: len(data[key]) for key in ("air_temperature", "wind_speed", "hours") if key in data}
+        if len(set(counts.values())) != 1 or not counts["hours"]:
+            raise InputError(f"{label}: the lists must have one value per bin, at least one bin; got "
+                             + ", ".join(f"{n} {key}" for key, n in counts.items()), field="--bins",
+                             rule="lists of equal length, at least one bin", value=counts)
+        try:
+            air = [parse(v, "temperature", "bins air_temperature") for v in data["air_temperature"]]
+            wind = [parse(v, "speed", "bins wind_speed") for v in data.get("wind_speed", [0.0] * len(air))]
+            return WeatherBins(air, wind, data["hours"])
+        except InputError as exc:  # say which file
+            raise InputError(f"{label}: {exc}", field=exc.field, rule=exc.rule, value=exc.value) from None
     if args.demo:
         return WeatherBins(**load_demo_site()["weather_bins"])
     return None

@@ -83,7 +83,6 @@ import io
 import math
 import os
 import re
-import tempfile
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from fractions import Fraction
@@ -98,6 +97,7 @@ from pydantic import ValidationError
 from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, DEFAULT_COOLING_COP, DEFAULT_HEATING_EFFICIENCY,
                      FITTING_EQUIVALENT_LENGTH, TOUCH_LIMIT_METAL_JACKET, WeatherBins)
 from .errors import InputError
+from .files import read_capped, write_atomic
 from .lines import LineSpec
 from .operation import (CAUTION_LINE_FREEZE, condensate_rate, line_temperature_profile, saturation_temperature,
                         tracing_duty)
@@ -132,6 +132,12 @@ LOCATIONS = ("indoor", "outdoor")
 #: of a horizontal pipe sees the sky, the lower half the ground. Common practice, no source.
 OUTDOOR_SKY_VIEW_FRACTION = 0.5
 HOURS_PER_YEAR = 8760.0
+MAX_BYTES = 32_000_000     #: largest line-list file read [bytes] (refused from its size before reading)
+MAX_ROWS = 200_000         #: most rows of a line list, header and blank rows included
+MAX_CELLS = 5_000_000      #: most cells of a line list (line breaks + commas; bounds memory of tiny cells)
+#: First characters that make a spreadsheet treat a cell as a formula; such text cells are written with a
+#: leading apostrophe (OWASP, "CSV Injection"); numbers in numeric columns are written as numbers.
+FORMULA_PREFIXES = ("=", "+", "-", "@", "\t", "\r")
 _HEADER = re.compile(r"^\s*(?P<name>[^\[\]]*?)\s*(?:\[(?P<unit>[^\[\]]*)\])?\s*$")
 _LAYER = re.compile(r"^(?P<thickness>[^@]+?)\s*@\s*(?P<conductivity>\S+)\s*(?P<name>.*)$")
 _QUANTITY = re.compile(r"([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*)")
@@ -343,6 +349,49 @@ def _parse_row(row: int, cells: dict, units: dict) -> ParsedLine | RowError:
         return RowError(row, tag, "; ".join(problems))
 
 
+def _records(source) -> list[list[str]]:
+    """The CSV rows of a file, an open text file or a package resource, within :data:`MAX_BYTES`,
+    :data:`MAX_ROWS` and :data:`MAX_CELLS` (checked before the file is parsed, and while it is)."""
+    name = source if isinstance(source, (str, os.PathLike)) else getattr(source, "name", "")
+    label = f"line list {name}" if isinstance(name, (str, os.PathLike)) and str(name) else "line list"
+    if isinstance(source, (str, os.PathLike)):
+        data = read_capped(source, MAX_BYTES, label=label, field="source")
+    elif hasattr(source, "read"):  # an open file: read at most the cap
+        data = source.read(MAX_BYTES + 1)
+        if not isinstance(data, (str, bytes)):
+            raise InputError(f"{label}: reading it gave {type(data).__name__}, not text", field="source",
+                             rule="a text file", value=type(data).__name__)
+        if len(data) > MAX_BYTES:
+            raise InputError(f"{label}: larger than the {MAX_BYTES / 1e6:.3g} MB limit", field="source",
+                             rule=f"at most {MAX_BYTES / 1e6:.3g} MB", value=len(data))
+    elif hasattr(source, "read_bytes"):  # a package resource (importlib.resources): the package's own data
+        data = source.read_bytes()
+    else:
+        raise InputError(f"line list source must be a path, an open text file or a list of rows; got "
+                         f"{type(source).__name__}", field="source", rule="a path, file or rows",
+                         value=type(source).__name__)
+    if isinstance(data, bytes):
+        try:
+            data = data.decode("utf-8-sig")
+        except UnicodeDecodeError as exc:
+            raise InputError(f"{label}: the file is not UTF-8 text (byte {exc.start}); save it as 'CSV UTF-8'",
+                             field="source", rule="UTF-8 text", value=str(source)) from None
+    rows, separators = data.count("\n") + data.count("\r"), data.count(",")  # bounds of rows and cells, in C
+    if rows > 2 * MAX_ROWS or rows + separators > MAX_CELLS:
+        raise InputError(f"{label}: more than {MAX_ROWS} rows or {MAX_CELLS} cells; split the list",
+                         field="source", rule=f"at most {MAX_ROWS} rows and {MAX_CELLS} cells", value=rows)
+    reader = csv.reader(io.StringIO(data, newline=""))
+    try:
+        records = list(reader)
+    except csv.Error as exc:
+        raise InputError(f"{label}: not readable as CSV at row {reader.line_num}: {exc}", field="source",
+                         rule="comma-separated text", value=reader.line_num) from None
+    if len(records) > MAX_ROWS:
+        raise InputError(f"{label}: {len(records)} rows, more than {MAX_ROWS}; split the list", field="source",
+                         rule=f"at most {MAX_ROWS} rows", value=len(records))
+    return records
+
+
 def read_line_list(source) -> tuple[list[ParsedLine], list[RowError]]:
     """Read and validate a line list (see the module docstring for the columns).
 
@@ -361,8 +410,10 @@ def read_line_list(source) -> tuple[list[ParsedLine], list[RowError]]:
     Raises
     ------
     InputError
-        (a ``ValueError``) For the whole file: no header, unknown or repeated column, wrong unit suffix,
-        missing column.
+        (a ``ValueError``) For the whole file: not a readable regular file, larger than
+        :data:`MAX_BYTES` (checked with ``stat`` before reading), more than :data:`MAX_ROWS`
+        rows or :data:`MAX_CELLS` cells, not UTF-8, not CSV (a cell beyond 131072 characters), no header,
+        unknown or repeated column, wrong unit suffix, missing column.
     """
     if isinstance(source, (list, tuple)) and source and all(isinstance(s, LineSpec) for s in source):
         return [ParsedLine(i, s, LOCATIONS[s.sky_view_fraction > 0], None) for i, s in enumerate(source, 2)], []
@@ -374,15 +425,7 @@ def read_line_list(source) -> tuple[list[ParsedLine], list[RowError]]:
         header = list(dict.fromkeys(k for row in source for k in row))
         records = [header, *([row.get(k) for k in header] for row in source)]
     else:
-        try:
-            if isinstance(source, (str, os.PathLike)):
-                source = Path(source)
-            if not hasattr(source, "read"):  # a path or a package resource (importlib.resources)
-                source = io.StringIO(source.read_text(encoding="utf-8-sig"), newline="")
-            records = list(csv.reader(source))
-        except UnicodeDecodeError:
-            raise InputError("line list: the file is not UTF-8 text; save it as 'CSV UTF-8'", field="source",
-                             rule="UTF-8 text", value=str(source)) from None
+        records = _records(source)
     if not records or all(_blank(c) for c in records[0]):
         raise InputError("line list: the first row must be the header (tag, nps or outer_diameter, length, ...)",
                          field="header", rule="the first row", value=records[0] if records else None)
@@ -742,8 +785,22 @@ def _cell(value) -> str:
     return str(int(value)) if value.is_integer() and abs(value) < 1e15 else f"{value:.7g}"
 
 
+_NUMBER = re.compile(r"-?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?")
+
+
+def _inert(cells: list[str], numeric: list[bool]) -> list[str]:
+    """Cells a spreadsheet will not run as formulas: text starting with one of :data:`FORMULA_PREFIXES`
+    gets a leading apostrophe; a plain number in a numeric column (``-12.5``) is left a number."""
+    return [cell if not cell.startswith(FORMULA_PREFIXES) or number and _NUMBER.fullmatch(cell) else "'" + cell
+            for cell, number in zip(cells, numeric)]
+
+
 def write_results_csv(result: LineListResult, path) -> None:
-    """Write per-line results, failed rows and a totals row to CSV, atomically (temp file + ``os.replace``).
+    """Write per-line results, failed rows and a totals row to CSV atomically (:func:`convlib.files.write_atomic`).
+
+    Text cells starting with ``=``, ``+``, ``-``, ``@``, tab or CR (tags, notes, reasons quoting a cell)
+    are written with a leading ``'`` so that a spreadsheet shows them instead of running them as formulas;
+    numbers in the numeric columns stay numbers (``-12.5``).
 
     Columns: ``row, tag, status`` (``ok`` or ``error``), :data:`OUTPUT_COLUMNS` (units in brackets
     as in the input; temperatures in degC; ``annual_heat`` is ``heat_kwh``, ``co2`` is ``co2_kg``)
@@ -766,19 +823,11 @@ def write_results_csv(result: LineListResult, path) -> None:
     total.append(" ".join([f"sums over the {len(result)} computed lines; {len(result.errors)} row(s) with errors not "
                            f"included; heat lost by hot lines and gained by cold lines summed apart, never netted; "
                            f"flag columns count flagged lines (flags for review, not verdicts).", *result.warnings]))
-    path = Path(path)
-    fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.", suffix=".tmp")
-    try:
-        with os.fdopen(fd, "w", newline="", encoding="utf-8") as fh:
-            writer = csv.writer(fh)
-            writer.writerow(["row", "tag", "status", *(c[0] for c in OUTPUT_COLUMNS), "notes"])
-            writer.writerows(cells for _, cells in sorted(body, key=lambda b: b[0]))
-            writer.writerow(total)
-            fh.flush()
-            os.fsync(fh.fileno())
-        os.chmod(tmp, 0o644)
-        os.replace(tmp, path)
-    except BaseException:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise
+    text = io.StringIO(newline="")
+    writer = csv.writer(text)
+    writer.writerow(["row", "tag", "status", *(c[0] for c in OUTPUT_COLUMNS), "notes"])
+    numeric = [False, False, False, *(True for _ in OUTPUT_COLUMNS), False]
+    for _, cells in sorted(body, key=lambda b: b[0]):
+        writer.writerow(_inert(cells, numeric))
+    writer.writerow(_inert(total, numeric))
+    write_atomic(path, text.getvalue().encode("utf-8"))

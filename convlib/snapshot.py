@@ -22,21 +22,21 @@ values, so re-indenting a file does not change it but any edited character of
 a value does. A hash is a checksum, not a signature: it detects corruption and
 careless edits; anyone able to run this code can recompute it.
 
-Files are written atomically (temporary file in the same directory, fsync,
-rename) and read as data only: never executed or unpickled. Loading never
-writes. NaN and infinities are refused (JSON has none).
+Files are written atomically (:func:`convlib.files.write_atomic`: locked temporary
+file in the same directory, fsync, rename; debris of killed saves is removed by the
+next save) and read as data only: never executed or unpickled. Loading never writes;
+it checks the size with ``stat`` before reading, reads regular files only, follows a
+symbolic link only within its folder, refuses duplicate keys, NaN/Infinity and nesting
+deeper than :data:`convlib.files.MAX_DEPTH` (:func:`convlib.files.read_json`).
 """
 from __future__ import annotations
 
-import contextlib
 import datetime as _dt
 import hashlib
 import json
 import math
 import os
 import platform
-import stat
-import tempfile
 from collections.abc import Callable
 from dataclasses import dataclass
 from importlib import metadata
@@ -48,6 +48,7 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError, field_valida
 
 from . import __version__
 from .errors import InputError
+from .files import read_json, write_atomic
 from .study import MonteCarloResult, StudyResult, StudySpec, run_study
 
 __all__ = ["SCHEMA_VERSION", "KIND", "MAX_BYTES", "DETERMINISTIC_TOLERANCE", "STANDARD_ERRORS", "SnapshotError",
@@ -63,8 +64,15 @@ _MIN_HISTOGRAM_COUNT = 20              # samples a density window must hold (qua
 _ABSENT = "<absent>"                   # stands for a value one side of a diff does not have
 
 
-class SnapshotError(ValueError):
-    """A snapshot file cannot be read: the message names the file and the problem."""
+class SnapshotError(InputError):
+    """A snapshot file cannot be read: the message names the file and the problem.
+
+    An :class:`~convlib.errors.InputError` (so a ``ValueError``) with ``field`` ``"snapshot"``.
+    """
+
+    def __init__(self, message: str, *, field: str = "snapshot", rule: str = "a readable, valid snapshot file",
+                 value=None):
+        super().__init__(message, field=field, rule=rule, value=value)
 
 
 class _Model(BaseModel):
@@ -234,6 +242,9 @@ def save(path, spec: StudySpec, result: StudyResult, author: str = "", note: str
                              f"of length {len(value) if isinstance(value, str) else '-'}", field=name,
                              rule=f"text of at most {limit} characters", value=value)
     _check_pair(spec, result)
+    if not isinstance(path, (str, os.PathLike)) or not os.fspath(path) or "\0" in os.fspath(path):
+        raise InputError(f"cannot save to {path!r}: not a usable file name", field="path",
+                         rule="a file name without NUL characters", value=path)
     path = Path(path)
     if path.is_dir():
         raise IsADirectoryError(f"{path} is a directory; give a file name such as {path / 'study.snapshot.json'}")
@@ -251,7 +262,10 @@ def save(path, spec: StudySpec, result: StudyResult, author: str = "", note: str
         raise InputError(f"snapshot would be {_mb(len(data))}, above the {_mb(MAX_BYTES)} that load() reads; "
                          f"use fewer sweep or map points", field="spec", rule=f"a snapshot of at most {_mb(MAX_BYTES)}",
                          value=len(data))
-    _write_atomic(path, data, overwrite)
+    try:
+        write_atomic(path, data, overwrite=overwrite)
+    except FileExistsError:
+        raise _exists(path) from None
     return path
 
 
@@ -261,42 +275,6 @@ def _mb(size: int) -> str:
 
 def _exists(path: Path) -> FileExistsError:
     return FileExistsError(f"{path} already exists; pass overwrite=True to replace it")
-
-
-def _write_atomic(path: Path, data: bytes, overwrite: bool) -> None:
-    """Temporary file in the target's directory, fsync, then rename (or hard-link when not overwriting)."""
-    try:
-        mode = stat.S_IMODE(path.stat().st_mode)
-    except FileNotFoundError:
-        mode = 0o644
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
-    try:
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(data)
-            fh.flush()
-            os.fsync(fh.fileno())
-        os.chmod(tmp, mode)
-        if overwrite:
-            os.replace(tmp, path)
-        else:
-            try:  # link fails if the target appeared meanwhile: never replaces a file we were not asked to
-                os.link(tmp, path)
-            except FileExistsError:
-                raise _exists(path) from None
-            except (OSError, NotImplementedError):  # file system without hard links
-                if path.exists():
-                    raise _exists(path) from None
-                os.replace(tmp, path)
-    finally:
-        with contextlib.suppress(FileNotFoundError):
-            os.unlink(tmp)
-    if os.name == "posix":  # make the rename itself durable
-        with contextlib.suppress(OSError):
-            dir_fd = os.open(path.parent, os.O_RDONLY)
-            try:
-                os.fsync(dir_fd)
-            finally:
-                os.close(dir_fd)
 
 
 def _flatten(exc: ValidationError, prefix: str = "") -> str:
@@ -311,26 +289,17 @@ def _flatten(exc: ValidationError, prefix: str = "") -> str:
     return "; ".join(lines[:8]) + more
 
 
-def _reject(what):
-    raise ValueError(what)
-
-
-def _pairs(pairs):
-    keys = [k for k, _ in pairs]
-    if len(set(keys)) != len(keys):
-        _reject(f"duplicate key {next(k for k in keys if keys.count(k) > 1)!r}")
-    return dict(pairs)
-
-
 def load(path) -> Snapshot:
     """Read, validate and hash-check a snapshot file (never writes).
 
     Raises
     ------
     SnapshotError
-        Missing or unreadable file, larger than :data:`MAX_BYTES`, not JSON or truncated,
-        not a snapshot, written by a newer convlib, missing or invalid fields, or a hash
-        that does not match the content ("tampered or corrupted").
+        (an :class:`~convlib.errors.InputError`) Missing or unreadable file, a directory, pipe or
+        device, a symbolic link leading out of its folder, larger than :data:`MAX_BYTES` (refused
+        before reading), not JSON or truncated, duplicate keys, NaN, nested too deep, not a snapshot,
+        written by a newer convlib, missing or invalid fields, or a hash that does not match the
+        content ("tampered or corrupted").
     """
     path = Path(path)
 
@@ -338,27 +307,9 @@ def load(path) -> Snapshot:
         return SnapshotError(f"{path}: {problem}")
 
     try:
-        with open(path, "rb") as fh:
-            size = os.fstat(fh.fileno()).st_size
-            if size > MAX_BYTES:
-                raise fail(f"file is {_mb(size)}, larger than the {_mb(MAX_BYTES)} limit")
-            raw = fh.read(MAX_BYTES + 1)
-    except OSError as exc:
-        raise fail(f"cannot read the file ({exc.strerror or exc})") from None
-    if len(raw) > MAX_BYTES:
-        raise fail(f"file is larger than the {_mb(MAX_BYTES)} limit")
-    try:
-        text = raw.decode("utf-8-sig")
-        document = json.loads(text, object_pairs_hook=_pairs, parse_constant=lambda c: _reject(f"{c} is not JSON"))
-    except UnicodeDecodeError as exc:
-        raise fail(f"not UTF-8 text (byte {exc.start})") from None
-    except json.JSONDecodeError as exc:
-        hint = "" if text.rstrip().endswith("}") else "; the file looks truncated (it does not end with '}')"
-        raise fail(f"not valid JSON: {exc.msg} at line {exc.lineno} column {exc.colno}{hint}") from None
-    except (ValueError, RecursionError) as exc:
-        raise fail(f"not valid JSON: {exc}") from None
-    if not isinstance(document, dict):
-        raise fail(f"not a convlib snapshot: the top level is a JSON {type(document).__name__}, not an object")
+        document = read_json(path, MAX_BYTES, label=str(path), field="snapshot")
+    except InputError as exc:
+        raise SnapshotError(str(exc), rule=exc.rule, value=exc.value) from None
     if document.get("kind") != KIND:
         hint = " (this looks like a study spec; read it with StudySpec.model_validate_json)" if "case" in document \
             else ""

@@ -11,6 +11,7 @@ import html
 from pathlib import Path
 
 from convlib import snapshot as cl_snapshot
+from convlib.files import write_atomic
 from convlib.regimes import flow_names, mode_names
 
 from .display import Display, input_label
@@ -161,7 +162,5 @@ def render_report(snap, units: str = "SI") -> str:
 
 
 def write_report(snapshot_path, out_path, units: str = "SI") -> Path:
-    """Write the report of a snapshot file to ``out_path`` (UTF-8)."""
-    out = Path(out_path)
-    out.write_text(render_report(snapshot_path, units), encoding="utf-8")
-    return out
+    """Write the report of a snapshot file to ``out_path`` (UTF-8), atomically (a link there is replaced)."""
+    return write_atomic(Path(out_path), render_report(snapshot_path, units).encode("utf-8"))

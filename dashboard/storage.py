@@ -19,17 +19,17 @@ verifying or comparing a snapshot always reads and hash-checks the file itself.
 """
 from __future__ import annotations
 
-import contextlib
 import datetime as _dt
 import json
 import os
 import re
 import stat
-import tempfile
 from dataclasses import dataclass
 from pathlib import Path
 
 from convlib import snapshot as cl_snapshot
+from convlib.errors import InputError
+from convlib.files import write_atomic
 
 from . import settings
 
@@ -48,8 +48,9 @@ MAX_INDEX_BYTES = 64 * 2**20           #: a larger index is ignored and rebuilt 
 def safe_name(text: str) -> str:
     """A file name made of ``[A-Za-z0-9._-]`` ending in ``.snapshot.json``.
 
-    Raises ``ValueError`` for names that are empty after cleaning, contain ``..``
-    or start with a dot.
+    Raises :class:`convlib.errors.InputError` (a ``ValueError``, field ``"name"``) for names
+    that are not text, are empty after cleaning, contain ``..`` or start with a dot.
+    Separators, control characters and any non-ASCII character become ``_``.
 
     Examples
     --------
@@ -58,16 +59,20 @@ def safe_name(text: str) -> str:
     >>> safe_name("../../etc/passwd")
     Traceback (most recent call last):
     ...
-    ValueError: snapshot name '../../etc/passwd' is not allowed: it may not contain '..'
+    convlib.errors.InputError: snapshot name '../../etc/passwd' is not allowed: it may not contain '..'
     """
-    raw = str(text).strip()
+    if not isinstance(text, str):
+        raise InputError(f"snapshot name must be text; got {type(text).__name__}", field="name", rule="text",
+                         value=text)
+    raw = text.strip()
     if ".." in raw:
-        raise ValueError(f"snapshot name {raw!r} is not allowed: it may not contain '..'")
+        raise InputError(f"snapshot name {raw!r} is not allowed: it may not contain '..'", field="name",
+                         rule="no '..'", value=raw)
     stem = raw[: -len(SUFFIX)] if raw.endswith(SUFFIX) else raw
     stem = _ALLOWED.sub("_", stem).strip("_")
     if not stem or stem.startswith("."):
-        raise ValueError(f"snapshot name {raw!r} is not allowed: use letters, digits, '.', '_' or '-', "
-                         "not starting with a dot")
+        raise InputError(f"snapshot name {raw!r} is not allowed: use letters, digits, '.', '_' or '-', "
+                         "not starting with a dot", field="name", rule="letters, digits, '.', '_' or '-'", value=raw)
     return stem[:MAX_NAME] + SUFFIX
 
 
@@ -76,7 +81,8 @@ def snapshot_path(directory: Path | str | None, name: str) -> Path:
     root = Path(directory or settings.snapshot_dir()).expanduser().resolve()
     path = (root / safe_name(name)).resolve()
     if path.parent != root:
-        raise ValueError(f"snapshot name {name!r} is not allowed: it leaves the snapshot directory")
+        raise InputError(f"snapshot name {name!r} is not allowed: it leaves the snapshot directory", field="name",
+                         rule="a file in the snapshot directory", value=name)
     return path
 
 
@@ -223,7 +229,7 @@ def _read_index(root: Path) -> tuple[dict[str, dict], str]:
 
 
 def _write_index(root: Path, entries: dict[str, dict]) -> bool:
-    """Replace the index atomically (temporary file beside it, fsync, rename); ``False`` if it cannot be written.
+    """Replace the index atomically (:func:`convlib.files.write_atomic`); ``False`` if it cannot be written.
 
     Two kernels writing at once each rename a complete file: the last one wins and nothing is torn.
     """
@@ -231,35 +237,10 @@ def _write_index(root: Path, entries: dict[str, dict]) -> bool:
                 "about": "cache of the convlib dashboard's snapshot listing; safe to delete (it is rebuilt)",
                 "files": [{"name": name, **entries[name]} for name in sorted(entries)]}
     data = (json.dumps(document, ensure_ascii=False, indent=1) + "\n").encode("utf-8")
-    target = root / INDEX_NAME
     try:
-        current = os.lstat(target)
-        mode = stat.S_IMODE(current.st_mode) if stat.S_ISREG(current.st_mode) else 0o644
-    except OSError:
-        mode = 0o644
-    try:
-        fd, tmp = tempfile.mkstemp(prefix=INDEX_NAME + ".", suffix=".tmp", dir=root)
+        write_atomic(root / INDEX_NAME, data)
     except OSError:  # read-only directory: the listing works, only without its cache
         return False
-    try:
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(data)
-            fh.flush()
-            os.fsync(fh.fileno())
-        os.chmod(tmp, mode)
-        os.replace(tmp, target)
-    except OSError:
-        return False
-    finally:
-        with contextlib.suppress(OSError):
-            os.unlink(tmp)
-    if os.name == "posix":  # make the rename itself durable
-        with contextlib.suppress(OSError):
-            dir_fd = os.open(root, os.O_RDONLY)
-            try:
-                os.fsync(dir_fd)
-            finally:
-                os.close(dir_fd)
     return True
 
 

@@ -8,6 +8,7 @@ import threading
 from pathlib import Path
 
 import pytest
+from convlib import files as cl_files
 from convlib import snapshot as cl_snapshot
 from convlib.study import CaseSpec, StudySpec, run_study
 
@@ -185,7 +186,7 @@ def test_index_that_cannot_be_written_never_breaks_the_listing(template, tmp_pat
     other = tmp_path / "other"
     other.mkdir()
     _copy(template, other, "b.snapshot.json")
-    monkeypatch.setattr(storage.tempfile, "mkstemp", refuse)  # e.g. a read-only directory
+    monkeypatch.setattr(cl_files, "_temporary", refuse)  # e.g. a read-only directory
     (entry,) = storage.list_snapshots(other)
     assert not entry.problem and not (other / INDEX).exists()
 
