@@ -247,10 +247,24 @@ def _layers(cell, unit: str | None, allow_unusual: bool = False) -> list[dict]:
                              rule="THICKNESS@CONDUCTIVITY NAME per layer", value=part)
         thickness = _number(m["thickness"], f"layers: layer {i} thickness", "length", unit, "thickness",
                             allow_unusual)
-        conductivity = _number(m["conductivity"], f"layers: layer {i} conductivity", "conductivity", None,
+        written, name = _conductivity_and_name(f"{m['conductivity']} {m['name']}".strip())
+        conductivity = _number(written, f"layers: layer {i} conductivity", "conductivity", None,
                                "conductivity", allow_unusual)
-        layers.append({"thickness": thickness, "conductivity": conductivity, "name": m["name"] or f"layer {i}"})
+        layers.append({"thickness": thickness, "conductivity": conductivity, "name": name or f"layer {i}"})
     return layers
+
+
+def _conductivity_and_name(text: str) -> tuple[str, str]:
+    """``"0.045 W/m/K mineral wool"`` -> ``("0.045 W/m/K", "mineral wool")``: the longest leading words that
+    read as a conductivity (a unit may follow the number after a space), the rest the layer's name."""
+    words = text.split()
+    for n in range(len(words), 1, -1):
+        try:
+            split(" ".join(words[:n]), "conductivity", "conductivity")
+        except InputError:
+            continue
+        return " ".join(words[:n]), " ".join(words[n:])
+    return (words[0] if words else ""), " ".join(words[1:])
 
 
 def _parse_row(row: int, cells: dict, units: dict, allow_unusual: bool = False) -> ParsedLine | RowError:

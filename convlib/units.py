@@ -1,8 +1,20 @@
 """Unit conversion at the edges (command line, files, dashboard); the core stays SI.
 
-Text such as ``"90degC"``, ``"4.5 in"``, ``"194 degF"`` or a plain number (read
-as the SI unit of the field) becomes an SI float. Unit systems for display:
-``"SI"`` (degC, mm, W/m, W/m2/K) and ``"US"`` (degF, in, Btu/h/ft, Btu/h/ft2/F).
+One reader for every entry point (command line, line-list CSV, study and weather files):
+:func:`split` / :func:`parse` turn text such as ``"90degC"``, ``"4.5 in"``, ``"0.045W/m/degC"``,
+``"0.3 Btu·in/h·ft²·°F"``, ``"6 barg"`` or ``"80%"`` into an SI float. A temperature unit that is
+the whole unit of a temperature is absolute (``95C`` = 368.15 K); inside a compound unit it is an
+interval (``W/m/degC`` = ``W/m/K``). Gauge pressures add the standard atmosphere (101 325 Pa).
+Malformed text (unbalanced brackets, a division by zero, a list) raises a one-line
+:class:`~convlib.errors.InputError` naming the field.
+
+:func:`read` reads an input of :data:`INPUTS`: a plain number is in the customary unit of the
+``--units`` system (SI: degC, mm for diameters and layers, m for runs; US: degF, in, ft), and a
+value outside the range engineers use is refused with a hint ("did you mean 95 degC?") unless
+allowed. Files pass their own plain unit (SI base units, kelvin, unless a header says otherwise).
+
+Unit systems for display: ``"SI"`` (degC, mm, W/m, W/m2/K) and ``"US"`` (degF, in, Btu/h/ft,
+Btu/h/ft2/F).
 """
 from __future__ import annotations
 
@@ -348,7 +360,7 @@ INPUTS = {
                              ("W/m", "Btu/h/ft")),
     "heat_flux": Input("heat_flux", "W/m**2", "Btu/h/ft**2", 1e-3, 1e6, "a heat flux", ("W/m**2", "Btu/h/ft**2")),
     "mass_flow": Input("mass_flow", "kg/s", "lb/h", 1e-7, 1e4, "a mass flow", ("kg/s", "kg/h", "lb/h")),
-    "relative_humidity": Input("dimensionless", "", "", 0.0, 1.0, "a relative humidity", ("%",), minimum_inclusive=True,
+    "relative_humidity": Input("dimensionless", "", "", 0.0, 1.0, "a relative humidity", ("%",),
                                maximum=1.0),
 }
 
@@ -378,7 +390,7 @@ def read(text, name: str, field: str, *, system: str = "SI", allow_unusual: bool
     >>> read("95K", "temperature", "surface_temperature")
     Traceback (most recent call last):
     ...
-    convlib.errors.InputError: surface_temperature: '95K' is below the range engineers use for a temperature (-123.1 to 1027 degC); did you mean 95 degC? Write the unit, or give allow_unusual=True to compute it anyway
+    convlib.errors.InputError: surface_temperature: '95K' is below the range engineers use for a temperature (-123.1 to 1027 degC); did you mean 95 degC or 95 degF? Write the unit, or give allow_unusual=True to compute it anyway
     """
     spec = INPUTS[name]
     plain = spec.plain(system) if plain_unit is None else plain_unit
