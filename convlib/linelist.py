@@ -43,9 +43,12 @@ unknown column is an error for the whole file (a misspelt column must not go unn
 **Units.** Plain numbers are SI, kelvin for temperatures. A unit in brackets after the column name
 applies to the plain numbers of that column: ``fluid_temperature[degC]``, ``air_temperature[°F]``,
 ``outer_diameter[mm]``, ``length[ft]``, ``wind_speed[km/h]``, ``relative_humidity[%]``, ``layers[mm]``
-(thicknesses). A unit in a cell wins: ``6 in``, ``90 degC``. Conversions by :mod:`convlib.units` (pint).
+(thicknesses). A unit in a cell wins: ``6 in``, ``90 degC``, ``0.045 W/m/degC``, ``6 barg``, ``80%``. Cells
+are read by :func:`convlib.units.split`, the reader of the command line (a temperature inside a compound unit
+is an interval), and a value outside the range engineers use (:data:`convlib.units.INPUTS`) makes its row an
+error with a hint unless ``allow_unusual=True``.
 
-**Layers.** ``THICKNESS@CONDUCTIVITY NAME`` per layer (conductivity in W/m/K, name optional),
+**Layers.** ``THICKNESS@CONDUCTIVITY NAME`` per layer (conductivity in W/m/K or with its unit, name optional),
 separated by ``;``, from the pipe outwards; empty, ``bare`` or ``none``: a bare pipe. With
 ``layers[mm]``: ``80@0.045 mineral wool; 0.7@200 aluminium jacket``; without it ``80mm@0.045 ...``.
 

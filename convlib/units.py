@@ -212,7 +212,7 @@ def _normalize(unit: str, kind: str) -> str:
 def unit_affine(unit: str, kind: str) -> tuple[float, float]:
     """``(factor, offset)`` with SI value = ``offset + factor * number`` for a number written in ``unit``.
 
-    Engineers' spellings are understood: ``W/m.K``, ``W/m2K`` is not (write ``W/m2/K``), ``Btu/h·ft²·°F``,
+    Engineers' spellings are understood: ``W/m.K``, ``W/mK``, ``W/m2K``, ``Btu/h·ft²·°F``, ``Btu/hr-ft2-F``,
     ``95C``; a temperature inside a compound unit is an interval (``W/m/degC`` = ``W/m/K``); gauge pressures
     (``barg``, ``psig``, ``kPa(g)``) add the standard atmosphere, 101 325 Pa; ``%`` is 0.01.
     Raises ``ValueError`` (not an ``InputError``: the caller names the field) for a unit that is not of ``kind``.
@@ -270,6 +270,8 @@ def split(text, kind: str, field: str, plain_unit: str | None = None) -> tuple[f
         factor, offset = unit_affine(used, kind)
     except Exception as exc:  # noqa: BLE001 - pint raises many error types; every one is a bad unit here
         why = f": {exc}" if isinstance(exc, ValueError) and str(exc).startswith(("it ", "a ")) else ""
+        if re.match(r",\d", unit):  # 0,045: a decimal comma
+            why = ": write the decimal mark as '.'"
         raise _bad(field, text, kind, why) from None
     value = offset + factor * number
     if not np.isfinite(value):

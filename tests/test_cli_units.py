@@ -218,3 +218,22 @@ def test_gauge_pressure_adds_the_standard_atmosphere(capsys):
     psig = run_json(capsys, "steam", "--nps", "6", "--steam-pressure", "50psig", "--air-temperature", "10degC",
                     "--layer", "80mm,0.045")["saturated steam line"]["results"][0]
     assert psig["steam_pressure"] == pytest.approx(50 * PSI + ATMOSPHERE, rel=1e-6)
+
+
+# ----------------------------------------------------------------------------- study files take units too
+def test_study_file_values_with_units_equal_si_values():
+    from convlib.study import CaseSpec, SweepAxis
+
+    text = ('{"kind": "insulated", "diameter": "4.5in", "fluid_temperature": "180degC", "air_temperature": "68degF",'
+            ' "insulation_thickness": "50mm", "insulation_conductivity": "0.045W/m/degC", "wind_speed": "10mph"}')
+    case = CaseSpec.model_validate_json(text)
+    assert case.diameter == pytest.approx(4.5 * INCH, rel=1e-12)             # 1959 agreement
+    assert case.fluid_temperature == pytest.approx(453.15, rel=1e-12)        # K = degC + 273.15
+    assert case.air_temperature == pytest.approx(293.15, rel=1e-12)          # 68 degF = 20 degC
+    assert case.insulation_thickness == pytest.approx(0.05, rel=1e-12)
+    assert case.insulation_conductivity == pytest.approx(0.045, rel=1e-12)   # degC interval = K
+    assert case.wind_speed == pytest.approx(4.4704, rel=1e-12)               # 10 mph, mile = 1609.344 m
+    axis = SweepAxis.model_validate({"input": "air_temperature", "start": "-10degC", "stop": "30degC", "count": 3})
+    assert (axis.start, axis.stop) == pytest.approx((263.15, 303.15), rel=1e-12)
+    with pytest.raises(ValueError, match="diameter"):
+        CaseSpec.model_validate_json('{"kind": "insulated", "diameter": "4.5 kg", "fluid_temperature": 400}')

@@ -378,3 +378,8 @@ def test_files_read_plain_numbers_as_si():
     assert units.read("363.15", "temperature", "t", plain_unit="K") == 363.15
     with pytest.raises(InputError, match="did you mean -5 degC"):
         units.read("-5", "air_temperature", "bins air_temperature", plain_unit="K")
+
+
+def test_decimal_comma_is_named():
+    with pytest.raises(InputError, match="decimal mark"):
+        units.parse("0,045 W/m/K", "conductivity", "k")
