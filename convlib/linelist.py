@@ -312,7 +312,7 @@ def _parse_row(row: int, cells: dict, units: dict, allow_unusual: bool = False) 
                             f"got {cells[name]!r}")
     if hours is not None and hours > 8784.0:
         problems.append(f"operating_hours: {hours:g} h is more than a (leap) year of 8784 h")
-    if ("nps" in values) == ("outer_diameter" in values):
+    if _blank(cells.get("nps")) == _blank(cells.get("outer_diameter")):  # (a bad cell is reported above)
         problems.append("nps / outer_diameter: give the pipe as nps (with schedule) or as outer_diameter, not both")
     elif "nps" in values:
         if "schedule" in values:  # 40.0 from a numeric spreadsheet column, std, 10s

@@ -208,7 +208,6 @@ def _normalize(unit: str, kind: str) -> str:
     return u.strip()
 
 
-@lru_cache(maxsize=256)
 def unit_affine(unit: str, kind: str) -> tuple[float, float]:
     """``(factor, offset)`` with SI value = ``offset + factor * number`` for a number written in ``unit``.
 
@@ -222,6 +221,23 @@ def unit_affine(unit: str, kind: str) -> tuple[float, float]:
     >>> unit_affine("barg", "pressure")
     (100000.0, 101325.0)
     """
+    ok, out = _affine_or_error(unit, kind)
+    if not ok:
+        raise ValueError(out)
+    return out
+
+
+@lru_cache(maxsize=1024)
+def _affine_or_error(unit: str, kind: str):
+    """``(True, (factor, offset))`` or ``(False, reason)``: a refused unit is cached too, so that a file
+    repeating it stays fast."""
+    try:
+        return True, _affine(unit, kind)
+    except Exception as exc:  # noqa: BLE001 - pint raises many error types; every one means "not this unit"
+        return False, str(exc) if isinstance(exc, ValueError) else f"not a unit of {kind}: {exc}"
+
+
+def _affine(unit: str, kind: str) -> tuple[float, float]:
     if kind not in KIND_SI_UNIT:
         raise ValueError(f"unknown quantity kind {kind!r}")
     gauge = 0.0
@@ -408,7 +424,8 @@ def read(text, name: str, field: str, *, system: str = "SI", allow_unusual: bool
     if not possible:
         bound, rule = ((spec.minimum, "at least" if spec.minimum_inclusive else "greater than") if not low_ok else
                        (spec.maximum, "at most"))
-        written = _show(number, plain, 12) if plain_typed else typed
+        # a plain number: with the unit it was read in, unless that is the SI unit a file's plain numbers take
+        written = _show(number, plain, 12) if plain_typed and plain != KIND_SI_UNIT[spec.kind] else typed
         raise InputError(f"{field}: must be {rule} {_show((bound - offset) / factor, plain)}; got {written!r}"
                          f"{hint}", field=field, rule=f"{rule} {bound:g} {KIND_SI_UNIT[spec.kind]}", value=text)
     lo, hi = ((x - offset) / factor for x in (spec.low, spec.high))
