@@ -103,7 +103,7 @@ from .pipe_sizes import nominal_pipe, parse_nps
 from .properties import dew_point
 from .radiation import sky_temperature
 from .regimes import describe_flags
-from .units import KIND_SI_UNIT, from_si, read, split, unit_affine
+from .units import KIND_SI_UNIT, from_si, is_unit, read, split, unit_affine
 from .validation import as_array
 
 __all__ = ["COLUMNS", "OUTPUT_COLUMNS", "OUTDOOR_SKY_VIEW_FRACTION", "RowError", "ParsedLine", "LineListResult",
@@ -262,11 +262,8 @@ def _conductivity_and_name(text: str) -> tuple[str, str]:
     read as a conductivity (a unit may follow the number after a space), the rest the layer's name."""
     words = text.split()
     for n in range(len(words), 1, -1):
-        try:
-            split(" ".join(words[:n]), "conductivity", "conductivity")
-        except InputError:
-            continue
-        return " ".join(words[:n]), " ".join(words[n:])
+        if is_unit(" ".join(words[1:n]), "conductivity"):
+            return " ".join(words[:n]), " ".join(words[n:])
     return (words[0] if words else ""), " ".join(words[1:])
 
 

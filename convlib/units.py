@@ -18,6 +18,7 @@ Btu/h/ft2/F).
 """
 from __future__ import annotations
 
+import math
 import re
 from dataclasses import dataclass
 from functools import lru_cache
@@ -208,6 +209,11 @@ def _normalize(unit: str, kind: str) -> str:
     return u.strip()
 
 
+def is_unit(unit: str, kind: str) -> bool:
+    """Whether ``unit`` reads as a unit of ``kind`` (cached; no exception built)."""
+    return _affine_or_error(unit, kind)[0]
+
+
 def unit_affine(unit: str, kind: str) -> tuple[float, float]:
     """``(factor, offset)`` with SI value = ``offset + factor * number`` for a number written in ``unit``.
 
@@ -279,7 +285,7 @@ def split(text, kind: str, field: str, plain_unit: str | None = None) -> tuple[f
                                  value=text)
             raise _bad(field, text, kind)
         number, unit = float(m[1]), m[2]
-    if not np.isfinite(number):
+    if not math.isfinite(number):
         raise InputError(f"{field}: {text!r} is not a finite number", field=field, rule="a finite number", value=text)
     used = unit if unit else (plain_unit if plain_unit is not None else KIND_SI_UNIT[kind])
     try:
@@ -290,7 +296,7 @@ def split(text, kind: str, field: str, plain_unit: str | None = None) -> tuple[f
             why = ": write the decimal mark as '.'"
         raise _bad(field, text, kind, why) from None
     value = offset + factor * number
-    if not np.isfinite(value):
+    if not math.isfinite(value):
         raise InputError(f"{field}: {text!r} is not a finite number", field=field, rule="a finite number", value=text)
     return float(value), number, used
 
