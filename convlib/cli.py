@@ -19,23 +19,28 @@ Commands
 ``duct``          a rectangular duct face by face (sides, top, bottom), bare or insulated
 ``correlations``  the correlation registry
 
-Values may carry units (``90degC``, ``4.5in``, ``50mm``, ``10mph``, ``80W/m``);
-plain numbers are SI (kelvin for temperatures). Tables print in ``--units SI``
-(degC, mm, W/m) or ``US`` (degF, in, Btu/h/ft); ``--json`` prints SI values with
-a map of their units. Bad input prints one line naming the field and exits 2.
+Values may carry units (``90degC``, ``4.5in``, ``50mm``, ``10mph``, ``80W/m``, ``0.045W/m/degC``, ``6barg``,
+``80%``); a temperature inside a compound unit is an interval. Plain numbers follow ``--units``: SI reads
+degC, mm for diameters, walls, layers and duct sizes, m for lengths of runs, vessels and plates, bar absolute
+for process pressures, kPa for air pressure, W/m/K, W/m2/K, W/m, kg/s; US reads degF, in, ft, psi absolute,
+Btu*in/(h*ft2*degF), Btu/(h*ft2*degF), Btu/h/ft, lb/h (each option's help says which). Values outside the
+ranges engineers use are refused with a hint unless ``--allow-unusual``. Tables print in the same system;
+``--json`` prints SI values with a map of their units. Bad input prints one line naming the field and exits 2.
 """
 from __future__ import annotations
 
 import argparse
 import json
 import os
+import re
 import sys
 
 import numpy as np
 
 from . import __version__
-from .cli_common import (conditions, display_unit, emit, from_si, output_options, parse, parse_layer, pipe_diameter,
-                         pipe_options, pretty_unit, surface_cautions, surface_row, table)
+from .cli_common import (ALLOW_HELP, LAYER_UNITS, add_quantity, conditions, display_unit, emit, from_si, layers,
+                         output_options, pipe_diameter, pipe_options, pretty_unit, surface_cautions, surface_row, table,
+                         value)
 from .cli_operation import add_commands as add_operation_commands
 from .correlations import catalog
 from .demo import load_demo_site, operation_rows
@@ -46,6 +51,7 @@ from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, WeatherBins, annual_en
 from .geometry import SHAPES
 from .pipe import insulated_pipe
 from .surface import bare_surface
+from .units import INPUTS, KIND_SI_UNIT, read
 
 __all__ = ["main", "load_demo_site"]
 
@@ -56,10 +62,9 @@ MAX_BINS = 10_000              #: most weather bins (hourly bins of a leap year:
 # ----------------------------------------------------------------------------- commands
 def _cmd_surface(args) -> int:
     kwargs = {}
-    for option, kind, _ in _SURFACE_OPTIONS:
-        text = getattr(args, option.replace("-", "_"))
-        if text is not None:
-            kwargs[option.replace("-", "_")] = parse(text, kind, option)
+    for option, _, _ in _SURFACE_OPTIONS:
+        if getattr(args, option.replace("-", "_")) is not None:
+            kwargs[option.replace("-", "_")] = value(args, option.replace("-", "_"))
     for name in ("emissivity", "sky_view_fraction"):
         if getattr(args, name) is not None:
             kwargs[name] = getattr(args, name)
@@ -75,9 +80,8 @@ def _cmd_surface(args) -> int:
 
 
 def _cmd_line(args) -> int:
-    layers = [parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
-    r = insulated_pipe(pipe_diameter(args), parse(args.fluid_temperature, "temperature", "fluid-temperature"),
-                       layers, length=parse(args.length, "length", "length"), **conditions(args))
+    r = insulated_pipe(pipe_diameter(args), value(args, "fluid_temperature"), layers(args),
+                       length=value(args, "length"), **conditions(args))
     rows = [surface_row(args.tag, r, ("fluid_temperature", "outer_diameter"))]
     emit(args, [("line", rows)], surface_cautions(rows))
     return 0
@@ -97,9 +101,9 @@ def _mm(value) -> str:
 
 def _cmd_size(args) -> int:
     d = pipe_diameter(args)
-    tf = parse(args.fluid_temperature, "temperature", "fluid-temperature")
-    k = parse(args.insulation_conductivity, "conductivity", "insulation-conductivity")
-    outer = [parse_layer(args.jacket, 1)] if args.jacket else []
+    tf = value(args, "fluid_temperature")
+    k = value(args, "insulation_conductivity")
+    outer = layers(args, "jacket")
     cond = conditions(args)
     chosen = [name for name in ("touch_limit", "heat_loss_limit", "relative_humidity") if getattr(args, name)]
     if len(chosen) != 1:
@@ -108,19 +112,18 @@ def _cmd_size(args) -> int:
                          value=chosen)
     if args.touch_limit:
         res = thickness_for_surface_temperature(d, tf, insulation_conductivity=k, outer_layers=outer,
-                                                surface_limit=parse(args.touch_limit, "temperature", "touch-limit"),
+                                                surface_limit=value(args, "touch_limit"),
                                                 **cond)
         label = "touch temperature"
     elif args.heat_loss_limit:
         res = thickness_for_heat_loss(d, tf, insulation_conductivity=k, outer_layers=outer,
-                                      heat_loss_limit=parse(args.heat_loss_limit, "heat_per_length",
-                                                            "heat-loss-limit"), **cond)
+                                      heat_loss_limit=value(args, "heat_loss_limit"), **cond)
         label = "heat loss"
     else:
         cond.pop("wind_speed")
         cond.pop("sky_view_fraction")
         res = thickness_against_condensation(d, tf, insulation_conductivity=k, outer_layers=outer,
-                                             relative_humidity=args.relative_humidity, **cond)
+                                             relative_humidity=value(args, "relative_humidity"), **cond)
         label = "condensation"
     row = _sizing_rows(args.tag, res, label)
     if args.json:
@@ -338,9 +341,14 @@ def _weather_bins(args):
             raise InputError(f"{label}: the lists must have one value per bin, at least one bin; got "
                              + ", ".join(f"{n} {key}" for key, n in counts.items()), field="--bins",
                              rule="lists of equal length, at least one bin", value=counts)
+
+        def each(key, name, values):  # plain numbers SI (K, m/s) as in every file; text with a unit as written
+            return [read(v, name, f"bins {key}", allow_unusual=args.allow_unusual, override="--allow-unusual",
+                         plain_unit=KIND_SI_UNIT[INPUTS[name].kind]) for v in values]
+
         try:
-            air = [parse(v, "temperature", "bins air_temperature") for v in data["air_temperature"]]
-            wind = [parse(v, "speed", "bins wind_speed") for v in data.get("wind_speed", [0.0] * len(air))]
+            air = each("air_temperature", "air_temperature", data["air_temperature"])
+            wind = each("wind_speed", "wind_speed", data.get("wind_speed", [0.0] * len(air)))
             return WeatherBins(air, wind, data["hours"])
         except InputError as exc:  # say which file
             raise InputError(f"{label}: {exc}", field=exc.field, rule=exc.rule, value=exc.value) from None
@@ -373,7 +381,8 @@ def _cmd_lines(args) -> int:
     co2 = args.co2_per_kwh if args.co2_per_kwh is not None else energy.get("co2_kg_per_kwh", 0.0)
     try:
         result = run_line_list(source, _weather_bins(args), energy_price=price, heating_efficiency=efficiency,
-                               cooling_cop=cop, co2_per_kwh=co2, progress=_progress_bar)
+                               cooling_cop=cop, co2_per_kwh=co2, progress=_progress_bar,
+                               allow_unusual=args.allow_unusual)
     except OSError as exc:
         raise InputError(f"cannot read line list {args.input}: {exc.strerror}", field="input",
                          rule="a readable file", value=args.input) from None
@@ -463,17 +472,17 @@ def _cmd_correlations(args) -> int:
 
 
 # ----------------------------------------------------------------------------- parser
-# (option, kind, help) for the surface command; kind drives unit parsing.
+# (option, input of convlib.units.INPUTS, help) for the surface command; the input drives unit parsing.
 _SURFACE_OPTIONS = (
-    ("surface-temperature", "temperature", "outer surface temperature, e.g. 90degC or 363.15 (K)"),
-    ("air-temperature", "temperature", "ambient air temperature, e.g. 20degC"),
+    ("surface-temperature", "temperature", "outer surface temperature, e.g. 90degC or 363.15K"),
+    ("air-temperature", "air_temperature", "ambient air temperature, e.g. 20degC"),
     ("surroundings-temperature", "temperature", "temperature of walls/ground seen by the surface (default: air)"),
-    ("diameter", "length", "outer diameter of a cylinder or sphere, e.g. 4.5in or 0.1143 (m)"),
-    ("length", "length", "cylinder length (vertical: height) or horizontal plate length"),
-    ("height", "length", "vertical plate height"),
-    ("width", "length", "plate width"),
-    ("wind-speed", "speed", "wind speed, e.g. 3 or 10mph (default 0: still air)"),
-    ("pressure", "pressure", "air pressure, e.g. 101325 or 79.5kPa (default 1 atm)"),
+    ("diameter", "pipe_diameter", "outer diameter of a cylinder or sphere, e.g. 4.5in or 114.3mm"),
+    ("length", "length", "cylinder length (vertical: height) or horizontal plate length (default 1 m)"),
+    ("height", "size", "vertical plate height"),
+    ("width", "size", "plate width"),
+    ("wind-speed", "wind_speed", "wind speed, e.g. 3m/s or 10mph (default 0: still air)"),
+    ("pressure", "air_pressure", "air pressure, e.g. 79.5kPa (default 1 atm)"),
 )
 
 
@@ -484,13 +493,13 @@ def build_parser() -> argparse.ArgumentParser:
     sub = parser.add_subparsers(dest="command", required=True, metavar="COMMAND")
 
     demo = sub.add_parser("demo", help="evaluate the invented demo site")
-    output_options(demo)
+    output_options(demo, quantities=False)
     demo.set_defaults(func=_cmd_demo)
 
     surf = sub.add_parser("surface", help="one bare surface at a known temperature")
     surf.add_argument("--shape", default="horizontal_cylinder", choices=list(SHAPES))
-    for option, _, text in _SURFACE_OPTIONS:
-        surf.add_argument(f"--{option}", help=text)
+    for option, name, text in _SURFACE_OPTIONS:
+        add_quantity(surf, option, name, text)
     surf.add_argument("--emissivity", type=float, help="long-wave emissivity 0..1 (default 0.9)")
     surf.add_argument("--sky-view-fraction", type=float, help="part of the view that is sky, 0 indoors (default)")
     surf.add_argument("--natural", help="natural-convection correlation key (see 'convlib correlations')")
@@ -502,18 +511,23 @@ def build_parser() -> argparse.ArgumentParser:
     line = sub.add_parser("line", help="an insulated or bare line with a known fluid temperature")
     pipe_options(line)
     line.add_argument("--layer", action="append", help="THICKNESS,CONDUCTIVITY[,NAME] from the pipe outwards, "
-                      "e.g. --layer 50mm,0.04,mineral wool --layer 0.7mm,200,jacket")
-    line.add_argument("--length", default="1", help="line length (default 1 m)")
+                      "e.g. --layer 50mm,0.04,mineral wool --layer 0.7mm,200,jacket "
+                      f"[{LAYER_UNITS}]")
+    add_quantity(line, "length", "length", "line length (default 1 m)", default="1m")
     output_options(line)
     line.set_defaults(func=_cmd_line)
 
     size = sub.add_parser("size", help="insulation thickness for a limit")
     pipe_options(size)
-    size.add_argument("--insulation-conductivity", required=True, help="W/m/K of the insulation to size")
-    size.add_argument("--jacket", help="fixed layer outside it: THICKNESS,CONDUCTIVITY[,NAME]")
-    size.add_argument("--touch-limit", help="highest jacket temperature, e.g. 60degC (give the hottest ambient)")
-    size.add_argument("--heat-loss-limit", help="highest heat flow per metre, e.g. 50 (W/m)")
-    size.add_argument("--relative-humidity", type=float, help="design humidity 0..1: size against condensation")
+    add_quantity(size, "insulation-conductivity", "insulation_conductivity",
+                 "conductivity of the insulation to size, e.g. 0.04W/m/K", required=True)
+    size.add_argument("--jacket", action="append", help="fixed layer outside it: THICKNESS,CONDUCTIVITY[,NAME] "
+                      f"[{LAYER_UNITS}]")
+    add_quantity(size, "touch-limit", "temperature", "highest jacket temperature, e.g. 60degC (give the hottest "
+                 "ambient)")
+    add_quantity(size, "heat-loss-limit", "heat_per_length", "highest heat flow per length, e.g. 50W/m")
+    add_quantity(size, "relative-humidity", "relative_humidity", "design humidity, e.g. 0.8 or 80%: size against "
+                 "condensation")
     output_options(size)
     size.set_defaults(func=_cmd_size)
 
@@ -524,7 +538,7 @@ def build_parser() -> argparse.ArgumentParser:
     run.add_argument("--author", default="", help="author recorded in the snapshot")
     run.add_argument("--note", default="", help="note recorded in the snapshot")
     run.add_argument("--overwrite", action="store_true", help="replace an existing snapshot file")
-    output_options(run)
+    output_options(run, quantities=False)
     run.set_defaults(func=_cmd_run)
 
     ver = sub.add_parser("verify", help="re-run a snapshot's study and say whether the numbers still agree "
@@ -556,7 +570,8 @@ def build_parser() -> argparse.ArgumentParser:
     lines.add_argument("--heating-efficiency", type=float, help="efficiency of the heat source (default 0.85)")
     lines.add_argument("--cooling-cop", type=float, help="COP of the chiller (default 3)")
     lines.add_argument("--co2-per-kwh", type=float, help="kg CO2 per purchased kWh (default 0)")
-    output_options(lines)
+    output_options(lines, quantities=False)
+    lines.add_argument("--allow-unusual", action="store_true", help=ALLOW_HELP)
     lines.set_defaults(func=_cmd_lines)
 
     add_operation_commands(sub)
@@ -568,8 +583,23 @@ def build_parser() -> argparse.ArgumentParser:
     return parser
 
 
+_NEGATIVE = re.compile(r"^-\.?\d")
+
+
+def _join_negative_values(argv: list[str]) -> list[str]:
+    """``--air-temperature -10degC`` as ``--air-temperature=-10degC``: argparse takes a token starting with ``-``
+    for an option unless it is a plain number; no option of convlib starts with ``-`` and a digit."""
+    out = []
+    for token in argv:
+        if out and _NEGATIVE.match(token) and out[-1].startswith("--") and "=" not in out[-1]:
+            out[-1] = f"{out[-1]}={token}"
+        else:
+            out.append(token)
+    return out
+
+
 def main(argv=None) -> int:
-    argv = sys.argv[1:] if argv is None else list(argv)
+    argv = _join_negative_values(sys.argv[1:] if argv is None else list(argv))
     args = build_parser().parse_args(argv or ["demo"])  # no command: the demo site
     try:
         return args.func(args)

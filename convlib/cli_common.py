@@ -13,7 +13,7 @@ from .design import TOUCH_LIMIT_METAL_JACKET
 from .errors import InputError
 from .pipe import Layer
 from .pipe_sizes import SCHEDULES, nominal_pipe
-from .units import KIND_SI_UNIT, display_unit, from_si, parse
+from .units import INPUTS, KIND_SI_UNIT, display_unit, from_si, help_units, parse, read
 
 CAUTION_HOT = ("Caution: surfaces above about 60 degC can burn on contact (ISO 13732-1 gives limits by material "
                "and contact time); local codes and licensed practice govern guarding and insulation.")
@@ -129,14 +129,55 @@ def emit(args, sections: list[tuple[str, list[dict]]], cautions: list[str], extr
         print(c)
 
 
-def parse_layer(text: str, index: int) -> Layer:
+# ----------------------------------------------------------------------------- typed quantities
+class Typed(str):
+    """An option's text as typed, with the input it is (a key of :data:`convlib.units.INPUTS`); read once the
+    whole command line is known (``--units`` may come after it)."""
+
+    input: str
+
+
+def quantity(name: str):
+    """An argparse ``type`` keeping the text and the input ``name`` for :func:`value`."""
+    def typed(text):
+        out = Typed(text)
+        out.input = name
+        return out
+
+    typed.__name__ = INPUTS[name].words
+    return typed
+
+
+def add_quantity(p, option: str, name: str, help: str, **kwargs) -> None:
+    """An option taking a quantity of input ``name``; its help says how a plain number is read."""
+    p.add_argument(f"--{option}", type=quantity(name), help=f"{help} [{help_units(name)}]".replace("%", "%%"),
+                   **kwargs)
+
+
+def value(args, dest: str, text=None, name: str | None = None, field: str | None = None):
+    """SI value of option ``dest`` (or of ``text``): plain numbers in the ``--units`` system, refused outside
+    the usual range unless ``--allow-unusual``; ``None`` when not given."""
+    raw = getattr(args, dest) if text is None else text
+    if raw is None:
+        return None
+    return read(raw, name or raw.input, field or f"--{dest.replace('_', '-')}", system=getattr(args, "units", "SI"),
+                allow_unusual=getattr(args, "allow_unusual", False), override="--allow-unusual")
+
+
+def parse_layer(text: str, index: int, args=None, option: str = "--layer") -> Layer:
+    """``THICKNESS,CONDUCTIVITY[,NAME]``: plain thickness in mm (US in), conductivity W/m/K (US
+    Btu·in/(h·ft²·°F))."""
     parts = [p.strip() for p in text.split(",")]
     if len(parts) not in (2, 3):
-        raise InputError(f"--layer {text!r}: write THICKNESS,CONDUCTIVITY[,NAME], e.g. 50mm,0.04,mineral wool",
-                         field="--layer", rule="THICKNESS,CONDUCTIVITY[,NAME]", value=text)
-    thickness = parse(parts[0], "length", f"layer {index} thickness")
-    conductivity = parse(parts[1], "conductivity", f"layer {index} conductivity")
+        raise InputError(f"{option} {text!r}: write THICKNESS,CONDUCTIVITY[,NAME], e.g. 50mm,0.04,mineral wool",
+                         field=option, rule="THICKNESS,CONDUCTIVITY[,NAME]", value=text)
+    thickness = value(args, "", parts[0], "thickness", f"{option} {index} thickness")
+    conductivity = value(args, "", parts[1], "conductivity", f"{option} {index} conductivity")
     return Layer(thickness, conductivity, name=parts[2] if len(parts) == 3 else f"layer {index}")
+
+
+def layers(args, dest: str = "layer") -> list[Layer]:
+    return [parse_layer(t, i + 1, args, f"--{dest.replace('_', '-')}") for i, t in enumerate(getattr(args, dest) or [])]
 
 
 def pipe_diameter(args) -> float:
@@ -146,43 +187,52 @@ def pipe_diameter(args) -> float:
                          value=(args.nps, args.pipe_diameter))
     if args.nps is not None:
         return nominal_pipe(args.nps, args.schedule).outer_diameter
-    return parse(args.pipe_diameter, "length", "pipe-diameter")
+    return value(args, "pipe_diameter")
 
 
 def outside(args) -> dict:
     """Wind, jacket emissivity, sky view and a given convective coefficient of a line's outer surface."""
-    given = None if args.convection_coefficient is None else parse(args.convection_coefficient, "coefficient",
-                                                                   "convection-coefficient")
-    return dict(wind_speed=parse(args.wind_speed, "speed", "wind-speed"), jacket_emissivity=args.jacket_emissivity,
-                sky_view_fraction=args.sky_view_fraction, convection_coefficient=given)
+    return dict(wind_speed=value(args, "wind_speed"), jacket_emissivity=args.jacket_emissivity,
+                sky_view_fraction=args.sky_view_fraction, convection_coefficient=value(args, "convection_coefficient"))
 
 
 def conditions(args) -> dict:
-    return dict(air_temperature=parse(args.air_temperature, "temperature", "air-temperature"), **outside(args))
+    return dict(air_temperature=value(args, "air_temperature"), **outside(args))
 
 
-GIVEN_COEFFICIENT_HELP = ("outer convective coefficient to use instead of the correlations, e.g. 10 (W/m2/K) "
-                           "when a specification prescribes one; radiation still counts (emissivity 0 for a "
-                           "combined value)")
+GIVEN_COEFFICIENT_HELP = ("outer convective coefficient to use instead of the correlations, when a specification "
+                          "prescribes one; radiation still counts (emissivity 0 for a combined value)")
+UNITS_HELP = ("unit system of plain numbers on this command line and of the printed table: SI (degC; mm for "
+              "diameters and layers; m for lengths; bar absolute) or US (degF; in; ft; psi absolute); a number "
+              "with its unit (90degC, 4.5in, 0.3Btu*in/(h*ft2*degF), 6barg, 80%%) is read as written. Default SI")
+ALLOW_HELP = ("compute values outside the ranges engineers use (e.g. a temperature below 150 K, a diameter over "
+              "5 m, a layer over 1 m), which are otherwise refused with a hint")
 
 
-def output_options(p) -> None:
+LAYER_UNITS = ("plain thickness: mm, --units US: in; plain conductivity: W/m/K, --units US: "
+               "Btu*in/(h*ft2*degF)")
+
+
+def output_options(p, quantities: bool = True) -> None:
     p.add_argument("--json", action="store_true", help="print JSON (SI values) instead of a table")
-    p.add_argument("--units", choices=("SI", "US"), default="SI", help="units of the printed table (default SI)")
+    p.add_argument("--units", choices=("SI", "US"), default="SI",
+                   help=UNITS_HELP if quantities else "units of the printed table (default SI)")
+    if quantities:
+        p.add_argument("--allow-unusual", action="store_true", help=ALLOW_HELP)
 
 
 def pipe_options(p) -> None:
-    p.add_argument("--fluid-temperature", required=True, help="fluid temperature, e.g. 180degC")
-    p.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. 20degC")
+    add_quantity(p, "fluid-temperature", "temperature", "fluid temperature, e.g. 180degC", required=True)
+    add_quantity(p, "air-temperature", "air_temperature", "ambient air temperature, e.g. 20degC", required=True)
     pipe_size_options(p)
 
 
 def pipe_size_options(p) -> None:
-    p.add_argument("--nps", type=float, help="nominal pipe size, e.g. 4 or 0.75")
+    p.add_argument("--nps", help="nominal pipe size, e.g. 4, 0.75, 3/4 or 1-1/2")
     p.add_argument("--schedule", default="40", choices=SCHEDULES, help="pipe schedule (default 40)")
-    p.add_argument("--pipe-diameter", help="pipe outer diameter instead of --nps, e.g. 114.3mm")
-    p.add_argument("--wind-speed", default="0", help="wind speed (default 0: still air)")
+    add_quantity(p, "pipe-diameter", "pipe_diameter", "pipe outer diameter instead of --nps, e.g. 114.3mm")
+    add_quantity(p, "wind-speed", "wind_speed", "wind speed (default 0: still air)", default="0")
     p.add_argument("--jacket-emissivity", type=float, default=0.9, help="emissivity of the outer surface")
     p.add_argument("--sky-view-fraction", type=float, default=0.0, help="part of the view that is sky (0 indoors)")
-    p.add_argument("--convection-coefficient", help=GIVEN_COEFFICIENT_HELP)
+    add_quantity(p, "convection-coefficient", "coefficient", GIVEN_COEFFICIENT_HELP)
     p.add_argument("--tag", default="line", help="label for the output")

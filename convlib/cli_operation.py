@@ -6,8 +6,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from .cli_common import (GIVEN_COEFFICIENT_HELP, emit, nominal_pipe, output_options, outside, parse, parse_layer,
-                         pipe_diameter, pipe_size_options, pretty_unit, surface_cautions)
+from .cli_common import (GIVEN_COEFFICIENT_HELP, LAYER_UNITS, add_quantity, emit, layers, nominal_pipe, output_options,
+                         outside, pipe_diameter, pipe_size_options, pretty_unit, surface_cautions, value)
 from .errors import InputError
 from .operation import (TRACING_MARGIN, freeze_time, line_temperature_profile, minimum_flow, steam_line,
                         tracing_duty)
@@ -18,11 +18,10 @@ from .vessels import (FLOORS, GROUND_CONDUCTIVITY, WIND_DIRECTIONS, insulation_p
 
 
 def _cmd_trace(args) -> int:
-    layers = [parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
-    maintain = parse(args.maintain_temperature, "temperature", "maintain-temperature")
-    ambient = parse(args.minimum_ambient, "temperature", "minimum-ambient")
-    r = tracing_duty(pipe_diameter(args), maintain, layers, air_temperature=ambient, margin=args.margin,
-                     length=parse(args.length, "length", "length"), **outside(args))
+    maintain = value(args, "maintain_temperature")
+    ambient = value(args, "minimum_ambient")
+    r = tracing_duty(pipe_diameter(args), maintain, layers(args), air_temperature=ambient, margin=args.margin,
+                     length=value(args, "length"), **outside(args))
     row = {"tag": args.tag, "maintain_temperature": maintain, "air_temperature": ambient,
            "surface_temperature": float(r.surface_temperature), "heat_loss_per_length": float(r.heat_loss_per_length),
            "margin": float(r.margin), "duty_per_length": float(r.duty_per_length), "duty_total": float(r.duty_total),
@@ -32,10 +31,10 @@ def _cmd_trace(args) -> int:
 
 
 def _cmd_outlet(args) -> int:
-    layers = [parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
-    inlet = parse(args.inlet_temperature, "temperature", "inlet-temperature")
-    air = parse(args.air_temperature, "temperature", "air-temperature")
-    length = parse(args.length, "length", "length")
+    given_layers = layers(args)
+    inlet = value(args, "inlet_temperature")
+    air = value(args, "air_temperature")
+    length = value(args, "length")
     if args.keep_above is not None and args.keep_below is not None:
         raise InputError("give --keep-above (a hot line) or --keep-below (a cold line), not both",
                          field="--keep-above, --keep-below", rule="at most one of them",
@@ -45,17 +44,17 @@ def _cmd_outlet(args) -> int:
         raise InputError("give --mass-flow, or --keep-above / --keep-below for the minimum flow",
                          field="--mass-flow", rule="given unless --keep-above or --keep-below is", value=None)
     common = dict(air_temperature=air, fluid=args.fluid,
-                  fluid_pressure=parse(args.fluid_pressure, "pressure", "fluid-pressure"), **outside(args))
+                  fluid_pressure=value(args, "fluid_pressure"), **outside(args))
     sections, notes, cautions, text, extra = [], [], [], [], {}
-    flow = None if args.mass_flow is None else parse(args.mass_flow, "mass_flow", "mass-flow")
+    flow = value(args, "mass_flow")
     if keep is not None:
         option = "keep-above" if args.keep_above is not None else "keep-below"
-        limit = parse(keep, "temperature", option)
+        limit = value(args, option.replace("-", "_"))
         side = "above" if option == "keep-below" else "below"
         if (limit > inlet) != (option == "keep-below"):
             raise InputError(f"--{option} {keep}: the limit must be {side} the inlet temperature", field=f"--{option}",
                              rule=f"{side} the inlet temperature", value=keep)
-        m = minimum_flow(pipe_diameter(args), inlet, layers, outlet_limit=limit, length=length, **common)
+        m = minimum_flow(pipe_diameter(args), inlet, given_layers, outlet_limit=limit, length=length, **common)
         row = {"tag": args.tag, "fluid_temperature": inlet, "outlet_limit": limit, "air_temperature": air,
                "equilibrium_temperature": float(m.equilibrium_temperature),
                "minimum_mass_flow": float(m.mass_flow), "warnings": []}
@@ -74,7 +73,7 @@ def _cmd_outlet(args) -> int:
         if flow is None:
             flow = float(m.mass_flow) if float(m.mass_flow) > 0 else None
     if flow is not None:
-        r = line_temperature_profile(pipe_diameter(args), inlet, layers, mass_flow=flow, length=length, **common)
+        r = line_temperature_profile(pipe_diameter(args), inlet, given_layers, mass_flow=flow, length=length, **common)
         freezes = bool(r.freezes)
         row = {"tag": args.tag, "mass_flow": flow, "fluid_temperature": inlet,
                "outlet_temperature": float(r.outlet_temperature), "air_temperature": air, "q_total": float(r.q_total)}
@@ -107,11 +106,10 @@ def _cmd_outlet(args) -> int:
 
 
 def _cmd_steam(args) -> int:
-    layers = [parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
-    pressure = parse(args.steam_pressure, "pressure", "steam-pressure")
-    air = parse(args.air_temperature, "temperature", "air-temperature")
-    r = steam_line(pipe_diameter(args), pressure, layers, air_temperature=air,
-                   length=parse(args.length, "length", "length"), **outside(args))
+    pressure = value(args, "steam_pressure")
+    air = value(args, "air_temperature")
+    r = steam_line(pipe_diameter(args), pressure, layers(args), air_temperature=air, length=value(args, "length"),
+                   **outside(args))
     row = {"tag": args.tag, "steam_pressure": pressure, "fluid_temperature": float(r.saturation_temperature),
            "air_temperature": air, "surface_temperature": float(r.pipe.surface_temperature),
            "q_per_length": float(r.q_per_length), "q_total": float(r.q_total),
@@ -121,18 +119,17 @@ def _cmd_steam(args) -> int:
 
 
 def _cmd_freeze(args) -> int:
-    layers = [parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])]
     d = pipe_diameter(args)
     if args.wall_thickness is not None:
-        wall = parse(args.wall_thickness, "length", "wall-thickness")
+        wall = value(args, "wall_thickness")
     elif args.nps is not None:
         wall = nominal_pipe(args.nps, args.schedule).wall_thickness
     else:
         raise InputError("--wall-thickness is required with --pipe-diameter (with --nps it comes from the schedule)",
                          field="--wall-thickness", rule="given with --pipe-diameter", value=None)
-    initial = parse(args.initial_temperature, "temperature", "initial-temperature")
-    ambient = parse(args.minimum_ambient, "temperature", "minimum-ambient")
-    r = freeze_time(d, wall, initial, layers, air_temperature=ambient, **outside(args))
+    initial = value(args, "initial_temperature")
+    ambient = value(args, "minimum_ambient")
+    r = freeze_time(d, wall, initial, layers(args), air_temperature=ambient, **outside(args))
     row = {"tag": args.tag, "initial_temperature": initial, "air_temperature": ambient}
     if not bool(r.never_freezes):
         row.update(time_to_freezing_point=3600.0 * float(r.hours_to_freezing_point),
@@ -143,11 +140,11 @@ def _cmd_freeze(args) -> int:
 
 
 def _cmd_tank(args) -> int:
-    def layers(texts):
-        return [parse_layer(t, i + 1) for i, t in enumerate(texts or [])]
+    def face_layers(face):
+        return layers(args, f"{face}_layer")
 
     common = _exposure(args, "tank")
-    diameter = parse(args.diameter, "length", "diameter")
+    diameter = value(args, "diameter")
     if args.shape == "sphere":
         if args.height is not None or args.roof_layer or args.floor_layer:
             raise InputError("a sphere takes no --height, --roof-layer or --floor-layer (its layers: --wall-layer)",
@@ -158,10 +155,10 @@ def _cmd_tank(args) -> int:
                              field="--wall-thickness, --wall-conductivity", rule="both or neither",
                              value=(args.wall_thickness, args.wall_conductivity))
         wall = {} if args.wall_thickness is None else dict(
-            wall_thickness=parse(args.wall_thickness, "length", "wall-thickness"),
-            wall_conductivity=parse(args.wall_conductivity, "conductivity", "wall-conductivity"))
+            wall_thickness=value(args, "wall_thickness"), wall_conductivity=value(args, "wall_conductivity"))
+
         def build(extra):
-            return spherical_tank(diameter, layers=[*extra, *layers(args.wall_layer)], **wall, **common)
+            return spherical_tank(diameter, layers=[*extra, *face_layers("wall")], **wall, **common)
     else:
         if args.height is None:
             raise InputError("--height is required for a vertical tank", field="--height",
@@ -170,14 +167,13 @@ def _cmd_tank(args) -> int:
             raise InputError("--wall-thickness and --wall-conductivity are for --shape sphere; a vertical tank's "
                              "shell is taken as thin", field="--wall-thickness, --wall-conductivity",
                              rule="only with --shape sphere", value=(args.wall_thickness, args.wall_conductivity))
-        ground = None if args.ground_temperature is None else parse(args.ground_temperature, "temperature",
-                                                                    "ground-temperature")
-        height = parse(args.height, "length", "height")
+        ground = value(args, "ground_temperature")
+        height = value(args, "height")
 
         def build(extra):
-            return vertical_tank(diameter, height, wall_layers=[*extra, *layers(args.wall_layer)],
-                                 roof_layers=[*extra, *layers(args.roof_layer)], floor=args.floor,
-                                 floor_layers=layers(args.floor_layer), ground_temperature=ground,
+            return vertical_tank(diameter, height, wall_layers=[*extra, *face_layers("wall")],
+                                 roof_layers=[*extra, *face_layers("roof")], floor=args.floor,
+                                 floor_layers=face_layers("floor"), ground_temperature=ground,
                                  ground_conductivity=args.ground_conductivity, **common)
     _emit_faces(args, "tank faces", build([]), common["air_temperature"], _sizing(args, build))
     return 0
@@ -193,9 +189,9 @@ def _sizing(args, build) -> list[dict]:
                          "--insulation-conductivity",
                          field="--touch-limit, --heat-flux-limit, --insulation-conductivity",
                          rule="one limit and --insulation-conductivity", value=(limits, args.insulation_conductivity))
-    k = parse(args.insulation_conductivity, "conductivity", "insulation-conductivity")
-    limit = ({"surface_limit": parse(args.touch_limit, "temperature", "touch-limit")} if args.touch_limit else
-             {"heat_flux_limit": parse(args.heat_flux_limit, "heat_flux", "heat-flux-limit")})
+    k = value(args, "insulation_conductivity")
+    limit = ({"surface_limit": value(args, "touch_limit")} if args.touch_limit else
+             {"heat_flux_limit": value(args, "heat_flux_limit")})
     sized = insulation_per_face(lambda t: build([Layer(t, k, name="sized insulation")]), **limit)
     def known(x):
         return None if np.isnan(x) else x
@@ -207,9 +203,7 @@ def _sizing(args, build) -> list[dict]:
 
 def _cmd_duct(args) -> int:
     common = _exposure(args, "duct")
-    r = rectangular_duct(parse(args.width, "length", "width"), parse(args.height, "length", "height"),
-                         parse(args.length, "length", "length"),
-                         layers=[parse_layer(t, i + 1) for i, t in enumerate(args.layer or [])],
+    r = rectangular_duct(value(args, "width"), value(args, "height"), value(args, "length"), layers=layers(args),
                          wind_direction=args.wind_direction, **common)
     _emit_faces(args, "duct faces", r, common["air_temperature"])
     return 0
@@ -222,26 +216,24 @@ def _exposure(args, what: str) -> dict:
                          field="--surface-temperature, --fluid-temperature", rule="exactly one of them",
                          value=(args.surface_temperature, args.fluid_temperature))
     known = "surface_temperature" if args.surface_temperature else "fluid_temperature"
-    out = {known: parse(getattr(args, known), "temperature", known.replace("_", "-")),
-           "air_temperature": parse(args.air_temperature, "temperature", "air-temperature"),
-           "wind_speed": parse(args.wind_speed, "speed", "wind-speed"), "emissivity": args.emissivity,
-           "outdoor": args.outdoor}
-    for name in ("inner_coefficient", "convection_coefficient"):  # [W/m2/K], optional
-        value = getattr(args, name)
-        out[name] = None if value is None else parse(value, "coefficient", name.replace("_", "-"))
+    out = {known: value(args, known), "air_temperature": value(args, "air_temperature"),
+           "wind_speed": value(args, "wind_speed"), "emissivity": args.emissivity, "outdoor": args.outdoor}
+    for name in ("inner_coefficient", "convection_coefficient"):  # optional
+        out[name] = value(args, name)
     return out
 
 
 def _exposure_options(p, what: str, contents: str, sky: str) -> None:
     """Options of the contents, air, wind, emissivity, sky and coefficients shared by ``tank`` and ``duct``."""
-    p.add_argument("--surface-temperature", help=f"known temperature of every face (a bare {what}), e.g. 60degC")
-    p.add_argument("--fluid-temperature", help=f"temperature of the {contents} (with layers), e.g. 80degC")
-    p.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. 10degC")
-    p.add_argument("--wind-speed", default="0", help="wind speed (default 0: still air)")
+    add_quantity(p, "surface-temperature", "temperature", f"known temperature of every face (a bare {what}), "
+                 "e.g. 60degC")
+    add_quantity(p, "fluid-temperature", "temperature", f"temperature of the {contents} (with layers), e.g. 80degC")
+    add_quantity(p, "air-temperature", "air_temperature", "ambient air temperature, e.g. 10degC", required=True)
+    add_quantity(p, "wind-speed", "wind_speed", "wind speed (default 0: still air)", default="0")
     p.add_argument("--emissivity", type=float, default=0.9, help="emissivity of the outer surfaces")
     p.add_argument("--outdoor", action="store_true", help=f"faces see the sky ({sky})")
-    p.add_argument("--inner-coefficient", help="film coefficient inside, every face, e.g. 200 (W/m2/K)")
-    p.add_argument("--convection-coefficient", help=GIVEN_COEFFICIENT_HELP)
+    add_quantity(p, "inner-coefficient", "inner_coefficient", "film coefficient inside, every face, e.g. 200W/m2/K")
+    add_quantity(p, "convection-coefficient", "coefficient", GIVEN_COEFFICIENT_HELP)
 
 
 def _emit_faces(args, title, r, air_temperature, sizing=()) -> None:
@@ -263,40 +255,46 @@ def _emit_faces(args, title, r, air_temperature, sizing=()) -> None:
 
 def add_commands(sub) -> None:
     """Add the commands of lines in operation to the ``convlib`` subparsers ``sub``."""
-    layer_help = "THICKNESS,CONDUCTIVITY[,NAME] from the pipe outwards, e.g. --layer 25mm,0.04,mineral wool"
+    layer_help = ("THICKNESS,CONDUCTIVITY[,NAME] from the pipe outwards, e.g. --layer 25mm,0.04,mineral wool "
+                  f"[{LAYER_UNITS}]")
     outlet = sub.add_parser("outlet", help="temperature along a line with flow: outlet temperature and loss, "
                             "where water reaches 0 degC, the minimum flow for an outlet limit")
     pipe_size_options(outlet)
-    outlet.add_argument("--inlet-temperature", required=True, help="fluid temperature at the inlet, e.g. 115degC")
-    outlet.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. -5degC")
-    outlet.add_argument("--mass-flow", help="mass flow, e.g. 12 (kg/s) or 43000 kg/h (optional with --keep-above)")
-    outlet.add_argument("--keep-above", help="minimum flow that keeps the outlet of a hot line at or above this, "
-                        "e.g. 5degC (with --mass-flow: also whether that flow is enough)")
-    outlet.add_argument("--keep-below", help="minimum flow that keeps the outlet of a cold line at or below this, "
-                        "e.g. 8degC")
-    outlet.add_argument("--length", required=True, help="line length, e.g. 1400 or 1.4km")
+    add_quantity(outlet, "inlet-temperature", "temperature", "fluid temperature at the inlet, e.g. 115degC",
+                 required=True)
+    add_quantity(outlet, "air-temperature", "air_temperature", "ambient air temperature, e.g. -5degC", required=True)
+    add_quantity(outlet, "mass-flow", "mass_flow", "mass flow, e.g. 12kg/s or 43000kg/h (optional with --keep-above "
+                 "or --keep-below)")
+    add_quantity(outlet, "keep-above", "temperature", "minimum flow that keeps the outlet of a hot line at or above "
+                 "this, e.g. 5degC (with --mass-flow: also whether that flow is enough)")
+    add_quantity(outlet, "keep-below", "temperature", "minimum flow that keeps the outlet of a cold line at or below "
+                 "this, e.g. 8degC")
+    add_quantity(outlet, "length", "length", "line length, e.g. 1400m or 1.4km", required=True)
     outlet.add_argument("--fluid", default="Water", help="CoolProp fluid name (default Water)")
-    outlet.add_argument("--fluid-pressure", default="101325", help="fluid pressure, e.g. 6bar (default 1 atm)")
+    add_quantity(outlet, "fluid-pressure", "fluid_pressure", "fluid pressure, e.g. 6bar or 5barg (default 1 atm)",
+                 default="101325Pa")
     outlet.add_argument("--layer", action="append", help=layer_help)
     output_options(outlet)
     outlet.set_defaults(func=_cmd_outlet)
 
     trace = sub.add_parser("trace", help="heat-tracing duty to hold a line at a maintain temperature")
     pipe_size_options(trace)
-    trace.add_argument("--maintain-temperature", required=True, help="temperature the tracer holds, e.g. 5degC")
-    trace.add_argument("--minimum-ambient", required=True, help="design minimum air temperature, e.g. -20degC "
-                       "(give the design maximum wind as --wind-speed)")
+    add_quantity(trace, "maintain-temperature", "temperature", "temperature the tracer holds, e.g. 5degC",
+                 required=True)
+    add_quantity(trace, "minimum-ambient", "air_temperature", "design minimum air temperature, e.g. -20degC "
+                 "(give the design maximum wind as --wind-speed)", required=True)
     trace.add_argument("--layer", action="append", help=layer_help)
     trace.add_argument("--margin", type=float, default=TRACING_MARGIN,
                        help=f"design margin on the loss (default {TRACING_MARGIN:g})")
-    trace.add_argument("--length", default="1", help="traced length (default 1 m)")
+    add_quantity(trace, "length", "length", "traced length (default 1 m)", default="1m")
     output_options(trace)
     trace.set_defaults(func=_cmd_trace)
 
     steam = sub.add_parser("steam", help="a saturated steam line: heat loss and the condensate it forms")
-    steam.add_argument("--steam-pressure", required=True, help="absolute steam pressure, e.g. 3.5bar")
-    steam.add_argument("--air-temperature", required=True, help="ambient air temperature, e.g. -10degC")
-    steam.add_argument("--length", default="1", help="line length (default 1 m)")
+    add_quantity(steam, "steam-pressure", "fluid_pressure", "absolute steam pressure, e.g. 3.5bar or 2.5barg",
+                 required=True)
+    add_quantity(steam, "air-temperature", "air_temperature", "ambient air temperature, e.g. -10degC", required=True)
+    add_quantity(steam, "length", "length", "line length (default 1 m)", default="1m")
     steam.add_argument("--layer", action="append", help=layer_help)
     pipe_size_options(steam)
     output_options(steam)
@@ -304,9 +302,12 @@ def add_commands(sub) -> None:
 
     freeze = sub.add_parser("freeze", help="time for stagnant water in a line to reach 0 degC and to freeze solid")
     pipe_size_options(freeze)
-    freeze.add_argument("--wall-thickness", help="pipe wall, e.g. 3.91mm (default from --nps and --schedule)")
-    freeze.add_argument("--initial-temperature", required=True, help="water temperature when flow stops, e.g. 10degC")
-    freeze.add_argument("--minimum-ambient", required=True, help="design minimum air temperature, e.g. -15degC")
+    add_quantity(freeze, "wall-thickness", "wall_thickness", "pipe wall, e.g. 3.91mm (default from --nps and "
+                 "--schedule)")
+    add_quantity(freeze, "initial-temperature", "temperature", "water temperature when flow stops, e.g. 10degC",
+                 required=True)
+    add_quantity(freeze, "minimum-ambient", "air_temperature", "design minimum air temperature, e.g. -15degC",
+                 required=True)
     freeze.add_argument("--layer", action="append", help=layer_help)
     output_options(freeze)
     freeze.set_defaults(func=_cmd_freeze)
@@ -314,31 +315,36 @@ def add_commands(sub) -> None:
     tank = sub.add_parser("tank", help="a vertical tank face by face (wall, roof, floor) or a sphere (shell)")
     tank.add_argument("--shape", choices=("vertical", "sphere"), default="vertical",
                       help="vertical cylindrical tank (default) or spherical vessel")
-    tank.add_argument("--diameter", required=True, help="tank diameter (of a sphere: outer shell), e.g. 10m")
-    tank.add_argument("--height", help="wall height of a vertical tank, e.g. 12m")
-    tank.add_argument("--wall-thickness", help="sphere: shell wall, e.g. 20mm (with --wall-conductivity)")
-    tank.add_argument("--wall-conductivity", help="sphere: shell wall conductivity, e.g. 45 (W/m/K)")
+    add_quantity(tank, "diameter", "size", "tank diameter (of a sphere: outer shell), e.g. 10m", required=True)
+    add_quantity(tank, "height", "size", "wall height of a vertical tank, e.g. 12m")
+    add_quantity(tank, "wall-thickness", "wall_thickness", "sphere: shell wall, e.g. 20mm (with --wall-conductivity)")
+    add_quantity(tank, "wall-conductivity", "conductivity", "sphere: shell wall conductivity, e.g. 45W/m/K")
     _exposure_options(tank, "tank", "contents", "wall 0.5, roof 1")
     for face in ("wall", "roof", "floor"):
-        tank.add_argument(f"--{face}-layer", action="append", help=f"{face} layer THICKNESS,CONDUCTIVITY[,NAME]")
+        tank.add_argument(f"--{face}-layer", action="append", help=f"{face} layer THICKNESS,CONDUCTIVITY[,NAME] "
+                          f"[{LAYER_UNITS}]")
     tank.add_argument("--floor", choices=FLOORS, default="ground", help="on the ground (default), open underneath, "
                       "or left out")
-    tank.add_argument("--ground-temperature", help="undisturbed soil temperature (default the air temperature)")
+    add_quantity(tank, "ground-temperature", "air_temperature", "undisturbed soil temperature (default the air "
+                 "temperature)")
     tank.add_argument("--ground-conductivity", type=float, default=GROUND_CONDUCTIVITY,
                       help=f"soil W/m/K (default {GROUND_CONDUCTIVITY:g})")
-    tank.add_argument("--insulation-conductivity", help="size insulation of this k, e.g. 0.04 (W/m/K), for a limit:")
-    tank.add_argument("--touch-limit", help="hottest jacket (or, on a cold tank, coldest), e.g. 60degC")
-    tank.add_argument("--heat-flux-limit", help="largest heat flow per area, e.g. 50 (W/m2)")
+    add_quantity(tank, "insulation-conductivity", "insulation_conductivity", "size insulation of this k, e.g. "
+                 "0.04W/m/K, for a limit:")
+    add_quantity(tank, "touch-limit", "temperature", "hottest jacket (or, on a cold tank, coldest), e.g. 60degC")
+    add_quantity(tank, "heat-flux-limit", "heat_flux", "largest heat flow per area, e.g. 50W/m2")
     tank.add_argument("--tag", default="tank", help="label for the output")
     output_options(tank)
     tank.set_defaults(func=_cmd_tank)
 
     duct = sub.add_parser("duct", help="a horizontal rectangular duct face by face (sides, top, bottom)")
-    duct.add_argument("--width", required=True, help="duct width (sheet metal; layers add outside), e.g. 600mm")
-    duct.add_argument("--height", required=True, help="duct height, e.g. 400mm")
-    duct.add_argument("--length", required=True, help="duct run, e.g. 20m")
+    add_quantity(duct, "width", "duct_size", "duct width (sheet metal; layers add outside), e.g. 600mm",
+                 required=True)
+    add_quantity(duct, "height", "duct_size", "duct height, e.g. 400mm", required=True)
+    add_quantity(duct, "length", "length", "duct run, e.g. 20m", required=True)
     _exposure_options(duct, "duct", "air inside", "sides 0.5, top 1")
-    duct.add_argument("--layer", action="append", help="layer of every face, THICKNESS,CONDUCTIVITY[,NAME]")
+    duct.add_argument("--layer", action="append", help=f"layer of every face, THICKNESS,CONDUCTIVITY[,NAME] "
+                      f"[{LAYER_UNITS}]")
     duct.add_argument("--wind-direction", choices=WIND_DIRECTIONS, default="along",
                       help="wind along the duct (plate laws, default) or across it (square-section law)")
     duct.add_argument("--tag", default="duct", help="label for the output")

@@ -43,9 +43,12 @@ unknown column is an error for the whole file (a misspelt column must not go unn
 **Units.** Plain numbers are SI, kelvin for temperatures. A unit in brackets after the column name
 applies to the plain numbers of that column: ``fluid_temperature[degC]``, ``air_temperature[°F]``,
 ``outer_diameter[mm]``, ``length[ft]``, ``wind_speed[km/h]``, ``relative_humidity[%]``, ``layers[mm]``
-(thicknesses). A unit in a cell wins: ``6 in``, ``90 degC``. Conversions by :mod:`convlib.units` (pint).
+(thicknesses). A unit in a cell wins: ``6 in``, ``90 degC``, ``0.045 W/m/degC``, ``6 barg``, ``80%``. Cells
+are read by :func:`convlib.units.split`, the reader of the command line (a temperature inside a compound unit
+is an interval), and a value outside the range engineers use (:data:`convlib.units.INPUTS`) makes its row an
+error with a hint unless ``allow_unusual=True``.
 
-**Layers.** ``THICKNESS@CONDUCTIVITY NAME`` per layer (conductivity in W/m/K, name optional),
+**Layers.** ``THICKNESS@CONDUCTIVITY NAME`` per layer (conductivity in W/m/K or with its unit, name optional),
 separated by ``;``, from the pipe outwards; empty, ``bare`` or ``none``: a bare pipe. With
 ``layers[mm]``: ``80@0.045 mineral wool; 0.7@200 aluminium jacket``; without it ``80mm@0.045 ...``.
 
@@ -85,8 +88,6 @@ import os
 import re
 from collections.abc import Callable
 from dataclasses import dataclass, field
-from fractions import Fraction
-from functools import lru_cache
 from importlib import resources
 from pathlib import Path
 from typing import NamedTuple
@@ -102,11 +103,11 @@ from .lines import LineSpec
 from .operation import (CAUTION_LINE_FREEZE, condensate_rate, line_temperature_profile, saturation_temperature,
                         tracing_duty)
 from .pipe import Layer, insulated_pipe
-from .pipe_sizes import nominal_pipe
+from .pipe_sizes import nominal_pipe, parse_nps
 from .properties import dew_point
 from .radiation import sky_temperature
 from .regimes import describe_flags
-from .units import from_si, to_si
+from .units import KIND_SI_UNIT, from_si, is_unit, read, split, unit_affine
 from .validation import as_array
 
 __all__ = ["COLUMNS", "OUTPUT_COLUMNS", "OUTDOOR_SKY_VIEW_FRACTION", "WARNING_DESIGN_AIR_ALL_YEAR", "RowError",
@@ -140,11 +141,6 @@ MAX_CELLS = 5_000_000      #: most cells of a line list (line breaks + commas; b
 FORMULA_PREFIXES = ("=", "+", "-", "@", "\t", "\r")
 _HEADER = re.compile(r"^\s*(?P<name>[^\[\]]*?)\s*(?:\[(?P<unit>[^\[\]]*)\])?\s*$")
 _LAYER = re.compile(r"^(?P<thickness>[^@]+?)\s*@\s*(?P<conductivity>\S+)\s*(?P<name>.*)$")
-_QUANTITY = re.compile(r"([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(.*)")
-_EXAMPLES = {"temperature": "'90 degC'", "length": "'50 mm', '4.5 in'", "speed": "'10 km/h'",
-             "conductivity": "'0.04 W/m/K'", "mass_flow": "'0.5 kg/s', '1800 kg/h'",
-             "pressure": "'6 bar', '90 psi'"}
-_CELL_UNIT_KINDS = tuple(_EXAMPLES)
 
 
 class RowError(NamedTuple):
@@ -213,49 +209,47 @@ def _blank(cell) -> bool:
                                                                               and not cell.strip())
 
 
-def _number(cell, column: str, kind: str, unit: str | None) -> float:
-    """SI value of a non-blank cell: a plain number in ``unit``, or a number with its own unit (which wins)."""
-    if isinstance(cell, (int, float, np.number)) and not isinstance(cell, bool):
-        value = float(cell)
-    else:
-        text = str(cell).strip()
-        m = _QUANTITY.fullmatch(text)
-        if m is None or (m[2] and kind not in _CELL_UNIT_KINDS and (kind, m[2]) != ("dimensionless", "%")):
-            extra = f" or a {kind} with its unit (e.g. {_EXAMPLES[kind]})" if kind in _CELL_UNIT_KINDS else ""
-            raise InputError(f"{column}: {text!r} is not a number{extra}", field=column, rule=f"a number{extra}",
-                             value=cell)
-        value, unit = float(m[1]), m[2] or unit
-    if unit is not None:
+#: Columns read by :func:`convlib.units.read`: the input (plausible range, hint) each one is.
+_INPUTS = {"outer_diameter": "pipe_diameter", "length": "length", "fluid_temperature": "temperature",
+           "air_temperature": "air_temperature", "wind_speed": "wind_speed", "mass_flow": "mass_flow",
+           "fluid_pressure": "fluid_pressure", "steam_pressure": "fluid_pressure", "maintain_temperature": "temperature",
+           "minimum_ambient": "air_temperature"}
+#: How a user lets an unusual value through, in both of their words.
+_OVERRIDE = "--allow-unusual (Python: allow_unusual=True)"
+
+
+def _number(cell, column: str, kind: str, unit: str | None, input_name: str | None = None,
+            allow_unusual: bool = False) -> float:
+    """SI value of a non-blank cell: a plain number in ``unit`` (else SI), or a number with its own unit (which
+    wins), read by :func:`convlib.units.split` (the parser of the command line); with ``input_name``, refused
+    outside the range engineers use unless ``allow_unusual``."""
+    if kind == "count":
         try:
-            value = _affine(unit, kind)(value)
-        except Exception:  # noqa: BLE001 - pint raises several error types for bad units
-            raise InputError(f"{column}: {cell!r}: {unit!r} is not a unit of {kind}", field=column,
-                             rule=f"a unit of {kind}", value=cell) from None
-    if not math.isfinite(value):
-        raise InputError(f"{column}: must be a finite number; got {cell!r}", field=column, rule="a finite number",
-                         value=cell)
-    return value
+            value = float(cell)
+        except (TypeError, ValueError):
+            raise InputError(f"{column}: {str(cell).strip()!r} is not a number", field=column, rule="a number",
+                             value=cell) from None
+        if not math.isfinite(value):
+            raise InputError(f"{column}: must be a finite number; got {cell!r}", field=column,
+                             rule="a finite number", value=cell)
+        return value
+    if input_name is None:
+        return split(cell, kind, column, unit)[0]
+    return read(cell, input_name, column, allow_unusual=allow_unusual, override=_OVERRIDE,
+                plain_unit=unit if unit is not None else KIND_SI_UNIT[kind])
 
 
-@lru_cache(maxsize=64)
 def _affine(unit: str, kind: str):
-    """SI conversion of ``unit`` as offset + factor x value (pint once per column, not per cell)."""
-    offset = float(to_si(0.0, unit, kind))
-    factor = float(to_si(1.0, unit, kind)) - offset
+    """SI conversion of a column's ``unit`` as offset + factor x value (:func:`convlib.units.unit_affine`)."""
+    factor, offset = unit_affine(unit, kind)
     return lambda value: offset + factor * value
 
 
 def _nps(cell) -> float:
-    text = str(cell).strip().rstrip('"').strip()
-    mixed = re.fullmatch(r"(\d+)[\s\-]+(\d+/\d+)", text)  # 1-1/2, 1 1/2
-    try:
-        return float(int(mixed[1]) + Fraction(mixed[2]) if mixed else Fraction(text) if "/" in text else text)
-    except (ValueError, ZeroDivisionError):
-        raise InputError(f"nps: {text!r} is not a nominal pipe size (write e.g. 4, 1.5, 1-1/2 or 3/4)", field="nps",
-                         rule="a nominal pipe size such as 4, 1.5, 1-1/2 or 3/4", value=cell) from None
+    return parse_nps(cell)
 
 
-def _layers(cell, unit: str | None) -> list[dict]:
+def _layers(cell, unit: str | None, allow_unusual: bool = False) -> list[dict]:
     text, layers = str(cell).strip(), []
     parts = [] if text.lower() in ("bare", "none") else [p.strip() for p in text.split(";") if p.strip()]
     for i, part in enumerate(parts, start=1):
@@ -264,22 +258,26 @@ def _layers(cell, unit: str | None) -> list[dict]:
             raise InputError(f"layers: layer {i} {part!r} is not THICKNESS@CONDUCTIVITY NAME "
                              f"(e.g. '50mm@0.04 mineral wool')", field="layers",
                              rule="THICKNESS@CONDUCTIVITY NAME per layer", value=part)
-        thickness = _number(m["thickness"], f"layers: layer {i} thickness", "length", unit)
-        conductivity = _number(m["conductivity"], f"layers: layer {i} conductivity", "conductivity", None)
-        if not 0 <= thickness <= 2.0:
-            written = m["thickness"] + (f" {unit}" if unit and _QUANTITY.fullmatch(m["thickness"])[2] == "" else "")
-            raise InputError(f"layers: layer {i} thickness must be between 0 and 2 m; got {written!r}"
-                             + (" (give a unit, '50mm@0.04', or head the column layers[mm])" if thickness > 2 else ""),
-                             field=f"layers: layer {i} thickness", rule="between 0 and 2 m", value=written)
-        if not 0 < conductivity <= 500:
-            raise InputError(f"layers: layer {i} conductivity must be greater than 0 and at most 500 W/m/K; "
-                             f"got {m['conductivity']!r}", field=f"layers: layer {i} conductivity",
-                             rule="greater than 0 and at most 500 W/m/K", value=m["conductivity"])
-        layers.append({"thickness": thickness, "conductivity": conductivity, "name": m["name"] or f"layer {i}"})
+        thickness = _number(m["thickness"], f"layers: layer {i} thickness", "length", unit, "thickness",
+                            allow_unusual)
+        written, name = _conductivity_and_name(f"{m['conductivity']} {m['name']}".strip())
+        conductivity = _number(written, f"layers: layer {i} conductivity", "conductivity", None,
+                               "conductivity", allow_unusual)
+        layers.append({"thickness": thickness, "conductivity": conductivity, "name": name or f"layer {i}"})
     return layers
 
 
-def _parse_row(row: int, cells: dict, units: dict) -> ParsedLine | RowError:
+def _conductivity_and_name(text: str) -> tuple[str, str]:
+    """``"0.045 W/m/K mineral wool"`` -> ``("0.045 W/m/K", "mineral wool")``: the longest leading words that
+    read as a conductivity (a unit may follow the number after a space), the rest the layer's name."""
+    words = text.split()
+    for n in range(len(words), 1, -1):
+        if is_unit(" ".join(words[1:n]), "conductivity"):
+            return " ".join(words[:n]), " ".join(words[n:])
+    return (words[0] if words else ""), " ".join(words[1:])
+
+
+def _parse_row(row: int, cells: dict, units: dict, allow_unusual: bool = False) -> ParsedLine | RowError:
     """One row (column -> raw cell) to a :class:`ParsedLine`, or a :class:`RowError` listing every problem."""
     problems, values = [], {}
     tag = "" if _blank(cells.get("tag")) else str(cells["tag"]).strip()
@@ -292,9 +290,9 @@ def _parse_row(row: int, cells: dict, units: dict) -> ParsedLine | RowError:
             if kind == "text":
                 values[name] = str(cell).strip()
             elif name in ("nps", "layers"):
-                values[name] = _nps(cell) if name == "nps" else _layers(cell, units.get(name))
+                values[name] = _nps(cell) if name == "nps" else _layers(cell, units.get(name), allow_unusual)
             else:
-                values[name] = _number(cell, name, kind, units.get(name))
+                values[name] = _number(cell, name, kind, units.get(name), _INPUTS.get(name), allow_unusual)
                 if kind == "count" and values[name] < 0:
                     raise InputError(f"{name}: must be at least 0; got {cell!r}", field=name, rule="at least 0",
                                      value=cell)
@@ -321,7 +319,7 @@ def _parse_row(row: int, cells: dict, units: dict) -> ParsedLine | RowError:
                             f"got {cells[name]!r}")
     if hours is not None and hours > 8784.0:
         problems.append(f"operating_hours: {hours:g} h is more than a (leap) year of 8784 h")
-    if ("nps" in values) == ("outer_diameter" in values):
+    if _blank(cells.get("nps")) == _blank(cells.get("outer_diameter")):  # (a bad cell is reported above)
         problems.append("nps / outer_diameter: give the pipe as nps (with schedule) or as outer_diameter, not both")
     elif "nps" in values:
         if "schedule" in values:  # 40.0 from a numeric spreadsheet column, std, 10s
@@ -392,7 +390,7 @@ def _records(source) -> list[list[str]]:
     return records
 
 
-def read_line_list(source) -> tuple[list[ParsedLine], list[RowError]]:
+def read_line_list(source, *, allow_unusual: bool = False) -> tuple[list[ParsedLine], list[RowError]]:
     """Read and validate a line list (see the module docstring for the columns).
 
     Parameters
@@ -401,6 +399,10 @@ def read_line_list(source) -> tuple[list[ParsedLine], list[RowError]]:
         A CSV file (path, open text file or package resource); rows as dicts keyed by column
         header (unit suffixes allowed; numbered 2, 3, ... as below a header); or
         :class:`~convlib.lines.LineSpec` objects (outdoor where ``sky_view_fraction > 0``).
+    allow_unusual : bool
+        Accept values outside the ranges engineers use (a temperature below 150 K, a diameter over 5 m, a
+        layer over 1 m, ...); by default such a cell makes its row an error with a hint ("did you mean
+        95 degC?").
 
     Returns
     -------
@@ -444,7 +446,7 @@ def read_line_list(source) -> tuple[list[ParsedLine], list[RowError]]:
             parsed = RowError(number, str(named.get("tag") or "").strip(),
                               f"row has {len(cells)} cells but the header has {len(columns)} columns")
         else:
-            parsed = _parse_row(number, named, units)
+            parsed = _parse_row(number, named, units, allow_unusual)
         (errors if isinstance(parsed, RowError) else lines).append(parsed)
     return lines, errors
 
@@ -552,7 +554,7 @@ WARNING_DESIGN_AIR_ALL_YEAR = (
 
 def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
                   heating_efficiency=DEFAULT_HEATING_EFFICIENCY, cooling_cop=DEFAULT_COOLING_COP, co2_per_kwh=0.0,
-                  touch_limit=TOUCH_LIMIT_METAL_JACKET, chunk_size: int = 5000,
+                  touch_limit=TOUCH_LIMIT_METAL_JACKET, chunk_size: int = 5000, allow_unusual: bool = False,
                   progress: Callable[[float, str], None] | None = None) -> LineListResult:
     """Compute every line of a line list: surface temperature, heat flow, annual energy, flags.
 
@@ -577,6 +579,8 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
         :data:`~convlib.design.TOUCH_LIMIT_METAL_JACKET`, a design default, not a rule.
     chunk_size : int
         Lines per solver call.
+    allow_unusual : bool
+        See :func:`read_line_list`.
     progress : callable, optional
         ``progress(fraction, text)`` after reading and after each chunk; fractions increase to 1.
 
@@ -599,7 +603,7 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
         raise InputError("bins: the hours add up to 0", field="bins", rule="hours adding up to more than 0",
                          value=bins)
     report = progress or (lambda fraction, text: None)
-    lines, errors = read_line_list(source)
+    lines, errors = read_line_list(source, allow_unusual=allow_unusual)
     specs, n = [p.spec for p in lines], len(lines)
     report(0.0, f"read {n} line(s), {len(errors)} row(s) with errors")
 

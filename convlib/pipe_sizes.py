@@ -7,11 +7,14 @@ Engineering Design Library, ``fluids.piping``), which cites ASME B36.10M-2004.
 """
 from __future__ import annotations
 
+import math
+import re
 from dataclasses import dataclass
+from fractions import Fraction
 
 from .errors import InputError
 
-__all__ = ["PipeSize", "nominal_pipe", "SCHEDULES", "nominal_sizes"]
+__all__ = ["PipeSize", "nominal_pipe", "parse_nps", "SCHEDULES", "nominal_sizes"]
 
 #: Schedules of ASME B36.10M and B36.19M offered here.
 SCHEDULES = ("5", "10", "20", "30", "40", "60", "80", "100", "120", "140", "160", "STD", "XS", "XXS",
@@ -53,8 +56,29 @@ def _check_schedule(schedule: str) -> None:
                          value=schedule)
 
 
-def nominal_pipe(nps: float, schedule: str = "40") -> PipeSize:
-    """Dimensions of NPS ``nps`` in ``schedule`` (ASME B36.10M / B36.19M).
+def parse_nps(nps) -> float:
+    """A nominal pipe size as written: ``4``, ``1.5``, ``"1-1/2"``, ``"1 1/2"``, ``"3/4"``, ``'2"'``.
+
+    >>> parse_nps("1-1/2"), parse_nps("3/4"), parse_nps(4)
+    (1.5, 0.75, 4.0)
+    """
+    if isinstance(nps, (int, float)) and not isinstance(nps, bool):
+        value = float(nps)
+    else:
+        text = str(nps).strip().rstrip('"').strip()
+        mixed = re.fullmatch(r"(\d+)[\s\-]+(\d+/\d+)", text)  # 1-1/2, 1 1/2
+        try:
+            value = float(int(mixed[1]) + Fraction(mixed[2]) if mixed else Fraction(text) if "/" in text else text)
+        except (ValueError, ZeroDivisionError):
+            value = math.nan
+    if not math.isfinite(value) or value <= 0:
+        raise InputError(f"nps: {nps!r} is not a nominal pipe size (write e.g. 4, 1.5, 1-1/2 or 3/4)", field="nps",
+                         rule="a nominal pipe size such as 4, 1.5, 1-1/2 or 3/4", value=nps)
+    return value
+
+
+def nominal_pipe(nps: float | str, schedule: str = "40") -> PipeSize:
+    """Dimensions of NPS ``nps`` (a number or text such as ``"1-1/2"``) in ``schedule`` (ASME B36.10M / B36.19M).
 
     Examples
     --------
@@ -69,11 +93,7 @@ def nominal_pipe(nps: float, schedule: str = "40") -> PipeSize:
     schedule = str(schedule)
     _check_schedule(schedule)
     sizes, inner, outer, wall = _table(schedule)
-    try:
-        value = float(nps)
-    except (TypeError, ValueError):
-        raise InputError(f"NPS must be a number such as 2, 0.75 or 1.5; got {nps!r}", field="nps", rule="a number",
-                         value=nps) from None
+    value = parse_nps(nps)
     for i, n in enumerate(sizes):
         if abs(n - value) < 1e-9:
             return PipeSize(float(n), schedule, outer[i] / 1000.0, wall[i] / 1000.0, inner[i] / 1000.0)

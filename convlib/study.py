@@ -82,6 +82,36 @@ class _Model(BaseModel):
     model_config = ConfigDict(extra="forbid")
 
 
+#: Kind of quantity of each unit in :data:`INPUTS`, for values written with a unit in a study file.
+_UNIT_KINDS = {"m": "length", "K": "temperature", "m/s": "speed", "-": "dimensionless", "W/m2": "heat_flux",
+               "Pa": "pressure", "W/m/K": "conductivity"}
+#: Fields of a case that may be written with a unit ("90degC", "4.5in", "50mm", "0.045W/m/degC").
+_CASE_KINDS = {"diameter": "length", "length": "length", "height": "length", "width": "length",
+               "surface_temperature": "temperature", "fluid_temperature": "temperature",
+               "air_temperature": "temperature", "surroundings_temperature": "temperature", "wind_speed": "speed",
+               "solar_irradiance": "heat_flux", "pressure": "pressure", "relative_humidity": "dimensionless",
+               "insulation_thickness": "length", "insulation_conductivity": "conductivity",
+               "jacket_thickness": "length", "jacket_conductivity": "conductivity"}
+
+
+def _with_unit(value, kind: str, field: str):
+    """A study-file value: a number stays as it is (SI, kelvin); text is read with its unit by
+    :func:`convlib.units.parse`, the reader of the command line and the line lists."""
+    if isinstance(value, str):
+        from .units import parse  # the edge reader (pint only for units it does not know by heart)
+
+        return parse(value, kind, field, plain_unit=None)
+    return value
+
+
+def _input_with_units(data, input_field: str, value_fields: tuple[str, ...]):
+    """Values of an axis, tornado bar or distribution written with units, in the unit kind of their input."""
+    if isinstance(data, dict) and data.get(input_field) in INPUTS:
+        kind = _UNIT_KINDS[INPUTS[data[input_field]][0]]
+        data = {k: _with_unit(v, kind, k) if k in value_fields else v for k, v in data.items()}
+    return data
+
+
 class CaseSpec(_Model):
     """The base case. SI units, kelvin.
 
@@ -114,6 +144,11 @@ class CaseSpec(_Model):
     convection_factor: float = Field(1.0, ge=0.1, le=5.0, description="multiplier on h_convection [-]")
     natural: str | None = None
     forced: str | None = None
+
+    @field_validator(*_CASE_KINDS, mode="before")
+    @classmethod
+    def _units(cls, value, info):
+        return _with_unit(value, _CASE_KINDS[info.field_name], info.field_name)
 
     @model_validator(mode="after")
     def _consistent(self):
@@ -158,6 +193,11 @@ class SweepAxis(_Model):
     stop: float
     count: int = Field(41, ge=2, le=5000)
     scale: Literal["linear", "log"] = "linear"
+
+    @model_validator(mode="before")
+    @classmethod
+    def _units(cls, data):
+        return _input_with_units(data, "input", ("start", "stop"))
 
     @model_validator(mode="after")
     def _range(self):
@@ -210,6 +250,11 @@ class TornadoInput(_Model):
     input: str
     low: float
     high: float
+
+    @model_validator(mode="before")
+    @classmethod
+    def _units(cls, data):
+        return _input_with_units(data, "input", ("low", "high"))
 
     @model_validator(mode="after")
     def _order(self):

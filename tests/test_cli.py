@@ -40,10 +40,10 @@ def test_surface_json_matches_library_with_units_converted():
 @pytest.mark.parametrize("args, field", [
     (("--diameter", "-3", "--surface-temperature", "90degC", "--air-temperature", "20degC"), "diameter"),
     (("--diameter", "3 kg", "--surface-temperature", "90degC", "--air-temperature", "20degC"), "diameter"),
-    (("--diameter", "0.1", "--surface-temperature", "90degC", "--air-temperature", "20degC",
+    (("--diameter", "0.1m", "--surface-temperature", "90degC", "--air-temperature", "20degC",
       "--emissivity", "1.4"), "emissivity"),
-    (("--diameter", "0.1", "--air-temperature", "20degC"), "surface-temperature"),
-    (("--diameter", "0.1", "--surface-temperature", "90degC", "--air-temperature", "20degC",
+    (("--diameter", "0.1m", "--air-temperature", "20degC"), "surface-temperature"),
+    (("--diameter", "0.1m", "--surface-temperature", "90degC", "--air-temperature", "20degC",
       "--natural", "nobody"), "churchill_chu"),
 ])
 def test_bad_input_exits_2_with_one_line_naming_the_field(args, field):

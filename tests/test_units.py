@@ -17,6 +17,7 @@ import numpy as np
 import pytest
 
 from convlib import units
+from convlib.errors import InputError
 
 INCH = 0.0254                      # m, exact (1959 agreement)
 FOOT = 0.3048                      # m, exact (1959 agreement)
@@ -236,3 +237,149 @@ def test_display_unit_unknown_kind_lists_choices():
 def test_display_units_cover_every_kind_in_every_system():
     for system, table in units.DISPLAY_UNITS.items():
         assert set(table) == set(units.KIND_SI_UNIT), system
+
+
+# ----------------------------------------------------------------------------- degrees inside compound units
+# NIST SP 811 (2008), appendix B.8: Btu_IT in/(h ft2 degF) = 1.442 279 E-01 W/(m K);
+# Btu_IT/(h ft2 degF) = 5.678 263 E+00 W/(m2 K); Btu_IT/(h ft degF) = 1.730 735 E+00 W/(m K).
+# A Celsius interval equals a kelvin interval (NIST SP 811, 4.2.1.1), so W/m/degC = W/m/K.
+@pytest.mark.parametrize("text, kind, expected", [
+    ("0.045W/m/degC", "conductivity", 0.045),
+    ("0.045 W/m/°C", "conductivity", 0.045),
+    ("0.045 W/m·K", "conductivity", 0.045),
+    ("0.045 W/mK", "conductivity", 0.045),              # W/(m K), not W per millikelvin
+    ("45 mW/m/K", "conductivity", 0.045),
+    ("1 Btu*in/(hr*ft**2*degF)", "conductivity", 0.1442279),
+    ("1 Btu·in/h·ft²·°F", "conductivity", 0.1442279),
+    ("1 Btu/(h*ft*degF)", "conductivity", 1.730735),
+    ("10W/m**2/degC", "coefficient", 10.0),
+    ("10 W/m2K", "coefficient", 10.0),
+    ("1 Btu/(hr*ft**2*degF)", "coefficient", 5.678263),
+    ("1 Btu/hr-ft2-F", "coefficient", 5.678263),
+    ("9 delta_degF", "temperature_difference", 5.0),    # 9 degF interval = 5 K (scale definitions)
+    ("9 F", "temperature_difference", 5.0),
+])
+def test_degrees_inside_compound_units_are_intervals(text, kind, expected):
+    # rel 5e-7: the NIST factors are given to 7 significant digits
+    assert units.parse(text, kind, "field") == pytest.approx(expected, rel=5e-7)
+
+
+@pytest.mark.parametrize("text, expected", [
+    ("95C", 368.15), ("95 °C", 368.15), ("203F", _f_to_k(203.0)), ("368.15K", 368.15), ("95 celsius", 368.15),
+])
+def test_whole_temperature_units_are_absolute(text, expected):
+    assert units.parse(text, "temperature", "t") == pytest.approx(expected, rel=1e-12)  # scale definitions
+
+
+@pytest.mark.parametrize("text", [
+    "0.045 W/(m*K", "0.045 W/m/K)", "1/0 W/m/K", "0.045 W/(m*0)", "[0.04, 0.05]", "0.04,0.05", "0.04;0.05",
+    "0.04 W/m/K extra", "{0.04}", "W/m/K", "", "--0.04", "0.04 W/m/K/0",
+])
+def test_malformed_text_is_one_line_input_error(text):
+    with pytest.raises(InputError) as info:
+        units.parse(text, "conductivity", "layer 1 conductivity")
+    assert str(info.value).startswith("layer 1 conductivity: ") and "\n" not in str(info.value)
+    assert info.value.field == "layer 1 conductivity"
+
+
+def test_a_temperature_difference_is_not_a_temperature():
+    with pytest.raises(InputError, match="temperature difference"):
+        units.parse("10 delta_degC", "temperature", "air")
+
+
+# ----------------------------------------------------------------------------- gauge pressure and percent
+@pytest.mark.parametrize("text, expected", [
+    ("6 barg", 6e5 + 101325.0),          # gauge: + standard atmosphere 101 325 Pa (10th CGPM, 1954), documented
+    ("6 bar(g)", 6e5 + 101325.0),
+    ("6 bara", 6e5),
+    ("0 psig", 101325.0),
+    ("50 psig", 50 * PSI + 101325.0),
+    ("14.7 psia", 14.7 * PSI),
+    ("500 kPag", 5e5 + 101325.0),
+    ("6 bar", 6e5),
+])
+def test_gauge_and_absolute_pressures(text, expected):
+    assert units.parse(text, "pressure", "p") == pytest.approx(expected, rel=1e-12)
+
+
+@pytest.mark.parametrize("text, expected", [("80%", 0.8), ("80 %", 0.8), ("0.8", 0.8), ("80 percent", 0.8)])
+def test_humidity_in_percent_or_fraction(text, expected):
+    assert units.read(text, "relative_humidity", "rh") == pytest.approx(expected, rel=1e-12)
+
+
+# ----------------------------------------------------------------------------- plain numbers and guards
+@pytest.mark.parametrize("name, text, system, expected", [
+    ("temperature", "95", "SI", 368.15),                    # degC
+    ("temperature", "203", "US", _f_to_k(203.0)),           # degF
+    ("pipe_diameter", "168", "SI", 0.168),                  # mm
+    ("pipe_diameter", "4.5", "US", 4.5 * INCH),             # in
+    ("thickness", "50", "SI", 0.05),
+    ("thickness", "2", "US", 2 * INCH),
+    ("length", "100", "SI", 100.0),                         # m
+    ("length", "100", "US", 100 * FOOT),                    # ft
+    ("wind_speed", "10", "US", 10 * MILE / HOUR),           # mph
+    ("fluid_pressure", "6", "SI", 6e5),                     # bar absolute
+    ("fluid_pressure", "100", "US", 100 * PSI),             # psi absolute
+    ("air_pressure", "79.5", "SI", 79500.0),                # kPa
+    ("conductivity", "0.31", "US", 0.31 * BTU_IT * INCH / HOUR / FOOT**2 / DEG_F),
+    ("coefficient", "2", "US", 2 * BTU_IT / HOUR / FOOT**2 / DEG_F),
+    ("mass_flow", "3600", "US", 3600 * POUND / HOUR),       # lb/h
+    ("heat_per_length", "100", "US", 100 * BTU_IT / HOUR / FOOT),
+])
+def test_plain_numbers_follow_the_unit_system(name, text, system, expected):
+    # rel 1e-6: pint's ISO Btu vs the IT Btu of the fast table where pint is used (see above)
+    assert units.read(text, name, "f", system=system) == pytest.approx(expected, rel=1e-6)
+
+
+@pytest.mark.parametrize("name, text, system, words", [
+    ("temperature", "95K", "SI", ["below", "degC", "did you mean 95 degC"]),
+    ("temperature", "95K", "US", ["degF", "did you mean 95 degF"]),
+    ("temperature", "2000", "SI", ["above", "1027 degC"]),
+    ("air_temperature", "-5K", "SI", ["must be greater than -273.1 degC"]),
+    ("pipe_diameter", "168m", "SI", ["5000 mm", "did you mean 168 mm"]),
+    ("pipe_diameter", "0.1", "SI", ["(read as 0.1 mm)", "did you mean 0.1 m"]),
+    ("thickness", "50", "US", ["(read as 50 in)", "39.37 in", "did you mean 50 mm"]),
+    ("thickness", "-50", "SI", ["must be at least 0 mm", "'-50 mm'"]),
+    ("wind_speed", "100", "SI", ["60 m/s", "did you mean 100 km/h"]),
+    ("insulation_conductivity", "45", "SI", ["did you mean 45 mW/m/K"]),
+    ("relative_humidity", "80", "SI", ["at most 1", "did you mean 80%"]),
+    ("air_pressure", "101325", "SI", ["did you mean 101325 Pa"]),
+])
+def test_implausible_values_are_refused_with_a_hint(name, text, system, words):
+    with pytest.raises(InputError) as info:
+        units.read(text, name, "field", system=system)
+    message = str(info.value)
+    assert message.startswith("field: ") and "\n" not in message
+    for w in words:
+        assert w in message, message
+    assert "liquid" not in message
+
+
+def test_allow_unusual_lets_an_implausible_value_through_but_not_an_impossible_one():
+    assert units.read("6 m", "pipe_diameter", "d", allow_unusual=True) == 6.0
+    assert units.read("100K", "temperature", "t", allow_unusual=True) == 100.0
+    with pytest.raises(InputError, match="allow_unusual=True"):
+        units.read("6 m", "pipe_diameter", "d")
+    for text, name in (("-3 mm", "pipe_diameter"), ("-1K", "temperature"), ("120%", "relative_humidity")):
+        with pytest.raises(InputError, match="must be"):
+            units.read(text, name, "x", allow_unusual=True)
+
+
+def test_every_input_has_plain_units_in_both_systems_of_its_kind():
+    for name, spec in units.INPUTS.items():
+        for system in ("SI", "US"):
+            factor, _ = units.unit_affine(spec.plain(system), spec.kind)
+            assert factor > 0, (name, system)
+        assert spec.minimum <= spec.low < spec.high <= spec.maximum, name
+        assert "plain number" in units.help_units(name)
+
+
+def test_files_read_plain_numbers_as_si():
+    assert units.read("363.15", "temperature", "t", plain_unit="K") == 363.15
+    with pytest.raises(InputError, match="did you mean -5 degC"):
+        units.read("-5", "air_temperature", "bins air_temperature", plain_unit="K")
+
+
+def test_decimal_comma_is_named():
+    with pytest.raises(InputError, match="decimal mark"):
+        units.parse("0,045 W/m/K", "conductivity", "k")
