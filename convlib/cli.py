@@ -343,7 +343,7 @@ def _weather_bins(args):
                              rule="lists of equal length, at least one bin", value=counts)
 
         def each(key, name, values):  # plain numbers SI (K, m/s) as in every file; text with a unit as written
-            return [read(v, name, f"bins {key}", allow_unusual=args.allow_unusual, override="--allow-unusual",
+            return [read(v, name, f"bins {key}", allow_unusual=getattr(args, "allow_unusual", False), override="--allow-unusual",
                          plain_unit=KIND_SI_UNIT[INPUTS[name].kind]) for v in values]
 
         try:

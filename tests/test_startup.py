@@ -67,9 +67,10 @@ def test_surface_with_units_imports_pint_but_not_coolprop_pydantic_or_plotly():
     assert not {m for m in modules if m.split(".")[0] == "scipy"} - SCIPY_TOP_LEVEL
 
 
-def test_surface_in_si_numbers_with_json_imports_neither_pint_nor_scipy():
-    text, modules = run_cli("surface", "--surface-temperature", "363.15", "--air-temperature", "293.15",
-                            "--diameter", "0.1143", "--json")
+def test_surface_in_plain_numbers_with_json_imports_neither_pint_nor_scipy():
+    # plain numbers on the command line: degC and mm (README, "plain numbers")
+    text, modules = run_cli("surface", "--surface-temperature", "90", "--air-temperature", "20",
+                            "--diameter", "114.3", "--json")
     row = json.loads(text)["surface"]["results"][0]
     direct = convlib.bare_surface(surface_temperature=363.15, air_temperature=293.15, diameter=0.1143, length=1.0)
     assert row["q_per_length"] == pytest.approx(float(direct.q_per_length), rel=1e-12)
