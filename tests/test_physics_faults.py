@@ -1,0 +1,67 @@
+"""Regression tests of issue 12 items 6-9 (silent physics faults), each against an outside source or an
+independent calculation written here (scipy quadrature and root finding, hand formulas, CoolProp).
+"""
+import math
+
+import numpy as np
+import pytest
+from scipy.integrate import quad
+from scipy.optimize import brentq
+
+import convlib as cl
+from convlib import Conductivity, Layer, design
+
+# ----------------------------------------------------------------------------- item 6: steep k(T) layers
+# A high-temperature blanket whose k rises steeply (radiation through the fibres): invented shape, no source.
+BLANKET = ([300.0, 500.0, 700.0, 900.0, 1100.0, 1300.0], [0.03, 0.06, 0.11, 0.18, 0.27, 0.38])
+D4, TA = 0.1143, 293.15
+
+
+def _blanket_integral(t_low, t_high):
+    """int_{t_low}^{t_high} k dT by adaptive quadrature of the table (held at its end values outside it)."""
+    nodes = [p for p in BLANKET[0] if t_low < p < t_high]
+    return quad(lambda t: float(np.interp(t, *BLANKET)), t_low, t_high, points=nodes or None, limit=200,
+                epsabs=1e-12, epsrel=1e-12)[0]
+
+
+def _surface_by_quadrature(tf, thickness, eps):
+    """Outer surface temperature [K] of one blanket layer: q_in = 2 pi int k dT / ln(r2/r1) (Kirchhoff)
+    against convlib's outer exchange of the bare jacket, by brentq -- independent of convlib's layer solve."""
+    ro = D4 / 2 + thickness
+    ln = math.log(ro / (D4 / 2))
+
+    def balance(ts):
+        q_in = 2 * math.pi * _blanket_integral(ts, tf) / ln
+        return q_in - float(cl.bare_surface(surface_temperature=ts, air_temperature=TA, diameter=2 * ro,
+                                            length=1.0, emissivity=eps).q_per_length)
+
+    return brentq(balance, TA + 1e-6, tf, xtol=1e-9)
+
+
+@pytest.mark.parametrize("form", ["mean", "true"])
+@pytest.mark.parametrize("tf, thickness", [(1173.15, 0.025), (1173.15, 0.05), (1073.15, 0.1)])
+def test_steep_k_blanket_heat_flow_matches_quadrature(form, tf, thickness):
+    """Issue 12 item 6: a 900 degC line in a steep-k blanket. The old mean form converged to a wrong interface
+    (q' 25-32 % low, converged=True). Tolerance 1e-6: brentq xtol 1e-9 K, quad 1e-12, convlib's solve 1e-6 K."""
+    k = Conductivity.table(*BLANKET, form=form)
+    r = cl.insulated_pipe(D4, tf, [Layer(thickness, k)], air_temperature=TA, jacket_emissivity=0.3)
+    ts = _surface_by_quadrature(tf, thickness, 0.3)
+    ln = math.log((D4 / 2 + thickness) / (D4 / 2))
+    assert bool(r.converged)
+    assert float(r.surface_temperature) == pytest.approx(ts, abs=2e-6)
+    assert float(r.q_per_length) == pytest.approx(2 * math.pi * _blanket_integral(ts, tf) / ln, rel=1e-6)
+
+
+@pytest.mark.parametrize("form", ["mean", "true"])
+def test_touch_sizing_on_steep_k_blanket_meets_the_limit(form):
+    """Issue 12 item 6: touch sizing on the blanket returned a thickness whose surface was above the limit.
+    Independent: the thickness whose quadrature-balanced surface equals the limit, by brentq on thickness."""
+    tf, limit = 973.15, design.TOUCH_LIMIT_NONMETAL_JACKET
+    k = Conductivity.table(*BLANKET, form=form)
+    r = design.thickness_for_surface_temperature(D4, tf, air_temperature=TA, insulation_conductivity=k,
+                                                 surface_limit=limit, jacket_emissivity=0.3)
+    expected = brentq(lambda t: _surface_by_quadrature(tf, t, 0.3) - limit, 0.02, 0.3, xtol=1e-8)
+    assert float(r.required_thickness) == pytest.approx(expected, abs=2e-6)  # find_root xatol 1e-6 m
+    at = cl.insulated_pipe(D4, tf, [Layer(float(r.commercial_thickness), k)], air_temperature=TA,
+                           jacket_emissivity=0.3)
+    assert float(at.surface_temperature) <= limit + 1e-6  # 1e-6 K: the surface solver's tolerance
