@@ -109,3 +109,56 @@ def test_sphere_in_wind_end_to_end_carries_no_prandtl_flag():
     from convlib.regimes import Flag
     r = cl.bare_surface("sphere", surface_temperature=353.15, air_temperature=293.15, diameter=0.5, wind_speed=3.0)
     assert not int(r.warnings) & Flag.PRANDTL_OUT_OF_RANGE
+
+
+# ----------------------------------------------------------------------------- item 7: vertical cylinders
+def _riser(diameter, length, **kw):
+    return cl.bare_surface("vertical_cylinder", surface_temperature=353.15, air_temperature=293.15,
+                           diameter=diameter, length=length, emissivity=0.9, **kw)
+
+
+@pytest.mark.parametrize("length", [0.5, 3.0, 10.0])
+def test_vertical_pipe_heat_flow_is_continuous_at_the_thin_cylinder_criterion(length):
+    """Issue 12 item 7: q' jumped 4-5 % for a 0.02 % change of diameter at D/L = 35 / Gr_L^(1/4) (Sparrow & Gregg
+    1956 via Incropera 6th ed. eq. 9.33, from memory), where the Popiel factor is 1.056, not 1. Gr_L does not
+    depend on D here (same film), so the criterion's diameter is 35 L Gr_L^(-1/4)."""
+    gr = float(_riser(0.1, length).grashof)
+    d_crit = 35.0 * length * gr ** -0.25
+    thin, thick = _riser(d_crit * (1 - 1e-4), length), _riser(d_crit * (1 + 1e-4), length)
+    from convlib.regimes import Flag
+    assert int(thin.warnings) & Flag.SLENDER_CYLINDER_CORRECTED and not int(thick.warnings) & Flag.SLENDER_CYLINDER_CORRECTED
+    # q' per metre of height scales with D (pi D h): 2e-4 relative from the diameter itself, the rest continuous
+    ratio = float(thick.q_per_length) / float(thin.q_per_length)
+    assert abs(ratio - 1) < 5e-4
+
+
+def test_popiel_factor_at_the_criterion_by_hand():
+    """At D/L = 35 Gr^(-1/4): xi = 32^0.5 / 35 = 0.1616 and, for Pr 0.71, B = 0.0571322 + 0.20305 Pr^-0.43,
+    C = 0.9165 - 0.0043 Pr^0.5 + 0.01333 ln Pr + 0.0004809 / Pr (Popiel et al. 2007, Exp. Therm. Fluid Sci.
+    32:607, eq. for Nu/Nu_FP; coefficients as in ht's Nu_vertical_cylinder_Popiel_Churchill)."""
+    from convlib.correlations import natural
+    pr, gr = 0.71, 1e8
+    b = 0.0571322 + 0.20305 * pr ** -0.43
+    c = 0.9165 - 0.0043 * pr ** 0.5 + 0.01333 * math.log(pr) + 0.0004809 / pr
+    by_hand = 1 + b * (32 ** 0.5 / 35) ** c
+    assert by_hand == pytest.approx(1.056, abs=5e-4)
+    assert float(natural.thin_cylinder_factor_popiel(gr * pr, pr, 35 * gr ** -0.25)) == pytest.approx(by_hand,
+                                                                                                      rel=1e-12)
+
+
+@pytest.mark.parametrize("diameter, length, why", [
+    (0.025, 10.0, "L/D 400 riser: slender, Gr_L 5e12 beyond the laminar 4e9 of the fit"),
+    (0.1143, 3.0, "4 in riser 3 m: slender, Gr_L 1.5e11 (turbulent)"),
+    (0.001, 0.3, "wire: curvature xi about 15 > 5 (laminar)"),
+])
+def test_slender_correction_outside_its_fit_is_a_range_fault(diameter, length, why):
+    """Popiel et al. (2007) abstract: the fit holds for Gr_L <= 4e9, 0.01 < Pr < 100, xi = 32^0.5 Gr_L^-1/4 L/D
+    <= 5. Outside that the result carries the (non-informational) natural range flag and strict=True refuses."""
+    from convlib.regimes import Flag
+    r = _riser(diameter, length)
+    assert int(r.warnings) & Flag.NATURAL_OUT_OF_RANGE, why
+    with pytest.raises(ValueError, match="range"):
+        _riser(diameter, length, strict=True)
+    # a thick vessel 3 m high stays in range (factor within the plate law's 5 %; Ra 1.1e11 inside Churchill & Chu's
+    # 1e12, which a 10 m height would pass for its own reason)
+    assert not int(_riser(1.5, 3.0).warnings) & Flag.NATURAL_OUT_OF_RANGE

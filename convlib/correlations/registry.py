@@ -142,12 +142,13 @@ REGISTRY: tuple[Correlation, ...] = (
     Correlation("churchill_chu", "vertical_cylinder", "natural", _n.nusselt_vertical_cylinder_churchill_chu,
                 ("Ra", "Pr", "diameter_over_length"), _CC_VP + ", eq. 6" + _POPIEL, "10.1016/0017-9310(75)90243-4",
                 ra_range=(1e-1, 1e12), accuracy_note=_TYPICAL, length_scale="height",
-                boundaries=(("thin_cylinder", 35.0, "upper"),),
-                notes="plate law where D/L >= 35/Gr_L^(1/4), otherwise corrected (flagged)"),
+                notes="plate law times the Popiel factor at every D/L (continuous, 1 for a plate); slender where "
+                      "D/L < 35/Gr_L^(1/4) (informational); out of range beyond the factor's fit (curvature > 5, "
+                      "or slender above the laminar Gr_L 4e9)"),
     Correlation("churchill_chu_laminar", "vertical_cylinder", "natural",
                 _n.nusselt_vertical_cylinder_churchill_chu_laminar, ("Ra", "Pr", "diameter_over_length"),
                 _CC_VP + ", eq. 5" + _POPIEL, "10.1016/0017-9310(75)90243-4", ra_range=(1e-1, 1e9),
-                accuracy_note=_TYPICAL, length_scale="height", boundaries=(("thin_cylinder", 35.0, "upper"),)),
+                accuracy_note=_TYPICAL, length_scale="height"),
     # ---- horizontal plates, natural (length scale = area / perimeter)
     Correlation("mcadams", "horizontal_plate_up", "natural", _n.nusselt_horizontal_plate_up_mcadams, ("Ra",),
                 "McAdams (1954), Heat Transmission, 3rd ed., ch. 7", None, ra_range=(1e4, 1e11),
@@ -320,8 +321,13 @@ def evaluate(geometry: str, method: str, *, check: bool = True, **groups) -> tup
         bit = Flag.PROPERTY_RATIO_OUT_OF_RANGE if name == "viscosity_ratio" else range_bit
         flags |= np.where(_outside(value, (low, high), rec.tolerance(name)), bit, 0).astype(np.int16)
     if rec.geometry == "vertical_cylinder":
-        slender = ~_n.thin_cylinder_criterion(groups["Ra"], pr, groups["diameter_over_length"])
+        dol = groups["diameter_over_length"]
+        slender = ~_n.thin_cylinder_criterion(groups["Ra"], pr, dol)
         flags |= np.where(slender, Flag.SLENDER_CYLINDER_CORRECTED, 0).astype(np.int16)
+        # the curvature factor outside its fit is a range fault, not information (issue 12 item 7)
+        flags |= np.where(_n.popiel_out_of_range(groups["Ra"], pr, dol), range_bit, 0).astype(np.int16)
+        flags |= np.where(_outside(np.asarray(pr, float), _n.POPIEL_PRANDTL), Flag.PRANDTL_OUT_OF_RANGE,
+                          0).astype(np.int16)
     bad = ~np.isfinite(nu)
     if bad.any():
         # A law evaluated where it has no meaning (e.g. zero Ra in a power law that
