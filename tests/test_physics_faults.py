@@ -162,3 +162,50 @@ def test_slender_correction_outside_its_fit_is_a_range_fault(diameter, length, w
     # a thick vessel 3 m high stays in range (factor within the plate law's 5 %; Ra 1.1e11 inside Churchill & Chu's
     # 1e12, which a 10 m height would pass for its own reason)
     assert not int(_riser(1.5, 3.0).warnings) & Flag.NATURAL_OUT_OF_RANGE
+
+
+# ----------------------------------------------------------------------------- item 9: model-form band per point
+from convlib import study as S  # noqa: E402
+
+TS_BAND, TA_BAND, D_BAND, EPS_BAND = 353.15, 293.15, 0.1143, 0.9
+# stated accuracies as the records give them (a +-figure read as a 95 % band, study.py docstring):
+# Churchill & Chu horizontal cylinder +-20 % (common practice, no source); Hilpert +-25 % (common practice, no source)
+ACC_STILL, ACC_WIND = 0.20, 0.25
+
+
+def _bare(wind, factor=1.0):
+    return cl.bare_surface(surface_temperature=TS_BAND, air_temperature=TA_BAND, diameter=D_BAND,
+                           emissivity=EPS_BAND, wind_speed=wind, forced="hilpert", convection_factor=factor)
+
+
+@pytest.mark.parametrize("base_wind", [0.0, 4.0])
+def test_sweep_band_uses_each_points_own_wind(base_wind):
+    """Issue 12 item 9: a wind sweep from a still-air base used the still-air accuracy at every point (and a
+    windy base the forced one in still air). The band at each point is q' at convection factor 1 -+ acc with
+    the accuracy of the laws that apply there, recomputed here with bare_surface point by point."""
+    case = S.CaseSpec(kind="bare", surface_temperature=TS_BAND, diameter=D_BAND, air_temperature=TA_BAND,
+                      emissivity=EPS_BAND, wind_speed=base_wind, forced="hilpert")
+    axis = S.SweepAxis(input="wind_speed", start=0.0, stop=6.0, count=4)
+    sweep = S.run_sweep(S.StudySpec(case=case), axis)
+    for wind, low, high in zip(sweep.values, sweep.band_low, sweep.band_high, strict=True):
+        acc = ACC_WIND if wind > 0 else ACC_STILL
+        ends = sorted(float(_bare(wind, f).q_per_length) for f in (1 - acc, 1 + acc))
+        assert low == pytest.approx(ends[0], rel=1e-9) and high == pytest.approx(ends[1], rel=1e-9), wind
+
+
+def test_monte_carlo_model_form_uses_the_sampled_wind():
+    """Issue 12 item 9: with wind sampled around 3 m/s from a still-air base the factor's sd must be Hilpert's
+    25 % / 1.96, not Churchill & Chu's 20 % / 1.96. q' = q_rad + f q_conv(3 m/s) (bare surface, wind spread
+    negligible: 3.0-3.001 m/s), so sd(q') = acc / 1.96 q_conv. Tolerance: 4 standard errors of a standard
+    deviation, sd / sqrt(2 (n - 1)), plus 0.5 % for the wind's own spread. (The factor scales the convective
+    coefficient only, so the radiative part is the same in every sample.)"""
+    n = 20_000
+    case = S.CaseSpec(kind="bare", surface_temperature=TS_BAND, diameter=D_BAND, air_temperature=TA_BAND,
+                      emissivity=EPS_BAND, wind_speed=0.0, forced="hilpert")
+    spec = S.StudySpec(case=case, uncertainty=S.UncertaintySpec(
+        model_form="stated_accuracy", samples=n, seed=5,
+        distributions=[S.Distribution(input="wind_speed", kind="uniform", low=3.0, high=3.001)]))
+    mc = S.run_study(spec).monte_carlo
+    q_conv = float(_bare(3.0005).q_convection_per_length)
+    sd = ACC_WIND / 1.96 * q_conv
+    assert mc.std == pytest.approx(sd, abs=4 * sd / math.sqrt(2 * (n - 1)) + 0.005 * sd)
