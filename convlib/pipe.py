@@ -293,6 +293,9 @@ def _stack_flow(ts, tf, r_inside, drops, layers):
 def _solve_surface(residual, args, outer, tolerance, direct):
     """Bracket and solve residual(ts, *args) = 0 for every point; returns (ts, converged).
 
+    A point the solver cannot settle (including one whose residual is NaN because an inner solve failed)
+    raises ``InputError``: what is returned has converged everywhere.
+
     ``direct`` marks points without resistance: their surface is at the fluid temperature.
     """
     tf = args[0]
@@ -311,9 +314,17 @@ def _solve_surface(residual, args, outer, tolerance, direct):
         res = find_root(residual, lo, hi, args=args, xatol=tolerance, xrtol=0.0)
         x, success = np.array(res.x, dtype=float), np.array(res.success, dtype=bool)
         lo, hi = np.array(lo, dtype=float), np.array(hi, dtype=float)
-        # Widen the few brackets that held no sign change (strong sun, odd surroundings) and retry them.
+        # Widen the few brackets that held no sign change (strong sun, odd surroundings) and retry them;
+        # a point whose residual is not finite at its bracket (an inner solve failed) is not widened but reported.
+        stuck = np.zeros_like(success)
         for _ in range(6):
-            bad = ~success & ~direct
+            bad = ~success & ~direct & ~stuck
+            if not bad.any():
+                break
+            part = tuple(a[bad] for a in args)
+            finite = np.isfinite(residual(lo[bad], *part)) & np.isfinite(residual(hi[bad], *part))
+            stuck[bad] = ~finite
+            bad = ~success & ~direct & ~stuck
             if not bad.any():
                 break
             width = hi[bad] - lo[bad]

@@ -209,3 +209,32 @@ def test_monte_carlo_model_form_uses_the_sampled_wind():
     q_conv = float(_bare(3.0005).q_convection_per_length)
     sd = ACC_WIND / 1.96 * q_conv
     assert mc.std == pytest.approx(sd, abs=4 * sd / math.sqrt(2 * (n - 1)) + 0.005 * sd)
+
+
+# ----------------------------------------------------------------------------- item 6: solver failure flags honoured
+def _failing(real, name):
+    """find_root that reports failure (keeping its estimate) for the function called ``name``."""
+    def wrapped(f, *a, **kw):
+        res = real(f, *a, **kw)
+        if getattr(f, "__name__", "") == name:
+            from convlib.roots import RootResult
+            return RootResult(x=res.x, success=np.zeros_like(res.success), iterations=res.iterations)
+        return res
+    return wrapped
+
+
+def test_failed_layer_stack_solve_is_reported_not_used(monkeypatch):
+    """A failed inner heat-flow solve (k(T) layers) used to be passed on as a number; now the point is refused."""
+    from convlib import pipe
+    monkeypatch.setattr(pipe, "find_root", _failing(pipe.find_root, "end_temperature"))
+    k = Conductivity.table(*BLANKET)
+    with pytest.raises(cl.InputError, match="could not be found"):
+        cl.insulated_pipe(D4, 673.15, [Layer(0.05, k)], air_temperature=TA)
+
+
+def test_failed_thickness_search_gives_no_thickness(monkeypatch):
+    """A failed thickness search used to return its last estimate as the required thickness."""
+    monkeypatch.setattr(design, "find_root", _failing(design.find_root, "excess"))
+    r = design.thickness_for_surface_temperature(D4, 523.15, air_temperature=313.15, insulation_conductivity=0.05)
+    assert np.isnan(float(r.required_thickness)) and np.isnan(float(r.commercial_thickness))
+    assert any("did not converge" in m for m in r.messages)
