@@ -3,16 +3,30 @@ r"""Thermal conductivity of insulation and jacket materials as a function of tem
 Three ways to give it: a constant, a polynomial in temperature, or a table of
 points (linear between them, held constant beyond the ends and flagged there).
 
-Two meanings of the data, to be stated by the caller:
+A layer between faces at :math:`T_1` and :math:`T_2` conducts through the
+Kirchhoff potential :math:`\Theta(T) = \int k\,dT` of the curve:
 
-* ``form="true"`` -- the data are the material's conductivity :math:`k(T)`.
-  A layer between :math:`T_1` and :math:`T_2` then conducts with the exact
-  integral mean :math:`\bar k = \frac{1}{T_1-T_2}\int_{T_2}^{T_1} k\,dT`
-  (Kirchhoff transform), the practice of ASTM C680 for insulated systems.
-* ``form="mean"`` -- the data are apparent conductivities against the test's
-  mean temperature, as reported from ASTM C335 / ISO 8497 pipe tests. A layer
-  is then given :math:`\bar k = k_{app}\left(\frac{T_1+T_2}{2}\right)`. The two
-  forms agree exactly when k is linear in T and to second order otherwise.
+.. math:: q' = \frac{2\pi\,[\Theta(T_1) - \Theta(T_2)]}{\ln(r_2/r_1)},
+    \qquad \bar k = \frac{\Theta(T_1) - \Theta(T_2)}{T_1 - T_2}
+
+the practice of ASTM C680, which takes k(T) from the data reduction of
+ASTM C1045. :math:`\Theta` rises strictly with T (k > 0), so every layer has
+exactly one outer face temperature for a given heat flow.
+
+The data may mean two things, recorded with ``form``:
+
+* ``form="true"`` -- the material's conductivity :math:`k(T)`.
+* ``form="mean"`` -- apparent conductivities against the test's mean
+  temperature (ASTM C335 / C177 / ISO 8497). They are applied as
+  :math:`k(T)` too: a test's apparent value is the integral mean of k over its
+  own small drop, which equals k at the mean temperature to second order
+  (ASTM C1045, small temperature differences). Evaluating the apparent value
+  at each *layer's* mean temperature instead (:math:`\bar k = k_{app}((T_1+T_2)/2)`)
+  is not monotone when k rises steeply over a large drop (high-temperature
+  blankets): a colder outer face would carry less heat, and the inversion has
+  several roots. That form is kept only as :meth:`Conductivity.at_layer_mean`,
+  for comparison. For a linear k the two agree exactly; otherwise
+  :math:`\bar k - k_{app}(\bar T) = c_2 (T_1 - T_2)^2 / 12` for a quadratic.
 """
 from __future__ import annotations
 
@@ -21,7 +35,6 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .errors import InputError
-from .roots import find_root
 from .validation import as_array, check_choice
 
 __all__ = ["Conductivity"]
@@ -155,39 +168,61 @@ class Conductivity:
         return body + k_low * np.minimum(T - low, 0.0) + k_high * np.maximum(T - high, 0.0)
 
     def effective(self, t_in, t_out) -> np.ndarray:
-        """Effective conductivity of a layer whose faces are at t_in and t_out [K]."""
+        """Effective conductivity of a layer whose faces are at t_in and t_out [K]: the integral mean
+        of k between them (either form, see the module notes)."""
         t_in, t_out = np.asarray(t_in, float), np.asarray(t_out, float)
         if self.kind == "constant":
             return self.at(t_in + 0.0 * t_out)
-        if self.form == "mean":
-            return self.at(0.5 * (t_in + t_out))
         diff = t_in - t_out
         small = np.abs(diff) < 1e-6  # no drop: the limit is k itself
         with np.errstate(divide="ignore", invalid="ignore"):
             mean = (self._U(t_in) - self._U(t_out)) / np.where(small, 1.0, diff)
         return np.where(small, self.at(0.5 * (t_in + t_out)), mean)
 
+    def at_layer_mean(self, t_in, t_out) -> np.ndarray:
+        """The data at the layer's mean temperature, :math:`k((T_1+T_2)/2)` [W/m/K] -- the one-point
+        reading of mean-form data, for comparison only (not monotone over large drops; see the module notes)."""
+        return self.at(0.5 * (np.asarray(t_in, float) + np.asarray(t_out, float)))
+
     def temperature_after(self, t_in, drop) -> np.ndarray:
-        """Outer face temperature of a layer given its inner face t_in [K] and
-        ``drop`` = q' ln(r2/r1) / (2 pi) [W/m] (its conduction "potential" drop)."""
+        r"""Outer face temperature of a layer given its inner face t_in [K] and
+        ``drop`` = q' ln(r2/r1) / (2 pi) [W/m] (its conduction "potential" drop).
+
+        Solves :math:`\Theta(T_2) = \Theta(T_1) - drop`; :math:`\Theta` is strictly increasing, so the
+        root is unique. Newton steps from the tabulated integral are kept inside the grid cell that
+        brackets the root (bisection where a step would leave it); every point is checked and a point
+        that does not converge raises rather than returning a wrong temperature.
+        """
         t_in = np.asarray(t_in, float)
         if self.kind == "constant":
             return t_in - drop / self.coefficients[0]
-        if self.form == "true":
-            target = self._U(t_in) - drop
-            t = np.interp(target, self._integral, _GRID)  # first guess from the tabulated integral
-            for _ in range(20):  # Newton on the exact integral (U' = k > 0): converges in 1-2 steps
-                step = (self._U(t) - target) / self.at(t)
-                t = t - step
-                if np.all(np.abs(step) < 1e-11):
-                    break
-            return t
-        # mean form: solve 2 k(m) (t_in - m) = drop for the layer's mean temperature m, bracketed:
-        # m lies between t_in and t_in - drop / (2 k_min) (k >= k_min everywhere).
-        drop, t_in = np.broadcast_arrays(np.asarray(drop, float), t_in)
-        k_min = float(self.at(np.linspace(*np.clip(self.valid_range, 1.0, 3000.0), 256)).min())
-        far = t_in - drop / (2.0 * k_min) - np.sign(drop) * 1e-6
-        lo, hi = np.minimum(t_in, far), np.maximum(t_in, far)
-        res = find_root(lambda m, t, q: 2.0 * self.at(m) * (t - m) - q, lo, hi, args=(t_in, drop), xatol=1e-10,
-                        xrtol=0.0)
-        return np.where(drop == 0, t_in, 2.0 * res.x - t_in)
+        target = np.asarray(self._U(t_in) - drop, dtype=float)
+        # Beyond the tabulated grid U is continued linearly (k held at its end value): exact there.
+        below, above = target < self._integral[0], target > self._integral[-1]
+        i = np.clip(np.searchsorted(self._integral, target, side="right") - 1, 0, _GRID.size - 2)
+        lo, hi = _GRID[i], _GRID[i + 1]
+        lo = np.where(below, -np.inf, lo)
+        hi = np.where(above, np.inf, hi)
+        t = np.interp(target, self._integral, _GRID)
+        t = np.where(below, _GRID[0] - (self._integral[0] - target) / self.at(_GRID[0]), t)
+        t = np.where(above, _GRID[-1] + (target - self._integral[-1]) / self.at(_GRID[-1]), t)
+        converged = below | above | ~np.isfinite(target)  # non-finite in, NaN out: the caller's solve reports it
+        for _ in range(60):  # safeguarded Newton (U' = k > 0): 1-3 steps in practice
+            residual = self._U(t) - target
+            lo = np.where(residual < 0, t, lo)
+            hi = np.where(residual > 0, t, hi)
+            step = residual / self.at(t)
+            new = t - step
+            outside = ~((new >= lo) & (new <= hi))
+            new = np.where(outside & np.isfinite(lo) & np.isfinite(hi), 0.5 * (lo + hi), new)
+            done = (np.abs(new - t) <= 1e-11 * np.maximum(1.0, np.abs(t))) | (residual == 0)
+            t = np.where(converged, t, new)  # a point once converged keeps its value
+            converged = converged | done
+            if np.all(converged):
+                break
+        if not np.all(converged):
+            raise InputError("the outer face temperature of a layer with temperature-dependent conductivity was "
+                             f"not found at {int(np.count_nonzero(~converged))} point(s)", field="conductivity",
+                             rule="a conductivity curve positive and finite over the layer's temperatures",
+                             value=int(np.count_nonzero(~converged)))
+        return t

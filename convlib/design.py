@@ -146,7 +146,10 @@ def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, out
     if todo.any():
         res = find_root(excess, t_low[todo], np.full(int(todo.sum()), t_max),
                         args=(limit[todo], *(a[todo] for a in point)), xatol=1e-6, xrtol=0.0)
-        required[todo] = res.x
+        required[todo] = np.where(res.success, res.x, np.nan)  # a failed search is never reported as a thickness
+        unsolved = int(np.count_nonzero(~res.success))
+    else:
+        unsolved = 0
     commercial = listed_thickness(required, commercial_thicknesses)
     at_commercial = np.full_like(limit, np.nan)
     has = ~np.isnan(commercial)
@@ -157,7 +160,9 @@ def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, out
     if (~achievable).any():
         messages.append(f"{int((~achievable).sum())} of {achievable.size} case(s): no thickness up to "
                         f"{t_max * 1000:g} mm keeps the {quantity} within the {limit_name}")
-    beyond = achievable & ~has
+    if unsolved:
+        messages.append(f"{unsolved} case(s): the thickness search did not converge; no thickness is given there")
+    beyond = achievable & ~has & ~np.isnan(required)
     if beyond.any():
         messages.append(f"{int(beyond.sum())} case(s) need more than the largest listed thickness "
                         f"({largest * 1000:g} mm)")

@@ -14,8 +14,9 @@ is found for all points at once with a bracketed root finder
     = \pi D_s\, q''_{out}(T_s)
 
 Layers whose conductivity depends on temperature use the exact integral mean
-:math:`\bar k_j` (Kirchhoff transform), or the apparent value at the layer's
-mean temperature for data given in that form (see :mod:`convlib.conductivity`).
+:math:`\bar k_j` (Kirchhoff transform) for data of either form (see
+:mod:`convlib.conductivity`), so each layer's heat flow rises strictly with its
+temperature drop and the solution is unique.
 """
 from __future__ import annotations
 
@@ -261,9 +262,10 @@ def insulated_pipe(
 def _stack_flow(ts, tf, r_inside, drops, layers):
     """q' [W/m] through film, wall and layers with temperature-dependent conductivity.
 
-    Marches from the fluid outwards through the layers in their order (each with
-    its exact integral-mean or mean-temperature conductivity) and finds, by a
+    Marches from the fluid outwards through the layers in their order (each through
+    its Kirchhoff potential, see :mod:`convlib.conductivity`) and finds, by a
     bracketed solve, the q' whose march ends at the surface temperature ``ts``.
+    The march's end temperature falls strictly as q' rises, so that q' is unique.
     """
     def end_temperature(q, tf_, ts_, r_inside_, *drops_):
         t = tf_ - q * r_inside_
@@ -284,11 +286,15 @@ def _stack_flow(ts, tf, r_inside, drops, layers):
     q_lo = np.minimum(q_a, q_b) - 1e-9 * np.abs(q_a) - 1e-12
     q_hi = np.maximum(q_a, q_b) + 1e-9 * np.abs(q_a) + 1e-12
     res = find_root(end_temperature, q_lo, q_hi, args=(tf, ts, r_inside, *drops), xatol=1e-12, xrtol=1e-13)
-    return res.x
+    # A failed solve is never passed on as a number: NaN makes the surface solve drop the point and report it.
+    return np.where(res.success, res.x, np.nan)
 
 
 def _solve_surface(residual, args, outer, tolerance, direct):
     """Bracket and solve residual(ts, *args) = 0 for every point; returns (ts, converged).
+
+    A point the solver cannot settle (including one whose residual is NaN because an inner solve failed)
+    raises ``InputError``: what is returned has converged everywhere.
 
     ``direct`` marks points without resistance: their surface is at the fluid temperature.
     """
@@ -308,9 +314,17 @@ def _solve_surface(residual, args, outer, tolerance, direct):
         res = find_root(residual, lo, hi, args=args, xatol=tolerance, xrtol=0.0)
         x, success = np.array(res.x, dtype=float), np.array(res.success, dtype=bool)
         lo, hi = np.array(lo, dtype=float), np.array(hi, dtype=float)
-        # Widen the few brackets that held no sign change (strong sun, odd surroundings) and retry them.
+        # Widen the few brackets that held no sign change (strong sun, odd surroundings) and retry them;
+        # a point whose residual is not finite at its bracket (an inner solve failed) is not widened but reported.
+        stuck = np.zeros_like(success)
         for _ in range(6):
-            bad = ~success & ~direct
+            bad = ~success & ~direct & ~stuck
+            if not bad.any():
+                break
+            part = tuple(a[bad] for a in args)
+            finite = np.isfinite(residual(lo[bad], *part)) & np.isfinite(residual(hi[bad], *part))
+            stuck[bad] = ~finite
+            bad = ~success & ~direct & ~stuck
             if not bad.any():
                 break
             width = hi[bad] - lo[bad]

@@ -73,7 +73,7 @@ FLAG_TEXT = {
     Flag.PRANDTL_OUT_OF_RANGE: "correlation used outside its Prandtl-number range",
     Flag.FLUID_NOT_FITTED: "correlation was fitted for air only and is used for another fluid",
     Flag.OPPOSING_FLOW_FLOORED: "opposing buoyancy close to the forced flow in strength: no correlation applies; value floored",
-    Flag.SLENDER_CYLINDER_CORRECTED: "slender vertical cylinder: plate law corrected for curvature (Popiel et al. 2007)",
+    Flag.SLENDER_CYLINDER_CORRECTED: "slender vertical cylinder: curvature adds over 5 % to the plate law (Popiel et al. 2007)",
     Flag.PROPERTY_RATIO_OUT_OF_RANGE: "surface-to-stream property ratio outside the correlation's range",
     Flag.NOT_CONVERGED: "surface-temperature solution did not converge",
     Flag.CONDUCTIVITY_EXTRAPOLATED: "a layer's temperature lies outside its conductivity data (held at the end value)",

@@ -597,18 +597,21 @@ def _compare(spec: StudySpec, **overrides) -> tuple[list[MethodCurves], list[Spr
     return curves, spreads
 
 
-def _accuracy(case: CaseSpec) -> float:
-    """Stated accuracy (fraction, read as a 95 % band) of the default correlations: the larger of the two."""
+def _accuracy(case: CaseSpec, wind_speed=None) -> np.ndarray:
+    """Stated accuracy (fraction, read as a 95 % band) of the default correlations at each point: the natural
+    law's in still air, the larger of the natural and forced laws' where there is wind. ``wind_speed`` [m/s]
+    is the swept or sampled wind (default: the case's)."""
     natural, forced = _defaults(case)
-    acc = corr.get(case.natural_geometry, natural).accuracy_percent
-    if case.wind_speed > 0:
-        acc = max(acc, corr.get(case.forced_geometry, forced).accuracy_percent)
-    return acc / 100.0
+    still = corr.get(case.natural_geometry, natural).accuracy_percent
+    windy = max(still, corr.get(case.forced_geometry, forced).accuracy_percent)
+    wind = np.asarray(case.wind_speed if wind_speed is None else wind_speed, dtype=float)
+    return np.where(wind > 0, windy, still) / 100.0
 
 
 def _band(spec: StudySpec, **overrides) -> tuple[np.ndarray, np.ndarray]:
-    """q_per_length with the convective coefficient at (1 - accuracy) and (1 + accuracy): the model-form band."""
-    acc = _accuracy(spec.case)
+    """q_per_length with the convective coefficient at (1 - accuracy) and (1 + accuracy): the model-form band,
+    with the accuracy of the laws that apply at each point (its own wind)."""
+    acc = _accuracy(spec.case, overrides.get("wind_speed"))
     factor = np.asarray(overrides.pop("convection_factor", spec.case.convection_factor))
     ends = [np.asarray(evaluate_case(spec.case, convection_factor=factor * f, **overrides).q_per_length).ravel()
             for f in (1.0 - acc, 1.0 + acc)]
@@ -672,7 +675,8 @@ def _monte_carlo(spec: StudySpec, progress: Callable[[float, str], None] | None)
     overrides = overrides or {"air_temperature": np.full(n, case.air_temperature)}
     if u.model_form == "stated_accuracy":
         # factor on the convective coefficient whose 95 % band is the stated accuracy (normal, sd = acc / 1.96)
-        factor = 1.0 + rng.normal(0.0, _accuracy(case) / 1.96, n)
+        # the accuracy of the laws at each sample's own wind (sampled or the case's)
+        factor = 1.0 + rng.normal(0.0, 1.0, n) * _accuracy(case, overrides.get("wind_speed")) / 1.96
         overrides["convection_factor"] = np.clip(factor * overrides.get("convection_factor", case.convection_factor),
                                                  0.1, 5.0)
     keys = spec.compared_methods("natural") if u.model_form == "choose_correlation" else [None]

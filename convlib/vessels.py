@@ -297,7 +297,7 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
 
     >>> r = vertical_tank(10.0, 12.0, surface_temperature=333.15, air_temperature=283.15)
     >>> [f.name for f in r.faces], round(float(r.q_total) / 1e3, 1)
-    (['wall', 'roof', 'floor'], 252.8)
+    (['wall', 'roof', 'floor'], 253.0)
     """
     check_choice("floor", floor, FLOORS)
     d = as_array("diameter", diameter, unit="m", low=0.0, low_inclusive=False)

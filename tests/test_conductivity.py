@@ -2,11 +2,15 @@
 
 The effective conductivity of a layer between faces at T1 and T2 is, for data
 of the material's true k(T), the integral mean (Kirchhoff transform)
-k_bar = 1/(T1-T2) * int_{T2}^{T1} k dT (ASTM C680, from memory); for apparent
-data against mean temperature (ASTM C335 tests) it is k_app((T1+T2)/2).
+k_bar = 1/(T1-T2) * int_{T2}^{T1} k dT (ASTM C680, from memory). Apparent data
+against mean temperature (ASTM C335 tests, form="mean") are integrated the same
+way since issue 12 item 6 (the one-point reading k_app((T1+T2)/2) is not monotone
+over large drops); that reading stays available as ``at_layer_mean``.
 """
 import numpy as np
 import pytest
+from scipy.integrate import quad
+from scipy.optimize import brentq
 
 from convlib import Conductivity
 
@@ -82,27 +86,56 @@ def test_true_form_effective_beyond_table_uses_end_value():
     assert float(k.effective(700.0, 500.0)) == pytest.approx(0.085, rel=1e-6)
 
 
-@pytest.mark.parametrize("make", [
-    lambda: Conductivity.table(*TABLE, form="mean"),
-    lambda: Conductivity.polynomial(QUADRATIC, form="mean", valid_range=(250, 700)),
-])
-def test_mean_form_effective_is_apparent_k_at_mean(make):
-    k = make()
-    t_in, t_out = np.array([500.0, 580.0, 320.0]), np.array([300.0, 420.0, 310.0])
-    np.testing.assert_allclose(k.effective(t_in, t_out), k.at(0.5 * (t_in + t_out)), rtol=1e-15)
+@pytest.mark.parametrize("t_in, t_out", [(500.0, 300.0), (580.0, 420.0), (412.3, 301.7), (350.0, 340.0)])
+def test_mean_form_effective_is_integral_mean_of_the_data(t_in, t_out):
+    """Mean-form data are integrated like k(T) (ASTM C1045 small-drop reduction, from memory):
+    the same hand integrals as the true form; the one-point reading stays as at_layer_mean."""
+    table = Conductivity.table(*TABLE, form="mean")
+    expected = table_integral(min(t_in, t_out), max(t_in, t_out)) / abs(t_in - t_out)
+    assert float(table.effective(t_in, t_out)) == pytest.approx(expected, rel=1e-6)
+    quad = Conductivity.polynomial(QUADRATIC, form="mean", valid_range=(250, 700))
+    expected = (antiderivative(QUADRATIC, t_in) - antiderivative(QUADRATIC, t_out)) / (t_in - t_out)
+    assert float(quad.effective(t_in, t_out)) == pytest.approx(expected, rel=1e-6)
+    assert float(table.at_layer_mean(t_in, t_out)) == float(table.at(0.5 * (t_in + t_out)))
 
 
-def test_forms_agree_for_linear_k_and_differ_for_curved_k():
-    """True and mean forms agree exactly for linear k, to second order otherwise (module docstring);
-    for k = c0 + c1 T + c2 T^2 the difference is c2 (T1-T2)^2 / 12 (by hand)."""
+def test_integral_mean_and_layer_mean_agree_for_linear_k_and_differ_for_curved_k():
+    """The integral mean and the one-point layer-mean reading agree exactly for linear k, to second
+    order otherwise: for k = c0 + c1 T + c2 T^2 the difference is c2 (T1-T2)^2 / 12 (by hand)."""
     t_in, t_out = 600.0, 300.0
-    lin_true = Conductivity.polynomial(LINEAR, form="true", valid_range=(250, 700))
-    lin_mean = Conductivity.polynomial(LINEAR, form="mean", valid_range=(250, 700))
-    assert float(lin_true.effective(t_in, t_out)) == pytest.approx(float(lin_mean.effective(t_in, t_out)), rel=1e-6)
-    quad_true = Conductivity.polynomial(QUADRATIC, form="true", valid_range=(250, 700))
-    quad_mean = Conductivity.polynomial(QUADRATIC, form="mean", valid_range=(250, 700))
-    difference = float(quad_true.effective(t_in, t_out) - quad_mean.effective(t_in, t_out))
-    assert difference == pytest.approx(QUADRATIC[2] * (t_in - t_out) ** 2 / 12, rel=1e-4)
+    for form in ("true", "mean"):
+        lin = Conductivity.polynomial(LINEAR, form=form, valid_range=(250, 700))
+        assert float(lin.effective(t_in, t_out)) == pytest.approx(float(lin.at_layer_mean(t_in, t_out)), rel=1e-6)
+        quad = Conductivity.polynomial(QUADRATIC, form=form, valid_range=(250, 700))
+        difference = float(quad.effective(t_in, t_out) - quad.at_layer_mean(t_in, t_out))
+        assert difference == pytest.approx(QUADRATIC[2] * (t_in - t_out) ** 2 / 12, rel=1e-4)
+
+
+# Steep k of a high-temperature blanket (radiation through the fibres): invented shape, no source.
+BLANKET = ([300.0, 500.0, 700.0, 900.0, 1100.0, 1300.0], [0.03, 0.06, 0.11, 0.18, 0.27, 0.38])
+
+
+@pytest.mark.parametrize("form", ["true", "mean"])
+def test_steep_k_temperature_after_is_unique_and_matches_quadrature(form):
+    """Issue 12 item 6: over a 900 K drop the layer-mean reading 2 k((T1+T2)/2)(T1-T2)/2 is not monotone in
+    T2 (three roots for one drop), and the old inversion returned one of them. Independent check:
+    scipy.integrate.quad of k(T) and brentq on int_{T2}^{T1} k dT = drop, which has exactly one root."""
+    k = Conductivity.table(*BLANKET, form=form)
+    t_in = 1173.15
+    k_of = lambda t: float(np.interp(t, *BLANKET))  # noqa: E731  the table, linear between points
+    # the layer-mean reading really is non-monotone here (the fault's cause), on the table itself
+    t2 = np.linspace(320.0, 1170.0, 2000)
+    reading = np.interp(0.5 * (t_in + t2), *BLANKET) * (t_in - t2)
+    assert np.any(np.diff(reading) > 0)  # falling T2 does not always raise the layer-mean "flow"
+    drops = np.array([10.0, 30.0, 60.0, 90.0, 115.0])  # the whole layer 300..1173 K carries about 121 W/m
+    got = k.temperature_after(t_in, drops)
+    for d, t in zip(drops, got):
+        def held(x, d=d):  # int_x^t_in k dT - drop, the table's nodes as break points, tight quadrature
+            nodes = [p for p in BLANKET[0] if x < p < t_in]
+            return quad(k_of, x, t_in, points=nodes or None, limit=200, epsabs=1e-13, epsrel=1e-13)[0] - d
+        expected = brentq(held, 300.0, t_in, xtol=1e-10)
+        assert float(t) == pytest.approx(expected, abs=1e-6)
+    assert np.all(np.diff(got) < 0)  # more drop, colder outer face
 
 
 # ---------------------------------------------------------------- temperature_after()

@@ -214,11 +214,14 @@ def test_vertical_cylinder_matches_ht_popiel_and_plate(Pr):
                            full_output=True)
     np.testing.assert_allclose(nu, slender, rtol=RTOL)
     assert np.all(flags & Flag.SLENDER_CYLINDER_CORRECTED)
-    # D/L = 10 >= 35 / Gr^(1/4) for Gr >= 150: plain plate law (Incropera et al. 6th ed. eq. 9.33, from memory)
+    # D/L = 10 >= 35 / Gr^(1/4) for Gr >= 150 (Incropera et al. 6th ed. eq. 9.33, from memory): the same
+    # factor, continuous (issue 12 item 7), within 5.6 % of the plate law there (the criterion's meaning)
     Ra = _grid(1e4, 1e12)
-    thick = [htf.Nu_vertical_plate_Churchill(Pr, x / Pr) for x in Ra]
-    np.testing.assert_allclose(cl.nusselt("vertical_cylinder", "churchill_chu", Ra=Ra, Pr=Pr,
-                                          diameter_over_length=10.0), thick, rtol=RTOL)
+    thick = [htf.Nu_vertical_cylinder_Popiel_Churchill(Pr, x / Pr, 1.0, 10.0) for x in Ra]
+    nu = cl.nusselt("vertical_cylinder", "churchill_chu", Ra=Ra, Pr=Pr, diameter_over_length=10.0)
+    np.testing.assert_allclose(nu, thick, rtol=RTOL)
+    plate = np.array([htf.Nu_vertical_plate_Churchill(Pr, x / Pr) for x in Ra])
+    assert np.all((nu >= plate) & (nu <= 1.06 * plate))
 
 
 @pytest.mark.parametrize("Pr", PR3)
@@ -347,9 +350,6 @@ PIECES = {  # (geometry, key, group, value) -> (law below, law above), from the 
     # Incropera et al. 6th ed. eqs. 7.30 and 7.38 (from memory)
     ("plate_parallel_flow", "mixed_layer", "Re", 5e5): (lambda g: 0.664 * g["Re"] ** 0.5 * g["Pr"] ** (1 / 3),
                                                         lambda g: (0.037 * g["Re"] ** 0.8 - 871) * g["Pr"] ** (1 / 3)),
-    ("vertical_cylinder", "churchill_chu", "thin_cylinder", 35.0): (_popiel, _plate_cc),
-    ("vertical_cylinder", "churchill_chu_laminar", "thin_cylinder", 35.0): (
-        lambda g: _popiel(g) / _plate_cc(g) * _plate_cc_laminar(g), _plate_cc_laminar),  # Popiel factor x eq. 5
 }
 BOUNDARIES = [(rec, b) for rec in REGISTRY for b in rec.boundaries]
 
@@ -370,11 +370,21 @@ def test_both_sides_of_each_boundary(rec, boundary):
         assert abs(lower(g) / upper(g) - 1) > 1e-6  # the two pieces are distinguishable here
 
 
-def test_thin_cylinder_boundary_value_uses_plate_law_as_docstring_says():
-    # Incropera et al. 6th ed. eq. 9.33 (from memory): a plate where D/L >= 35 / Gr_L^(1/4)
-    g = _groups("thin_cylinder", 35.0, exact=True)
-    nu, flags = cl.nusselt("vertical_cylinder", "churchill_chu", **g, full_output=True)
-    assert nu == pytest.approx(_plate_cc(g), rel=RTOL) and not flags & Flag.SLENDER_CYLINDER_CORRECTED
+@pytest.mark.parametrize("key, law", [
+    ("churchill_chu", _popiel),
+    ("churchill_chu_laminar", lambda g: _popiel(g) / _plate_cc(g) * _plate_cc_laminar(g)),  # Popiel factor x eq. 5
+])
+def test_thin_cylinder_criterion_is_no_step(key, law):
+    """Issue 12 item 7: the Popiel factor (ht's Nu_vertical_cylinder_Popiel_Churchill applies it at every D/L)
+    on both sides of the Sparrow-Gregg criterion D/L = 35 / Gr_L^(1/4); only the informational slender flag changes."""
+    values = []
+    for x in (35.0 * (1 - 1e-9), 35.0, 35.0 * (1 + 1e-9)):
+        g = _groups("thin_cylinder", x, exact=x == 35.0)
+        nu, flags = cl.nusselt("vertical_cylinder", key, **g, full_output=True)
+        assert nu == pytest.approx(law(g), rel=RTOL)
+        assert bool(flags & Flag.SLENDER_CYLINDER_CORRECTED) == (x < 35.0)
+        values.append(float(nu))
+    assert abs(values[2] / values[0] - 1) < 1e-8
 
 
 # --------------------------------------------------------------------------- mixed convection

@@ -293,11 +293,22 @@ def test_quadratic_true_k_uses_exact_integral_mean(thickness):
 MINERAL_WOOL = ([311, 366, 422, 478, 533], [0.036, 0.045, 0.056, 0.069, 0.084])  # typical shape, no source
 
 
+def _table_integral(table, t_low, t_high):
+    """int_{t_low}^{t_high} k dT of a table, linear between points and held at its ends (exact, by hand:
+    the trapezoid is exact on each linear piece)."""
+    t, k = table
+    nodes = sorted({t_low, t_high, *[x for x in t if t_low < x < t_high]})
+    values = np.interp(nodes, t, k)
+    return float(np.sum(0.5 * (values[1:] + values[:-1]) * np.diff(nodes)))
+
+
 @pytest.mark.parametrize("thickness", [0.025, 0.05, 0.1])
-def test_mean_form_table_uses_apparent_k_at_mean(thickness):
+def test_mean_form_table_is_integrated_over_the_layer(thickness):
+    """Mean-form (apparent) data are integrated like k(T) since issue 12 item 6 (ASTM C680/C1045 practice,
+    from memory): q' = 2 pi int_{T2}^{T1} k dT / ln(r2/r1) with the hand integral of the table."""
     k = Conductivity.table(*MINERAL_WOOL, form="mean")
     r, t1, t2, ln = _one_layer(k, thickness, tf=473.15)
-    expected = 2 * math.pi * float(k.at(0.5 * (t1 + t2))) * (t1 - t2) / ln
+    expected = 2 * math.pi * _table_integral(MINERAL_WOOL, t2, t1) / ln
     assert float(r.q_per_length) == pytest.approx(expected, rel=1e-8)
     # faces outside the table's 311..533 K are held at the end value and flagged
     extrapolated = bool(r.warnings & Flag.CONDUCTIVITY_EXTRAPOLATED)
@@ -308,7 +319,7 @@ def test_mean_form_table_uses_apparent_k_at_mean(thickness):
     (MINERAL_WOOL, 0.05, 5.0, 0.1), (([250, 400, 600], [0.03, 0.05, 0.09]), 0.15, 0.0, 0.3)])
 def test_mean_form_table_converges_for_ordinary_hot_line(table, thickness, wind, eps):
     """NPS 4 at 300 degC with apparent-k insulation (mean form): ordinary cases.
-    Expected from an explicit hand balance: q'(Ts) = 2 pi k_app((Tf+Ts)/2)(Tf-Ts)/ln(r2/r1).
+    Expected from an explicit hand balance: q'(Ts) = 2 pi int_{Ts}^{Tf} k dT / ln(r2/r1).
     Regression: at commit 26a6c5f both raised "outer surface temperature could not be found"
     (mean-form Newton in Conductivity.temperature_after diverged at the k_max bracket end)."""
     k = Conductivity.table(*table, form="mean")
@@ -316,7 +327,7 @@ def test_mean_form_table_converges_for_ordinary_hot_line(table, thickness, wind,
     ln = math.log(ro / (D4 / 2))
 
     def balance(ts):
-        q_in = 2 * math.pi * float(k.at(0.5 * (TF + ts))) * (TF - ts) / ln
+        q_in = 2 * math.pi * _table_integral(table, ts, TF) / ln
         return q_in - float(cl.bare_surface(surface_temperature=ts, air_temperature=TA, diameter=2 * ro, length=1.0,
                                             wind_speed=wind, emissivity=eps).q_per_length)
 
@@ -327,7 +338,8 @@ def test_mean_form_table_converges_for_ordinary_hot_line(table, thickness, wind,
 
 def test_two_variable_layers_share_interface_and_carry_same_flow():
     k1 = Conductivity.polynomial([0.03, 1e-4], form="true", valid_range=(250, 700))
-    k2 = Conductivity.table([250, 400, 600], [0.03, 0.05, 0.09], form="mean")
+    table = ([250, 400, 600], [0.03, 0.05, 0.09])
+    k2 = Conductivity.table(*table, form="mean")
     t1, t2 = 0.04, 0.05
     r = cl.insulated_pipe(D4, TF, [Layer(t1, k1, name="inner"), Layer(t2, k2, name="outer")],
                           air_temperature=TA, jacket_emissivity=0.3, wind_speed=3.0)
@@ -335,7 +347,7 @@ def test_two_variable_layers_share_interface_and_carry_same_flow():
     T = r.interface_temperatures
     radii = [D4 / 2, D4 / 2 + t1, D4 / 2 + t1 + t2]
     q1 = 2 * math.pi * (0.03 + 1e-4 * (T[0] + T[1]) / 2) * (T[0] - T[1]) / math.log(radii[1] / radii[0])
-    q2 = 2 * math.pi * k2.at((T[1] + T[2]) / 2) * (T[1] - T[2]) / math.log(radii[2] / radii[1])
+    q2 = 2 * math.pi * _table_integral(table, float(T[2]), float(T[1])) / math.log(radii[2] / radii[1])
     assert TF > T[1] > T[2]  # the single shared interface lies between the faces
     assert float(q1) == pytest.approx(float(r.q_per_length), rel=1e-6)
     assert float(q2) == pytest.approx(float(r.q_per_length), rel=1e-6)

@@ -20,6 +20,8 @@ __all__ = [
     "nusselt_vertical_plate_churchill_chu_laminar",
     "thin_cylinder_criterion",
     "thin_cylinder_factor_popiel",
+    "slender_cylinder_curvature",
+    "popiel_out_of_range",
     "nusselt_vertical_cylinder_churchill_chu",
     "nusselt_vertical_cylinder_churchill_chu_laminar",
     "nusselt_horizontal_plate_up_mcadams",
@@ -226,13 +228,15 @@ def nusselt_vertical_plate_churchill_chu_laminar(Ra, Pr):
 
 
 def thin_cylinder_criterion(Ra, Pr, diameter_over_length):
-    r"""True where a vertical cylinder may be treated as a vertical plate.
+    r"""True where a vertical cylinder is thick enough for the plate law to hold within about 5 %.
 
     .. math:: \frac{D}{L} \ge \frac{35}{Gr_L^{1/4}}
 
     A laminar result for Pr about 0.7 (Sparrow & Gregg (1956), Trans. ASME
     78:1823), as quoted in Incropera et al., Fundamentals of Heat and Mass
-    Transfer, 6th ed., eq. (9.33) (from memory).
+    Transfer, 6th ed., eq. (9.33) (from memory). It does not switch laws here:
+    the Popiel factor is applied on both sides (it is 1.056 at the criterion for
+    air, the ~5 % the criterion stands for) and this only marks slender cylinders.
 
     Examples
     --------
@@ -244,15 +248,37 @@ def thin_cylinder_criterion(Ra, Pr, diameter_over_length):
         return _arr(diameter_over_length) >= 35.0 * Gr ** -0.25
 
 
+#: Range of the Popiel, Wojtkowiak & Bober (2007) fit, from its abstract: transverse curvature
+#: parameter xi = 32^0.5 Gr_L^(-1/4) L/D <= 5, laminar Gr_L <= 4e9, 0.01 < Pr < 100.
+POPIEL_MAX_CURVATURE = 5.0
+POPIEL_MAX_GRASHOF = 4e9
+POPIEL_PRANDTL = (0.01, 100.0)
+
+
+def slender_cylinder_curvature(Ra, Pr, diameter_over_length):
+    r"""Transverse curvature parameter :math:`\xi = 32^{0.5}\,Gr_L^{-1/4}\,L/D` of Popiel et al. (2007) [-].
+
+    0 for a plate; the Sparrow-Gregg criterion :math:`D/L = 35\,Gr_L^{-1/4}` is :math:`\xi = 0.1616`.
+
+    >>> round(float(slender_cylinder_curvature(1e8 * 0.7, 0.7, 35.0 * 1e8 ** -0.25)), 4)
+    0.1616
+    """
+    Gr = _arr(Ra) / _arr(Pr)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return 32.0 ** 0.5 * Gr ** -0.25 / _arr(diameter_over_length)
+
+
 def thin_cylinder_factor_popiel(Ra, Pr, diameter_over_length):
     r"""Popiel, Wojtkowiak & Bober (2007) ratio of slender-cylinder to plate Nusselt number.
 
     .. math::
-        \frac{Nu_L}{Nu_{L,plate}} = 1 + B\left[32^{0.5}\,Gr_L^{-1/4}\frac{L}{D}\right]^C,\quad
+        \frac{Nu_L}{Nu_{L,plate}} = 1 + B\,\xi^C,\quad \xi = 32^{0.5}\,Gr_L^{-1/4}\frac{L}{D},\quad
         B = 0.0571322 + 0.20305\,Pr^{-0.43},\quad
         C = 0.9165 - 0.0043\,Pr^{0.5} + 0.01333\ln Pr + 0.0004809/Pr
 
-    Laminar, :math:`0.01 \le Pr \le 100`, :math:`L/D \le 60` (from memory).
+    Continuous, and 1 for a plate (:math:`\xi \to 0`). Fitted to numerical data for the laminar
+    boundary layer, :math:`Gr_L \le 4\times10^9`, :math:`0.01 < Pr < 100`, :math:`\xi \le 5`
+    (the paper's abstract); its own experiments were in air, :math:`L/D < 60`.
 
     References
     ----------
@@ -265,43 +291,52 @@ def thin_cylinder_factor_popiel(Ra, Pr, diameter_over_length):
     >>> round(float(thin_cylinder_factor_popiel(1e8, 0.71, 0.01)), 3)
     2.307
     """
-    Ra, Pr, dol = _arr(Ra), _arr(Pr), _arr(diameter_over_length)
-    Gr = Ra / Pr
+    Pr = _arr(Pr)
     B = 0.0571322 + 0.20305 * Pr ** -0.43
     C = 0.9165 - 0.0043 * Pr ** 0.5 + 0.01333 * np.log(Pr) + 0.0004809 / Pr
-    return 1.0 + B * (32.0 ** 0.5 * Gr ** -0.25 / dol) ** C
+    return 1.0 + B * slender_cylinder_curvature(Ra, Pr, diameter_over_length) ** C
+
+
+def popiel_out_of_range(Ra, Pr, diameter_over_length):
+    """True where the Popiel factor is used outside its fit: curvature beyond 5, or a slender cylinder
+    (correction over ~5 %, :func:`thin_cylinder_criterion` fails) beyond the laminar Gr_L 4e9.
+
+    >>> popiel_out_of_range(1e9, 0.71, np.array([0.5, 0.01, 0.001])).tolist()
+    [False, False, True]
+    """
+    Gr = _arr(Ra) / _arr(Pr)
+    xi = slender_cylinder_curvature(Ra, Pr, diameter_over_length)
+    slender = ~thin_cylinder_criterion(Ra, Pr, diameter_over_length)
+    return (xi > POPIEL_MAX_CURVATURE) | (slender & (Gr > POPIEL_MAX_GRASHOF))
 
 
 def nusselt_vertical_cylinder_churchill_chu(Ra, Pr, diameter_over_length):
-    """Vertical cylinder: Churchill-Chu plate law (full range), with the Popiel
-    slender-cylinder factor applied where :func:`thin_cylinder_criterion` fails.
+    """Vertical cylinder: Churchill-Chu plate law (full range) times the Popiel slender-cylinder factor,
+    applied at every D/L (continuous; 1 for a plate).
 
     ``Ra`` is on the height L; ``diameter_over_length`` is D/L [-].
 
     Examples
     --------
     >>> round(float(nusselt_vertical_cylinder_churchill_chu(1e9, 0.71, 0.5)), 1)
-    122.9
+    125.6
     """
     plate = nusselt_vertical_plate_churchill_chu(Ra, Pr)
-    slender = ~thin_cylinder_criterion(Ra, Pr, diameter_over_length)
-    return np.where(slender, plate * thin_cylinder_factor_popiel(Ra, Pr, diameter_over_length), plate)
+    return plate * thin_cylinder_factor_popiel(Ra, Pr, diameter_over_length)
 
 
 def nusselt_vertical_cylinder_churchill_chu_laminar(Ra, Pr, diameter_over_length):
-    """Vertical cylinder: Churchill-Chu laminar plate law, Popiel factor where slender.
+    """Vertical cylinder: Churchill-Chu laminar plate law times the Popiel factor (every D/L).
 
     Examples
     --------
     >>> round(float(nusselt_vertical_cylinder_churchill_chu_laminar(1e8, 0.71, 0.5)), 1)
-    52.1
+    54.0
     """
     plate = nusselt_vertical_plate_churchill_chu_laminar(Ra, Pr)
-    slender = ~thin_cylinder_criterion(Ra, Pr, diameter_over_length)
-    return np.where(slender, plate * thin_cylinder_factor_popiel(Ra, Pr, diameter_over_length), plate)
+    return plate * thin_cylinder_factor_popiel(Ra, Pr, diameter_over_length)
 
 
-# --------------------------------------------------------------------------- horizontal plates
 def nusselt_horizontal_plate_up_mcadams(Ra, Pr=None):
     r"""Hot face up (or cold face down), McAdams (1954), L = A/P.
 
