@@ -121,7 +121,7 @@ def _memory(server_pid: int) -> tuple[float, float, int]:
     return server, total, len(kernels)
 
 
-async def _viewer(browser, url: str, report: LoadReport, stop_at: float, seed: int) -> None:
+async def _viewer(browser, url: str, report: LoadReport, duration: float, seed: int) -> None:
     rng = random.Random(seed)
     context = await browser.new_context(viewport={"width": 1280, "height": 800})
 
@@ -146,6 +146,7 @@ async def _viewer(browser, url: str, report: LoadReport, stop_at: float, seed: i
                                      " return v && v.textContent.trim().length > 0; }", timeout=300_000)
         report.load_times.append(time.monotonic() - start)
         report.loaded += 1
+        stop_at = time.monotonic() + duration  # each viewer works for the whole duration once its page is up
         await page.evaluate(_HOOK)
         handle = page.locator(_HANDLE).first
         presses, key = 0, "ArrowRight"
@@ -175,7 +176,6 @@ async def _run(url: str, server_pid: int | None, viewers: int, duration: float, 
 
     async with async_playwright() as pw:
         browser = await pw.chromium.launch(executable_path=chromium_path(), headless=True, args=CHROMIUM_ARGS)
-        stop_at = time.monotonic() + duration
         sampler_done = asyncio.Event()
 
         async def sample():
@@ -190,7 +190,7 @@ async def _run(url: str, server_pid: int | None, viewers: int, duration: float, 
         sampler = asyncio.create_task(sample())
         jobs = []
         for i in range(viewers):
-            jobs.append(asyncio.create_task(_viewer(browser, url, report, stop_at, i)))
+            jobs.append(asyncio.create_task(_viewer(browser, url, report, duration, i)))
             await asyncio.sleep(0.5)  # viewers arrive a little apart, as people do
         await asyncio.gather(*jobs)
         await browser.close()
@@ -230,7 +230,7 @@ def run_load(viewers: int = 10, duration: float = 120.0, pool_size: int = 2, set
 def main(argv=None) -> int:
     p = argparse.ArgumentParser(prog="python -m dashboard.loadtest", description=__doc__.split("\n\n")[0])
     p.add_argument("--viewers", type=int, default=10, help="viewers at once (default 10)")
-    p.add_argument("--duration", type=float, default=120.0, help="seconds of slider moves (default 120)")
+    p.add_argument("--duration", type=float, default=120.0, help="seconds of slider moves per viewer, counted from its page load (default 120)")
     p.add_argument("--pool-size", type=int, default=2, help="preheated kernels of the server it starts (default 2)")
     p.add_argument("--settle", type=float, default=120.0, help="seconds to wait for kernels to end after the "
                    "tabs close (default 120)")
