@@ -20,7 +20,7 @@ from . import natural as _n
 
 __all__ = [
     "Correlation", "REGISTRY", "GEOMETRIES", "catalog", "get", "methods", "evaluate", "nusselt",
-    "OutOfRangeWarning",
+    "OutOfRangeWarning", "DISPLAY_NAMES", "display_name",
 ]
 
 
@@ -56,12 +56,31 @@ class Correlation:
     boundaries: tuple[tuple[str, float, str], ...] = ()  # (group, value, "upper"|"lower" piece owns it)
     length_scale: str = "diameter"
     notes: str = ""
+    display_name: str = ""  # authors' names as published; filled from DISPLAY_NAMES when empty
+
+    def __post_init__(self):
+        if not self.display_name:
+            object.__setattr__(self, "display_name", display_name(self.key))
 
     def as_dict(self) -> dict:
         """Plain record for tables and JSON (no function object)."""
         out = {k: v for k, v in self.__dict__.items() if k != "function"}
         out["function"] = f"{self.function.__module__}.{self.function.__name__}"
         return out
+
+
+#: Name of each law as people cite it (authors as published, en dash between co-authors), by key.
+DISPLAY_NAMES = {
+    "churchill_chu": "Churchill–Chu", "churchill_chu_laminar": "Churchill–Chu, laminar", "morgan": "Morgan",
+    "kuehn_goldstein": "Kuehn–Goldstein", "mcadams": "McAdams", "vdi": "VDI Heat Atlas", "churchill": "Churchill",
+    "yuge": "Yuge", "churchill_bernstein": "Churchill–Bernstein", "hilpert": "Hilpert", "zukauskas": "Zukauskas",
+    "whitaker": "Whitaker", "laminar": "Pohlhausen, laminar", "mixed_layer": "mixed boundary layer",
+}
+
+
+def display_name(key: str) -> str:
+    """Name of a law for people, e.g. ``"churchill_bernstein"`` -> ``"Churchill–Bernstein"``."""
+    return DISPLAY_NAMES.get(key) or key.replace("_", " ").capitalize()
 
 
 _CC_HC = "Churchill & Chu (1975), Int. J. Heat Mass Transfer 18:1049"

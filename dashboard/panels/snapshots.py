@@ -3,6 +3,7 @@ from __future__ import annotations
 
 import base64
 import html
+import tempfile
 from pathlib import Path
 from typing import Callable
 
@@ -13,7 +14,7 @@ from ..storage import SnapshotEntry
 from .base import Panel
 from .controls import DESCRIPTION_STYLE
 
-__all__ = ["SnapshotPanel", "download_link"]
+__all__ = ["SnapshotPanel", "download_link", "entry_label", "is_temporary"]
 
 ACTIONS = ("save", "open", "verify", "compare", "report", "refresh")
 
@@ -23,6 +24,24 @@ def download_link(data: bytes, filename: str, text: str) -> str:
     encoded = base64.b64encode(data).decode("ascii")
     return (f'<a class="cl-download" download="{html.escape(filename)}" '
             f'href="data:text/html;base64,{encoded}">{html.escape(text)}</a>')
+
+
+def entry_label(entry: SnapshotEntry) -> str:
+    """One line of the snapshot list: the file name first (what people look for), then when and who."""
+    name = entry.path.name.removesuffix(".json").removesuffix(".snapshot")
+    if entry.problem:
+        return f"{name} · cannot be read"
+    when = entry.created_utc.replace("T", " ").replace("Z", "")[:16]
+    return f"{name} · {when} UTC · {entry.author or 'no author'}"
+
+
+def is_temporary(directory: Path | str) -> bool:
+    """True when ``directory`` lies in the system's temporary folder (emptied at reboot on many systems)."""
+    try:
+        Path(directory).resolve().relative_to(Path(tempfile.gettempdir()).resolve())
+    except ValueError:
+        return False
+    return True
 
 
 class SnapshotPanel(Panel):
@@ -124,13 +143,18 @@ class SnapshotPanel(Panel):
     @traitlets.observe("directory")
     def _directory_changed(self, change=None):
         if hasattr(self, "where"):
-            self.where.value = f'<div class="cl-hint">Saved in {html.escape(self.directory)}</div>'
+            where = f'<div class="cl-hint">Saved in {html.escape(self.directory)}</div>'
+            if is_temporary(self.directory):
+                where += ('<div class="cl-msg cl-msg-warn">This folder is a temporary one: its snapshots may be '
+                          'lost when the machine restarts. Start the dashboard with --snapshot-dir to keep '
+                          'them elsewhere.</div>')
+            self.where.value = where
 
     @traitlets.observe("entries")
     def _entries_changed(self, change=None):
         if not hasattr(self, "listing"):
             return
-        options = [(e.label, str(e.path)) for e in self.entries]
+        options = [(entry_label(e), str(e.path)) for e in self.entries]
         keep, keep_other = self.selected, self.other
         with self.hold_trait_notifications():
             self.listing.options = options
