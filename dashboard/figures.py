@@ -206,9 +206,13 @@ def _line(x, y, name, **style) -> dict:
 
 def _law_traces(plot, x, y, ok, name, colour, group, row=1, col=1, hover=None, width=1.6):
     inside, outside = split_by_validity(y, ok)
-    plot.add(_line(x, inside, name, legendgroup=group, hovertemplate=hover, line=dict(color=colour, width=width)),
+    # a part with no point is sent empty: plotly.js echoes an all-NaN array back in a form that plotly's
+    # FigureWidget cannot read (the page's update is then refused)
+    part = lambda v: (x, v) if np.isfinite(v).any() else ([], [])  # noqa: E731
+    (x_in, inside), (x_out, outside) = part(inside), part(outside)
+    plot.add(_line(x_in, inside, name, legendgroup=group, hovertemplate=hover, line=dict(color=colour, width=width)),
              row, col)
-    plot.add(_line(x, outside, f"{name} (outside range)", legendgroup=group, showlegend=False,
+    plot.add(_line(x_out, outside, f"{name} (outside range)", legendgroup=group, showlegend=False,
                    hovertemplate=hover, opacity=0.5, line=dict(color=colour, width=width, dash="dot")), row, col)
 
 

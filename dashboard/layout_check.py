@@ -32,8 +32,14 @@ CLIPPED_JS = r"""
       const text = (el.innerText || el.textContent || '').trim();
       if (!text) continue;
       const s = getComputedStyle(el);
+      if (s.display === 'inline') continue;  // an inline box is as wide as its text: nothing to cut
+      const box = el.getBoundingClientRect(), range = document.createRange();
+      range.selectNodeContents(el);
+      const ink = range.getBoundingClientRect();
       if (el.scrollWidth > el.clientWidth + 1)
         out.push({what, text, reason: `content ${el.scrollWidth}px in a ${el.clientWidth}px box`});
+      else if (s.overflow !== 'visible' && ink.width > 0 && (ink.left < box.left - 1 || ink.right > box.right + 1))
+        out.push({what, text, reason: `text ${Math.round(ink.width)}px wide in a ${Math.round(box.width)}px box`});
       else if (s.textOverflow === 'ellipsis' && s.overflow !== 'visible' &&
                textWidth(el, text) > el.clientWidth - parseFloat(s.paddingLeft) - parseFloat(s.paddingRight) + 1)
         out.push({what, text, reason: 'ellipsis shown'});
@@ -42,6 +48,7 @@ CLIPPED_JS = r"""
     }
   };
   check('tab', '.cl-tabs .lm-TabBar-tabLabel, .cl-tabs .p-TabBar-tabLabel', {lines: 1});
+  check('card', '.cl-app .cl-card');
   check('card title', '.cl-app .cl-card-title', {lines: 2});
   check('card value', '.cl-app .cl-card-body', {lines: 2});
   check('card line', '.cl-app .cl-card-sub', {lines: 2});

@@ -11,7 +11,7 @@ CSS = """
 .cl-app .cl-tabs > .lm-TabBar .lm-TabBar-tabLabel { overflow: visible; text-overflow: clip; }
 /* a control's label with its unit may take two lines rather than be cut off */
 .cl-app .widget-inline-hbox > .widget-label { white-space: normal; overflow: visible; text-overflow: clip;
-          line-height: 14px; display: flex; align-items: center; justify-content: flex-end; text-align: right; }
+          line-height: 14px; display: flex; flex-direction: column; justify-content: center; text-align: right; }
 .cl-header { align-items: center; border-bottom: 2px solid #1b5e9a; padding: 4px 8px; margin-bottom: 6px; }
 .cl-title { font-size: 17px; font-weight: 600; }
 .cl-title small { font-weight: 400; color: #5f6b76; font-size: 12px; display: block; }
@@ -25,7 +25,7 @@ CSS = """
 .cl-card-body { line-height: 1.2; }
 .cl-value { white-space: nowrap; }
 .cl-card-regime { flex: 1.5 1 150px; }
-.cl-card-regime .cl-value { font-size: 15px; }
+.cl-card-regime .cl-value { font-size: 15px; white-space: normal; }
 .cl-value { font-size: 18px; font-weight: 600; }
 .cl-unit { font-size: 12px; color: #3c4852; }
 .cl-card-sub { font-size: 11px; color: #5f6b76; line-height: 1.25; }

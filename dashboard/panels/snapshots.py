@@ -27,12 +27,15 @@ def download_link(data: bytes, filename: str, text: str) -> str:
 
 
 def entry_label(entry: SnapshotEntry) -> str:
-    """One line of the snapshot list: the file name first (what people look for), then when and who."""
+    """One line of the snapshot list: the file name first (what people look for), then who, and when
+    unless the name already says it (the automatic names end in the UTC date and time)."""
     name = entry.path.name.removesuffix(".json").removesuffix(".snapshot")
     if entry.problem:
         return f"{name} · cannot be read"
-    when = entry.created_utc.replace("T", " ").replace("Z", "")[:16]
-    return f"{name} · {when} UTC · {entry.author or 'no author'}"
+    label = f"{name} · {entry.author or 'no author'}"
+    if entry.created_utc[:10].replace("-", "") not in name:
+        label += f" · {entry.created_utc.replace('T', ' ').replace('Z', '')[:16]} UTC"
+    return label
 
 
 def is_temporary(directory: Path | str) -> bool:
@@ -87,14 +90,14 @@ class SnapshotPanel(Panel):
         for action, text, style in (("save", "Save snapshot", "primary"), ("open", "Open", ""),
                                     ("verify", "Verify", ""), ("compare", "Compare", ""),
                                     ("report", "HTML report", ""), ("refresh", "Refresh list", "")):
-            button = widgets.Button(description=text, button_style=style, layout=widgets.Layout(width="auto"))
+            button = widgets.Button(description=text, button_style=style, layout=widgets.Layout(width="auto", flex="0 0 auto"))
             button.add_class(f"cl-snapshot-{action}")
             button.on_click(lambda _, a=action: self._fire(a))
             self.buttons[action] = button
         self.listing = widgets.Select(options=[], rows=8, layout=widgets.Layout(width="100%"))
         self.listing.add_class("cl-snapshot-list")
         self.compare_box = widgets.Dropdown(description="Compare with", style=DESCRIPTION_STYLE,
-                                            layout=widgets.Layout(width="600px"))
+                                            layout=widgets.Layout(width="600px", flex="0 1 auto"))
         traitlets.link((self.listing, "value"), (self, "selected"))
         traitlets.link((self.compare_box, "value"), (self, "other"))
         self.where = widgets.HTML()
@@ -108,7 +111,7 @@ class SnapshotPanel(Panel):
             self.note_box, widgets.HBox([b["save"]]), self.where,
             widgets.HTML('<div class="cl-section">Saved snapshots</div>'), self.listing,
             widgets.HBox([b["open"], b["verify"], b["report"], b["refresh"]]),
-            widgets.HBox([self.compare_box, b["compare"]]),
+            widgets.HBox([self.compare_box, b["compare"]], layout=widgets.Layout(width="100%")),
             self.message, self.output, self.link]
         self._entries_changed()
 
