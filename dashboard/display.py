@@ -38,12 +38,12 @@ _GEOMETRY_NAMES = {
 NPS_OUTSIDE_INCH = {  # ASME B36.10M-2004, Table 1, outside diameter column in inches (from memory)
     0.125: 0.405, 0.25: 0.540, 0.375: 0.675, 0.5: 0.840, 0.75: 1.050, 1.0: 1.315, 1.25: 1.660, 1.5: 1.900,
     2.0: 2.375, 2.5: 2.875, 3.0: 3.500, 3.5: 4.000, 4.0: 4.500, 5.0: 5.563, 6.0: 6.625, 8.0: 8.625,
-    10.0: 10.750, 12.0: 12.750,
+    10.0: 10.750, 12.0: 12.750, **{float(n): float(n) for n in range(14, 50, 2)},
 }
 _NPS_INCHES = np.array(sorted(NPS_OUTSIDE_INCH.values()))
 #: A diameter within this of a tabulated outside diameter is that pipe [in]: the millimetre column is
-#: rounded to 0.1 mm (0.002 in).
-_NPS_MATCH_INCH = 0.0025
+#: rounded to 0.1 mm (0.002 in) up to NPS 12 and to whole millimetres (457 mm for NPS 18) above.
+_NPS_MATCH_INCH = np.where(_NPS_INCHES < 14, 0.0025, 0.5 / 25.4)
 
 #: Quantity kind of each study input (INPUTS names) for axes of sweeps, maps and tornado bars.
 _INPUT_KINDS = {
@@ -73,8 +73,9 @@ def input_label(name: str) -> str:
 def _nps_inches(inches):
     """Diameters [in] with those within :data:`_NPS_MATCH_INCH` of a listed NPS outside diameter set to it."""
     x = np.asarray(inches, dtype=float)
-    nearest = _NPS_INCHES[np.abs(x[..., None] - _NPS_INCHES).argmin(axis=-1)]
-    return np.where(np.abs(nearest - x) <= _NPS_MATCH_INCH, nearest, x)
+    index = np.abs(x[..., None] - _NPS_INCHES).argmin(axis=-1)
+    nearest = _NPS_INCHES[index]
+    return np.where(np.abs(nearest - x) <= _NPS_MATCH_INCH[index], nearest, x)
 
 
 _CELSIUS = re.compile(r"(-?\d+(?:\.\d+)?) ?(?:degC|°C)")

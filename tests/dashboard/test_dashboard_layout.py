@@ -10,7 +10,7 @@ import pytest
 
 from dashboard.browser import VoilaServer, browser_context, wait_for_dashboard
 from dashboard.layout_check import clipped
-from dashboard.screenshots import open_tab, wait_for_panel
+from dashboard.screenshots import open_tab, save_snapshot, wait_for_panel
 from dashboard.settings import PANELS
 
 from dashboard_helpers import require_browser as _require_browser
@@ -31,10 +31,7 @@ def page():
         # one saved snapshot, so that the list shows a real entry
         open_tab(page, "Snapshots")
         wait_for_panel(page, "snapshots")
-        page.locator(".cl-snapshot-author input").fill("Layout check")
-        page.locator(".cl-snapshot-save").click()
-        page.wait_for_function("() => document.querySelectorAll('.cl-snapshot-list option').length >= 1",
-                               timeout=120_000)
+        save_snapshot(page, "Layout check")
         yield page
 
 
