@@ -80,6 +80,8 @@ def _nps_inches(inches):
 
 _CELSIUS = re.compile(r"(-?\d+(?:\.\d+)?) ?(?:degC|°C)")
 _KELVIN_DIFFERENCE = re.compile(r"(?<![\w.])(\d+(?:\.\d+)?) K\b")
+_PI = re.compile(r"\bpi\b")
+_POWER = re.compile(r"\^(-?\d)")
 _SUPERSCRIPT = str.maketrans("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻")
 
 
@@ -230,12 +232,13 @@ class Display:
         return number if unit == "–" else f"{number} {unit}"
 
     def localize(self, text: str) -> str:
-        """``text`` (a message of convlib, written in °C and K) with its temperatures in this unit system.
+        """``text`` (a message of convlib, written in °C and K and plain-text formulas) with its
+        temperatures in this unit system and its formulas in proper notation (π D²/4, not pi D^2/4).
 
         >>> Display("US").localize("surfaces above about 60 degC can burn; margin 3 K")
         'surfaces above about 140 °F can burn; margin 5.4 °F'
-        >>> Display("SI").localize("at 60 degC")
-        'at 60 °C'
+        >>> Display("SI").localize("at 60 degC; heat per area times pi D^2/4")
+        'at 60 °C; heat per area times π D²/4'
         """
         def celsius(match):
             number = match.group(1)
@@ -251,7 +254,9 @@ class Display:
             value = self.scalar(float(match.group(1)), "temperature_difference")
             return f"{value:.3g} {self.label('temperature_difference')}"
 
-        return _KELVIN_DIFFERENCE.sub(difference, _CELSIUS.sub(celsius, text))
+        text = _KELVIN_DIFFERENCE.sub(difference, _CELSIUS.sub(celsius, text))
+        text = _PI.sub("π", text)
+        return _POWER.sub(lambda m: m.group(1).translate(_SUPERSCRIPT), text)
 
     def axis_title(self, name: str, text: str | None = None) -> str:
         """Axis title with unit in brackets, e.g. ``"Wind speed [m/s]"``."""

@@ -439,7 +439,7 @@ def uncertainty_figure(tornado, monte_carlo, display: Display, base_q: float) ->
             plot.vline(float(display.value(value, "q_per_length")), 1, 2,
                        line=dict(color="#111111", width=1.5, dash="solid" if label == "P50" else "dash"),
                        text=f"{label} {display.number(value, 'q_per_length')}", position=pos, height=height)
-        sub = (f"{mc.samples:,} samples (seed {mc.seed}), model form: {mc.model_form.replace('_', ' ')}; mean "
+        sub = (f"{mc.samples:,} samples (seed {mc.seed}), model form: {settings.MODEL_FORMS.get(mc.model_form, mc.model_form)}; mean "
                f"{display.text(mc.mean, 'q_per_length')}, std {display.number(mc.std, 'q_per_length')}")
     for col in (1, 2):
         plot.axis("x", 1, col, title=dict(text=display.axis_title("q_per_length", "Heat loss")))

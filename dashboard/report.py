@@ -13,6 +13,7 @@ from pathlib import Path
 from convlib import snapshot as cl_snapshot
 from convlib.regimes import flow_names, mode_names
 
+from . import settings
 from .display import Display, input_label, law_name, regime_text, shape_name
 from .figures import map_figure, spread_figure, styled, sweep_figure, uncertainty_figure
 
@@ -73,7 +74,7 @@ def _study_rows(spec, d: Display) -> list[str]:
                  for x in u.distributions]
         parts.append(_table(dists, ("Uncertain input", "Distribution", "Parameters (SI)")))
         parts.append(f"<p>Monte Carlo: {u.samples:,} samples, seed {u.seed}, model form "
-                     f"{html.escape(u.model_form.replace('_', ' '))}.</p>")
+                     f"{html.escape(settings.MODEL_FORMS.get(u.model_form, u.model_form))}.</p>")
     return parts
 
 

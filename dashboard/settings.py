@@ -13,7 +13,7 @@ from pathlib import Path
 __all__ = [
     "ControlSetting", "CONTROLS", "QUANTITIES", "PANELS", "UNIT_SYSTEMS", "DEFAULT_UNIT_SYSTEM",
     "EXTRA_SWEEPS", "DEFAULT_SCHEDULE", "RECOMPUTE_DELAY", "EXPENSIVE_DELAY", "MAP_POINTS", "RA_GRID", "RE_GRID",
-    "MONTE_CARLO_SAMPLES", "HEAT_LOSS_LIMIT", "SIZING_MAX_THICKNESS", "snapshot_dir", "convlib_home", "MAX_SNAPSHOT_BYTES", "PALETTE",
+    "MONTE_CARLO_SAMPLES", "MODEL_FORMS", "HEAT_LOSS_LIMIT", "SIZING_MAX_THICKNESS", "snapshot_dir", "convlib_home", "MAX_SNAPSHOT_BYTES", "PALETTE",
     "MODE_COLOURS", "PRETTY_UNITS", "FIGURE_HEIGHT", "FIGURE_WIDTH", "SIDEBAR_WIDTH", "MAP_LOWEST_WIND",
     "ServeDefaults", "SERVE", "BUNDLE_ENV", "OPERATION", "OPERATION_SERVICES", "OPERATION_SWEEPS", "VESSEL",
     "VESSEL_SHAPES", "VESSEL_FLOORS", "VESSEL_WIND", "VESSEL_SWEEPS",
@@ -250,6 +250,9 @@ MAP_LOWEST_WIND = 0.01
 #: Rayleigh and Reynolds grids of the Nu charts: (low, high, points).
 RA_GRID = (1e-4, 1e14, 181)
 RE_GRID = (1e-1, 1e7, 161)
+
+#: Model-form choices of the Monte Carlo run: value -> text on screen.
+MODEL_FORMS = {"none": "none", "stated_accuracy": "stated accuracy", "choose_correlation": "random choice of law"}
 
 #: Monte Carlo sample counts offered, and the default (the study's own count is added to the list).
 MONTE_CARLO_SAMPLES = (2_000, 20_000, 100_000, 500_000)

@@ -155,3 +155,9 @@ def test_regime_view_still_air_keeps_one_legend_entry(app, study):
     summary = compute.summarize_case(case)
     fig = figures.regime_figure(compute.regime_view(case, summary), None, Display())
     assert [t.name for t in fig.data if t.name == "this case" and t.showlegend is not False] == ["this case"]
+
+
+def test_tank_notes_write_formulas_as_engineers_do(app):
+    show(app, "vessels")
+    notes = app.vessels.notes.value
+    assert "π D²/4" in notes and "pi D^2" not in notes  # the roof's area, from convlib.vessels' note
