@@ -167,7 +167,7 @@ def decade_ticks(values) -> dict:
     one over a wide range): no bare minor-tick digits.
 
     >>> decade_ticks([1e-4, 1e14])
-    {'dtick': 3, 'exponentformat': 'power', 'showexponent': 'all', 'minor': {'ticks': 'outside', 'dtick': 'D1'}}
+    {'dtick': 3, 'exponentformat': 'power', 'showexponent': 'all'}
     >>> decade_ticks([10.0, 1e5])["dtick"]
     1
     """
@@ -175,7 +175,7 @@ def decade_ticks(values) -> dict:
     v = v[np.isfinite(v) & (v > 0)]
     span = float(np.log10(v.max() / v.min())) if v.size else 1.0
     step = 1 if span <= 8 else 2 if span <= 14 else 3
-    return dict(dtick=step, exponentformat="power", showexponent="all", minor=dict(ticks="outside", dtick="D1"))
+    return dict(dtick=step, exponentformat="power", showexponent="all")
 
 
 def one_two_five_ticks(values) -> dict:
@@ -384,8 +384,9 @@ def regime_figure(view, rmap, display: Display) -> go.Figure:
                   hovertemplate="this case<extra></extra>"), 1, 2)
     plot.axis("x", 1, 2, type="log", **one_two_five_ticks(x), title=dict(
         text=display.axis_title("wind_speed") + (" (this case: still air)" if still_air else "")))
-    plot.axis("y", 1, 2, type="log", **one_two_five_ticks(y), title=dict(text=display.axis_title(
-        "temperature_difference", "Air − surface temperature" if cold else "Surface − air temperature")))
+    plot.axis("y", 1, 2, type="log", **one_two_five_ticks(y), automargin=True, title=dict(
+        standoff=6, text=display.axis_title("temperature_difference",
+                                            "Air − surface temperature" if cold else "Surface − air temperature")))
     subtitle = (f"this case: {regime_text(view.regime, view.flow)} · laws drawn at the case's film Pr = "
                 f"{view.prandtl:.3f}; dotted: outside the law's range; grey band: laminar→turbulent transition")
     return plot.figure(f"Regimes<br><sup>{subtitle}</sup>", height=620,

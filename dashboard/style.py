@@ -36,11 +36,11 @@ CSS = """
 .cl-msg-error { background: #fdecea; border-left: 4px solid #8b0000; font-weight: 600; }
 .cl-table table { border-collapse: collapse; font-size: 12px; margin: 4px 0; }
 .cl-table th, .cl-table td { border-bottom: 1px solid #e3e8ec; padding: 2px 10px 2px 0; text-align: left; }
-.cl-pre { font-size: 11px; background: #f7f9fb; padding: 6px; max-height: 320px; overflow: auto;
-          font-family: ui-monospace, "DejaVu Sans Mono", "Liberation Mono", Menlo, Consolas, monospace;
-          white-space: pre; }
+.cl-app pre.cl-pre { font-size: 11px; background: #f7f9fb; padding: 6px; max-height: 320px; overflow: auto;
+          font-family: ui-monospace, "DejaVu Sans Mono", "Liberation Mono", Menlo, Consolas, monospace !important;
+          white-space: pre; line-height: 1.35; font-variant-numeric: tabular-nums; }
 .cl-table td { font-variant-numeric: tabular-nums; }
-.cl-hint { font-size: 11px; color: #5f6b76; }
+.cl-hint { font-size: 11px; color: #5f6b76; line-height: 1.4; }
 .cl-busy { opacity: 0.85; }
 .cl-download { font-weight: 600; }
 .cl-panel { padding-top: 4px; }

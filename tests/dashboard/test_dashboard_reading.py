@@ -136,7 +136,7 @@ def test_numbers_use_tabular_figures_and_the_verification_text_a_fixed_width_fon
     from dashboard.style import CSS
 
     assert "font-variant-numeric: tabular-nums" in CSS
-    pre = CSS.split(".cl-pre {")[1].split("}")[0]
+    pre = CSS.split("pre.cl-pre {")[1].split("}")[0]
     assert "monospace" in pre
 
 
