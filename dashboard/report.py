@@ -14,7 +14,7 @@ from convlib import snapshot as cl_snapshot
 from convlib.regimes import flow_names, mode_names
 
 from . import settings
-from .display import Display, input_label, law_name, regime_text, shape_name
+from .display import Display, input_label, law_name, regime_text, scientific, shape_name
 from .figures import map_figure, spread_figure, styled, sweep_figure, uncertainty_figure
 
 __all__ = ["render_report", "write_report"]
@@ -87,13 +87,13 @@ def _results(res, d: Display) -> str:
             ("Dew point of the air", d.text(res.dew_point, "dew_point")),
             ("h convection", d.text(b.h_convection[0], "h_convection")),
             ("h radiation", d.text(b.h_radiation[0], "h_radiation")),
-            ("Nusselt number", f"{b.nusselt[0]:.4g}"), ("Rayleigh number", f"{b.rayleigh[0]:.4g}"),
-            ("Reynolds number", f"{b.reynolds[0]:.4g}"),
-            ("Richardson number", "still air" if b.richardson[0] is None else f"{b.richardson[0]:.4g}"),
+            ("Nusselt number Nu", scientific(b.nusselt[0], 4)), ("Rayleigh number Ra", scientific(b.rayleigh[0], 4)),
+            ("Reynolds number Re", scientific(b.reynolds[0], 4)),
+            ("Richardson number Ri", "still air" if b.richardson[0] is None else scientific(b.richardson[0], 4)),
             ("Regime", regime_text(mode_names(b.regime[0]), flow_names(b.flow_regime[0])))]
     out = [_table(rows, ("Quantity", "Value"))]
-    out += [f'<div class="caution">{html.escape(c)}</div>' for c in res.cautions]
-    out += [f'<div class="warning">{html.escape(w)}</div>' for w in res.warnings]
+    out += [f'<div class="caution">{html.escape(d.localize(c))}</div>' for c in res.cautions]
+    out += [f'<div class="warning">{html.escape(d.localize(w))}</div>' for w in res.warnings]
     methods = [(m.mode, law_name(m.method), d.text(m.values.q_per_length[0], "q_per_length"),
                 d.text(m.values.h_convection[0], "h_convection"), "yes" if m.in_range[0] else "no (extrapolated)")
                for m in res.base_methods]
