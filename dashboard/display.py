@@ -79,7 +79,10 @@ def _nps_inches(inches):
 
 
 _CELSIUS = re.compile(r"(-?\d+(?:\.\d+)?) ?(?:degC|°C)")
-_KELVIN_DIFFERENCE = re.compile(r"(?<![\w.])(\d+(?:\.\d+)?) K\b")
+#: A number of kelvin in a message at or above this is a temperature, below it a difference (margins of a
+#: few K; no air or surface convlib handles is below 150 K).
+_ABSOLUTE_KELVIN = 150.0
+_KELVIN = re.compile(r"(?<![\w.])(\d+(?:\.\d+)?) K\b")
 _PI = re.compile(r"\bpi\b")
 _POWER = re.compile(r"\^(-?\d)")
 _SUPERSCRIPT = str.maketrans("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻")
@@ -235,8 +238,8 @@ class Display:
         """``text`` (a message of convlib, written in °C and K and plain-text formulas) with its
         temperatures in this unit system and its formulas in proper notation (π D²/4, not pi D^2/4).
 
-        >>> Display("US").localize("surfaces above about 60 degC can burn; margin 3 K")
-        'surfaces above about 140 °F can burn; margin 5.4 °F'
+        >>> Display("US").localize("surfaces above about 60 degC can burn; margin 3 K; boils at 373.15 K")
+        'surfaces above about 140 °F can burn; margin 5.4 °F; boils at 212.0 °F'
         >>> Display("SI").localize("at 60 degC; heat per area times pi D^2/4")
         'at 60 °C; heat per area times π D²/4'
         """
@@ -248,13 +251,16 @@ class Display:
             value = self.scalar(float(number) + 273.15, "air_temperature")
             return f"{value:.{decimals}f} {self.label('air_temperature')}"
 
-        def difference(match):
+        def kelvin(match):
             if self.system == "SI":
                 return match.group(0)
-            value = self.scalar(float(match.group(1)), "temperature_difference")
+            number = float(match.group(1))
+            if number >= _ABSOLUTE_KELVIN:  # a temperature (boiling point 453.03 K), not a difference
+                return f"{self.scalar(number, 'air_temperature'):.1f} {self.label('air_temperature')}"
+            value = self.scalar(number, "temperature_difference")
             return f"{value:.3g} {self.label('temperature_difference')}"
 
-        text = _KELVIN_DIFFERENCE.sub(difference, _CELSIUS.sub(celsius, text))
+        text = _KELVIN.sub(kelvin, _CELSIUS.sub(celsius, text))
         text = _PI.sub("π", text)
         return _POWER.sub(lambda m: m.group(1).translate(_SUPERSCRIPT), text)
 
