@@ -55,7 +55,7 @@ DISPLAY_UNITS = {
            "pressure": "kPa", "heat_per_length": "W/m", "heat_flux": "W/m**2", "power": "W",
            "coefficient": "W/m**2/K", "conductivity": "W/m/K", "energy": "kWh", "area": "m**2", "time": "hour",
            "mass_flow": "kg/hour", "dimensionless": ""},
-    "US": {"temperature": "degF", "temperature_difference": "delta_degF", "length": "inch", "speed": "ft/s",
+    "US": {"temperature": "degF", "temperature_difference": "delta_degF", "length": "inch", "speed": "mph",
            "pressure": "psi", "heat_per_length": "Btu/hour/foot", "heat_flux": "Btu/hour/foot**2",
            "power": "Btu/hour", "coefficient": "Btu/hour/foot**2/delta_degF",
            "conductivity": "Btu*inch/hour/foot**2/delta_degF", "energy": "MMBtu", "area": "foot**2", "time": "hour",

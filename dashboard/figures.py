@@ -13,13 +13,14 @@ from __future__ import annotations
 
 import copy
 import functools
+import math
 
 import numpy as np
 import plotly.graph_objects as go
 from plotly.subplots import make_subplots
 
 from . import settings
-from .display import Display, input_label
+from .display import Display, geometry_name, input_label, law_name, regime_text
 
 __all__ = ["sweep_figure", "spread_figure", "regime_figure", "uncertainty_figure", "insulation_figure",
            "map_figure", "operation_profile_figure", "operation_sweep_figure", "split_by_validity", "empty_figure",
@@ -161,6 +162,39 @@ def split_by_validity(y, in_range) -> tuple[np.ndarray, np.ndarray]:
     return np.where(ok, y, np.nan), np.where(grown, y, np.nan)
 
 
+def decade_ticks(values) -> dict:
+    """Log-axis properties that label powers of ten only, as 10ⁿ (every decade, or every second or third
+    one over a wide range): no bare minor-tick digits.
+
+    >>> decade_ticks([1e-4, 1e14])
+    {'dtick': 3, 'exponentformat': 'power', 'showexponent': 'all'}
+    >>> decade_ticks([10.0, 1e5])["dtick"]
+    1
+    """
+    v = np.asarray(values, dtype=float)
+    v = v[np.isfinite(v) & (v > 0)]
+    span = float(np.log10(v.max() / v.min())) if v.size else 1.0
+    step = 1 if span <= 8 else 2 if span <= 14 else 3
+    return dict(dtick=step, exponentformat="power", showexponent="all")
+
+
+def one_two_five_ticks(values) -> dict:
+    """Log-axis properties with labels at 1, 2 and 5 times each power of ten, written as plain numbers
+    (0.05, 0.1, 0.2 ... 20), for axes of a few decades read in engineering units.
+
+    >>> one_two_five_ticks([0.01, 0.5])["ticktext"]
+    ['0.01', '0.02', '0.05', '0.1', '0.2', '0.5']
+    """
+    v = np.asarray(values, dtype=float)
+    v = v[np.isfinite(v) & (v > 0)]
+    if v.size == 0:
+        return dict(exponentformat="power")
+    low, high = math.floor(math.log10(v.min())), math.ceil(math.log10(v.max()))
+    ticks = [m * 10.0 ** e for e in range(low, high + 1) for m in (1, 2, 5)]
+    ticks = [t for t in ticks if v.min() / 1.5 <= t <= v.max() * 1.5]
+    return dict(tickmode="array", tickvals=ticks, ticktext=[f"{t:.10g}" for t in ticks])
+
+
 def _hover(display: Display, x_name: str, y_name: str) -> str:
     return (f"{input_label(x_name)}: %{{x:.4g}} {display.label(x_name)}<br>"
             f"%{{y:.4g}} {display.label(y_name)}<extra>%{{fullData.name}}</extra>")
@@ -172,14 +206,18 @@ def _line(x, y, name, **style) -> dict:
 
 def _law_traces(plot, x, y, ok, name, colour, group, row=1, col=1, hover=None, width=1.6):
     inside, outside = split_by_validity(y, ok)
-    plot.add(_line(x, inside, name, legendgroup=group, hovertemplate=hover, line=dict(color=colour, width=width)),
+    # a part with no point is sent empty: plotly.js echoes an all-NaN array back in a form that plotly's
+    # FigureWidget cannot read (the page's update is then refused)
+    part = lambda v: (x, v) if np.isfinite(v).any() else ([], [])  # noqa: E731
+    (x_in, inside), (x_out, outside) = part(inside), part(outside)
+    plot.add(_line(x_in, inside, name, legendgroup=group, hovertemplate=hover, line=dict(color=colour, width=width)),
              row, col)
-    plot.add(_line(x, outside, f"{name} (outside range)", legendgroup=group, showlegend=False,
+    plot.add(_line(x_out, outside, f"{name} (outside range)", legendgroup=group, showlegend=False,
                    hovertemplate=hover, opacity=0.5, line=dict(color=colour, width=width, dash="dot")), row, col)
 
 
 def _method_name(mode: str, method: str, chosen: bool = False) -> str:
-    return f"{mode}: {method}" + (" (selected)" if chosen else "")
+    return f"{mode}: {law_name(method)}" + (" (selected)" if chosen else "")
 
 
 # ----------------------------------------------------------------------------- sweep
@@ -235,7 +273,7 @@ def _is_log(values) -> bool:
     return bool(np.allclose(np.diff(np.log(v)), np.log(v[1] / v[0]), rtol=1e-6))
 
 
-def spread_figure(result, display: Display, x_axis: str = "rayleigh",
+def spread_figure(result, display: Display, x_axis: str = "input",
                   chosen: tuple[str, str] | None = None) -> go.Figure:
     """Spread between correlations along the sweep, and h_convection of every law at the case.
 
@@ -247,7 +285,7 @@ def spread_figure(result, display: Display, x_axis: str = "rayleigh",
         Plot the spread against the Rayleigh number of each sweep point or against the swept input.
     """
     sweep = result.sweeps[0]
-    plot = _Plot("spread", ("Spread along the sweep", "h_conv of each law at this case"))
+    plot = _Plot("spread", ("Spread along the sweep", "h convection of each law at this case"))
     if x_axis == "rayleigh":
         x, x_title, log_x = np.asarray(sweep.default.rayleigh), "Rayleigh number Ra [–]", True
         x_hover = "Ra %{x:.3g}"
@@ -268,17 +306,18 @@ def spread_figure(result, display: Display, x_axis: str = "rayleigh",
                        opacity=0.55, line=dict(color=colour, width=1.4, dash="dot"), hovertemplate=hover))
     methods = result.base_methods
     is_chosen = [bool(chosen) and m.method == chosen[0 if m.mode == "natural" else 1] for m in methods]
-    plot.add(dict(type="bar", x=[[m.mode for m in methods], [m.method for m in methods]],
-                  y=display.value([m.values.h_convection[0] for m in methods], "h_convection"), name="h_conv by law",
+    plot.add(dict(type="bar", x=[[m.mode for m in methods], [law_name(m.method) for m in methods]],
+                  y=display.value([m.values.h_convection[0] for m in methods], "h_convection"), name="h convection by law",
                   marker=dict(color=[colours[m.mode] for m in methods],
                               line=dict(color=["#111111" if c else "rgba(0,0,0,0)" for c in is_chosen], width=2),
                               opacity=[1.0 if m.in_range[0] else 0.4 for m in methods]),
                   text=[display.number(m.values.h_convection[0], "h_convection") for m in methods],
                   textposition="outside", showlegend=False,
                   hovertemplate="%{x}<br>%{y:.3g} " + display.label("h_convection") + "<extra></extra>"), 1, 2)
-    plot.axis("x", 1, 1, title=dict(text=x_title), type="log" if log_x else "linear", exponentformat="power")
+    plot.axis("x", 1, 1, title=dict(text=x_title), type="log" if log_x else "linear",
+              **(decade_ticks(x) if log_x else {}))
     plot.axis("y", 1, 1, title=dict(text="Spread [%]"), rangemode="tozero")
-    plot.axis("y", 1, 2, title=dict(text=display.axis_title("h_convection", "h_conv")))
+    plot.axis("y", 1, 2, title=dict(text=display.axis_title("h_convection", "h convection")))
     return plot.figure("Correlation disagreement<br><sup>spread = (max − min) / median over the laws that apply at "
                        "each point (Nu, and the heat loss it gives); faded bars: law outside its validity range; "
                        "outlined: selected law</sup>")
@@ -294,9 +333,9 @@ def regime_figure(view, rmap, display: Display) -> go.Figure:
     rmap : dashboard.compute.RegimeMap or None
         The map (``None`` while it is being computed).
     """
-    plot = _Plot("regimes", (f"Natural convection laws ({view.natural_geometry.replace('_', ' ')})",
+    plot = _Plot("regimes", (f"Natural convection: Nu against Ra ({geometry_name(view.natural_geometry)})",
                              "Convection mode of the outer surface",
-                             f"Forced convection laws ({view.forced_geometry.replace('_', ' ')})"))
+                             f"Forced convection: Nu against Re ({geometry_name(view.forced_geometry)})"))
     for row, curves, limits, group in ((1, view.natural, view.natural_limits, "Ra"),
                                        (2, view.forced, view.forced_limits, "Re")):
         hover = f"{group} %{{x:.3g}}<br>Nu %{{y:.3g}}<extra>%{{fullData.name}}</extra>"
@@ -306,16 +345,20 @@ def regime_figure(view, rmap, display: Display) -> go.Figure:
                         f"{c.mode}:{c.method}", row=row, col=1, hover=hover, width=2.6 if c.chosen else 1.4)
         if np.isfinite(limits[0]):
             plot.vrect(limits[0], limits[1], row, 1)
-        plot.axis("x", row, 1, type="log", exponentformat="power",
+        x_all = np.concatenate([np.asarray(c.x, dtype=float) for c in curves]) if curves else np.array([1.0])
+        y_all = np.concatenate([np.asarray(c.nusselt, dtype=float) for c in curves]) if curves else np.array([1.0])
+        plot.axis("x", row, 1, type="log", **decade_ticks(x_all),
                   title=dict(text=f"{'Rayleigh' if row == 1 else 'Reynolds'} number {group} [–]"))
-        plot.axis("y", row, 1, type="log", exponentformat="power", title=dict(text="Nusselt number Nu [–]"))
+        plot.axis("y", row, 1, type="log", **decade_ticks(y_all), title=dict(text="Nusselt number Nu [–]"))
+    # one "this case" entry in the legend: the star of each chart belongs to the same group
     plot.add(dict(type="scatter", mode="markers", x=[view.rayleigh], y=[view.natural_nusselt],
-                  name="this case (natural law)", marker=_STAR,
-                  hovertemplate="this case<br>Ra %{x:.3g}<br>Nu %{y:.3g}<extra></extra>"), 1, 1)
+                  name="this case", legendgroup="this case", marker=_STAR,
+                  hovertemplate="this case, natural law<br>Ra %{x:.3g}<br>Nu %{y:.3g}<extra></extra>"), 1, 1)
     still = view.reynolds is None
     plot.add(dict(type="scatter", mode="markers", x=[] if still else [view.reynolds],
-                  y=[] if still else [view.forced_nusselt], name="this case (forced law)", showlegend=not still,
-                  marker=_STAR, hovertemplate="this case<br>Re %{x:.3g}<br>Nu %{y:.3g}<extra></extra>"), 2, 1)
+                  y=[] if still else [view.forced_nusselt], name="this case", legendgroup="this case",
+                  showlegend=False, marker=_STAR,
+                  hovertemplate="this case, forced law<br>Re %{x:.3g}<br>Nu %{y:.3g}<extra></extra>"), 2, 1)
     # ---- mode map (log axes: still air and small differences get room)
     c = settings.MODE_COLOURS
     scale = [[0.0, c[0]], [1 / 3, c[0]], [1 / 3, c[1]], [2 / 3, c[1]], [2 / 3, c[2]], [1.0, c[2]]]
@@ -337,13 +380,14 @@ def regime_figure(view, rmap, display: Display) -> go.Figure:
     px = view.wind_speed if not still_air or rmap is None else rmap.wind_speed[0]  # still air: at the axis start
     plot.add(dict(type="scatter", mode="markers", x=[float(display.value(px, "wind_speed"))],
                   y=[float(display.value(abs(view.temperature_difference), "temperature_difference"))],
-                  name="this case", showlegend=False, marker=dict(_STAR, size=16),
+                  name="this case", legendgroup="this case", showlegend=False, marker=dict(_STAR, size=16),
                   hovertemplate="this case<extra></extra>"), 1, 2)
-    plot.axis("x", 1, 2, type="log", dtick="D2", title=dict(
+    plot.axis("x", 1, 2, type="log", **one_two_five_ticks(x), title=dict(
         text=display.axis_title("wind_speed") + (" (this case: still air)" if still_air else "")))
-    plot.axis("y", 1, 2, type="log", dtick="D2", title=dict(text=display.axis_title(
-        "temperature_difference", "Air − surface temperature" if cold else "Surface − air temperature")))
-    subtitle = (f"this case: {view.regime} convection, {view.flow} · laws drawn at the case's film Pr = "
+    plot.axis("y", 1, 2, type="log", **one_two_five_ticks(y), automargin=True, title=dict(
+        standoff=6, text=display.axis_title("temperature_difference",
+                                            "Air − surface temperature" if cold else "Surface − air temperature")))
+    subtitle = (f"this case: {regime_text(view.regime, view.flow)} · laws drawn at the case's film Pr = "
                 f"{view.prandtl:.3f}; dotted: outside the law's range; grey band: laminar→turbulent transition")
     return plot.figure(f"Regimes<br><sup>{subtitle}</sup>", height=620,
                        legend=dict(orientation="h", y=-0.12, font=dict(size=10)),
@@ -396,7 +440,7 @@ def uncertainty_figure(tornado, monte_carlo, display: Display, base_q: float) ->
             plot.vline(float(display.value(value, "q_per_length")), 1, 2,
                        line=dict(color="#111111", width=1.5, dash="solid" if label == "P50" else "dash"),
                        text=f"{label} {display.number(value, 'q_per_length')}", position=pos, height=height)
-        sub = (f"{mc.samples:,} samples (seed {mc.seed}), model form: {mc.model_form.replace('_', ' ')}; mean "
+        sub = (f"{mc.samples:,} samples (seed {mc.seed}), model form: {settings.MODEL_FORMS.get(mc.model_form, mc.model_form)}; mean "
                f"{display.text(mc.mean, 'q_per_length')}, std {display.number(mc.std, 'q_per_length')}")
     for col in (1, 2):
         plot.axis("x", 1, col, title=dict(text=display.axis_title("q_per_length", "Heat loss")))

@@ -14,7 +14,8 @@ from convlib import snapshot as cl_snapshot
 from convlib.files import write_atomic
 from convlib.regimes import flow_names, mode_names
 
-from .display import Display, input_label
+from . import settings
+from .display import Display, input_label, law_name, regime_text, scientific, shape_name
 from .figures import map_figure, spread_figure, styled, sweep_figure, uncertainty_figure
 
 __all__ = ["render_report", "write_report"]
@@ -45,7 +46,7 @@ def _table(rows, header=None) -> str:
 
 def _case_rows(case, d: Display) -> list[tuple[str, str]]:
     rows = [("Kind", "bare surface at a known temperature" if case.kind == "bare" else
-             "insulated line with a known fluid temperature"), ("Shape", case.shape.replace("_", " "))]
+             "insulated line with a known fluid temperature"), ("Shape", shape_name(case.shape))]
     for name in _CASE_ROWS:
         value = getattr(case, name)
         if value is None:
@@ -74,7 +75,7 @@ def _study_rows(spec, d: Display) -> list[str]:
                  for x in u.distributions]
         parts.append(_table(dists, ("Uncertain input", "Distribution", "Parameters (SI)")))
         parts.append(f"<p>Monte Carlo: {u.samples:,} samples, seed {u.seed}, model form "
-                     f"{html.escape(u.model_form.replace('_', ' '))}.</p>")
+                     f"{html.escape(settings.MODEL_FORMS.get(u.model_form, u.model_form))}.</p>")
     return parts
 
 
@@ -91,14 +92,14 @@ def _results(res, d: Display) -> str:
             ("Dew point of the air", d.text(res.dew_point, "dew_point")),
             ("h convection", d.text(b.h_convection[0], "h_convection")),
             ("h radiation", d.text(b.h_radiation[0], "h_radiation")),
-            ("Nusselt number", f"{b.nusselt[0]:.4g}"), ("Rayleigh number", f"{b.rayleigh[0]:.4g}"),
-            ("Reynolds number", f"{b.reynolds[0]:.4g}"),
-            ("Richardson number", "still air" if b.richardson[0] is None else f"{b.richardson[0]:.4g}"),
-            ("Regime", f"{mode_names(b.regime[0])}, {flow_names(b.flow_regime[0])}")]
+            ("Nusselt number Nu", scientific(b.nusselt[0], 4)), ("Rayleigh number Ra", scientific(b.rayleigh[0], 4)),
+            ("Reynolds number Re", scientific(b.reynolds[0], 4)),
+            ("Richardson number Ri", "still air" if b.richardson[0] is None else scientific(b.richardson[0], 4)),
+            ("Regime", regime_text(mode_names(b.regime[0]), flow_names(b.flow_regime[0])))]
     out = [_table(rows, ("Quantity", "Value"))]
-    out += [f'<div class="caution">{html.escape(c)}</div>' for c in res.cautions]
-    out += [f'<div class="warning">{html.escape(w)}</div>' for w in res.warnings]
-    methods = [(m.mode, m.method, d.text(m.values.q_per_length[0], "q_per_length"),
+    out += [f'<div class="caution">{html.escape(d.localize(c))}</div>' for c in res.cautions]
+    out += [f'<div class="warning">{html.escape(d.localize(w))}</div>' for w in res.warnings]
+    methods = [(m.mode, law_name(m.method), d.text(m.values.q_per_length[0], "q_per_length"),
                 d.text(m.values.h_convection[0], "h_convection"), "yes" if m.in_range[0] else "no (extrapolated)")
                for m in res.base_methods]
     out.append("<h3>Every correlation at this case</h3>")

@@ -13,7 +13,7 @@ from pathlib import Path
 from . import settings
 from .browser import VoilaServer, browser_context, chromium_path, wait_for_dashboard
 
-__all__ = ["main", "open_tab", "wait_for_panel"]
+__all__ = ["main", "open_tab", "wait_for_panel", "save_snapshot"]
 
 
 def open_tab(page, title: str) -> None:
@@ -72,13 +72,18 @@ def main(argv=None) -> int:
     return 0
 
 
-def _save_and_verify(page) -> None:
-    """Save one snapshot of the demo study and verify it, so that the panel shows a list and a report."""
-    page.locator(".cl-snapshot-author input").fill("Screenshot")
-    page.locator(".cl-snapshot-note textarea").fill("demo study as opened")
+def save_snapshot(page, author: str, note: str = "", timeout: float = 120_000) -> None:
+    """On the open snapshots tab: save the study as shown and wait until the list shows a file."""
+    page.locator(".cl-snapshot-author input").fill(author)
+    page.locator(".cl-snapshot-note textarea").fill(note)
     page.locator(".cl-snapshot-save").click()
     page.wait_for_function("() => document.querySelectorAll('.cl-snapshot-list option').length >= 1",
-                           timeout=60_000)
+                           timeout=timeout)
+
+
+def _save_and_verify(page) -> None:
+    """Save one snapshot of the demo study and verify it, so that the panel shows a list and a report."""
+    save_snapshot(page, "Screenshot", "demo study as opened")
     page.locator(".cl-snapshot-verify").click()
     page.wait_for_selector(".cl-snapshot-output pre", timeout=60_000)
 

@@ -76,7 +76,7 @@ def build_command(*, host: str, port: int, pool_size: int, local: bool, max_kern
 
 def _write_token(token: str) -> Path:
     """Write a generated token to ``~/.convlib/dashboard-token`` (mode 0600) and return the path."""
-    folder = Path(os.environ.get("CONVLIB_HOME") or Path.home() / ".convlib")
+    folder = settings.convlib_home()
     folder.mkdir(parents=True, exist_ok=True)
     path = folder / "dashboard-token"
     fd = os.open(path, os.O_WRONLY | os.O_CREAT | os.O_TRUNC, 0o600)
@@ -119,7 +119,7 @@ def _parser() -> argparse.ArgumentParser:
                         "the proxy's X-Real-IP / X-Forwarded-For header, so per-viewer caps still apply (needs "
                         "--host 127.0.0.1 so that no one reaches the server past the proxy)")
     p.add_argument("--snapshot-dir", default=None, help="where snapshots are saved (default "
-                   "$CONVLIB_SNAPSHOT_DIR or ~/convlib-snapshots)")
+                   "$CONVLIB_SNAPSHOT_DIR, else $CONVLIB_HOME/snapshots, else ~/.convlib/snapshots)")
     p.add_argument("--local", action="store_true", help="one engineer on this machine: loopback, no token, no pool")
     p.add_argument("--dry-run", action="store_true", help="print the command and exit")
     return p

@@ -13,7 +13,7 @@ from pathlib import Path
 __all__ = [
     "ControlSetting", "CONTROLS", "QUANTITIES", "PANELS", "UNIT_SYSTEMS", "DEFAULT_UNIT_SYSTEM",
     "EXTRA_SWEEPS", "DEFAULT_SCHEDULE", "RECOMPUTE_DELAY", "EXPENSIVE_DELAY", "MAP_POINTS", "RA_GRID", "RE_GRID",
-    "MONTE_CARLO_SAMPLES", "HEAT_LOSS_LIMIT", "SIZING_MAX_THICKNESS", "snapshot_dir", "MAX_SNAPSHOT_BYTES", "PALETTE",
+    "MONTE_CARLO_SAMPLES", "MODEL_FORMS", "HEAT_LOSS_LIMIT", "SIZING_MAX_THICKNESS", "snapshot_dir", "convlib_home", "MAX_SNAPSHOT_BYTES", "PALETTE",
     "MODE_COLOURS", "PRETTY_UNITS", "FIGURE_HEIGHT", "FIGURE_WIDTH", "SIDEBAR_WIDTH", "MAP_LOWEST_WIND",
     "ServeDefaults", "SERVE", "BUNDLE_ENV", "OPERATION", "OPERATION_SERVICES", "OPERATION_SWEEPS", "VESSEL",
     "VESSEL_SHAPES", "VESSEL_FLOORS", "VESSEL_WIND", "VESSEL_SWEEPS",
@@ -58,7 +58,7 @@ _PERCENT = {"SI": "percent", "US": "percent"}
 
 #: Numeric controls of the line panel and the insulation panel, keyed by CaseSpec field (SI limits).
 CONTROLS: dict[str, ControlSetting] = {
-    "diameter": ControlSetting("Outer Ø", "length", 0.006, 1.5, {"SI": 1.0, "US": 0.05}),
+    "diameter": ControlSetting("Outer Ø", "length", 0.006, 1.5, {"SI": 0.1, "US": 0.001}),
     "length": ControlSetting("Run length", "length", 0.1, 5000.0, {"SI": 1.0, "US": 5.0}, _METRES, "text"),
     "height": ControlSetting("Height", "length", 0.05, 10.0, {"SI": 0.05, "US": 0.1}, _METRES),
     "width": ControlSetting("Width", "length", 0.05, 10.0, {"SI": 0.05, "US": 0.1}, _METRES),
@@ -71,7 +71,7 @@ CONTROLS: dict[str, ControlSetting] = {
     "air_temperature": ControlSetting("Air temperature", "temperature", 233.15, 323.15, {"SI": 0.5, "US": 0.5}),
     "surroundings_temperature": ControlSetting("Surroundings", "temperature", 233.15, 423.15,
                                                {"SI": 0.5, "US": 0.5}),
-    "wind_speed": ControlSetting("Wind speed", "speed", 0.0, 20.0, {"SI": 0.1, "US": 0.1}),
+    "wind_speed": ControlSetting("Wind speed", "speed", 0.0, 20.0, {"SI": 0.1, "US": 0.2}),
     "emissivity": ControlSetting("Emissivity", "dimensionless", 0.02, 1.0, {"SI": 0.01, "US": 0.01}),
     "sky_view_fraction": ControlSetting("Sky view", "dimensionless", 0.0, 1.0, {"SI": 0.05, "US": 0.05}),
     "relative_humidity": ControlSetting("Humidity", "dimensionless", 0.05, 1.0, {"SI": 1.0, "US": 1.0}, _PERCENT),
@@ -166,9 +166,9 @@ QUANTITIES: dict[str, tuple[str, dict | None, int]] = {
 #: Pretty text of the pint unit strings used by convlib's display units.
 PRETTY_UNITS = {
     "degC": "°C", "degF": "°F", "delta_degC": "K", "delta_degF": "°F", "K": "K", "inch": "in", "foot": "ft",
-    "W/m**2": "W/m²", "Btu/hour/foot": "Btu/(h·ft)", "Btu/hour/foot**2": "Btu/(h·ft²)", "Btu/hour": "Btu/h",
-    "W/m**2/K": "W/(m²·K)", "Btu/hour/foot**2/delta_degF": "Btu/(h·ft²·°F)", "W/m/K": "W/(m·K)",
-    "Btu*inch/hour/foot**2/delta_degF": "Btu·in/(h·ft²·°F)", "percent": "%", "": "–", "ft/s": "ft/s",
+    "W/m**2": "W/m²", "Btu/hour/foot": "Btu/h·ft", "Btu/hour/foot**2": "Btu/h·ft²", "Btu/hour": "Btu/h",
+    "W/m**2/K": "W/(m²·K)", "Btu/hour/foot**2/delta_degF": "Btu/h·ft²·°F", "W/m/K": "W/(m·K)",
+    "Btu*inch/hour/foot**2/delta_degF": "Btu·in/h·ft²·°F", "percent": "%", "": "–", "ft/s": "ft/s", "mph": "mph",
     "hour": "h", "lb/hour": "lb/h", "kg/s": "kg/s", "kg/hour": "kg/h", "m**2": "m²", "foot**2": "ft²",
 }
 
@@ -188,10 +188,10 @@ EXTRA_SWEEPS = (
 PANELS = (
     ("sweep", "Sweep"),
     ("regimes", "Regimes"),
-    ("spread", "Correlation spread"),
+    ("spread", "Correlations"),
     ("uncertainty", "Uncertainty"),
     ("insulation", "Insulation"),
-    ("operation", "In operation"),
+    ("operation", "Operation"),
     ("vessels", "Tanks & ducts"),
     ("snapshots", "Snapshots"),
 )
@@ -251,6 +251,9 @@ MAP_LOWEST_WIND = 0.01
 RA_GRID = (1e-4, 1e14, 181)
 RE_GRID = (1e-1, 1e7, 161)
 
+#: Model-form choices of the Monte Carlo run: value -> text on screen.
+MODEL_FORMS = {"none": "none", "stated_accuracy": "stated accuracy", "choose_correlation": "random choice of law"}
+
 #: Monte Carlo sample counts offered, and the default (the study's own count is added to the list).
 MONTE_CARLO_SAMPLES = (2_000, 20_000, 100_000, 500_000)
 
@@ -267,9 +270,15 @@ SIZING_MAX_THICKNESS = 0.3
 BUNDLE_ENV = "CONVLIB_PLOTLY_BUNDLE"
 
 
+def convlib_home() -> Path:
+    """convlib's own folder of the user: ``$CONVLIB_HOME``, else ``~/.convlib``."""
+    return Path(os.environ.get("CONVLIB_HOME") or Path.home() / ".convlib").expanduser()
+
+
 def snapshot_dir() -> Path:
-    """Directory where snapshots are saved: ``$CONVLIB_SNAPSHOT_DIR``, else ``~/convlib-snapshots``."""
-    return Path(os.environ.get("CONVLIB_SNAPSHOT_DIR") or Path.home() / "convlib-snapshots").expanduser()
+    """Directory where snapshots are saved: ``$CONVLIB_SNAPSHOT_DIR``, else ``snapshots`` in
+    :func:`convlib_home` (``~/.convlib/snapshots``): a folder that outlives a reboot, never a temporary one."""
+    return Path(os.environ.get("CONVLIB_SNAPSHOT_DIR") or convlib_home() / "snapshots").expanduser()
 
 
 #: Largest snapshot file the listing opens to read its author, note and hash [bytes]; larger files are

@@ -121,7 +121,7 @@ def test_display_round_trip(system, kind):
 US_ONE_UNIT_IN_SI = {
     "temperature_difference": DEG_F,
     "length": INCH,
-    "speed": FOOT,
+    "speed": MILE / HOUR,  # mph, the US trade unit of wind (exact: 0.44704 m/s)
     "pressure": PSI,
     "heat_per_length": BTU_IT / HOUR / FOOT,
     "heat_flux": BTU_IT / HOUR / FOOT**2,

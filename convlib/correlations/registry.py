@@ -21,7 +21,7 @@ from . import natural as _n
 
 __all__ = [
     "Correlation", "REGISTRY", "GEOMETRIES", "catalog", "get", "methods", "evaluate", "nusselt",
-    "OutOfRangeWarning",
+    "OutOfRangeWarning", "DISPLAY_NAMES", "display_name",
 ]
 
 
@@ -62,10 +62,13 @@ class Correlation:
     boundaries: tuple[tuple[str, float, str], ...] = ()  # (group, value, "upper"|"lower" piece owns it)
     length_scale: str = "diameter"
     notes: str = ""
+    display_name: str = ""  # authors' names as published; filled from DISPLAY_NAMES when empty
     # (group, tolerance below low, tolerance above high) for bounds given as the source's text; set from them
     range_rounding: tuple[tuple[str, float, float], ...] = field(default=(), init=False)
 
     def __post_init__(self):
+        if not self.display_name:
+            object.__setattr__(self, "display_name", display_name(self.key))
         rounding = []
         for name in ("ra_range", "gr_range", "re_range", "pr_range"):
             bounds = getattr(self, name)
@@ -105,6 +108,20 @@ def _stated(bound) -> tuple[float | None, float]:
         return (None if bound is None else float(bound)), 0.0
     exponent = Decimal(bound).as_tuple().exponent
     return float(bound), 0.5 * 10.0 ** exponent
+
+
+#: Name of each law as people cite it (authors as published, en dash between co-authors), by key.
+DISPLAY_NAMES = {
+    "churchill_chu": "Churchill–Chu", "churchill_chu_laminar": "Churchill–Chu, laminar", "morgan": "Morgan",
+    "kuehn_goldstein": "Kuehn–Goldstein", "mcadams": "McAdams", "vdi": "VDI Heat Atlas", "churchill": "Churchill",
+    "yuge": "Yuge", "churchill_bernstein": "Churchill–Bernstein", "hilpert": "Hilpert", "zukauskas": "Zukauskas",
+    "whitaker": "Whitaker", "laminar": "Pohlhausen, laminar", "mixed_layer": "mixed boundary layer",
+}
+
+
+def display_name(key: str) -> str:
+    """Name of a law for people, e.g. ``"churchill_bernstein"`` -> ``"Churchill–Bernstein"``."""
+    return DISPLAY_NAMES.get(key) or key.replace("_", " ").capitalize()
 
 
 _CC_HC = "Churchill & Chu (1975), Int. J. Heat Mass Transfer 18:1049"

@@ -44,9 +44,10 @@ _LEVEL_CLASS = {"info": "cl-msg-info", "warning": "cl-msg-warn", "caution": "cl-
                 "error": "cl-msg-error"}
 
 
-def message_html(lines, level: str = "info") -> str:
-    """HTML of message lines in a box of the given level (info, warning, caution, error)."""
-    lines = [line for line in lines if line]
+def message_html(lines, level: str = "info", display: Display | None = None) -> str:
+    """HTML of message lines in a box of the given level (info, warning, caution, error); with a
+    ``display``, temperatures in the lines are shown in its unit system."""
+    lines = [display.localize(str(line)) if display is not None else line for line in lines if line]
     if not lines:
         return ""
     items = "".join(f"<div>{html.escape(str(line))}</div>" for line in lines)
@@ -182,7 +183,7 @@ class Panel(widgets.VBox):
         """Show message lines above the panel's content (nothing to clear it)."""
         if isinstance(lines, str):
             lines = [lines]
-        self.message.value = message_html(lines, level)
+        self.message.value = message_html(lines, level, self.display)
 
     def show_figure(self, fig: go.Figure) -> go.FigureWidget:
         """Show ``fig``: the first time in a new FigureWidget, afterwards by updating it in place."""

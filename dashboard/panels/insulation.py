@@ -114,5 +114,5 @@ class InsulationPanel(Panel):
             "<table><tr><th>Limit</th><th>Value</th><th>Thickness that meets it</th><th>Next listed thickness</th>"
             "</tr>" + "".join(rows) + f"</table><p>Critical thickness: {html.escape(critical)}. "
             f"Current thickness: {html.escape(d.text(v.current_thickness, 'insulation_thickness'))}.</p>"
-            + message_html(notes, "warning") + message_html(cautions, "caution"))
+            + message_html(notes, "warning", self.display) + message_html(cautions, "caution", self.display))
         self.set_message()

@@ -12,6 +12,7 @@ from convlib.study import CaseSpec
 from pydantic import ValidationError
 
 from .. import settings
+from ..display import law_name, regime_text, scientific, shape_name
 from ..compute import CaseSummary
 from .base import Panel, message_html, card_html, card_value_text
 from .controls import DESCRIPTION_STYLE, QuantityControl
@@ -87,7 +88,7 @@ class LinePanel(Panel):
         self.kind = widgets.RadioButtons(options=[("bare surface at a known temperature", "bare"),
                                                   ("insulated line with a known fluid temperature", "insulated")],
                                          description="Kind", style=DESCRIPTION_STYLE, layout=_WIDE)
-        self.shape = widgets.Dropdown(options=[(s.replace("_", " "), s) for s in SHAPES], description="Shape",
+        self.shape = widgets.Dropdown(options=[(shape_name(s), s) for s in SHAPES], description="Shape",
                                       style=DESCRIPTION_STYLE, layout=_WIDE)
         self.size_mode = widgets.ToggleButtons(options=[("by value", "value"), ("NPS + schedule", "nps")],
                                                style={"button_width": "140px"})
@@ -218,7 +219,8 @@ class LinePanel(Panel):
         for widget, geometry, default, value in ((self.natural, info.natural_geometry, info.default_natural, natural),
                                                  (self.forced, info.forced_geometry, info.default_forced, forced)):
             keys = corr.methods(geometry)
-            widget.options = [(f"{default} (default)", DEFAULT_LAW)] + [(k, k) for k in keys if k != default]
+            widget.options = [(f"{law_name(default)} (default)", DEFAULT_LAW)] + [(law_name(k), k) for k in keys
+                                                                                 if k != default]
             widget.value = value if value in keys and value != default else DEFAULT_LAW
 
     def _fill_nps(self, keep: float | None) -> None:
@@ -335,10 +337,10 @@ class LinePanel(Panel):
         self._card("surface_temperature", "Surface", d.number(s.surface_temperature, "surface_temperature"),
                    d.label("surface_temperature"), f"dew point {d.text(s.dew_point, 'dew_point')}")
         self._card("h_convection", "h convection", d.number(s.h_convection, "h_convection"), d.label("h_convection"),
-                   f"Nu {s.nusselt:.3g}")
+                   f"Nu {scientific(s.nusselt, 3)}")
         self._card("h_radiation", "h radiation", d.number(s.h_radiation, "h_radiation"), d.label("h_radiation"),
                    "surroundings + sky")
-        ri = "still air" if s.richardson is None else f"Ri {s.richardson:.3g}"
-        self._card("regime", "Regime", f"{s.regime} · {s.flow}", "", f"{ri} · Ra {s.rayleigh:.3g}")
-        notes = message_html(s.cautions, "caution") + message_html(s.warnings, "warning")
+        ri = "still air" if s.richardson is None else f"Ri {scientific(s.richardson)}"
+        self._card("regime", "Regime", regime_text(s.regime, s.flow), "", f"{ri} · Ra {scientific(s.rayleigh)}")
+        notes = message_html(s.cautions, "caution", d) + message_html(s.warnings, "warning", d)
         self.notes.value = notes

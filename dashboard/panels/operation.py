@@ -198,8 +198,8 @@ class OperationPanel(InputsPanel):
                                   f"{html.escape(carries)}. Tracing and freeze: coldest air, strongest wind, no sun.")
         self.show_figure(operation_profile_figure(v, d))
         self._show_sweep_figure(operation_sweep_figure(v, d))
-        self.notes.value = message_html(v.notes, "warning") + message_html(
-            v.cautions or (CAUTION_FREEZE, CAUTION_TRACING), "caution")
+        self.notes.value = message_html(v.notes, "warning", d) + message_html(
+            v.cautions or (CAUTION_FREEZE, CAUTION_TRACING), "caution", d)
         self.site.value = _site_table(v.site_rows)
         self.set_message()
 

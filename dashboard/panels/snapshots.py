@@ -3,6 +3,7 @@ from __future__ import annotations
 
 import base64
 import html
+import tempfile
 from pathlib import Path
 from typing import Callable
 
@@ -13,7 +14,7 @@ from ..storage import SnapshotEntry
 from .base import Panel
 from .controls import DESCRIPTION_STYLE
 
-__all__ = ["SnapshotPanel", "download_link"]
+__all__ = ["SnapshotPanel", "download_link", "entry_label", "is_temporary"]
 
 ACTIONS = ("save", "open", "verify", "compare", "report", "refresh")
 
@@ -23,6 +24,27 @@ def download_link(data: bytes, filename: str, text: str) -> str:
     encoded = base64.b64encode(data).decode("ascii")
     return (f'<a class="cl-download" download="{html.escape(filename)}" '
             f'href="data:text/html;base64,{encoded}">{html.escape(text)}</a>')
+
+
+def entry_label(entry: SnapshotEntry) -> str:
+    """One line of the snapshot list: the file name first (what people look for), then who, and when
+    unless the name already says it (the automatic names end in the UTC date and time)."""
+    name = entry.path.name.removesuffix(".json").removesuffix(".snapshot")
+    if entry.problem:
+        return f"{name} · cannot be read"
+    label = f"{name} · {entry.author or 'no author'}"
+    if entry.created_utc[:10].replace("-", "") not in name:
+        label += f" · {entry.created_utc.replace('T', ' ').replace('Z', '')[:16]} UTC"
+    return label
+
+
+def is_temporary(directory: Path | str) -> bool:
+    """True when ``directory`` lies in the system's temporary folder (emptied at reboot on many systems)."""
+    try:
+        Path(directory).resolve().relative_to(Path(tempfile.gettempdir()).resolve())
+    except ValueError:
+        return False
+    return True
 
 
 class SnapshotPanel(Panel):
@@ -68,14 +90,14 @@ class SnapshotPanel(Panel):
         for action, text, style in (("save", "Save snapshot", "primary"), ("open", "Open", ""),
                                     ("verify", "Verify", ""), ("compare", "Compare", ""),
                                     ("report", "HTML report", ""), ("refresh", "Refresh list", "")):
-            button = widgets.Button(description=text, button_style=style, layout=widgets.Layout(width="auto"))
+            button = widgets.Button(description=text, button_style=style, layout=widgets.Layout(width="auto", flex="0 0 auto"))
             button.add_class(f"cl-snapshot-{action}")
             button.on_click(lambda _, a=action: self._fire(a))
             self.buttons[action] = button
         self.listing = widgets.Select(options=[], rows=8, layout=widgets.Layout(width="100%"))
         self.listing.add_class("cl-snapshot-list")
         self.compare_box = widgets.Dropdown(description="Compare with", style=DESCRIPTION_STYLE,
-                                            layout=widgets.Layout(width="600px"))
+                                            layout=widgets.Layout(width="600px", flex="0 1 auto"))
         traitlets.link((self.listing, "value"), (self, "selected"))
         traitlets.link((self.compare_box, "value"), (self, "other"))
         self.where = widgets.HTML()
@@ -89,7 +111,7 @@ class SnapshotPanel(Panel):
             self.note_box, widgets.HBox([b["save"]]), self.where,
             widgets.HTML('<div class="cl-section">Saved snapshots</div>'), self.listing,
             widgets.HBox([b["open"], b["verify"], b["report"], b["refresh"]]),
-            widgets.HBox([self.compare_box, b["compare"]]),
+            widgets.HBox([self.compare_box, b["compare"]], layout=widgets.Layout(width="100%")),
             self.message, self.output, self.link]
         self._entries_changed()
 
@@ -124,13 +146,18 @@ class SnapshotPanel(Panel):
     @traitlets.observe("directory")
     def _directory_changed(self, change=None):
         if hasattr(self, "where"):
-            self.where.value = f'<div class="cl-hint">Saved in {html.escape(self.directory)}</div>'
+            where = f'<div class="cl-hint">Saved in {html.escape(self.directory)}</div>'
+            if is_temporary(self.directory):
+                where += ('<div class="cl-msg cl-msg-warn">This folder is a temporary one: its snapshots may be '
+                          'lost when the machine restarts. Start the dashboard with --snapshot-dir to keep '
+                          'them elsewhere.</div>')
+            self.where.value = where
 
     @traitlets.observe("entries")
     def _entries_changed(self, change=None):
         if not hasattr(self, "listing"):
             return
-        options = [(e.label, str(e.path)) for e in self.entries]
+        options = [(entry_label(e), str(e.path)) for e in self.entries]
         keep, keep_other = self.selected, self.other
         with self.hold_trait_notifications():
             self.listing.options = options

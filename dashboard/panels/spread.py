@@ -5,6 +5,7 @@ import ipywidgets as widgets
 import traitlets
 from convlib.study import StudyResult
 
+from ..display import input_label
 from ..figures import spread_figure
 from .base import Panel
 from .controls import DESCRIPTION_STYLE
@@ -22,22 +23,23 @@ class SpreadPanel(Panel):
     result : StudyResult or None
         Base-case comparison and one sweep (set by the app).
     x_axis : str
-        ``"rayleigh"`` or ``"input"``.
+        ``"input"`` (the swept input, the default) or ``"rayleigh"``.
     chosen : tuple
         Selected natural and forced law keys.
     """
 
     sweep_input = traitlets.Unicode("", allow_none=True)
     result = traitlets.Instance(StudyResult, allow_none=True)
-    x_axis = traitlets.Unicode("rayleigh")
+    x_axis = traitlets.Unicode("input")
     chosen = traitlets.Tuple((None, None))
 
     def __init__(self, **kwargs):
         super().__init__(**kwargs)
         self.selector = widgets.Dropdown(description="Along the sweep of", style=DESCRIPTION_STYLE,
                                          layout=widgets.Layout(width="420px"))
-        self.x_toggle = widgets.ToggleButtons(options=[("against Ra", "rayleigh"), ("against the input", "input")],
-                                              style={"button_width": "130px"})
+        self.x_toggle = widgets.ToggleButtons(options=self._axis_options(), value="input",
+                                              style={"button_width": "auto"})
+        self.x_toggle.add_class("cl-spread-axis")
         traitlets.link((self.x_toggle, "value"), (self, "x_axis"))
         traitlets.link((self.selector, "value"), (self, "sweep_input"))
         self.children = [widgets.HBox([self.selector, self.x_toggle]), self.message, self.plot_box]
@@ -47,7 +49,7 @@ class SpreadPanel(Panel):
 
     def reset(self):
         super().reset()
-        self.x_axis = "rayleigh"
+        self.x_axis = "input"
 
     def set_options(self, options) -> None:
         """Offer the same sweeps as the sweep panel: list of (label, input)."""
@@ -56,6 +58,17 @@ class SpreadPanel(Panel):
             names = [v for _, v in options]
             if self.sweep_input in names:
                 self.selector.value = self.sweep_input
+
+    def _axis_options(self) -> list:
+        what = input_label(self.sweep_input).lower() if self.sweep_input else "the swept input"
+        return [(f"against {what}", "input"), ("against Ra", "rayleigh")]
+
+    @traitlets.observe("sweep_input")
+    def _sweep_input_changed(self, change):
+        if hasattr(self, "x_toggle"):
+            value = self.x_toggle.value
+            self.x_toggle.options = self._axis_options()
+            self.x_toggle.value = value
 
     @traitlets.observe("result", "units", "x_axis")
     def _render(self, change=None):

@@ -66,8 +66,7 @@ class UncertaintyPanel(Panel):
         self.seed_box = widgets.BoundedIntText(min=0, max=2**31 - 1, description="Seed",
                                                style={"description_width": "40px"},
                                                layout=widgets.Layout(width="150px"))
-        self.model_box = widgets.Dropdown(options=[("none", "none"), ("stated accuracy", "stated_accuracy"),
-                                                   ("random choice of law", "choose_correlation")],
+        self.model_box = widgets.Dropdown(options=[(text, key) for key, text in settings.MODEL_FORMS.items()],
                                           description="Model form", style={"description_width": "80px"},
                                           layout=widgets.Layout(width="270px"))
         self.auto_box = widgets.Checkbox(description="re-run after changes", indent=False,

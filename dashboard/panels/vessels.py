@@ -169,7 +169,8 @@ class VesselPanel(InputsPanel):
             f"({d.text(v.wind_speed, 'wind_speed')}), emissivity and sky ({'outdoors' if v.outdoor else 'indoors'}); "
             f"the insulation on every exposed face" + ("; the floor on the ground has none, and the soil is at the "
                                                        "air temperature." if bare_floor else "."))
-        self.notes.value = message_html([self._sizing_text(v)], "info") + message_html(v.notes, "info") + \
-            message_html(v.cautions, "caution")
+        d = self.display
+        self.notes.value = message_html([self._sizing_text(v)], "info", d) + message_html(v.notes, "info", d) + \
+            message_html(v.cautions, "caution", d)
         self.show_figure(vessel_figure(v, d))
         self.set_message()

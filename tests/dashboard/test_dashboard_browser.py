@@ -17,25 +17,11 @@ from convlib import snapshot as cl_snapshot
 from convlib.study import evaluate_case, load_demo_study, run_study
 
 from dashboard import compute
-from dashboard.browser import VoilaServer, browser_context, chromium_path, wait_for_dashboard
+from dashboard.browser import VoilaServer, browser_context, wait_for_dashboard
 from dashboard.display import Display
 from dashboard.screenshots import open_tab, wait_for_panel
 from dashboard.settings import PANELS
-
-
-def _require_browser() -> None:
-    reason = None
-    try:
-        import playwright.sync_api  # noqa: F401
-    except ImportError:
-        reason = "playwright is not installed"
-    if reason is None and chromium_path() is None:
-        reason = "Chromium not found (/usr/bin/chromium; apt-get install -y chromium)"
-    if reason is not None:
-        if "CI" in os.environ:
-            pytest.fail(f"browser tests must run under CI: {reason}")
-        print(f"\nskipping the browser tests: {reason}")
-        pytest.skip(reason)
+from dashboard_helpers import require_browser as _require_browser
 
 
 @pytest.fixture(scope="module")
