@@ -42,6 +42,7 @@ import csv
 import io
 from dataclasses import dataclass, fields
 from pathlib import Path
+from typing import NamedTuple
 
 import numpy as np
 
@@ -83,17 +84,12 @@ def demo_survey_path():
     return resources.files("convlib").joinpath("data/demo_survey.csv")
 
 
-class RowError(tuple):
-    """A line not computed: (index, tag, reason)."""
+class RowError(NamedTuple):
+    """A line not computed: index (row in the input, from 0), tag, reason."""
 
-    __slots__ = ()
-
-    def __new__(cls, index, tag, reason):
-        return super().__new__(cls, (int(index), str(tag), str(reason)))
-
-    index = property(lambda self: self[0])
-    tag = property(lambda self: self[1])
-    reason = property(lambda self: self[2])
+    index: int
+    tag: str
+    reason: str
 
 
 @dataclass(frozen=True)
@@ -239,7 +235,7 @@ def read_survey(source, first_index: int = 0) -> tuple[SurveyLines, list[RowErro
             except (InputError, ValueError) as err:
                 reason = str(err)
         if reason is not None:
-            errors.append(RowError(first_index + i, row.get("tag") or f"row {i + 2}", reason))
+            errors.append(RowError(first_index + i, str(row.get("tag") or f"row {i + 2}"), reason))
             continue
         good.append(first_index + i)
         for name in values:
