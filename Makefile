@@ -41,6 +41,7 @@ loadtest: $(STAMP)
 bench: $(STAMP)
 	$(PY) benchmarks/run.py
 	$(PY) benchmarks/dashboard_latency.py
+	$(PY) benchmarks/scale.py
 
 clean:
 	rm -rf $(VENV) build *.egg-info .pytest_cache
