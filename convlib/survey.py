@@ -54,7 +54,7 @@ from .surface import bare_surface
 from .validation import as_array
 
 __all__ = ["SurveyLines", "RowError", "Measurement", "SurveyResult", "read_survey", "effective_conductivity",
-           "condition_class", "run_survey", "CONDITIONS", "CONDITION_THRESHOLDS", "CAUTIONS", "demo_survey_path",
+           "condition_class", "run_survey", "line_weather", "annual_heat_per_metre", "CONDITIONS", "CONDITION_THRESHOLDS", "CAUTIONS", "demo_survey_path",
            "line_samples"]
 
 CONDITIONS = ("as designed", "degraded", "wet or damaged", "missing", "unresolved")
@@ -99,6 +99,7 @@ class SurveyLines:
     index: np.ndarray
     tag: np.ndarray
     area: np.ndarray
+    location: np.ndarray                 # "indoor" / "outdoor"
     pipe_outer_diameter: np.ndarray
     fluid_temperature: np.ndarray
     insulation_thickness: np.ndarray
@@ -122,6 +123,7 @@ class SurveyLines:
 _COLUMNS = {
     "tag": ("tag", None, None),
     "area": ("area", None, ""),
+    "location": ("location", None, "outdoor"),
     "nps": ("nps", None, ""),
     "schedule": ("schedule", None, "40"),
     "outer_diameter[mm]": ("pipe_outer_diameter", lambda v: v / 1000.0, ""),
@@ -172,7 +174,8 @@ def read_survey(source, first_index: int = 0) -> tuple[SurveyLines, list[RowErro
 
     Columns: ``tag``, ``nps`` (with ``schedule``) or ``outer_diameter[mm]``, ``fluid_temperature[degC]``,
     ``insulation_thickness[mm]``, ``design_conductivity[W/m/K]``, ``surface_temperature[degC]`` (measured jacket),
-    ``air_temperature[degC]`` (at the survey); optional ``area``, ``jacket_emissivity`` (0.9), ``wind_speed[m/s]``
+    ``air_temperature[degC]`` (at the survey); optional ``area``, ``location`` (``indoor``: the surveyed air and
+    air speed hold all year; ``outdoor``, the default: the site weather), ``jacket_emissivity`` (0.9), ``wind_speed[m/s]``
     (0), ``length[m]`` (1), ``bare_length[m]`` (0), ``operating_hours[h]`` (8760). ``index`` numbers the lines from
     ``first_index`` in file order (errors included), so chunks of a long list keep their global numbers.
 
@@ -222,6 +225,9 @@ def read_survey(source, first_index: int = 0) -> tuple[SurveyLines, list[RowErro
                     row["pipe_outer_diameter"] = nominal_pipe(float(row["nps"]), row["schedule"]).outer_diameter
                 for name, (low, high, inclusive) in _RULES.items():
                     as_array(name, row[name], low=low, high=high, low_inclusive=inclusive)
+                if row["location"].lower() not in ("indoor", "outdoor"):
+                    raise InputError(f"location {row['location']!r}: write indoor or outdoor", field="location",
+                                     rule="indoor or outdoor", value=row["location"])
                 if row["bare_length"] > row["length"]:
                     raise InputError(f"bare_length {row['bare_length']:g} m exceeds length {row['length']:g} m",
                                      field="bare_length", rule="at most length", value=row["bare_length"])
@@ -241,11 +247,12 @@ def read_survey(source, first_index: int = 0) -> tuple[SurveyLines, list[RowErro
         for name in values:
             values[name].append(row.get(name))
     arrays = {name: np.asarray(v, dtype=float) for name, v in values.items()
-              if name not in ("tag", "area", "nps", "schedule")}
+              if name not in ("tag", "area", "location", "nps", "schedule")}
     return SurveyLines(index=np.asarray(good, dtype=np.int64), tag=np.asarray(values["tag"], dtype=object),
                        area=np.asarray(values["area"], dtype=object),
+                       location=np.asarray([v.lower() for v in values["location"]], dtype=object),
                        **{f.name: arrays[f.name] for f in fields(SurveyLines)
-                          if f.name not in ("index", "tag", "area")}), errors
+                          if f.name not in ("index", "tag", "area", "location")}), errors
 
 
 def effective_conductivity(pipe_outer_diameter, fluid_temperature, insulation_thickness, surface_temperature, *,
@@ -361,20 +368,38 @@ class SurveyResult:
         return sign * (self.annual_now_samples - self.annual_design[:, None])
 
 
-def annual_heat_per_metre(pipe_outer_diameter, fluid_temperature, layers, bins: WeatherBins, hours_scale, *,
-                          jacket_emissivity):
-    """Heat per metre and year [kWh/m] over weather bins (last axis of the solve), signed; arrays broadcast."""
-    r = insulated_pipe(pipe_outer_diameter[..., None], fluid_temperature[..., None], layers,
-                       air_temperature=bins.air_temperature, wind_speed=bins.wind_speed, length=1.0,
+def line_weather(lines: SurveyLines, bins: WeatherBins):
+    """Air temperature, wind and hours per line and bin, arrays (n_lines, n_bins).
+
+    Outdoor lines see the site weather; indoor lines their surveyed air temperature and air speed all year. The
+    hours of every line add up to its operating hours.
+    """
+    indoor = np.asarray([str(v).strip().lower() == "indoor" for v in lines.location], dtype=bool)[:, None]
+    hours = bins.hours[None, :] * (lines.operating_hours / max(float(bins.hours.sum()), 1e-300))[:, None]
+    air = np.where(indoor, lines.air_temperature[:, None], bins.air_temperature[None, :])
+    wind = np.where(indoor, lines.wind_speed[:, None], bins.wind_speed[None, :])
+    return air, wind, hours
+
+
+def annual_heat_per_metre(pipe_outer_diameter, fluid_temperature, layers, weather, *, jacket_emissivity):
+    """Heat per metre and year [kWh/m], signed: a solve over the last axis of ``weather`` = (air, wind, hours).
+
+    ``pipe_outer_diameter``, ``fluid_temperature`` and ``jacket_emissivity`` have the leading axes; the weather arrays
+    those axes (or 1) plus the bins; layer arrays carry a trailing bin axis of 1.
+    """
+    air, wind, hours = weather
+    r = insulated_pipe(np.asarray(pipe_outer_diameter)[..., None], np.asarray(fluid_temperature)[..., None], layers,
+                       air_temperature=air, wind_speed=wind, length=1.0,
                        jacket_emissivity=np.asarray(jacket_emissivity)[..., None])
-    return (r.q_per_length * bins.hours).sum(axis=-1) * hours_scale / 1000.0
+    return (r.q_per_length * hours).sum(axis=-1) / 1000.0
 
 
 def run_survey(lines: SurveyLines, bins: WeatherBins, measurement: Measurement = Measurement()) -> SurveyResult:
     """Heat flow now and as designed, effective conductivity, condition and annual excess with its uncertainty.
 
-    Every step is vectorized over lines x samples (x weather bins). ``bins`` are the site weather for the year;
-    each line's bin hours are scaled to its ``operating_hours``.
+    Every step is vectorized over lines x samples (x weather bins). ``bins`` are the site weather for the year
+    (outdoor lines; indoor lines keep their surveyed air, :func:`line_weather`); each line's hours are scaled to its
+    ``operating_hours``.
 
     Examples
     --------
@@ -412,12 +437,13 @@ def run_survey(lines: SurveyLines, bins: WeatherBins, measurement: Measurement =
                                     jacket_emissivity=eps_s, wind_speed=wind[:, None])
     k_s = np.clip(np.where(np.isnan(k_s), K_EFFECTIVE_BOUNDS[0], k_s), *K_EFFECTIVE_BOUNDS)
 
-    scale = lines.operating_hours / max(float(bins.hours.sum()), 1e-300)
-    per_m_now = annual_heat_per_metre(d[:, None], tf[:, None], [Layer(t[:, None, None], k_s[..., None])], bins,
-                                      scale[:, None], jacket_emissivity=eps_s)
-    per_m_design = annual_heat_per_metre(d, tf, [Layer(t[:, None], lines.design_conductivity[:, None])], bins, scale,
+    weather = line_weather(lines, bins)
+    with_samples = tuple(w[:, None, :] for w in weather)
+    per_m_now = annual_heat_per_metre(d[:, None], tf[:, None], [Layer(t[:, None, None], k_s[..., None])],
+                                      with_samples, jacket_emissivity=eps_s)
+    per_m_design = annual_heat_per_metre(d, tf, [Layer(t[:, None], lines.design_conductivity[:, None])], weather,
                                          jacket_emissivity=eps)
-    per_m_bare = annual_heat_per_metre(d, tf, [], bins, scale, jacket_emissivity=np.full(n, BARE_EMISSIVITY))
+    per_m_bare = annual_heat_per_metre(d, tf, [], weather, jacket_emissivity=np.full(n, BARE_EMISSIVITY))
     annual_now = per_m_now * insulated_length[:, None] + (per_m_bare * lines.bare_length)[:, None]
     return SurveyResult(lines=lines, hot=hot, q_now=q_now, q_design=design * lines.length, k_effective=k_nominal,
                         ratio=ratio, condition=condition, k_samples=k_s, emissivity_samples=eps_s,

@@ -33,7 +33,7 @@ from .economics import DEMO_TARIFFS, Finance, Tariff
 from .errors import InputError
 from .pipe import Layer
 from .pipe_sizes import nominal_pipe
-from .survey import CONDITIONS, Measurement, SurveyLines, annual_heat_per_metre, run_survey
+from .survey import CONDITIONS, Measurement, SurveyLines, annual_heat_per_metre, line_weather, run_survey
 
 __all__ = ["CostTable", "StudySettings", "upgrade_study", "ranked", "totals", "demo_costs_path", "OPTIONS"]
 
@@ -188,7 +188,7 @@ def upgrade_study(lines: SurveyLines, settings: StudySettings) -> dict:
     k_design, eps = lines.design_conductivity, lines.jacket_emissivity
     length, bare = lines.length, lines.bare_length
     insulated = length - bare
-    scale = lines.operating_hours / max(float(settings.bins.hours.sum()), 1e-300)
+    weather = tuple(w[:, None, :] for w in line_weather(lines, settings.bins))  # (n, 1, bins)
     sign = np.where(survey.hot, 1.0, -1.0)[:, None]
     now = survey.annual_now_samples
     design_per_m = survey.annual_design / length
@@ -208,8 +208,7 @@ def upgrade_study(lines: SurveyLines, settings: StudySettings) -> dict:
     # ---- add a layer: best listed added thickness at the nominal k_eff, then the samples at that thickness
     k_nom = np.clip(np.where(np.isfinite(survey.k_effective), survey.k_effective, 20.0), 0.005, 20.0)
     grid_layers = [Layer(t[:, None, None], k_nom[:, None, None]), Layer(listed[None, :, None], k_design[:, None, None])]
-    per_m_add = annual_heat_per_metre(d[:, None], tf[:, None], grid_layers, settings.bins, scale[:, None],
-                                      jacket_emissivity=eps[:, None])
+    per_m_add = annual_heat_per_metre(d[:, None], tf[:, None], grid_layers, weather, jacket_emissivity=eps[:, None])
     cost_add = (costs.price("over", d[:, None], listed[None, :]) * insulated[:, None]
                 + (costs.price("new", d, t) * bare)[:, None])
     now_nominal = np.median(now, axis=1)
@@ -220,7 +219,7 @@ def upgrade_study(lines: SurveyLines, settings: StudySettings) -> dict:
     t_add = listed[best]
     per_m_add_s = annual_heat_per_metre(d[:, None], tf[:, None], [Layer(t[:, None, None], survey.k_samples[..., None]),
                                                                  Layer(t_add[:, None, None], k_design[:, None, None])],
-                                        settings.bins, scale[:, None], jacket_emissivity=survey.emissivity_samples)
+                                        weather, jacket_emissivity=survey.emissivity_samples)
     after_add = per_m_add_s * insulated[:, None] + (design_per_m * bare)[:, None]
     # never over wet insulation (it keeps the pipe wet: corrosion under insulation) nor over missing insulation
     offered = ~np.isin(cond, [CONDITIONS.index("missing"), CONDITIONS.index("wet or damaged")]) & np.isfinite(npv_add[np.arange(len(lines)), best])
@@ -229,7 +228,7 @@ def upgrade_study(lines: SurveyLines, settings: StudySettings) -> dict:
 
     # ---- replace at the economic thickness
     per_m_new = annual_heat_per_metre(d[:, None], tf[:, None], [Layer(listed[None, :, None], k_design[:, None, None])],
-                                      settings.bins, scale[:, None], jacket_emissivity=eps[:, None])
+                                      weather, jacket_emissivity=eps[:, None])
     cost_new = ((costs.price("new", d[:, None], listed[None, :]) * length[:, None])
                 + (costs.price("removal", d, t) * insulated)[:, None])
     price = np.where(survey.hot, settings.heat_tariff.price_per_heat_kwh, settings.cold_tariff.price_per_heat_kwh)

@@ -18,7 +18,7 @@ def _settings():
 
 def _long_list(copies=3):
     lines = [ln for ln in demo_survey_path().read_text().splitlines() if not ln.startswith("#")]
-    bad = "BAD-1,nowhere,4,40,10,150,50,0.04,0.9,10,20,0,0,8760"  # jacket below the air on a hot line
+    bad = "BAD-1,nowhere,outdoor,4,40,10,150,50,0.04,0.9,10,20,0,0,8760"  # jacket below the air on a hot line
     body = []
     for c in range(copies):
         body += [ln.replace("FS-", f"C{c}-") for ln in lines[1:]]

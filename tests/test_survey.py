@@ -148,3 +148,23 @@ def test_parquet_reads_like_csv(tmp_path):
     assert errors == []
     np.testing.assert_array_equal(again.surface_temperature, lines.surface_temperature)
     assert again.tag.tolist() == lines.tag.tolist()
+
+
+def test_indoor_lines_keep_their_surveyed_air_all_year():
+    lines, _ = read_survey(demo_survey_path())
+    r = run_survey(lines, _bins(), Measurement(samples=3))
+    indoor = lines.location == "indoor"
+    assert indoor.any() and (~indoor).any()
+    # indoor: the survey-condition heat flow as designed times the operating hours (kWh = W h / 1000)
+    np.testing.assert_allclose(r.annual_design[indoor], r.q_design[indoor] * lines.operating_hours[indoor] / 1000,
+                               rtol=1e-9)
+    # outdoor: the design heat over the weather bins differs from the survey-condition figure
+    assert not np.allclose(r.annual_design[~indoor], r.q_design[~indoor] * lines.operating_hours[~indoor] / 1000,
+                           rtol=1e-3)
+
+
+def test_location_must_be_indoor_or_outdoor():
+    text = ("tag,location,nps,fluid_temperature[degC],insulation_thickness[mm],design_conductivity[W/m/K],"
+            "surface_temperature[degC],air_temperature[degC]\nA,cellar,4,150,50,0.04,35,20\n")
+    lines, errors = read_survey(text)
+    assert len(lines) == 0 and "indoor or outdoor" in errors[0].reason

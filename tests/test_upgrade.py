@@ -57,8 +57,9 @@ def _row(rows, tag, option_start):
 def test_repair_saving_and_economics_by_an_independent_path():
     tariff, finance = Tariff("gas", 0.05, 0.85, co2_per_kwh=0.2), Finance(0.07, 0.02, 12)
     lines, settings, rows = _study(heat_tariff=tariff, finance=finance)
-    i = _row(rows, "FS-103", "repair")     # wet or damaged, no bare length, yard rack
+    i = _row(rows, "FS-103", "repair")     # wet or damaged, no bare length, yard rack (outdoor: site weather)
     j = int(np.flatnonzero(lines.tag == "FS-103")[0])
+    assert lines.location[j] == "outdoor"
     hours = BINS.hours * lines.operating_hours[j] / BINS.hours.sum()
     scaled = WeatherBins(BINS.air_temperature, BINS.wind_speed, hours)
     common = dict(bins=scaled, length=lines.length[j], jacket_emissivity=lines.jacket_emissivity[j])
@@ -86,7 +87,8 @@ def test_replace_picks_least_life_cycle_cost():
     j = int(np.flatnonzero(lines.tag == "FS-202")[0])
     i = _row(rows, "FS-202", "replace")
     d, tf, L = lines.pipe_outer_diameter[j], lines.fluid_temperature[j], lines.length[j]
-    scaled = WeatherBins(BINS.air_temperature, BINS.wind_speed, BINS.hours * lines.operating_hours[j] / BINS.hours.sum())
+    assert lines.location[j] == "indoor"  # the pump house: its surveyed air and air speed all year
+    scaled = WeatherBins.single(lines.air_temperature[j], lines.wind_speed[j], lines.operating_hours[j])
     lcc = []
     for t in table.thicknesses:
         e = annual_energy(d, tf, [Layer(t, lines.design_conductivity[j])], bins=scaled, length=L,
