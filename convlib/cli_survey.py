@@ -20,7 +20,12 @@ from .scale import DEFAULT_CHUNK, run_study, write_rows
 from .survey import CAUTIONS, Measurement, demo_survey_path
 from .units import parse
 from .upgrade import CostTable, StudySettings, demo_costs_path, ranked, totals
-from .weather import demo_weather_path, hours_below, read_epw, to_bins
+from .pipe import Layer
+from .survey import K_EFFECTIVE_BOUNDS, read_survey
+from .weather import demo_weather_path, hours_below, jacket_condensation_hours, read_epw, to_bins
+
+#: Hour-by-hour condensation counts are solved for at most this many cold outdoor lines (lines x 8760 points).
+MAX_CONDENSATION_LINES = 2000
 
 __all__ = ["add_commands"]
 
@@ -118,6 +123,32 @@ def _footer(notes, out, tot, what):
         print(c)
 
 
+def _condensation(args, per_line, weather, notes) -> dict:
+    """Hours a year below the dew point for the jackets of cold outdoor lines at their surveyed k_eff."""
+    if not per_line:
+        return {}
+    lines, _ = read_survey(_source(args))
+    k_by_index = dict(zip(per_line["index"].tolist(), per_line["k_effective"].tolist()))
+    cold = np.array([(i in k_by_index) and lines.location[j] == "outdoor" and
+                     lines.fluid_temperature[j] < lines.air_temperature[j] for j, i in enumerate(lines.index)],
+                    dtype=bool)
+    if not cold.any():
+        return {}
+    if cold.sum() > MAX_CONDENSATION_LINES:
+        notes.append(f"condensation hours: skipped ({int(cold.sum())} cold outdoor lines; at most "
+                     f"{MAX_CONDENSATION_LINES} are solved hour by hour)")
+        return {}
+    c = lines.take(cold)
+    k = np.clip(np.nan_to_num(np.array([k_by_index[i] for i in c.index]), nan=K_EFFECTIVE_BOUNDS[1],
+                              posinf=K_EFFECTIVE_BOUNDS[1]), *K_EFFECTIVE_BOUNDS)
+    hours = jacket_condensation_hours(c.pipe_outer_diameter, c.fluid_temperature,
+                                      [Layer(c.insulation_thickness[:, None], k[:, None])], weather,
+                                      jacket_emissivity=c.jacket_emissivity)
+    notes.append("condensing: hours a year the jacket of a cold outdoor line, at its surveyed conductivity, is below "
+                 "the dew point of the weather file's air")
+    return {int(i): str(int(h)) for i, h in zip(c.index, hours)}
+
+
 def _cmd_survey(args) -> int:
     settings, notes, out, weather = _run(args)
     notes = [n for n in notes if not n.startswith(("costs:", "heat tariff:"))]
@@ -125,6 +156,7 @@ def _cmd_survey(args) -> int:
     if args.json:
         _print_json({"survey": {k: per_line[k] for k in _SURVEY_KEYS if k in per_line}}, notes, out)
         return 1 if out.errors else 0
+    wet_hours = _condensation(args, per_line, weather, notes)
     rows = []
     for i in range(len(per_line.get("index", ()))):
         rows.append({"tag": per_line["tag"][i], "plant area": per_line["area"][i], "service": per_line["service"][i],
@@ -133,7 +165,8 @@ def _cmd_survey(args) -> int:
                      "now [kW]": f"{per_line['q_now'][i] / 1000:.2f}",
                      "designed [kW]": f"{per_line['q_design'][i] / 1000:.2f}",
                      "excess P5/P50/P95 [MWh/yr]": "/".join(f"{per_line[k][i] / 1000:.1f}" for k in
-                                                             ("excess_kwh_p5", "excess_kwh_p50", "excess_kwh_p95"))})
+                                                             ("excess_kwh_p5", "excess_kwh_p50", "excess_kwh_p95")),
+                     "condensing [h/yr]": wet_hours.get(int(per_line["index"][i]), "-")})
     print(f"\nthermal survey ({settings.measurement.samples} samples: thermometer +/-{settings.measurement.thermometer:g}"
           f" K, emissivity +/-{settings.measurement.emissivity:g})")
     table(rows, "SI")

@@ -39,7 +39,7 @@ from .errors import InputError
 from .radiation import STEFAN_BOLTZMANN
 
 __all__ = ["HourlyWeather", "read_epw", "demo_weather_path", "to_bins", "hours_below", "condensation_hours",
-           "synthetic_epw_text", "EPW_FIELDS"]
+           "synthetic_epw_text", "EPW_FIELDS", "jacket_condensation_hours"]
 
 #: 0-based column of each field read, and the value at or above which the manual marks it missing.
 EPW_FIELDS = {
@@ -224,6 +224,39 @@ def condensation_hours(weather: HourlyWeather, surface_temperature, margin=0.0) 
                              weather.pressure[gap])
     ts = np.asarray(surface_temperature, dtype=float)
     return np.count_nonzero(ts < dew + float(margin), axis=-1)
+
+
+def jacket_condensation_hours(pipe_outer_diameter, fluid_temperature, layers, weather: HourlyWeather, *,
+                              jacket_emissivity=0.9, margin=0.0, **pipe_options) -> np.ndarray:
+    """Hours a year in which the jacket of a (cold) outdoor line is below the dew point plus ``margin`` [h].
+
+    The jacket temperature is solved hour by hour (:func:`convlib.pipe.insulated_pipe` over lines x hours, the
+    hour's air temperature and wind), then compared with the hour's dew point (:func:`condensation_hours`).
+
+    Parameters
+    ----------
+    pipe_outer_diameter, fluid_temperature, jacket_emissivity : numeric
+        Per line [m], [K], [-] (1-D or scalars).
+    layers : sequence of Layer
+        Layer arrays per line need a trailing axis of 1 (the hours).
+
+    Examples
+    --------
+    >>> from convlib.pipe import Layer
+    >>> w = read_epw(demo_weather_path())
+    >>> h = jacket_condensation_hours([0.0603, 0.0603], 280.15, [Layer(np.array([[0.005], [0.05]]), 0.035)], w)
+    >>> bool(h[0] > h[1])
+    True
+    """
+    from .pipe import insulated_pipe
+
+    d = np.atleast_1d(np.asarray(pipe_outer_diameter, dtype=float))
+    tf = np.atleast_1d(np.asarray(fluid_temperature, dtype=float))
+    eps = np.atleast_1d(np.asarray(jacket_emissivity, dtype=float))
+    r = insulated_pipe(d[:, None], tf[:, None], layers, air_temperature=weather.air_temperature,
+                       wind_speed=weather.wind_speed, jacket_emissivity=eps[:, None],
+                       pressure=weather.pressure, **pipe_options)
+    return condensation_hours(weather, r.surface_temperature, margin)
 
 
 # ----------------------------------------------------------------------------- invented demo file

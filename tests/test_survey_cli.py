@@ -64,3 +64,13 @@ def test_cli_writes_parquet(tmp_path):
     assert r.returncode == 0, r.stderr
     assert "rank" in r.stdout and "hot lines (heat lost)" in r.stdout and "cold lines (heat gained)" in r.stdout
     assert pq.read_table(target).num_rows >= 12
+
+
+def test_survey_table_counts_condensing_hours_of_cold_outdoor_lines(capsys):
+    assert main(["survey", "--demo", "--samples", "10"]) == 0
+    out = capsys.readouterr().out
+    assert "condensing [h/yr]" in out
+    roof = next(line for line in out.splitlines() if line.startswith("FS-303"))   # the only cold outdoor demo line
+    assert roof.split()[-1].isdigit()
+    boiler = next(line for line in out.splitlines() if line.startswith("FS-101"))  # hot, indoor: not counted
+    assert boiler.split()[-1] == "-"

@@ -102,3 +102,22 @@ def test_demo_file_is_invented_and_reproducible():
     assert text == synthetic_epw_text()  # the shipped file is exactly what the seeded generator writes
     w = read_epw(text)
     assert len(w) == 8760 and w.filled == {"dry_bulb": 0, "relative_humidity": 0, "pressure": 0, "wind_speed": 0}
+
+
+def test_jacket_condensation_hours_by_direct_solve():
+    from convlib.pipe import Layer, insulated_pipe
+    from convlib.properties import dew_point
+    from convlib.weather import jacket_condensation_hours
+    # four hours: warm humid, warm dry, cool humid, cold; a chilled-water line at 6 degC under 10 mm / 30 mm
+    rows = [_with(SAMPLE_ROW, f4=str(h), f7=t, f8="99.9", f9=rh, f22="1.0") for h, (t, rh) in
+            enumerate([("28.0", "85"), ("28.0", "30"), ("15.0", "95"), ("2.0", "90")], start=1)]
+    w = read_epw(_epw(rows))
+    layers = [Layer(np.array([[0.010], [0.030]]), 0.035)]
+    hours = jacket_condensation_hours([0.1143, 0.1143], 279.15, layers, w, jacket_emissivity=0.9)
+    # independent: the jacket at each hour from insulated_pipe, the dew point from CoolProp (dew point missing in file)
+    for line, t in enumerate([0.010, 0.030]):
+        ts = insulated_pipe(0.1143, 279.15, [Layer(t, 0.035)], air_temperature=w.air_temperature,
+                            wind_speed=w.wind_speed, jacket_emissivity=0.9, pressure=w.pressure).surface_temperature
+        dew = dew_point(w.air_temperature, w.relative_humidity, w.pressure)
+        assert hours[line] == int(np.sum(ts < dew))
+    assert hours[0] >= hours[1] and hours[0] >= 1
