@@ -169,7 +169,7 @@ def _cmd_survey(args) -> int:
                      "condensing [h/yr]": wet_hours.get(int(per_line["index"][i]), "-")})
     print(f"\nthermal survey ({settings.measurement.samples} samples: thermometer +/-{settings.measurement.thermometer:g}"
           f" K, emissivity +/-{settings.measurement.emissivity:g})")
-    table(rows, "SI")
+    table(rows, "SI", out=sys.stdout)  # the current stdout, not the one bound at import
     _footer(notes, out, totals(ranked(out.rows)) if out.rows else {"hot": {"lines": 0}, "cold": {"lines": 0}},
             lambda t: "")
     return 1 if out.errors else 0
@@ -201,7 +201,7 @@ def _cmd_upgrade(args) -> int:
     print(f"\nupgrade ranking (heat {settings.heat_tariff.fuel}: {settings.heat_tariff.price_per_heat_kwh:.4f}/kWh of "
           f"heat; cold: {settings.cold_tariff.price_per_heat_kwh:.4f}/kWh; discount {f.discount_rate:.1%}, "
           f"escalation {f.escalation:.1%}, {f.years:g} years)")
-    table(rows, "SI")
+    table(rows, "SI", out=sys.stdout)  # the current stdout, not the one bound at import
 
     def money(t):
         return (f"\n  worth doing: {t['lines_worth_doing']} lines, invest {t['investment']:,.0f}, save "

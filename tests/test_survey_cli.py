@@ -66,10 +66,9 @@ def test_cli_writes_parquet(tmp_path):
     assert pq.read_table(target).num_rows >= 12
 
 
-def test_survey_table_counts_condensing_hours_of_cold_outdoor_lines(capfd):
-    # capfd: cli_common.table writes to the sys.stdout bound at import
+def test_survey_table_counts_condensing_hours_of_cold_outdoor_lines(capsys):
     assert main(["survey", "--demo", "--samples", "10"]) == 0
-    out = capfd.readouterr().out
+    out = capsys.readouterr().out
     assert "condensing [h/yr]" in out
     roof = next(line for line in out.splitlines() if line.startswith("FS-303"))   # the only cold outdoor demo line
     assert roof.split()[-1].isdigit()
