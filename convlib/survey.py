@@ -195,12 +195,13 @@ def read_survey(source, first_index: int = 0) -> tuple[SurveyLines, list[RowErro
         raise InputError(f"survey file lacks required column(s) {', '.join(missing)}", field="survey columns",
                          rule="all required columns", value=missing)
     n = len(next(iter(cols.values()))) if cols else 0
+    cols = {c: cols.get(c, [None] * n) for c in _COLUMNS}  # absent optional columns: blank cells (once)
     values = {f: [] for f, _, _ in _COLUMNS.values()}
     good, errors = [], []
     for i in range(n):  # file edge: one pass over the cells
         row, reason = {}, None
         for column, (name, convert, default) in _COLUMNS.items():
-            cell = cols.get(column, [None] * n)[i]
+            cell = cols[column][i]
             blank = cell is None or (isinstance(cell, str) and cell.strip() == "") or \
                 (isinstance(cell, float) and np.isnan(cell))
             if convert is None:
