@@ -42,6 +42,7 @@ bench: $(STAMP)
 	$(PY) benchmarks/startup.py
 	$(PY) benchmarks/run.py
 	$(PY) benchmarks/dashboard_latency.py
+	$(PY) benchmarks/scale.py
 
 clean:
 	rm -rf $(VENV) build *.egg-info .pytest_cache

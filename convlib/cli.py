@@ -17,6 +17,8 @@ Commands
 ``freeze``        time for stagnant water in a line to reach 0 degC and to freeze solid
 ``tank``          a vertical tank face by face (wall, roof, floor) or a sphere, bare or insulated
 ``duct``          a rectangular duct face by face (sides, top, bottom), bare or insulated
+``survey``        a thermal survey: measured jackets -> heat flow now, effective k, condition, excess
+``upgrade``       priced upgrade options per surveyed line, ranked, with uncertainty (``--workers N``: Dask)
 ``correlations``  the correlation registry
 
 Values may carry units (``90degC``, ``4.5in``, ``50mm``, ``10mph``, ``80W/m``, ``0.045W/m/degC``, ``6barg``,
@@ -42,6 +44,7 @@ from .cli_common import (ALLOW_HELP, LAYER_UNITS, add_quantity, conditions, disp
                          output_options, pipe_diameter, pipe_options, pretty_unit, surface_cautions, surface_row, table,
                          value)
 from .cli_operation import add_commands as add_operation_commands
+from .cli_survey import add_commands as add_survey_commands
 from .correlations import catalog
 from .demo import load_demo_site, operation_rows
 from .errors import InputError
@@ -575,6 +578,7 @@ def build_parser() -> argparse.ArgumentParser:
     lines.set_defaults(func=_cmd_lines)
 
     add_operation_commands(sub)
+    add_survey_commands(sub)
 
     cat = sub.add_parser("correlations", help="list the correlation registry")
     cat.add_argument("--geometry", help="only this geometry")
