@@ -461,6 +461,7 @@ class App(widgets.VBox):
         panel = self.snapshots
         path = storage.snapshot_path(self.snapshot_dir, name or storage.default_name(self.study.name))
         spec = self.snapshot_spec()
+        author = storage.signed_author(author, storage.viewer_identity())  # the shared server's name for the viewer
 
         progress = self._progress_message(panel, "Running the study")
 

@@ -30,6 +30,7 @@ it is voila with these changes, each answering a way one viewer could hurt the o
 from __future__ import annotations
 
 import collections
+import contextlib
 import contextvars
 import html
 import json
@@ -67,6 +68,10 @@ TEMPLATE_ROOT = Path(__file__).with_name("share") / "jupyter"
 _SECRET_ENV = ("JUPYTER_TOKEN", "JUPYTER_TOKEN_FILE", "VOILA_TOKEN")
 _MAX_OFFSETS = 64  # a kernel message has channel, 5 JSON parts and a few buffers
 _CLIENT: contextvars.ContextVar[str] = contextvars.ContextVar("convlib_client", default="")
+#: The server's name for the viewer of the page being served (its login identity), for snapshots.
+_VIEWER: contextvars.ContextVar[str] = contextvars.ContextVar("convlib_viewer", default="")
+#: Beside a kernel's connection file, the server's identity of its viewer (read by dashboard.storage).
+VIEWER_FILE = "viewer-{kernel_id}.json"
 
 
 # ----------------------------------------------------------------------------- log redaction
@@ -297,7 +302,21 @@ class CappedKernelManager(AsyncMappingKernelManager):
         client = _CLIENT.get()
         if client:
             self.owner[kernel_id] = client
+            self.record_viewer(kernel_id, _VIEWER.get(), client)
         return kernel_id
+
+    def record_viewer(self, kernel_id: str, name: str, address: str) -> None:
+        """Write who the server says the viewer is beside the kernel's connection file (mode 0600), so that
+        a snapshot saved from that page records it and not only a typed name."""
+        try:
+            folder = Path(self.connection_dir)
+            data = json.dumps({"name": str(name)[:200], "address": str(address)[:100]}).encode()
+            path = folder / VIEWER_FILE.format(kernel_id=kernel_id)
+            fd = os.open(path, os.O_WRONLY | os.O_CREAT | os.O_TRUNC, 0o600)
+            with os.fdopen(fd, "wb") as fh:
+                fh.write(data)
+        except (OSError, TypeError, ValueError) as exc:  # the dashboard works without it
+            log.warning("could not record the viewer of a session: %s", type(exc).__name__)
 
     # -- presence
     def pooled_ids(self) -> set[str]:
@@ -382,6 +401,8 @@ class CappedKernelManager(AsyncMappingKernelManager):
         self._alone_since.pop(kernel_id, None)
         self.owner.pop(kernel_id, None)
         RequestInfoSocketHandler._cache.pop(kernel_id, None)
+        with contextlib.suppress(OSError, TypeError):
+            (Path(self.connection_dir) / VIEWER_FILE.format(kernel_id=kernel_id)).unlink()
 
     async def cull_kernel_if_idle(self, kernel_id):
         """Cull as usual, except kernels still waiting in the preheated pool (a viewer would get a dead one)."""
@@ -506,6 +527,8 @@ class GuardedQueryHandler(_Refusing, RequestInfoSocketHandler, JupyterHandler):
             manager.touch(msg["kernel_id"])  # voila calls this right after taking the kernel from the pool
             if client:
                 manager.owner[msg["kernel_id"]] = client
+                if hasattr(manager, "record_viewer"):
+                    manager.record_viewer(msg["kernel_id"], _VIEWER.get(), client)
         RequestInfoSocketHandler.send_updates({"kernel_id": msg["kernel_id"], "payload": payload})
 
 
@@ -528,12 +551,15 @@ class GuardedPageHandler(TornadoVoilaHandler):
         if not waiting and len(manager.list_kernel_ids()) >= manager.max_kernels:
             return self._styled(503, limit=manager.max_kernels)
         token = _CLIENT.set(client)
+        user = self.current_user
+        viewer = _VIEWER.set(str(getattr(user, "name", "") or getattr(user, "username", "") or ""))
         try:
             async for chunk in self.get_generator(path=path):
                 self.write(chunk)
                 self.flush()
         finally:
             _CLIENT.reset(token)
+            _VIEWER.reset(viewer)
 
     def _styled(self, status: int, **kw) -> None:
         self.clear()

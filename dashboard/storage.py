@@ -29,12 +29,12 @@ from pathlib import Path
 
 from convlib import snapshot as cl_snapshot
 from convlib.errors import InputError
-from convlib.files import write_atomic
+from convlib.files import read_capped, write_atomic
 
 from . import settings
 
 __all__ = ["SUFFIX", "INDEX_NAME", "INDEX_SCHEMA_VERSION", "safe_name", "snapshot_path", "default_name",
-           "SnapshotEntry", "list_snapshots", "record_snapshot"]
+           "SnapshotEntry", "list_snapshots", "record_snapshot", "viewer_identity", "signed_author"]
 
 SUFFIX = ".snapshot.json"
 _ALLOWED = re.compile(r"[^A-Za-z0-9._-]+")
@@ -357,3 +357,44 @@ def record_snapshot(directory: Path | str | None, path: Path | str,
         index.pop(seen.name, None)
     _write_index(root, index)
     return _listed(root, seen.name, entry)
+
+
+def viewer_identity(connection_file: str | os.PathLike | None = None) -> str:
+    """Who the shared server says the viewer of this kernel is ("name at address"), or "" when it says nothing
+    (a local dashboard, a test kernel). The server (``dashboard.server``) writes it beside the kernel's
+    connection file when the kernel is handed to a page; nothing the page sends can change it."""
+    if connection_file is None:
+        try:
+            from ipykernel.connect import get_connection_file
+
+            connection_file = get_connection_file()
+        except Exception:  # noqa: BLE001 - not in a kernel
+            return ""
+    path = Path(connection_file)
+    kernel_id = path.stem.removeprefix("kernel-")
+    target = path.with_name(f"viewer-{kernel_id}.json")
+    try:
+        data = json.loads(read_capped(target, 4096, label="viewer record", field="viewer"))
+    except (OSError, ValueError):
+        return ""
+    if not isinstance(data, dict):
+        return ""
+    name = str(data.get("name") or "").strip()[:200]
+    address = str(data.get("address") or "").strip()[:100]
+    return " at ".join(part for part in (name, address) if part)
+
+
+def signed_author(typed: str, identity: str) -> str:
+    """The author recorded in a snapshot: the typed name and, on a shared server, the server's identity.
+
+    >>> signed_author("A. Engineer", "Anonymous Io at 10.20.0.11")
+    'A. Engineer [signed in as Anonymous Io at 10.20.0.11]'
+    >>> signed_author("", "Anonymous Io at 10.20.0.11")
+    '[signed in as Anonymous Io at 10.20.0.11]'
+    >>> signed_author("A. Engineer", "")
+    'A. Engineer'
+    """
+    typed = (typed or "").strip()
+    if not identity:
+        return typed
+    return f"{typed} [signed in as {identity}]".strip()

@@ -372,3 +372,40 @@ def test_behind_proxy_refuses_to_listen_beyond_loopback(capsys):
     with pytest.raises(SystemExit):
         main(["--behind-proxy", "--host", "0.0.0.0", "--dry-run"])
     assert "127.0.0.1" in capsys.readouterr().err
+
+
+# ----------------------------------------------------------------------------- who saved a snapshot
+def test_the_server_records_who_each_session_belongs_to(tmp_path):
+    """Snapshots record the server's identity of the viewer, not only a typed name (issue 14, point 3)."""
+    from dashboard.storage import signed_author, viewer_identity
+
+    with VoilaServer(token=TOKEN, pool_size=1, extra_args=["--behind-proxy", "--connect-grace", "300"]) as srv:
+        time.sleep(3.0)
+
+        async def go():
+            client = WireClient(srv.base_url, srv.token, headers={"X-Real-IP": "10.20.0.31"})
+            await client.login()
+            kid, page = await client.claim()
+            assert kid, page[:300]
+            found = list(Path("/").glob("tmp/voila_*/kernel-" + kid + ".json"))
+            assert found, "connection file of the claimed kernel not found"
+            identity = viewer_identity(found[0])
+            assert identity.endswith(" at 10.20.0.31") and len(identity) > len(" at 10.20.0.31"), identity
+            record = found[0].with_name(f"viewer-{kid}.json")
+            assert record.stat().st_mode & 0o077 == 0  # only the server's user reads it
+            assert signed_author("A. Engineer", identity) == f"A. Engineer [signed in as {identity}]"
+            client.close()
+
+        run(go())
+
+
+def test_a_kernel_without_a_server_record_signs_nothing(tmp_path):
+    from dashboard.storage import viewer_identity
+
+    conn = tmp_path / "kernel-0000.json"
+    conn.write_text("{}")
+    assert viewer_identity(conn) == ""
+    (tmp_path / "viewer-0000.json").write_text("[1, 2]")
+    assert viewer_identity(conn) == ""
+    (tmp_path / "viewer-0000.json").write_text('{"name": "Anonymous Io", "address": "10.0.0.7"}')
+    assert viewer_identity(conn) == "Anonymous Io at 10.0.0.7"
