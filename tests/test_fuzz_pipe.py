@@ -7,6 +7,8 @@ difference, changes sign with it, and falls with insulation thickness above the 
 """
 from __future__ import annotations
 
+import os
+
 import numpy as np
 import pytest
 from hypothesis import given, strategies as st
@@ -23,11 +25,14 @@ STILL_AIR_FIELDS = ("richardson",)  # inf in still air by definition (SurfaceRes
 
 @st.composite
 def layers(draw, max_layers=3):
-    out = []
-    for j in range(draw(st.integers(0, max_layers))):
-        out.append(Layer(draw(st.one_of(st.just(0.0), wide(1e-9, 1e3))),
-                         draw(st.one_of(wide(1e-4, 1e3), st.sampled_from([1e-300, 1e300]))), name=f"layer {j}"))
-    return out
+    """(thickness, conductivity) pairs; the test builds the Layer objects inside the checked call."""
+    return [(draw(st.one_of(st.just(0.0), wide(1e-9, 1e3), st.just(1e300))),
+             draw(st.one_of(wide(1e-4, 1e3), st.sampled_from([1e-300, 1e300]))))
+            for _ in range(draw(st.integers(0, max_layers)))]
+
+
+def _pipe(d, tf, pairs, **kwargs):
+    return insulated_pipe(d, tf, [Layer(t, k, name=f"layer {j}") for j, (t, k) in enumerate(pairs)], **kwargs)
 
 
 @st.composite
@@ -53,7 +58,7 @@ def pipe_inputs(draw):
 
 @given(pipe_inputs())
 def test_insulated_pipe_finite_or_input_error(kwargs):
-    out = outcome(insulated_pipe, kwargs.pop("pipe_outer_diameter"), kwargs.pop("fluid_temperature"),
+    out = outcome(_pipe, kwargs.pop("pipe_outer_diameter"), kwargs.pop("fluid_temperature"),
                   kwargs.pop("layers"), **kwargs)
     if isinstance(out, InputError):
         return
@@ -119,3 +124,21 @@ def test_sizing_finite_or_input_error_and_flags_not_reachable(kind, d, tf, ta, k
         assert any("no thickness up to" in m for m in out.messages)
     if (reachable & ~listed).any():
         assert any("largest listed thickness" in m for m in out.messages)
+
+
+def test_surface_solve_converges_on_many_random_valid_cases():
+    """The surface solve converges at every one of 2*10^4 (``make fuzz``: 10^5) random valid cases, in one call."""
+    n = 100_000 if os.environ.get("HYPOTHESIS_PROFILE") == "long" else 20_000
+    rng = np.random.default_rng(14)
+    ta = rng.uniform(230.0, 320.0, n)
+    hot = rng.random(n) < 0.7
+    tf = np.where(hot, ta + rng.uniform(0.0, 450.0, n), ta - rng.uniform(0.0, 80.0, n))
+    thickness = np.where(rng.random(n) < 0.1, 0.0, rng.uniform(0.0, 0.2, n))
+    r = outcome(insulated_pipe, 10.0 ** rng.uniform(-2.0, 0.3, n), tf, [Layer(thickness, rng.uniform(0.02, 0.2, n))],
+                air_temperature=ta, wind_speed=np.where(rng.random(n) < 0.3, 0.0, rng.uniform(0.0, 30.0, n)),
+                jacket_emissivity=rng.uniform(0.0, 1.0, n), sky_view_fraction=rng.uniform(0.0, 1.0, n),
+                solar_irradiance=np.where(rng.random(n) < 0.5, 0.0, rng.uniform(0.0, 1000.0, n)),
+                inner_coefficient=np.where(rng.random(n) < 0.5, 1e9, rng.uniform(5.0, 5000.0, n)))
+    assert not isinstance(r, InputError), r
+    assert r.converged.all()
+    assert_finite(r, skip=STILL_AIR_FIELDS)
