@@ -27,7 +27,7 @@ from .conductivity import Conductivity
 from .errors import InputError
 from .regimes import Flag
 from .roots import find_root
-from .surface import OuterSurface, SurfaceResult
+from .surface import OuterSurface, SurfaceResult, property_range_named
 from .validation import LAYER_THICKNESS_MAX, as_array, as_bounded, as_size
 
 __all__ = ["Layer", "PipeResult", "insulated_pipe"]
@@ -221,8 +221,9 @@ def insulated_pipe(
     no_resistance = np.broadcast_to(np.asarray(r_fixed) <= 0, shape)
     for layer in layers:
         no_resistance = no_resistance & (layer.thickness <= 0)
-    ts, converged = _solve_surface(residual, args, outer, tolerance, no_resistance)
-    exchange = outer.exchange(ts)
+    with property_range_named("fluid_temperature, air_temperature"):
+        ts, converged = _solve_surface(residual, args, outer, tolerance, no_resistance)
+        exchange = outer.exchange(ts)
     surface = outer.result(exchange)
     q_line = surface.q_per_length  # per metre of pipe (run length = length)
 

@@ -6,6 +6,7 @@ hot or cold, vectorized over every input.
 """
 from __future__ import annotations
 
+from contextlib import contextmanager
 from dataclasses import dataclass, fields
 
 import numpy as np
@@ -24,6 +25,19 @@ __all__ = ["GRAVITY", "SurfaceResult", "OuterSurface", "bare_surface"]
 
 #: Standard acceleration of gravity [m/s2] (CGPM 1901, exact by definition).
 GRAVITY = 9.80665
+
+
+@contextmanager
+def property_range_named(fields: str):
+    """Report the fluid's property range, met at a film, surface or free-stream temperature, under the
+    user's inputs ``fields`` instead of the internal ``temperature``."""
+    try:
+        yield
+    except InputError as exc:
+        if exc.field != "temperature":
+            raise
+        raise InputError(f"{' or '.join(fields.split(', '))}: the air (or fluid) around the surface leaves its "
+                         f"property range: {exc}", field=fields, rule=exc.rule, value=exc.value) from None
 
 
 @dataclass(frozen=True)
@@ -373,14 +387,8 @@ def bare_surface(
         exact_properties=exact_properties, convection_factor=convection_factor,
         convection_coefficient=convection_coefficient)
     ts = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
-    try:
+    with property_range_named("surface_temperature, air_temperature"):
         result = conditions.result(conditions.exchange(ts))
-    except InputError as exc:
-        if exc.field != "temperature":
-            raise
-        # the air's property range, met at the film, the surface or the free-stream temperature
-        raise InputError(f"surface_temperature or air_temperature: {exc}", field="surface_temperature, air_temperature",
-                         rule=exc.rule, value=exc.value) from None
     if strict and (result.warnings & ~Flag.INFORMATIONAL).any():
         raise InputError("; ".join(summarize_flags(result.warnings & ~Flag.INFORMATIONAL)), field="inputs",
                          rule="within the validity ranges of the correlations (strict=True)",

@@ -58,9 +58,13 @@ def pipe_inputs(draw):
 
 @given(pipe_inputs())
 def test_insulated_pipe_finite_or_input_error(kwargs):
+    arguments = set(kwargs) | {"inputs"}
     out = outcome(_pipe, kwargs.pop("pipe_outer_diameter"), kwargs.pop("fluid_temperature"),
                   kwargs.pop("layers"), **kwargs)
     if isinstance(out, InputError):
+        # the error names the caller's own arguments (or a layer's), not an internal quantity
+        named = {f for f in out.field.split(", ") if not f.startswith("layer ")}
+        assert named <= arguments | {"conductivity"}, out.field
         return
     assert_finite(out, skip=STILL_AIR_FIELDS)
     assert not np.isnan(out.richardson).any()

@@ -67,6 +67,8 @@ def surface_inputs(draw):
 def test_bare_surface_finite_or_input_error(kwargs):
     out = outcome(bare_surface, **kwargs)
     if isinstance(out, InputError):
+        # the error names the caller's own arguments, not an internal quantity
+        assert set(out.field.split(", ")) <= set(kwargs) | {"inputs"}, out.field
         return
     moving = np.asarray(kwargs["wind_speed"]) > 0
     assert_finite(out, skip=STILL_AIR_FIELDS)
