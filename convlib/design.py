@@ -151,6 +151,10 @@ def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, out
     if todo.any():
         res = find_root(excess, t_low[todo], np.full(int(todo.sum()), t_max),
                         args=(limit[todo], *(a[todo] for a in point)), xatol=1e-6, xrtol=0.0)
+        if not np.all(res.success):  # out of iterations: say so rather than return an unconverged thickness
+            raise InputError(f"the required thickness could not be found at {int((~res.success).sum())} case(s) "
+                             f"within {int(res.iterations.max())} iterations; check the inputs there", field="inputs",
+                             rule="a case whose thickness the solver finds", value=int((~res.success).sum()))
         required[todo] = res.x
     commercial = listed_thickness(required, commercial_thicknesses)
     at_commercial = np.full_like(limit, np.nan)

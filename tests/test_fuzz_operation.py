@@ -17,8 +17,8 @@ from fuzz_helpers import assert_finite, outcome, temperatures, wide
 
 pytestmark = pytest.mark.fuzz
 
-#: These calls march (tens of insulated_pipe calls each): a fifth of the profile's examples.
-slow = settings(max_examples=max(10, settings.default.max_examples // 5))
+#: These calls march (tens of insulated_pipe calls each): a tenth of the profile's examples (at least 10).
+slow = settings(max_examples=max(10, settings.default.max_examples // 10))
 STILL_AIR_FIELDS = ("richardson",)  # inf in still air by definition (SurfaceResult)
 
 line_layers = st.lists(st.builds(Layer, st.one_of(st.just(0.0), wide(1e-4, 1.0)), wide(0.01, 1.0)), max_size=2)
