@@ -512,8 +512,9 @@ def tracing_duty(pipe_outer_diameter, maintain_temperature, layers=(), *, air_te
 class FreezeTime:
     """Stagnant water in a line: times and the cooling curve (arrays over the cases).
 
-    Cases whose line settles above the freezing point (``never_freezes``) have infinite times
-    and NaN curves.
+    Cases whose line settles above the freezing point are flagged ``never_freezes``, and ``notes`` says so in
+    words; their times are inf and their curves NaN (no time exists). Test the flag, not the inf: an inf or NaN
+    summed into a total or written to a file says nothing. Every other case has finite times.
     """
 
     hours_to_freezing_point: np.ndarray      # sensible cooling from the initial temperature [h]
