@@ -172,7 +172,8 @@ def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, out
                         f"({largest * 1000:g} mm)")
     return ThicknessResult(
         required_thickness=required.reshape(shape), commercial_thickness=commercial.reshape(shape),
-        achievable=achievable.reshape(shape), listed=has.reshape(shape), value_at_commercial=at_commercial.reshape(shape),
+        achievable=achievable.reshape(shape), listed=has.reshape(shape),
+        value_at_commercial=at_commercial.reshape(shape),
         limit=limit.reshape(shape), quantity=quantity, messages=tuple(messages), cautions=tuple(cautions))
 
 

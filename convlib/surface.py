@@ -18,8 +18,8 @@ from .geometry import SHAPES, dimensions
 from .properties import fluid_properties
 from .radiation import effective_coefficient, net_flux, sky_temperature as clear_sky_temperature, solar_gain
 from .regimes import Flag, convection_mode, flow_names, flow_regime, mode_names, summarize_flags
-from .validation import (CONVECTION_COEFFICIENT_MAX, CONVECTION_FACTOR_MAX, MIXING_EXPONENT_RANGE, SOLAR_IRRADIANCE_MAX,
-                         WIND_SPEED_MAX, as_array, as_bounded, as_size, check_choice)
+from .validation import (CONVECTION_COEFFICIENT_MAX, CONVECTION_FACTOR_MAX, MIXING_EXPONENT_RANGE,
+                         SOLAR_IRRADIANCE_MAX, WIND_SPEED_MAX, as_array, as_bounded, as_size, check_choice)
 
 __all__ = ["GRAVITY", "SurfaceResult", "OuterSurface", "bare_surface"]
 
@@ -168,8 +168,8 @@ class OuterSurface:
         return cls(
             shape=shape, natural=natural, forced=forced, flow_direction=flow_direction, fluid=fluid,
             exact_properties=exact_properties, area=dims.area, run_length=dims.run_length,
-            air_temperature=ta, wind_speed=as_bounded("wind_speed", wind_speed, unit="m/s", accepted=(0.0, WIND_SPEED_MAX)),
-            emissivity=eps,
+            air_temperature=ta, emissivity=eps,
+            wind_speed=as_bounded("wind_speed", wind_speed, unit="m/s", accepted=(0.0, WIND_SPEED_MAX)),
             surroundings_temperature=tsur, sky_view_fraction=fraction, sky_temperature=np.asarray(t_sky),
             solar_per_area=np.asarray(solar_gain(absorptivity, irradiance, dims.projected_area)) / dims.area,
             pressure=as_array("pressure", pressure, unit="Pa", low=0.0, low_inclusive=False),

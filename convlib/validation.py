@@ -12,9 +12,9 @@ import numpy as np
 
 from .errors import InputError
 
-__all__ = ["as_array", "as_bounded", "as_size", "check_choice", "check_groups", "GROUP_RANGES", "SIZE_RANGE", "WIND_SPEED_MAX",
-           "SOLAR_IRRADIANCE_MAX", "LAYER_THICKNESS_MAX", "CONVECTION_COEFFICIENT_MAX", "CONVECTION_FACTOR_MAX",
-           "MIXING_EXPONENT_RANGE"]
+__all__ = ["as_array", "as_bounded", "as_size", "check_choice", "check_groups", "GROUP_RANGES", "SIZE_RANGE",
+           "WIND_SPEED_MAX", "SOLAR_IRRADIANCE_MAX", "LAYER_THICKNESS_MAX", "CONVECTION_COEFFICIENT_MAX",
+           "CONVECTION_FACTOR_MAX", "MIXING_EXPONENT_RANGE"]
 
 # ---- accepted input ranges: physically meaningful ones. Outside them a result would overflow to inf,
 # lose every digit, or describe nothing real, so the input is refused (InputError) instead.

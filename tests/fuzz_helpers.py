@@ -1,7 +1,7 @@
 """Shared checks of the property-based tests (tests/test_fuzz_*.py).
 
-:func:`outcome` runs a call with numpy's division, overflow and invalid-operation errors raised (``np.errstate(..., "raise")``;
-underflow to zero or a subnormal is harmless and numpy's default ignores it too)
+:func:`outcome` runs a call with numpy's division, overflow and invalid-operation errors raised
+(``np.errstate(..., "raise")``; underflow to zero or a subnormal is harmless and numpy's default ignores it too)
 and every ``RuntimeWarning`` turned into an error, and returns either the result or the
 :class:`convlib.errors.InputError` it raised; any other exception fails the test. :func:`assert_finite`
 then checks every float array of a result (dataclass fields, nested dataclasses, tuples, dicts).

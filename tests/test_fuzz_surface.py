@@ -54,8 +54,9 @@ def surface_inputs(draw):
         kwargs["surroundings_temperature"] = draw(temperatures)
     if draw(st.booleans()):  # any registered law of the shape, not only the default
         info = SHAPES[shape]
-        kwargs["natural"] = draw(st.sampled_from(sorted(set(registry.methods(info.natural_geometry, "natural"))
-                                                        & set(registry.methods(info.natural_geometry_cold, "natural")))))
+        both = set(registry.methods(info.natural_geometry, "natural")) & set(
+            registry.methods(info.natural_geometry_cold, "natural"))
+        kwargs["natural"] = draw(st.sampled_from(sorted(both)))
         kwargs["forced"] = draw(st.sampled_from(registry.methods(info.forced_geometry, "forced")))
     if draw(st.booleans()):
         kwargs["mixing_exponent"] = draw(st.one_of(st.floats(0.0, 30.0), wide(1e-300, 1e300)))
