@@ -4,7 +4,7 @@ VENV   ?= .venv
 PY     := $(VENV)/bin/python
 STAMP  := $(VENV)/.installed
 
-.PHONY: demo serve screenshots test bench loadtest clean
+.PHONY: demo serve screenshots test bench loadtest fuzz clean
 
 # Dashboard server options: make demo PORT=8866; make serve HOST=0.0.0.0 PORT=8866 POOL=2 VOILA_TOKEN=...
 PORT   ?= 8866
@@ -37,6 +37,10 @@ VIEWERS  ?= 10
 DURATION ?= 120
 loadtest: $(STAMP)
 	$(PY) -m dashboard.loadtest --viewers $(VIEWERS) --duration $(DURATION)
+
+# Property-based tests with the long hypothesis profile (thousands of examples per test): make fuzz
+fuzz: $(STAMP)
+	HYPOTHESIS_PROFILE=long $(PY) -m pytest -q -m fuzz
 
 bench: $(STAMP)
 	$(PY) benchmarks/startup.py

@@ -58,12 +58,16 @@ class ThicknessResult:
     """Result of a sizing; arrays broadcast over the inputs.
 
     ``required_thickness`` is NaN exactly where ``achievable`` is False (no thickness up
-    to ``max_thickness`` meets the limit); ``messages`` says so in words.
+    to ``max_thickness`` meets the limit), ``commercial_thickness`` and ``value_at_commercial``
+    exactly where ``listed`` is False (not reachable, or beyond the largest listed thickness);
+    ``messages`` says so in words. Test the flags, not the NaN: a NaN summed into a total or
+    written to a file says nothing.
     """
 
     required_thickness: np.ndarray     # exact thickness that just meets the limit [m]
     commercial_thickness: np.ndarray   # next thickness from the list [m]; NaN if none is enough
     achievable: np.ndarray             # bool: some thickness <= max_thickness meets the limit
+    listed: np.ndarray                 # bool: a listed (commercial) thickness meets the limit
     value_at_commercial: np.ndarray    # the limited quantity at the commercial thickness (K or W/m)
     limit: np.ndarray
     quantity: str                      # "surface temperature [K]" or "heat loss [W/m]"
@@ -135,7 +139,8 @@ def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, out
     t_low = np.zeros_like(limit) if low_thickness is None else np.asarray(low_thickness, float).ravel()
     at_low = excess(t_low, limit, *point)
     at_max = excess(np.full_like(limit, t_max), limit, *point)
-    met_low, achievable = at_low <= 0, at_max <= 0
+    met_low = at_low <= 0
+    achievable = met_low | (at_max <= 0)  # met at the start of the search already (e.g. a line colder than the limit)
     required = np.where(met_low, t_low, np.nan)
     if low_thickness is not None:
         # the search starts above zero (critical thickness): a bare line that meets the limit needs nothing
@@ -168,7 +173,8 @@ def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, out
                         f"({largest * 1000:g} mm)")
     return ThicknessResult(
         required_thickness=required.reshape(shape), commercial_thickness=commercial.reshape(shape),
-        achievable=achievable.reshape(shape), value_at_commercial=at_commercial.reshape(shape),
+        achievable=achievable.reshape(shape), listed=has.reshape(shape),
+        value_at_commercial=at_commercial.reshape(shape),
         limit=limit.reshape(shape), quantity=quantity, messages=tuple(messages), cautions=tuple(cautions))
 
 

@@ -21,13 +21,15 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+import time
+
 import numpy as np
 
 from .errors import InputError
 from .pipe import PipeResult, insulated_pipe
 from .properties import CP, fluid_properties  # CP: CoolProp.CoolProp, imported on first use
 from .roots import find_root
-from .validation import _show, as_array, check_choice
+from .validation import SIZE_RANGE, _show, as_array, as_bounded, check_choice
 
 __all__ = [
     "TRACING_MARGIN", "LATENT_HEAT_OF_FUSION", "WATER_FREEZING_TEMPERATURE", "CARBON_STEEL_DENSITY",
@@ -68,6 +70,11 @@ CAUTION_STEAM = ("Condensate load is for the steady running line; warm-up loads 
 # ----------------------------------------------------------------------------- marching
 _MIN_STEP = 1e-9      # smallest normalized step before giving up
 _MAX_STEPS = 20000    # accepted + rejected steps before giving up
+#: Default wall-clock bound of one march [s] (``time_limit`` of the marching functions); a march
+#: normally takes well under a second, so reaching it means the inputs ask for something unreasonable.
+TIME_LIMIT = 60.0
+#: Largest design margin on a tracing duty [-] (1000 %).
+MARGIN_MAX = 10.0
 
 
 class _OutOfRange(InputError):
@@ -82,11 +89,15 @@ def _rk4(rhs, s, y, h, k1):
     return y + h / 6.0 * (k1 + 2.0 * k2 + 2.0 * k3 + k4)
 
 
-def _march(rhs, y0, scale, tolerance, max_step):
+def _march(rhs, y0, scale, tolerance, max_step, time_limit=TIME_LIMIT):
     """dy/ds = rhs(s, y) from s = 0 to 1 by RK4 with step doubling (module docstring); a step passes when every
     element's error estimate is <= tolerance * scale (an array, or a callable of y at the step's start).
     Returns s grid, y stacked on it, accepted, rejected, evaluations.
+
+    Bounded: at most ``_MAX_STEPS`` accepted plus rejected steps and ``time_limit`` seconds of wall-clock time;
+    reaching either raises InputError saying where the march stopped (field ``tolerance`` or ``time_limit``).
     """
+    deadline = time.monotonic() + time_limit
     s, y, h = 0.0, np.asarray(y0, dtype=float), float(max_step)
     grid, values = [0.0], [y]
     accepted = rejected = 0
@@ -96,6 +107,10 @@ def _march(rhs, y0, scale, tolerance, max_step):
             # the solution itself leaves the range
             raise InputError(str(last_error), field=last_error.field, rule=last_error.rule,
                              value=last_error.value) from None
+        if time.monotonic() >= deadline:
+            raise InputError(f"marching stopped at its time limit of {time_limit:g} s, {s:.3g} of the way along "
+                             f"({accepted} steps); loosen the tolerance or raise time_limit", field="time_limit",
+                             rule="the march completes within it", value=time_limit)
         if accepted + rejected >= _MAX_STEPS or h < _MIN_STEP:
             raise InputError(f"marching failed to meet the tolerance {tolerance:g} (step {h:.3g} of the "
                              f"normalized range after {accepted} steps); loosen the tolerance", field="tolerance",
@@ -349,7 +364,7 @@ def _length_between(line, flow, theta_from, theta_to):
 def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), *, mass_flow, length,
                              air_temperature, fluid="Water", fluid_pressure=101325.0, fluid_phase="liquid",
                              specific_heat=None, constant_coefficient=False, freezing_temperature="auto",
-                             tolerance=1e-6, max_step=0.1, **pipe_options) -> LineProfile:
+                             tolerance=1e-6, max_step=0.1, time_limit=TIME_LIMIT, **pipe_options) -> LineProfile:
     r"""Fluid temperature along a line that loses (or gains) heat to the air, from trickle to full flow.
 
     The fluid tends to its equilibrium temperature :math:`T_{eq}`, at which :math:`q'(T_{eq}) = 0`
@@ -403,6 +418,9 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
         Local error per step [K] on the temperature and on :math:`Q / (\dot m c_{p,in})`.
     max_step : float
         Largest step as a fraction of the length (0-1]; the profile's coarsest spacing.
+    time_limit : float
+        Wall-clock bound of the march [s], default :data:`TIME_LIMIT`; reaching it (or the step bound)
+        raises ``InputError`` saying where the march stopped.
     **pipe_options
         Passed to :func:`convlib.pipe.insulated_pipe` (``wind_speed``, ``jacket_emissivity``,
         ``inner_coefficient`` -- give it for gas lines and bare lines, where the inside film is not
@@ -426,8 +444,9 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
     (True, 60)
     """
     flow = _positive("mass_flow", mass_flow, "kg/s")
-    run = _positive("length", length, "m")
+    run = as_bounded("length", length, unit="m", low_inclusive=False, accepted=SIZE_RANGE)
     tol = float(_positive("tolerance", tolerance, "K"))
+    limit_s = float(as_array("time_limit", time_limit, unit="s", low=0.0))
     step = float(as_array("max_step", max_step, low=0.0, high=1.0, low_inclusive=False))
     line = _line_model(pipe_outer_diameter, inlet_temperature, layers, air_temperature, fluid, fluid_pressure,
                        fluid_phase, specific_heat, constant_coefficient, freezing_temperature, pipe_options,
@@ -449,7 +468,7 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
         theta = np.abs(state(y[0])[1])
         return np.stack([1.0 / np.where(theta > 0, theta, 1.0), np.ones(shape)])
 
-    grid, values, accepted, rejected, _ = _march(rhs, np.zeros((2, *shape)), scale, tol, step)
+    grid, values, accepted, rejected, _ = _march(rhs, np.zeros((2, *shape)), scale, tol, step, limit_s)
     temperature, theta = state(values[:, 0])
     q_line = line.coefficient(theta) * theta
     position = np.broadcast_to(grid.reshape((-1,) + (1,) * len(shape)) * run, temperature.shape).copy()
@@ -691,7 +710,7 @@ def steam_line(pipe_outer_diameter, steam_pressure, layers=(), *, air_temperatur
     >>> round(float(s.saturation_temperature) - 273.15, 1), round(float(s.q_total)), round(float(s.condensate_rate), 2)
     (179.9, 5346, 9.55)
     """
-    run = as_array("length", length, unit="m", low=0.0)
+    run = as_bounded("length", length, unit="m", accepted=(0.0, SIZE_RANGE[1]))
     t_sat, h_fg = saturation_temperature(steam_pressure), latent_heat_of_vaporization(steam_pressure)
     r = insulated_pipe(pipe_outer_diameter, t_sat, layers, air_temperature=air_temperature, length=1.0,
                        **pipe_options)
@@ -753,8 +772,8 @@ def tracing_duty(pipe_outer_diameter, maintain_temperature, layers=(), *, air_te
     (10.14, 12.17)
     """
     t_maintain = _positive("maintain_temperature", maintain_temperature, "K")
-    m = as_array("margin", margin, low=0.0)
-    run = as_array("length", length, unit="m", low=0.0)
+    m = as_bounded("margin", margin, accepted=(0.0, MARGIN_MAX))
+    run = as_bounded("length", length, unit="m", accepted=(0.0, SIZE_RANGE[1]))
     r = insulated_pipe(pipe_outer_diameter, t_maintain, layers, air_temperature=air_temperature,
                        wind_speed=wind_speed, length=1.0, **pipe_options)
     shape = np.broadcast_shapes(r.q_per_length.shape, m.shape, run.shape)
@@ -775,8 +794,9 @@ def tracing_duty(pipe_outer_diameter, maintain_temperature, layers=(), *, air_te
 class FreezeTime:
     """Stagnant water in a line: times and the cooling curve (arrays over the cases).
 
-    Cases whose line settles above the freezing point (``never_freezes``) have infinite times
-    and NaN curves.
+    Cases whose line settles above the freezing point are flagged ``never_freezes``, and ``notes`` says so in
+    words; their times are inf and their curves NaN (no time exists). Test the flag, not the inf: an inf or NaN
+    summed into a total or written to a file says nothing. Every other case has finite times.
     """
 
     hours_to_freezing_point: np.ndarray      # sensible cooling from the initial temperature [h]
@@ -804,7 +824,7 @@ def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, l
                 pipe_density=CARBON_STEEL_DENSITY, pipe_specific_heat=CARBON_STEEL_SPECIFIC_HEAT,
                 water_specific_heat=None, latent_heat=LATENT_HEAT_OF_FUSION,
                 freezing_temperature=WATER_FREEZING_TEMPERATURE, constant_coefficient=False, tolerance=1e-7,
-                max_step=0.1, **pipe_options) -> FreezeTime:
+                max_step=0.1, time_limit=TIME_LIMIT, **pipe_options) -> FreezeTime:
     r"""Time for stagnant water in an insulated line to reach the freezing point and to freeze solid.
 
     Sensible cooling of the water and the pipe wall, the outer coefficient re-evaluated:
@@ -839,6 +859,8 @@ def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, l
         Local error per step relative to the case's time scale :math:`(T_0 - T_f) C'/q'(T_0)` [-].
     max_step : float
         Largest step as a fraction of the temperature fall (0-1].
+    time_limit : float
+        Wall-clock bound of the march [s], as in :func:`line_temperature_profile`.
     **pipe_options
         Passed to :func:`convlib.pipe.insulated_pipe` (``wind_speed``, ``jacket_emissivity``,
         ``pipe_conductivity`` -- the wall's resistance then counts too --, ...).
@@ -871,6 +893,7 @@ def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, l
     lf = _positive("latent_heat", latent_heat, "J/kg")
     tol = float(_positive("tolerance", tolerance))
     step = float(as_array("max_step", max_step, low=0.0, high=1.0, low_inclusive=False))
+    limit_s = float(as_array("time_limit", time_limit, unit="s", low=0.0))
     fixed_cw = None if water_specific_heat is None else _positive("water_specific_heat", water_specific_heat,
                                                                   "J/kg/K")
     options = dict(pipe_options)
@@ -904,7 +927,7 @@ def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, l
         return (fall * capacity(temperature) / np.where(never, 1.0, loss_at(temperature)))[None]
 
     scale = np.where(never | (fall == 0), 1.0, np.abs(fall * capacity(t0) / np.where(never, 1.0, q_start)))
-    grid, values, accepted, _, _ = _march(rhs, np.zeros((1, *shape)), scale, tol, step)
+    grid, values, accepted, _, _ = _march(rhs, np.zeros((1, *shape)), scale, tol, step, limit_s)
     sensible, solid = values[-1, 0], np.broadcast_to(m_w * lf, shape) / np.where(never, 1.0, q_freeze)
     curve_t = np.concatenate([t0[None] - grid.reshape((-1,) + (1,) * len(shape)) * fall[None], tf[None]])
     curve_h = np.concatenate([values[:, 0], (sensible + solid)[None]]) / 3600.0

@@ -28,8 +28,8 @@ from .conductivity import Conductivity
 from .errors import InputError
 from .regimes import Flag
 from .roots import find_root
-from .surface import OuterSurface, SurfaceResult
-from .validation import as_array
+from .surface import OuterSurface, SurfaceResult, property_range_named
+from .validation import LAYER_THICKNESS_MAX, as_array, as_bounded, as_size
 
 __all__ = ["Layer", "PipeResult", "insulated_pipe"]
 
@@ -41,7 +41,7 @@ class Layer:
     Parameters
     ----------
     thickness : numeric
-        Radial thickness [m], >= 0 (0: the layer is absent; arrays broadcast with the other inputs).
+        Radial thickness [m], 0 to 10 (0: the layer is absent; arrays broadcast with the other inputs).
     conductivity : float or Conductivity
         [W/m/K]; a number is a constant, see :class:`convlib.conductivity.Conductivity`
         for k(T) as a polynomial or a table.
@@ -59,7 +59,8 @@ class Layer:
     name: str = "insulation"
 
     def __post_init__(self):
-        object.__setattr__(self, "thickness", as_array(f"{self.name} thickness", self.thickness, unit="m", low=0.0))
+        object.__setattr__(self, "thickness", as_bounded(f"{self.name} thickness", self.thickness, unit="m",
+                                                         accepted=(0.0, LAYER_THICKNESS_MAX)))
         object.__setattr__(self, "conductivity", Conductivity.of(self.conductivity))
 
 
@@ -110,7 +111,7 @@ def insulated_pipe(
     Parameters
     ----------
     pipe_outer_diameter : numeric
-        Outer diameter of the pipe itself [m] (see :mod:`convlib.pipe_sizes` for NPS).
+        Outer diameter of the pipe itself [m], 1e-6 to 1e6 (see :mod:`convlib.pipe_sizes` for NPS).
     fluid_temperature : numeric
         Temperature of the fluid inside [K]; below the air temperature for a cold line.
     layers : sequence of Layer
@@ -147,7 +148,7 @@ def insulated_pipe(
     >>> round(float(r.q_per_length), 1), round(float(r.surface_temperature) - 273.15, 1)
     (63.1, 39.7)
     """
-    d_pipe = as_array("pipe_outer_diameter", pipe_outer_diameter, unit="m", low=0.0, low_inclusive=False)
+    d_pipe = as_size("pipe_outer_diameter", pipe_outer_diameter)
     tf = as_array("fluid_temperature", fluid_temperature, unit="K", low=0.0, low_inclusive=False)
     layers = list(layers)
     for layer in layers:
@@ -221,8 +222,9 @@ def insulated_pipe(
     no_resistance = np.broadcast_to(np.asarray(r_fixed) <= 0, shape)
     for layer in layers:
         no_resistance = no_resistance & (layer.thickness <= 0)
-    ts, converged = _solve_surface(residual, args, outer, tolerance, no_resistance)
-    exchange = outer.exchange(ts)
+    with property_range_named("fluid_temperature, air_temperature"):
+        ts, converged = _solve_surface(residual, args, outer, tolerance, no_resistance)
+        exchange = outer.exchange(ts)
     surface = outer.result(exchange)
     q_line = surface.q_per_length  # per metre of pipe (run length = length)
 

@@ -6,6 +6,7 @@ hot or cold, vectorized over every input.
 """
 from __future__ import annotations
 
+from contextlib import contextmanager
 from dataclasses import dataclass, fields
 
 import numpy as np
@@ -17,12 +18,26 @@ from .geometry import SHAPES, dimensions
 from .properties import fluid_properties
 from .radiation import effective_coefficient, net_flux, sky_temperature as clear_sky_temperature, solar_gain
 from .regimes import Flag, convection_mode, flow_names, flow_regime, mode_names, summarize_flags
-from .validation import as_array, check_choice
+from .validation import (CONVECTION_COEFFICIENT_MAX, CONVECTION_FACTOR_MAX, MIXING_EXPONENT_RANGE,
+                         SOLAR_IRRADIANCE_MAX, WIND_SPEED_MAX, as_array, as_bounded, as_size, check_choice)
 
 __all__ = ["GRAVITY", "SurfaceResult", "OuterSurface", "bare_surface"]
 
 #: Standard acceleration of gravity [m/s2] (CGPM 1901, exact by definition).
 GRAVITY = 9.80665
+
+
+@contextmanager
+def property_range_named(fields: str):
+    """Report the fluid's property range, met at a film, surface or free-stream temperature, under the
+    user's inputs ``fields`` instead of the internal ``temperature``."""
+    try:
+        yield
+    except InputError as exc:
+        if exc.field != "temperature":
+            raise
+        raise InputError(f"{' or '.join(fields.split(', '))}: the air (or fluid) around the surface leaves its "
+                         f"property range: {exc}", field=fields, rule=exc.rule, value=exc.value) from None
 
 
 @dataclass(frozen=True)
@@ -51,7 +66,7 @@ class SurfaceResult:
     grashof: np.ndarray                   # on the natural length [-]
     reynolds: np.ndarray                  # on the forced length, 0 in still air [-]
     prandtl: np.ndarray                   # at film temperature [-]
-    richardson: np.ndarray                # Gr/Re^2 on the forced length, inf in still air [-]
+    richardson: np.ndarray                # Gr/Re^2 on the forced length, inf in still or vanishing wind [-]
     regime: np.ndarray                    # convection mode code, see convlib.regimes.MODE_NAMES
     flow_regime: np.ndarray               # laminar/transitional/turbulent code of the dominant mode
     warnings: np.ndarray                  # bit mask of convlib.regimes.Flag
@@ -120,7 +135,10 @@ class OuterSurface:
         check_choice("shape", shape, SHAPES)
         check_choice("flow direction", flow_direction, FLOW_DIRECTIONS)
         info = SHAPES[shape]
-        dims = dimensions(shape, diameter=diameter, length=length, height=height, width=width)
+        sizes = {name: None if value is None else as_size(name, value)
+                 for name, value in (("diameter", diameter), ("length", length), ("height", height),
+                                     ("width", width))}
+        dims = dimensions(shape, **sizes)
         ta = as_array("air_temperature", air_temperature, unit="K", low=0.0, low_inclusive=False)
         eps = as_array("emissivity", emissivity, low=0.0, high=1.0)
         tsur = ta if surroundings_temperature is None else as_array(
@@ -132,7 +150,8 @@ class OuterSurface:
             t_sky = as_array("sky_temperature", sky_temperature, unit="K", low=0.0, low_inclusive=False)
         absorptivity = eps if solar_absorptivity is None else as_array(
             "solar_absorptivity", solar_absorptivity, low=0.0, high=1.0)
-        irradiance = as_array("solar_irradiance", solar_irradiance, unit="W/m2", low=0.0)
+        irradiance = as_bounded("solar_irradiance", solar_irradiance, unit="W/m2",
+                                accepted=(0.0, SOLAR_IRRADIANCE_MAX))
         natural = info.default_natural if natural is None else natural
         forced = info.default_forced if forced is None else forced
         for field_name, geometry, key in (("natural", info.natural_geometry, natural),
@@ -143,20 +162,24 @@ class OuterSurface:
             except InputError as exc:
                 raise exc.within(field_name) from None
         n_mix = (np.asarray(default_mixing_exponent(flow_direction, info.round_body)) if mixing_exponent is None
-                 else as_array("mixing_exponent", mixing_exponent, low=0.0, low_inclusive=False))
+                 else as_bounded("mixing_exponent", mixing_exponent, low_inclusive=False,
+                                  accepted=MIXING_EXPONENT_RANGE))
         ratio = np.asarray(1.0) if dims.diameter_over_length is None else dims.diameter_over_length
         return cls(
             shape=shape, natural=natural, forced=forced, flow_direction=flow_direction, fluid=fluid,
             exact_properties=exact_properties, area=dims.area, run_length=dims.run_length,
-            air_temperature=ta, wind_speed=as_array("wind_speed", wind_speed, unit="m/s", low=0.0), emissivity=eps,
+            air_temperature=ta, emissivity=eps,
+            wind_speed=as_bounded("wind_speed", wind_speed, unit="m/s", accepted=(0.0, WIND_SPEED_MAX)),
             surroundings_temperature=tsur, sky_view_fraction=fraction, sky_temperature=np.asarray(t_sky),
             solar_per_area=np.asarray(solar_gain(absorptivity, irradiance, dims.projected_area)) / dims.area,
             pressure=as_array("pressure", pressure, unit="Pa", low=0.0, low_inclusive=False),
             mixing_exponent=n_mix, natural_length=dims.natural_length, forced_length=dims.forced_length,
             diameter_over_length=ratio,
-            convection_factor=as_array("convection_factor", convection_factor, low=0.0, low_inclusive=False),
-            given_coefficient=np.asarray(np.nan) if convection_coefficient is None else as_array(
-                "convection_coefficient", convection_coefficient, unit="W/m2/K", low=0.0, low_inclusive=False),
+            convection_factor=as_bounded("convection_factor", convection_factor, low_inclusive=False,
+                                          accepted=(0.0, CONVECTION_FACTOR_MAX)),
+            given_coefficient=np.asarray(np.nan) if convection_coefficient is None else as_bounded(
+                "convection_coefficient", convection_coefficient, unit="W/m2/K", low_inclusive=False,
+                accepted=(0.0, CONVECTION_COEFFICIENT_MAX)),
         )
 
     def point_arrays(self) -> tuple[np.ndarray, ...]:
@@ -225,8 +248,12 @@ class OuterSurface:
         if nat_hot.fitted_for_air_only and self.fluid.lower() != "air":
             flags = flags | Flag.FLUID_NOT_FITTED
         flags = np.where(is_given, Flag.COEFFICIENT_GIVEN, flags)  # no correlation's range applies
-        with np.errstate(divide="ignore", invalid="ignore"):
-            richardson = np.where(moving, buoyancy * l_frc ** 3 / np.where(moving, reynolds, 1.0) ** 2, np.inf)
+        # Ri = Gr/Re^2 on the forced length; still air, and wind so slight that Re^2 underflows to 0
+        # (e.g. 1e-300 m/s: 0/0 at zero temperature difference) or Ri overflows, is natural convection: Ri = inf.
+        with np.errstate(under="ignore", over="ignore"):
+            re_squared = np.where(moving, reynolds, 0.0) ** 2
+            stirring = re_squared > 0
+            richardson = np.where(stirring, buoyancy * l_frc ** 3 / np.where(stirring, re_squared, 1.0), np.inf)
         natural_flow = flow_regime(nat_hot.geometry, rayleigh)
         if info.natural_geometry_cold != info.natural_geometry:
             natural_flow = np.where(delta < 0, flow_regime(info.natural_geometry_cold, rayleigh), natural_flow)
@@ -297,9 +324,10 @@ def bare_surface(
     air_temperature : numeric
         Ambient air temperature :math:`T_a` [K].
     diameter, length, height, width : numeric
-        Sizes the shape takes [m] (see :mod:`convlib.geometry`).
+        Sizes the shape takes [m] (see :mod:`convlib.geometry`), 1e-6 to 1e6 m
+        (:data:`convlib.validation.SIZE_RANGE`).
     wind_speed : numeric
-        Wind speed [m/s], >= 0; 0 is still air (purely natural convection).
+        Wind speed [m/s], 0 to 100 (incompressible flow); 0 is still air (purely natural convection).
     emissivity : numeric
         Long-wave emissivity of the surface [-], 0..1.
     surroundings_temperature : numeric, optional
@@ -310,7 +338,7 @@ def bare_surface(
     sky_temperature : numeric, optional
         Sky temperature [K]; default a clear sky after Swinbank (1963).
     solar_irradiance : numeric
-        Solar irradiance on the projected area [W/m2], >= 0.
+        Solar irradiance on the projected area [W/m2], 0 to 1400 (about the solar constant).
     solar_absorptivity : numeric, optional
         Short-wave absorptivity [-]; default the emissivity (grey surface).
     pressure : numeric
@@ -320,16 +348,16 @@ def bare_surface(
     flow_direction : {"transverse", "assisting", "opposing"}
         How buoyancy acts relative to the wind; a horizontal wind is transverse.
     mixing_exponent : numeric, optional
-        Churchill exponent n of :math:`Nu^n = Nu_F^n \pm Nu_N^n`; default per shape and direction.
+        Churchill exponent n of :math:`Nu^n = Nu_F^n \pm Nu_N^n`, 0.5 to 20; default per shape and direction.
     fluid : str
         CoolProp fluid around the surface (default air).
     exact_properties : bool
         Call CoolProp directly instead of the interpolation table.
     convection_factor : numeric
-        Multiplier on the convective coefficient [-], default 1: the model-form
+        Multiplier on the convective coefficient [-], (0, 1000], default 1: the model-form
         uncertainty of the correlation in sensitivity studies.
     convection_coefficient : numeric, optional
-        A convective coefficient [W/m2/K] > 0 to use instead of the correlations (one a
+        A convective coefficient [W/m2/K], 0 < h <= 1e8, to use instead of the correlations (one a
         specification prescribes, a measured one, a textbook's); radiation is still computed
         from the emissivity (give ``emissivity=0`` when the value is a combined coefficient).
         Flagged ``COEFFICIENT_GIVEN`` (informational); the Nusselt number is that of the given
@@ -359,7 +387,8 @@ def bare_surface(
         exact_properties=exact_properties, convection_factor=convection_factor,
         convection_coefficient=convection_coefficient)
     ts = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
-    result = conditions.result(conditions.exchange(ts))
+    with property_range_named("surface_temperature, air_temperature"):
+        result = conditions.result(conditions.exchange(ts))
     if strict and (result.warnings & ~Flag.INFORMATIONAL).any():
         raise InputError("; ".join(summarize_flags(result.warnings & ~Flag.INFORMATIONAL)), field="inputs",
                          rule="within the validity ranges of the correlations (strict=True)",

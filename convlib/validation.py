@@ -12,7 +12,38 @@ import numpy as np
 
 from .errors import InputError
 
-__all__ = ["as_array", "check_choice"]
+__all__ = ["as_array", "as_bounded", "as_size", "check_choice", "check_groups", "GROUP_RANGES", "SIZE_RANGE",
+           "WIND_SPEED_MAX", "SOLAR_IRRADIANCE_MAX", "LAYER_THICKNESS_MAX", "CONVECTION_COEFFICIENT_MAX",
+           "CONVECTION_FACTOR_MAX", "MIXING_EXPONENT_RANGE"]
+
+# ---- accepted input ranges: physically meaningful ones. Outside them a result would overflow to inf,
+# lose every digit, or describe nothing real, so the input is refused (InputError) instead.
+# Temperatures and pressures are bounded by the fluid's property data (convlib.properties).
+#: Sizes of a body [m] (diameter, length, height, width): a 1 um wire to a 1000 km run.
+SIZE_RANGE = (1e-6, 1e6)
+#: Wind or air speed [m/s]: the models take incompressible flow, Mach < 0.3 (about 100 m/s in air;
+#: common practice, no source); the strongest gusts measured are about 113 m/s (from memory).
+WIND_SPEED_MAX = 100.0
+#: Solar irradiance on a surface [W/m2]: the solar constant is 1361 W/m2 (Kopp & Lean (2011),
+#: Geophys. Res. Lett. 38:L01706), which no surface on the ground exceeds without concentration.
+SOLAR_IRRADIANCE_MAX = 1400.0
+#: Thickness of one insulation (or other) layer [m].
+LAYER_THICKNESS_MAX = 10.0
+#: A convective (or inside film) coefficient given by the user [W/m2/K]: above condensing steam
+#: (about 1e4-1e5) with room for "the surface is at the fluid temperature" studies.
+CONVECTION_COEFFICIENT_MAX = 1e8
+#: Multiplier on a convective coefficient (model-form studies) [-].
+CONVECTION_FACTOR_MAX = 1e3
+#: Churchill's (1977) mixed-convection exponent n [-]: 3 (transverse) or 4 in the source; 1 adds the
+#: coefficients, large n takes the larger one.
+MIXING_EXPONENT_RANGE = (0.5, 20.0)
+
+#: Accepted ranges of the dimensionless groups given to :func:`convlib.correlations.nusselt` (inclusive).
+#: Far wider than any published correlation (their own ranges are flagged, not refused); beyond them a
+#: number has no physical meaning for convection to or from air and overflows in the power laws.
+#: Ra: 1e20 is a 1 km body 1000 K above the air; Re: 1e12; Pr: liquid metals (~1e-3) to heavy oils.
+GROUP_RANGES = {"Ra": (0.0, 1e20), "Re": (0.0, 1e12), "Pr": (1e-4, 1e6), "Pr_s": (1e-4, 1e6),
+                "viscosity_ratio": (1e-6, 1e6), "diameter_over_length": (1e-9, 1e9)}
 
 
 def _show(values: np.ndarray) -> str:
@@ -117,3 +148,52 @@ def check_choice(name: str, value, choices) -> str:
         rule = f"one of: {', '.join(map(str, choices))}"
         raise InputError(f"unknown {name} {value!r}; choose {rule}", field=name, rule=rule, value=value)
     return value
+
+
+def check_groups(**groups) -> dict[str, np.ndarray]:
+    """Dimensionless groups as arrays, each within :data:`GROUP_RANGES` (``None`` passes through).
+
+    >>> check_groups(Ra=1e6, Pr=None)["Ra"].item()
+    1000000.0
+    >>> check_groups(Pr=1e300)
+    Traceback (most recent call last):
+    ...
+    convlib.errors.InputError: Pr must be between 0.0001 and 1e+06; got 1e+300
+    """
+    out = {}
+    for name, value in groups.items():
+        if value is None:
+            out[name] = None
+            continue
+        low, high = GROUP_RANGES.get(name, (None, None))
+        out[name] = as_array(name, value, low=low, high=high)
+    return out
+
+
+def as_bounded(name: str, value, *, unit: str = "", low: float = 0.0, low_inclusive: bool = True,
+               accepted: tuple[float, float]) -> np.ndarray:
+    """``value`` checked against its sign rule (``low``) first, then against its ``accepted`` range.
+
+    Two steps so that a wrong sign reads as such ("must be at least 0") and only a value of the right
+    sign but outside what is physically meaningful meets the accepted range.
+
+    >>> as_bounded("wind_speed", 1e3, unit="m/s", accepted=(0.0, 100.0))
+    Traceback (most recent call last):
+    ...
+    convlib.errors.InputError: wind_speed must be between 0 and 100 m/s; got 1000.0 m/s
+    """
+    as_array(name, value, unit=unit, low=low, low_inclusive=low_inclusive)
+    return as_array(name, value, unit=unit, low=accepted[0], high=accepted[1])
+
+
+def as_size(name: str, value) -> np.ndarray:
+    """A size [m]: greater than 0, then within :data:`SIZE_RANGE`.
+
+    >>> as_size("diameter", 0.1).item()
+    0.1
+    >>> as_size("diameter", 1e9)
+    Traceback (most recent call last):
+    ...
+    convlib.errors.InputError: diameter must be between 1e-06 and 1e+06 m; got 1000000000.0 m
+    """
+    return as_bounded(name, value, unit="m", low_inclusive=False, accepted=SIZE_RANGE)

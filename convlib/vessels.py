@@ -54,7 +54,7 @@ from .radiation import SKY_VIEW_FRACTION_TYPICAL
 from .regimes import Flag, convection_mode
 from .roots import find_root
 from .surface import GRAVITY, OuterSurface, SurfaceResult
-from .validation import as_array, check_choice
+from .validation import as_array, as_size, check_choice
 
 __all__ = ["GROUND_CONDUCTIVITY", "FLOORS", "WIND_DIRECTIONS", "SQUARE_CYLINDER_RE_RANGE", "Face", "FacesResult",
            "disc_as_plate", "vertical_tank", "spherical_tank", "rectangular_duct", "FaceThickness",
@@ -124,7 +124,7 @@ def disc_as_plate(diameter):
     >>> round(float(length), 4), round(float(width * length / (2 * (length + width))), 6)
     (3.1416, 1.0)
     """
-    d = as_array("diameter", diameter, unit="m", low=0.0, low_inclusive=False)
+    d = as_size("diameter", diameter)
     return np.pi * d / 4.0, np.pi * d / (2.0 * (np.pi - 2.0))
 
 
@@ -300,8 +300,8 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
     (['wall', 'roof', 'floor'], 253.0)
     """
     check_choice("floor", floor, FLOORS)
-    d = as_array("diameter", diameter, unit="m", low=0.0, low_inclusive=False)
-    h = as_array("height", height, unit="m", low=0.0, low_inclusive=False)
+    d = as_size("diameter", diameter)
+    h = as_size("height", height)
     if surface_temperature is None and fluid_temperature is None:
         raise InputError("give surface_temperature (a bare tank) or fluid_temperature (the contents, with layers)",
                          field="surface_temperature, fluid_temperature", rule="exactly one of them", value=None)
@@ -416,7 +416,7 @@ def spherical_tank(diameter, *, air_temperature, surface_temperature=None, fluid
     >>> round(float(r.q_total) / 1e3, 2), round(float(r.face("shell").surface_temperature) - 273.15, 1)
     (-6.97, 20.5)
     """
-    d = as_array("diameter", diameter, unit="m", low=0.0, low_inclusive=False)
+    d = as_size("diameter", diameter)
     layers = list(layers)
     if (wall_thickness is None) != (wall_conductivity is None):
         raise InputError("give wall_thickness and wall_conductivity together (or neither: a thin shell)",
@@ -640,9 +640,9 @@ def rectangular_duct(width, height, length, *, air_temperature, surface_temperat
     586
     """
     check_choice("wind_direction", wind_direction, WIND_DIRECTIONS)
-    w = as_array("width", width, unit="m", low=0.0, low_inclusive=False)
-    h = as_array("height", height, unit="m", low=0.0, low_inclusive=False)
-    run = as_array("length", length, unit="m", low=0.0, low_inclusive=False)
+    w = as_size("width", width)
+    h = as_size("height", height)
+    run = as_size("length", length)
     layers = list(layers)
     fixed = _film(inner_coefficient)
     inner = _known_temperature(surface_temperature, fluid_temperature, "duct", layers=layers,

@@ -16,6 +16,7 @@ import numpy as np
 
 from ..errors import InputError
 from ..regimes import Flag, summarize_flags
+from ..validation import check_groups
 from . import forced as _f
 from . import natural as _n
 
@@ -368,6 +369,7 @@ def nusselt(geometry: str, method: str, Ra=None, Re=None, Pr=None, Pr_s=None, *,
         Dimensionless groups the correlation needs [-].
     strict : bool
         Raise ``InputError`` (a ``ValueError``) instead of warning when any point is out of range.
+        Groups outside :data:`convlib.validation.GROUP_RANGES` (no physical meaning) always raise it.
     full_output : bool
         Return ``(nusselt, flags)`` with the per-point bit mask.
     **extra : numeric
@@ -386,7 +388,8 @@ def nusselt(geometry: str, method: str, Ra=None, Re=None, Pr=None, Pr_s=None, *,
     ...
     convlib.errors.InputError: unknown method 'churchill' for geometry 'horizontal_cylinder'; choose one of: churchill_chu, churchill_chu_laminar, morgan, kuehn_goldstein
     """
-    nu, flags = evaluate(geometry, method, Ra=Ra, Re=Re, Pr=Pr, Pr_s=Pr_s, **extra)
+    groups = check_groups(Ra=Ra, Re=Re, Pr=Pr, Pr_s=Pr_s, **extra)  # physically meaningful, no overflow
+    nu, flags = evaluate(geometry, method, **groups)
     if (flags & ~Flag.INFORMATIONAL).any():
         text = f"{geometry}/{method}: " + "; ".join(summarize_flags(flags & ~Flag.INFORMATIONAL))
         if strict:
