@@ -130,7 +130,8 @@ def _cmd_freeze(args) -> int:
     initial = value(args, "initial_temperature")
     ambient = value(args, "minimum_ambient")
     r = freeze_time(d, wall, initial, layers(args), air_temperature=ambient, **outside(args))
-    row = {"tag": args.tag, "initial_temperature": initial, "air_temperature": ambient}
+    row = {"tag": args.tag, "initial_temperature": initial, "air_temperature": ambient,
+           "freezes": "no" if bool(r.never_freezes) else "yes"}  # said in the row, never as an inf time
     if not bool(r.never_freezes):
         row.update(time_to_freezing_point=3600.0 * float(r.hours_to_freezing_point),
                    time_to_freeze_solid=3600.0 * float(r.hours_to_freeze_solid),

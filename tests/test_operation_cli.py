@@ -44,6 +44,22 @@ def test_freeze_json_in_seconds_and_table_in_hours():
     assert f"{float(f.hours_total):.2f}" in table.stdout and "[h]" in table.stdout
 
 
+def test_freeze_says_never_in_the_row_not_as_an_infinite_time():
+    # still water at 8 degC in air at +5 degC settles above 0 degC: no freeze time exists (issue 14: a flag with a
+    # message in every output, never an inf that travels into a table)
+    proc = run("freeze", "--nps", "2", "--initial-temperature", "8degC", "--minimum-ambient", "5degC", "--layer",
+               "30mm,0.04", "--json")
+    assert proc.returncode == 0, proc.stderr
+    assert "Infinity" not in proc.stdout and "NaN" not in proc.stdout
+    payload = json.loads(proc.stdout)
+    row = payload["freeze time (stagnant water)"]["results"][0]
+    assert row["freezes"] == "no" and "time_total" not in row
+    assert any("no freezing under these conditions" in c for c in payload["cautions"])
+    table = run("freeze", "--nps", "2", "--initial-temperature", "8degC", "--minimum-ambient", "5degC", "--layer",
+                "30mm,0.04")
+    assert "inf" not in table.stdout.lower().replace("information", "") and "no freezing" in table.stdout
+
+
 def test_steam_json_condensate_is_the_library_rate():
     proc = run("steam", "--nps", "6", "--steam-pressure", "3.5bar", "--air-temperature=-10degC", "--layer",
                "80mm,0.045", "--length", "260", "--wind-speed", "6", "--json")
