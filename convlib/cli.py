@@ -46,7 +46,8 @@ from .correlations import catalog
 from .demo import load_demo_site, operation_rows
 from .errors import InputError
 from .files import read_json
-from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, COMMERCIAL_THICKNESSES, CONDENSATION_MARGIN, WeatherBins, annual_energy, thickness_against_condensation,
+from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, COMMERCIAL_THICKNESSES, CONDENSATION_MARGIN, WeatherBins,
+                     annual_energy, thickness_against_condensation,
                      thickness_for_heat_loss, thickness_for_surface_temperature)
 from .geometry import SHAPES
 from .pipe import insulated_pipe

@@ -113,10 +113,12 @@ def condensation_check(args, rows: list[dict], air_temperature) -> list[str]:
     return [CAUTION_CONDENSATION]
 
 
-def table(rows: list[dict], units: str, out=sys.stdout) -> None:
+def table(rows: list[dict], units: str, out=None) -> None:
+    out = sys.stdout if out is None else out  # the stream at call time (not at import)
     if not rows:
         return
-    names = [n for n in dict.fromkeys(k for row in rows for k in row) if n not in ("warnings",)]  # every column
+    names = [n for n in dict.fromkeys(k for row in rows for k in row) if n not in ("warnings", "notes")]  # all
+    names += ["notes"] if any("notes" in row for row in rows) else []
     heads, cells = [], [[] for _ in rows]
     for name in names:
         if name in FIELDS:

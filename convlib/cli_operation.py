@@ -253,7 +253,8 @@ def _exposure_options(p, what: str, contents: str, sky: str) -> None:
 def _emit_faces(args, title, r, air_temperature, sizing=()) -> None:
     """Face rows, the total and the notes of a vessel or duct, and any sizing rows; hot/cold cautions from the
     exposed faces."""
-    rows = [{"item": args.tag, "tag": f.name, "shape": f.shape, "area": float(f.area), "surface_temperature": float(f.surface_temperature),
+    rows = [{"item": args.tag, "tag": f.name, "shape": f.shape, "area": float(f.area),
+             "surface_temperature": float(f.surface_temperature),
              "q_per_area": float(f.q_per_area), "q_total": float(f.q_total),
              "warnings": [] if f.surface is None else f.surface.warning_messages()} for f in r.faces]
     total = float(r.q_total)
