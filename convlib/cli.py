@@ -41,15 +41,16 @@ import numpy as np
 
 from . import __version__
 from .cli_common import (ALLOW_HELP, LAYER_UNITS, add_quantity, conditions, display_unit, emit, from_si, layers,
-                         output_options, pipe_diameter, pipe_options, pretty_unit, surface_cautions, surface_row, table,
-                         value)
+                         condensation_check, condensation_options, output_options, pipe_diameter, pipe_options,
+                         pretty_unit, surface_cautions, surface_row, table, units_map, value)
 from .cli_operation import add_commands as add_operation_commands
 from .cli_survey import add_commands as add_survey_commands
 from .correlations import catalog
 from .demo import load_demo_site, operation_rows
 from .errors import InputError
 from .files import read_json
-from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, WeatherBins, annual_energy, thickness_against_condensation,
+from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, COMMERCIAL_THICKNESSES, CONDENSATION_MARGIN, WeatherBins,
+                     annual_energy, thickness_against_condensation,
                      thickness_for_heat_loss, thickness_for_surface_temperature)
 from .geometry import SHAPES
 from .pipe import insulated_pipe
@@ -86,20 +87,51 @@ def _cmd_line(args) -> int:
     r = insulated_pipe(pipe_diameter(args), value(args, "fluid_temperature"), layers(args),
                        length=value(args, "length"), **conditions(args))
     rows = [surface_row(args.tag, r, ("fluid_temperature", "outer_diameter"))]
-    emit(args, [("line", rows)], surface_cautions(rows))
+    checked = condensation_check(args, rows, value(args, "air_temperature"))
+    emit(args, [("line", rows)], [*surface_cautions(rows), *checked])
     return 0
 
 
 def _sizing_rows(tag, result, kind_label) -> dict:
-    return {"tag": tag, "limit on": kind_label,
-            "required thickness [mm]": _mm(result.required_thickness),
-            "commercial thickness [mm]": _mm(result.commercial_thickness),
-            "notes": "; ".join(result.messages) or "-"}
+    """One row of a sizing: the limit, the assumptions it used (air, wind, emissivity, margin, dew point), the
+    thicknesses and the jacket temperature and heat flow at the listed thickness (SI; ``None``: not applicable)."""
+    def known(x):
+        x = float(np.ravel(x)[0])
+        return None if np.isnan(x) else x
+
+    row = {"tag": tag, "limit on": kind_label}
+    if result.quantity.startswith("heat"):
+        row["heat_loss_limit"] = known(result.limit)
+    elif kind_label == "condensation":
+        row["dew_point"] = known(result.dew_point)
+        row["margin"] = known(result.margin)
+    else:
+        row["touch_limit"] = known(result.limit)
+    if "touch_limit" in row:
+        row["limit_source"] = "given" if result.limit_given else "default"
+    row.update(air_temperature=known(result.air_temperature),
+               wind_speed=known(result.wind_speed), jacket_emissivity=known(result.jacket_emissivity),
+               required_thickness=known(result.required_thickness),
+               commercial_thickness=known(result.commercial_thickness),
+               surface_temperature_at_listed=known(result.surface_temperature_at_commercial),
+               q_per_length_at_listed=known(result.q_per_length_at_commercial),
+               notes="; ".join(result.messages) or "-")
+    return row
 
 
-def _mm(value) -> str:
-    value = float(value)
-    return "not reachable" if np.isnan(value) else f"{value * 1000:.1f}"
+def _thickness_list(args):
+    """``--thicknesses 25,40,50``: the catalogue of available thicknesses (plain numbers mm, US in)."""
+    if args.thicknesses is None:
+        return COMMERCIAL_THICKNESSES
+    parts = [p.strip() for p in args.thicknesses.split(",") if p.strip()]
+    if not parts:
+        raise InputError("--thicknesses: give the available thicknesses separated by commas, e.g. 25mm,40mm,50mm",
+                         field="--thicknesses", rule="a comma-separated list of thicknesses", value=args.thicknesses)
+    values = [value(args, "", p, "thickness", "--thicknesses") for p in parts]
+    if min(values) <= 0:
+        raise InputError(f"--thicknesses: every thickness must be greater than 0; got {args.thicknesses!r}",
+                         field="--thicknesses", rule="each greater than 0", value=args.thicknesses)
+    return tuple(values)
 
 
 def _cmd_size(args) -> int:
@@ -108,32 +140,48 @@ def _cmd_size(args) -> int:
     k = value(args, "insulation_conductivity")
     outer = layers(args, "jacket")
     cond = conditions(args)
+    common = dict(insulation_conductivity=k, outer_layers=outer, commercial_thicknesses=_thickness_list(args))
     chosen = [name for name in ("touch_limit", "heat_loss_limit", "relative_humidity") if getattr(args, name)]
     if len(chosen) != 1:
         raise InputError("give exactly one limit: --touch-limit, --heat-loss-limit or --relative-humidity",
                          field="--touch-limit, --heat-loss-limit, --relative-humidity", rule="exactly one of them",
                          value=chosen)
+    for option, needs in (("hottest_air_temperature", "touch_limit"), ("wind_for_touch", "touch_limit"),
+                          ("condensation_margin", "relative_humidity")):
+        if getattr(args, option) and not getattr(args, needs):
+            flag = f"--{option.replace('_', '-')}"
+            raise InputError(f"{flag} applies to --{needs.replace('_', '-')} only", field=flag,
+                             rule=f"only with --{needs.replace('_', '-')}", value=getattr(args, option))
     if args.touch_limit:
-        res = thickness_for_surface_temperature(d, tf, insulation_conductivity=k, outer_layers=outer,
-                                                surface_limit=value(args, "touch_limit"),
-                                                **cond)
+        # the worst case for a burn: the design hottest ambient and still air unless the user says otherwise
+        hottest = value(args, "hottest_air_temperature")
+        if hottest is not None:
+            cond["air_temperature"] = hottest
+        if not args.wind_for_touch:
+            ignored = cond["wind_speed"]
+            cond["wind_speed"] = 0.0
+        res = thickness_for_surface_temperature(d, tf, surface_limit=value(args, "touch_limit"), **common, **cond)
         label = "touch temperature"
     elif args.heat_loss_limit:
-        res = thickness_for_heat_loss(d, tf, insulation_conductivity=k, outer_layers=outer,
-                                      heat_loss_limit=value(args, "heat_loss_limit"), **cond)
+        res = thickness_for_heat_loss(d, tf, heat_loss_limit=value(args, "heat_loss_limit"), **common, **cond)
         label = "heat loss"
     else:
         cond.pop("wind_speed")
         cond.pop("sky_view_fraction")
-        res = thickness_against_condensation(d, tf, insulation_conductivity=k, outer_layers=outer,
-                                             relative_humidity=value(args, "relative_humidity"), **cond)
+        margin = value(args, "condensation_margin")
+        res = thickness_against_condensation(d, tf, relative_humidity=value(args, "relative_humidity"),
+                                             **({} if margin is None else {"margin": margin}), **common, **cond)
         label = "condensation"
     row = _sizing_rows(args.tag, res, label)
+    if args.touch_limit and not args.wind_for_touch and ignored:
+        note = "sized in still air (the worst case); --wind-for-touch sizes in the given wind"
+        row["notes"] = note if row["notes"] == "-" else f"{row['notes']}; {note}"
     if args.json:
-        json.dump({"sizing": {**row, "required_thickness_m": _nan_to_none(res.required_thickness),
-                              "commercial_thickness_m": _nan_to_none(res.commercial_thickness),
+        json.dump({"sizing": {**row, "required_thickness_m": row["required_thickness"],
+                              "commercial_thickness_m": row["commercial_thickness"],
                               "achievable": bool(res.achievable)},
-                   "cautions": list(res.cautions), "convlib_version": __version__}, sys.stdout, indent=2)
+                   "units": units_map([row]), "cautions": list(res.cautions), "convlib_version": __version__},
+                  sys.stdout, indent=2)
         print()
         return 0
     table([row], args.units)
@@ -317,7 +365,7 @@ def _cmd_compare(args) -> int:
 
     d = snapshot.diff(args.first, args.second)
     if args.json:
-        json.dump({"identical": d.identical, "text": d.text()}, sys.stdout, indent=2)
+        json.dump(d.records(), sys.stdout, indent=2)
         print()
     else:
         print(d.text())
@@ -517,6 +565,7 @@ def build_parser() -> argparse.ArgumentParser:
                       "e.g. --layer 50mm,0.04,mineral wool --layer 0.7mm,200,jacket "
                       f"[{LAYER_UNITS}]")
     add_quantity(line, "length", "length", "line length (default 1 m)", default="1m")
+    condensation_options(line)
     output_options(line)
     line.set_defaults(func=_cmd_line)
 
@@ -526,11 +575,19 @@ def build_parser() -> argparse.ArgumentParser:
                  "conductivity of the insulation to size, e.g. 0.04W/m/K", required=True)
     size.add_argument("--jacket", action="append", help="fixed layer outside it: THICKNESS,CONDUCTIVITY[,NAME] "
                       f"[{LAYER_UNITS}]")
-    add_quantity(size, "touch-limit", "temperature", "highest jacket temperature, e.g. 60degC (give the hottest "
-                 "ambient)")
+    add_quantity(size, "touch-limit", "temperature", "highest jacket temperature, e.g. 60degC; sized in still air "
+                 "at the hottest ambient")
+    add_quantity(size, "hottest-air-temperature", "air_temperature", "touch sizing: design hottest ambient, e.g. "
+                 "40degC (default --air-temperature)")
+    size.add_argument("--wind-for-touch", action="store_true", help="touch sizing in the given --wind-speed "
+                      "(default still air: wind cools the jacket and gives a thinner layer)")
     add_quantity(size, "heat-loss-limit", "heat_per_length", "highest heat flow per length, e.g. 50W/m")
     add_quantity(size, "relative-humidity", "relative_humidity", "design humidity, e.g. 0.8 or 80%: size against "
                  "condensation")
+    add_quantity(size, "condensation-margin", "temperature_margin", "condensation sizing: jacket at least this "
+                 f"above the dew point, e.g. 2K (default {CONDENSATION_MARGIN:g} K)")
+    size.add_argument("--thicknesses", help="available thicknesses to pick from, e.g. 25mm,40mm,50mm,80mm (plain "
+                      "numbers mm, --units US: in; default the usual metric steps 20-200 mm)")
     output_options(size)
     size.set_defaults(func=_cmd_size)
 

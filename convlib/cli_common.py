@@ -9,10 +9,11 @@ import json
 import sys
 
 from . import __version__
-from .design import TOUCH_LIMIT_METAL_JACKET
+from .design import CAUTION_CONDENSATION, CONDENSATION_MARGIN, TOUCH_LIMIT_METAL_JACKET
 from .errors import InputError
 from .pipe import Layer
 from .pipe_sizes import SCHEDULES, nominal_pipe
+from .properties import dew_point
 from .units import INPUTS, KIND_SI_UNIT, display_unit, from_si, help_units, parse, read
 
 CAUTION_HOT = ("Caution: surfaces above about 60 degC can burn on contact (ISO 13732-1 gives limits by material "
@@ -51,7 +52,15 @@ FIELDS = {
     "steam_pressure": ("p_steam", "pressure", "{:.4g}"),
     "condensate_rate": ("condensate", "mass_flow", "{:.2f}"),
     "required_thickness": ("t_required", "length", "{:.1f}"),
-    "commercial_thickness": ("t_listed", "length", "{:.0f}"),
+    "commercial_thickness": ("t_listed", "length", "{:.3g}"),
+    "touch_limit": ("T_limit", "temperature", "{:.1f}"),
+    "heat_loss_limit": ("q_limit", "heat_per_length", "{:.1f}"),
+    "dew_point": ("T_dew", "temperature", "{:.1f}"),
+    "margin": ("margin", "temperature_difference", "{:.1f}"),
+    "wind_speed": ("wind", "speed", "{:.1f}"),
+    "jacket_emissivity": ("emissivity", "dimensionless", "{:.2f}"),
+    "surface_temperature_at_listed": ("T_surface@listed", "temperature", "{:.1f}"),
+    "q_per_length_at_listed": ("q@listed", "heat_per_length", "{:.1f}"),
 }
 
 
@@ -74,10 +83,42 @@ def surface_cautions(rows: list[dict]) -> list[str]:
     return out
 
 
-def table(rows: list[dict], units: str, out=sys.stdout) -> None:
+def condensation_options(p) -> None:
+    """``--relative-humidity`` and ``--condensation-margin``: a condensation check of the outer surfaces."""
+    add_quantity(p, "relative-humidity", "relative_humidity", "design humidity of the air, e.g. 80%: check the "
+                 "outer surface against the dew point")
+    add_quantity(p, "condensation-margin", "temperature_margin", "with --relative-humidity: the surface must stay "
+                 f"this far above the dew point, e.g. 2K (default {CONDENSATION_MARGIN:g} K)")
+
+
+def condensation_check(args, rows: list[dict], air_temperature) -> list[str]:
+    """Add the dew point of the air, the margin and whether each row's surface is at risk (colder than the dew point
+    plus the margin) to ``rows``; returns the caution when a check ran. No check without ``--relative-humidity``."""
+    rh = value(args, "relative_humidity")
+    margin = value(args, "condensation_margin")
+    if rh is None:
+        if margin is not None:
+            raise InputError("--condensation-margin needs --relative-humidity", field="--condensation-margin",
+                             rule="only with --relative-humidity", value=args.condensation_margin)
+        return []
+    if rh <= 0:
+        raise InputError("--relative-humidity must be greater than 0", field="--relative-humidity",
+                         rule="greater than 0", value=args.relative_humidity)
+    margin = CONDENSATION_MARGIN if margin is None else margin
+    dew = float(dew_point(air_temperature, rh))
+    for row in rows:
+        risk = bool(row["surface_temperature"] < dew + margin)
+        row["dew_point"], row["margin"] = dew, margin
+        row["condensation"] = risk if args.json else ("yes" if risk else "no")
+    return [CAUTION_CONDENSATION]
+
+
+def table(rows: list[dict], units: str, out=None) -> None:
+    out = sys.stdout if out is None else out  # the stream at call time (not at import)
     if not rows:
         return
-    names = [n for n in rows[0] if n not in ("warnings",)]
+    names = [n for n in dict.fromkeys(k for row in rows for k in row) if n not in ("warnings", "notes")]  # all
+    names += ["notes"] if any("notes" in row for row in rows) else []
     heads, cells = [], [[] for _ in rows]
     for name in names:
         if name in FIELDS:
@@ -85,11 +126,11 @@ def table(rows: list[dict], units: str, out=sys.stdout) -> None:
             unit = display_unit(kind, units)
             heads.append(f"{label} [{pretty_unit(unit)}]" if unit else label)
             for cell, row in zip(cells, rows):  # None: no value (e.g. a limit not reachable)
-                cell.append("-" if row[name] is None else fmt.format(float(from_si(row[name], kind, unit))))
+                cell.append("-" if row.get(name) is None else fmt.format(float(from_si(row[name], kind, unit))))
         else:
             heads.append(name)
             for cell, row in zip(cells, rows):
-                cell.append(str(row[name]))
+                cell.append(str(row.get(name, "-")))
     widths = [max(len(h), *(len(c[i]) for c in cells)) for i, h in enumerate(heads)]
     print("  ".join(h.ljust(w) for h, w in zip(heads, widths)).rstrip(), file=out)
     print("  ".join("-" * w for w in widths), file=out)
@@ -106,7 +147,7 @@ def pretty_unit(unit: str) -> str:
 
 
 def units_map(rows: list[dict]) -> dict:
-    return {n: KIND_SI_UNIT[FIELDS[n][1]] for r in rows[:1] for n in r if n in FIELDS}
+    return {n: KIND_SI_UNIT[FIELDS[n][1]] for r in rows for n in r if n in FIELDS}
 
 
 def emit(args, sections: list[tuple[str, list[dict]]], cautions: list[str], extra: dict | None = None) -> None:

@@ -6,8 +6,9 @@ from __future__ import annotations
 
 import numpy as np
 
-from .cli_common import (GIVEN_COEFFICIENT_HELP, LAYER_UNITS, add_quantity, emit, layers, nominal_pipe, output_options,
-                         outside, pipe_diameter, pipe_size_options, pretty_unit, surface_cautions, value)
+from .cli_common import (GIVEN_COEFFICIENT_HELP, LAYER_UNITS, add_quantity, condensation_check, condensation_options,
+                         emit, layers, nominal_pipe, output_options, outside, pipe_diameter, pipe_size_options,
+                         pretty_unit, surface_cautions, value)
 from .errors import InputError
 from .operation import (TRACING_MARGIN, freeze_time, line_temperature_profile, minimum_flow, steam_line,
                         tracing_duty)
@@ -31,6 +32,18 @@ def _cmd_trace(args) -> int:
 
 
 def _cmd_outlet(args) -> int:
+    try:
+        return _outlet(args)
+    except InputError as exc:  # the library's names as this command spells them
+        if exc.field != "fluid_phase":
+            raise
+        text = str(exc).replace("fluid_phase='", "--fluid-phase '").replace("fluid_pressure", "--fluid-pressure")
+        raise InputError(text.replace("fluid_phase:", "--fluid-phase:").replace("inlet_temperature",
+                                                                                "--inlet-temperature"),
+                         field="--fluid-phase", rule=exc.rule, value=exc.value) from None
+
+
+def _outlet(args) -> int:
     given_layers = layers(args)
     inlet = value(args, "inlet_temperature")
     air = value(args, "air_temperature")
@@ -43,7 +56,7 @@ def _cmd_outlet(args) -> int:
     if args.mass_flow is None and keep is None:
         raise InputError("give --mass-flow, or --keep-above / --keep-below for the minimum flow",
                          field="--mass-flow", rule="given unless --keep-above or --keep-below is", value=None)
-    common = dict(air_temperature=air, fluid=args.fluid,
+    common = dict(air_temperature=air, fluid=args.fluid, fluid_phase=args.fluid_phase,
                   fluid_pressure=value(args, "fluid_pressure"), **outside(args))
     sections, notes, cautions, text, extra = [], [], [], [], {}
     flow = value(args, "mass_flow")
@@ -235,23 +248,34 @@ def _exposure_options(p, what: str, contents: str, sky: str) -> None:
     p.add_argument("--outdoor", action="store_true", help=f"faces see the sky ({sky})")
     add_quantity(p, "inner-coefficient", "inner_coefficient", "film coefficient inside, every face, e.g. 200W/m2/K")
     add_quantity(p, "convection-coefficient", "coefficient", GIVEN_COEFFICIENT_HELP)
+    condensation_options(p)
 
 
 def _emit_faces(args, title, r, air_temperature, sizing=()) -> None:
     """Face rows, the total and the notes of a vessel or duct, and any sizing rows; hot/cold cautions from the
     exposed faces."""
-    rows = [{"tag": f.name, "shape": f.shape, "area": float(f.area), "surface_temperature": float(f.surface_temperature),
+    rows = [{"item": args.tag, "tag": f.name, "shape": f.shape, "area": float(f.area),
+             "surface_temperature": float(f.surface_temperature),
              "q_per_area": float(f.q_per_area), "q_total": float(f.q_total),
              "warnings": [] if f.surface is None else f.surface.warning_messages()} for f in r.faces]
     total = float(r.q_total)
-    extra = {"q_total": total, "notes": list(r.notes)}
+    extra = {"tag": args.tag, "q_total": total, "notes": list(r.notes)}
     if not args.json:
-        extra["text"] = [f"\ntotal {total:.0f} W", *r.notes]
+        unit = display_unit("power", args.units)
+        extra["text"] = [f"\n{args.tag}: total {float(from_si(total, 'power', unit)):,.0f} {pretty_unit(unit)}",
+                         *r.notes]
     exposed = [{"surface_temperature": float(f.surface_temperature), "air_temperature": air_temperature}
                for f in r.faces if f.surface is not None]
+    checked = condensation_check(args, [row for row, f in zip(rows, r.faces) if f.surface is not None],
+                                 air_temperature)
+    if checked:  # a face on the ground sees no air
+        for row in rows:
+            for key in ("dew_point", "margin"):
+                row.setdefault(key, None)
+            row.setdefault("condensation", None if args.json else "-")
     sections = [(title, rows)] + ([("insulation per face (sized; the layers given stay outside it)", list(sizing))]
                                   if sizing else [])
-    emit(args, sections, surface_cautions(exposed), extra)
+    emit(args, sections, [*surface_cautions(exposed), *checked], extra)
 
 
 def add_commands(sub) -> None:
@@ -272,6 +296,8 @@ def add_commands(sub) -> None:
                  "this, e.g. 8degC")
     add_quantity(outlet, "length", "length", "line length, e.g. 1400m or 1.4km", required=True)
     outlet.add_argument("--fluid", default="Water", help="CoolProp fluid name (default Water)")
+    outlet.add_argument("--fluid-phase", choices=("liquid", "gas"), default="liquid",
+                        help="phase of the fluid all along the line (default liquid), e.g. gas for air or steam")
     add_quantity(outlet, "fluid-pressure", "fluid_pressure", "fluid pressure, e.g. 6bar or 5barg (default 1 atm)",
                  default="101325Pa")
     outlet.add_argument("--layer", action="append", help=layer_help)

@@ -25,7 +25,7 @@ from .validation import as_array
 
 __all__ = [
     "COMMERCIAL_THICKNESSES", "TOUCH_LIMIT_METAL_JACKET", "TOUCH_LIMIT_NONMETAL_JACKET", "CONDENSATION_MARGIN",
-    "CAUTION_TOUCH", "CAUTION_CONDENSATION", "FITTING_EQUIVALENT_LENGTH",
+    "CAUTION_TOUCH", "CAUTION_TOUCH_GIVEN", "CAUTION_CONDENSATION", "FITTING_EQUIVALENT_LENGTH",
     "ThicknessResult", "listed_thickness", "thickness_for_surface_temperature", "thickness_for_heat_loss",
     "thickness_against_condensation", "critical_thickness", "WeatherBins", "AnnualEnergy", "annual_energy",
     "equivalent_length",
@@ -48,6 +48,10 @@ CONDENSATION_MARGIN = 1.0
 CAUTION_TOUCH = ("Personnel protection: the touch limit used here is a design default; ISO 13732-1 and ASTM C1055 "
                  "set limits by jacket material and contact time, and local codes and licensed practice govern. "
                  "Check the hottest ambient, still air and full sun.")
+#: The same caution where the user gave the limit (it is theirs, not a default).
+CAUTION_TOUCH_GIVEN = ("Personnel protection: the touch limit is the one given; check it against ISO 13732-1 and "
+                       "ASTM C1055 (limits by jacket material and contact time); local codes and licensed practice "
+                       "govern. Check the hottest ambient, still air and full sun.")
 CAUTION_CONDENSATION = ("Condensation control: keeping the jacket above the dew point is not enough on its own: a "
                         "cold line also needs a continuous vapour retarder, sealed at every joint and support, or "
                         "moisture migrates into the insulation. Local codes and licensed practice govern.")
@@ -73,6 +77,15 @@ class ThicknessResult:
     quantity: str                      # "surface temperature [K]" or "heat loss [W/m]"
     messages: tuple[str, ...]
     cautions: tuple[str, ...]
+    # the assumptions the sizing used (echoed so that a reader sees them) and the state at the listed thickness
+    air_temperature: np.ndarray = None           # air of the sizing (touch: the hottest design ambient) [K]
+    wind_speed: np.ndarray = None                # [m/s] (touch and condensation: 0, still air, unless told)
+    jacket_emissivity: np.ndarray = None         # [-]
+    margin: np.ndarray = None                    # condensation margin above the dew point [K]; NaN for other limits
+    dew_point: np.ndarray = None                 # of the design air [K]; NaN where no humidity was given
+    surface_temperature_at_commercial: np.ndarray = None  # jacket at the listed thickness [K]; NaN if none
+    q_per_length_at_commercial: np.ndarray = None         # heat flow at the listed thickness [W/m]; NaN if none
+    limit_given: bool = True                     # False where the limit is the library's default
 
 
 def _pipe_args(pipe_outer_diameter, fluid_temperature, air_temperature, wind_speed, jacket_emissivity,
@@ -125,7 +138,8 @@ def listed_thickness(required, commercial_thicknesses=COMMERCIAL_THICKNESSES):
 
 
 def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, outer_layers, max_thickness,
-          commercial_thicknesses, options, cautions, shape, low_thickness=None):
+          commercial_thicknesses, options, cautions, shape, low_thickness=None, margin=np.nan, dew=np.nan,
+          limit_given=True):
     """Thickness where sign * (metric - limit) turns <= 0, per point."""
     point = tuple(pipe[k] for k in _PIPE_KEYS)
     limit = pipe["limit"]
@@ -157,10 +171,14 @@ def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, out
         unsolved = 0
     commercial = listed_thickness(required, commercial_thicknesses)
     at_commercial = np.full_like(limit, np.nan)
+    surface_at, q_at = np.full_like(limit, np.nan), np.full_like(limit, np.nan)
     has = ~np.isnan(commercial)
     if has.any():
-        at_commercial[has] = metric(_evaluate(commercial[has], tuple(a[has] for a in point),
-                                              insulation_conductivity, outer_layers, options))
+        listed = _evaluate(commercial[has], tuple(a[has] for a in point), insulation_conductivity, outer_layers,
+                           options)
+        at_commercial[has] = metric(listed)
+        surface_at[has] = np.ravel(listed.surface_temperature)
+        q_at[has] = np.ravel(listed.q_per_length)
     messages = []
     if (~achievable).any():
         messages.append(f"{int((~achievable).sum())} of {achievable.size} case(s): no thickness up to "
@@ -175,19 +193,28 @@ def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, out
         required_thickness=required.reshape(shape), commercial_thickness=commercial.reshape(shape),
         achievable=achievable.reshape(shape), listed=has.reshape(shape),
         value_at_commercial=at_commercial.reshape(shape),
-        limit=limit.reshape(shape), quantity=quantity, messages=tuple(messages), cautions=tuple(cautions))
+        limit=limit.reshape(shape), quantity=quantity, messages=tuple(messages), cautions=tuple(cautions),
+        air_temperature=pipe["air_temperature"].reshape(shape), wind_speed=pipe["wind_speed"].reshape(shape),
+        jacket_emissivity=pipe["jacket_emissivity"].reshape(shape),
+        margin=np.broadcast_to(np.asarray(margin, float), shape).copy(),
+        dew_point=np.broadcast_to(np.asarray(dew, float), shape).copy(),
+        surface_temperature_at_commercial=surface_at.reshape(shape), q_per_length_at_commercial=q_at.reshape(shape),
+        limit_given=limit_given)
 
 
 def thickness_for_surface_temperature(pipe_outer_diameter, fluid_temperature, *, air_temperature,
-                                      insulation_conductivity, surface_limit=TOUCH_LIMIT_METAL_JACKET,
+                                      insulation_conductivity, surface_limit=None, hottest_air_temperature=None,
                                       outer_layers=(), jacket_emissivity=0.1, wind_speed=0.0,
                                       sky_view_fraction=0.0, solar_irradiance=0.0, solar_absorptivity=None,
                                       pressure=101325.0, max_thickness=0.3,
                                       commercial_thicknesses=COMMERCIAL_THICKNESSES, **options) -> ThicknessResult:
     """Insulation thickness that keeps a hot line's jacket at or below a touch limit.
 
-    Give the worst case: the highest ambient, still air (the default) and, outdoors,
-    full sun (``solar_irradiance`` with the jacket's ``solar_absorptivity``).
+    Give the worst case: the highest ambient (``hottest_air_temperature``), still air (the
+    default ``wind_speed=0``: any wind cools the jacket and gives a thinner, unsafe layer)
+    and, outdoors, full sun (``solar_irradiance`` with the jacket's ``solar_absorptivity``).
+    The result echoes the air, wind, emissivity and limit it used, and the jacket
+    temperature and heat flow at the listed thickness.
 
     Parameters
     ----------
@@ -196,11 +223,14 @@ def thickness_for_surface_temperature(pipe_outer_diameter, fluid_temperature, *,
     fluid_temperature : numeric
         [K]
     air_temperature : numeric
-        Highest design ambient [K].
+        Design ambient [K]; used for the sizing unless ``hottest_air_temperature`` is given.
     insulation_conductivity : float or Conductivity
         [W/m/K]
-    surface_limit : numeric
-        Highest allowed jacket temperature [K]; default :data:`TOUCH_LIMIT_METAL_JACKET`.
+    surface_limit : numeric, optional
+        Highest allowed jacket temperature [K]; default :data:`TOUCH_LIMIT_METAL_JACKET` (the caution then
+        says it is a default).
+    hottest_air_temperature : numeric, optional
+        Design hottest ambient [K] the sizing runs at; default ``air_temperature``.
     outer_layers : sequence of Layer
         Fixed layers outside the sized insulation (a jacket).
     **options
@@ -216,13 +246,17 @@ def thickness_for_surface_temperature(pipe_outer_diameter, fluid_temperature, *,
     >>> round(float(r.required_thickness) * 1000, 1), float(r.commercial_thickness)
     (69.7, 0.07)
     """
-    limit = as_array("surface_limit", surface_limit, unit="K", low=0.0, low_inclusive=False)
-    shape, pipe = _pipe_args(pipe_outer_diameter, fluid_temperature, air_temperature, wind_speed,
+    given = surface_limit is not None
+    limit = as_array("surface_limit", surface_limit if given else TOUCH_LIMIT_METAL_JACKET, unit="K", low=0.0,
+                     low_inclusive=False)
+    air = air_temperature if hottest_air_temperature is None else as_array(
+        "hottest_air_temperature", hottest_air_temperature, unit="K", low=0.0, low_inclusive=False)
+    shape, pipe = _pipe_args(pipe_outer_diameter, fluid_temperature, air, wind_speed,
                              jacket_emissivity, sky_view_fraction, solar_irradiance, solar_absorptivity,
                              pressure, limit)
     return _size(lambda r: r.surface_temperature, 1.0, "surface temperature [K]", "touch limit", pipe,
                  insulation_conductivity, outer_layers, max_thickness, commercial_thicknesses, options,
-                 (CAUTION_TOUCH,), shape)
+                 (CAUTION_TOUCH_GIVEN if given else CAUTION_TOUCH,), shape, limit_given=given)
 
 
 def thickness_for_heat_loss(pipe_outer_diameter, fluid_temperature, *, air_temperature, insulation_conductivity,
@@ -290,7 +324,7 @@ def thickness_against_condensation(pipe_outer_diameter, fluid_temperature, *, ai
                              pressure, limit)
     return _size(lambda r: r.surface_temperature, -1.0, "surface temperature [K]", "dew point plus margin", pipe,
                  insulation_conductivity, outer_layers, max_thickness, commercial_thicknesses, options,
-                 (CAUTION_CONDENSATION,), shape)
+                 (CAUTION_CONDENSATION,), shape, margin=margin, dew=limit - margin)
 
 
 def critical_thickness(pipe_outer_diameter, fluid_temperature, *, air_temperature, insulation_conductivity,

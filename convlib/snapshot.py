@@ -39,6 +39,7 @@ import os
 import platform
 from collections.abc import Callable
 from dataclasses import dataclass
+from dataclasses import field as dataclass_field
 from importlib import metadata
 from pathlib import Path
 from typing import Any, Literal, NamedTuple
@@ -569,6 +570,18 @@ class SnapshotDiff:
     changed_inputs: list[tuple[str, Any, Any]]
     changed_results: list[tuple[str, float]]
     changed_provenance: list[tuple[str, str, str]]
+    #: each changed result as before -> after (SI, with its unit): see :meth:`records`
+    result_changes: list[dict] = dataclass_field(default_factory=list)
+
+    def records(self) -> dict:
+        """The changes as structured data (for JSON): ``inputs`` (key, before, after), ``results`` (key, before,
+        after, unit, change = after - before, relative_change = change / |before|; ``None`` where a side has no
+        value) and ``versions`` (component, before, after)."""
+        return {"identical": self.identical,
+                "inputs": [{"key": k, "before": _json_side(x), "after": _json_side(y)}
+                           for k, x, y in self.changed_inputs],
+                "results": [dict(r) for r in self.result_changes],
+                "versions": [{"component": k, "before": x, "after": y} for k, x, y in self.changed_provenance]}
 
     @property
     def identical(self) -> bool:
@@ -580,10 +593,53 @@ class SnapshotDiff:
         if self.identical:
             return "Inputs and results identical."
         lines = ["Changed inputs (a -> b):"] + [f"  {p}: {x!r} -> {y!r}" for p, x, y in self.changed_inputs]
-        lines += ["Changed results (largest relative difference):"]
-        lines += [f"  {name}: {rel:.3g}" for name, rel in self.changed_results]
+        lines += ["Changed results (a -> b; of a curve, the point that changed most):"]
+        lines += [f"  {_change_text(r)}" for r in self.result_changes]
         lines += [f"Version {k}: {x} -> {y}" for k, x, y in self.changed_provenance]
         return "\n".join(lines)
+
+
+def _json_side(x):
+    return None if isinstance(x, str) and x == _ABSENT else x
+
+
+def _signed(x: float, digits: int = 4) -> str:
+    return f"{x:+.{digits}g}"
+
+
+def _change_text(r: dict) -> str:
+    """``base.q_per_length: 52.31 W/m -> 55.02 W/m (+2.71 W/m, +5.18 %)``."""
+    unit = f" {r['unit']}" if r["unit"] else ""
+    side = lambda x: "absent" if x is None else f"{x:.6g}{unit}"  # noqa: E731
+    if r["change"] is None:
+        return f"{r['key']}: {side(r['before'])} -> {side(r['after'])}"
+    relative = "" if r["relative_change"] is None else f", {_signed(100.0 * r['relative_change'], 3)} %"
+    return f"{r['key']}: {side(r['before'])} -> {side(r['after'])} ({_signed(r['change'])}{unit}{relative})"
+
+
+def _result_unit(name: str) -> str:
+    return "K" if name.startswith("dew_point") else "W/m"
+
+
+def _result_change(name: str, x, y) -> dict | None:
+    """The change of one headline quantity (its point of largest relative difference); None when unchanged."""
+    unit = _result_unit(name)
+    if x is None or y is None or len(x) != len(y):
+        before = None if x is None or len(x) != 1 else x[0]
+        after = None if y is None or len(y) != 1 else y[0]
+        note = {} if x is None or y is None else {"note": f"{len(x)} values -> {len(y)} values"}
+        return {"key": name, "before": before, "after": after, "unit": unit, "change": None,
+                "relative_change": None, **note}
+    a = np.array([math.nan if v is None else v for v in x], dtype=float)
+    b = np.array([math.nan if v is None else v for v in y], dtype=float)
+    rel = _relative(a, b)
+    if not np.any(rel > 0):
+        return None
+    i = int(np.nanargmax(rel))
+    key = name if a.size == 1 else f"{name}[{i}]"
+    change = float(b[i] - a[i])
+    return {"key": key, "before": float(a[i]), "after": float(b[i]), "unit": unit, "change": change,
+            "relative_change": change / abs(float(a[i])) if a[i] != 0 else None}
 
 
 def _leaf_changes(a, b, path, out):
@@ -626,12 +682,15 @@ def diff(a, b) -> SnapshotDiff:
     inputs: list = []
     _leaf_changes(a.spec.model_dump(mode="json"), b.spec.model_dump(mode="json"), "", inputs)
     qa, qb = _headline(a.result), _headline(b.result)
-    results = []
+    results, changes = [], []
     for name in [*qa, *(k for k in qb if k not in qa)]:
         x, y = qa.get(name), qb.get(name)
         rel = float(_relative(x, y).max(initial=0.0)) if x is not None and y is not None and len(x) == len(y) \
             else math.inf
         if rel > 0:
             results.append((name, rel))
+            change = _result_change(name, x, y)
+            if change is not None:
+                changes.append(change)
     then, now = a.provenance.model_dump(), b.provenance.model_dump()
-    return SnapshotDiff(inputs, results, [(k, then[k], now[k]) for k in then if then[k] != now[k]])
+    return SnapshotDiff(inputs, results, [(k, then[k], now[k]) for k in then if then[k] != now[k]], changes)

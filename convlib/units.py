@@ -386,6 +386,8 @@ INPUTS = {
     "mass_flow": Input("mass_flow", "kg/s", "lb/h", 1e-7, 1e4, "a mass flow", ("kg/s", "kg/h", "lb/h")),
     "relative_humidity": Input("dimensionless", "", "", 0.0, 1.0, "a relative humidity", ("%",),
                                maximum=1.0),
+    "temperature_margin": Input("temperature_difference", "delta_degC", "delta_degF", 0.0, 30.0,
+                                "a temperature margin", ("K", "delta_degC", "delta_degF"), minimum_inclusive=True),
 }
 
 #: How a caller overrides the guard, as its user writes it.

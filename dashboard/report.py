@@ -79,7 +79,19 @@ def _study_rows(spec, d: Display) -> list[str]:
     return parts
 
 
-def _results(res, d: Display) -> str:
+def _line_totals(res, length: float, d: Display) -> str:
+    """The line's totals over its run, losses and gains on separate rows (never netted). A study result holds
+    one design condition, so no annual figures: the page says where they come from."""
+    total = float(res.base.q_total[0])
+    rows = [("Heat lost by the line", d.text(max(total, 0.0), "q_total")),
+            ("Heat gained by the line", d.text(max(-total, 0.0), "q_total"))]
+    note = ("No annual figures: a study holds one design condition, and its heat flow times 8,760 h would take the "
+            "design air for every hour. Annual energy over weather bins: <code>convlib lines --bins FILE.json</code>.")
+    head = f"<h3>Line totals over the run of {html.escape(d.text(length, 'length'))}</h3>"
+    return head + _table(rows, ("Total", "Value")) + f"<p class='muted'>{note}</p>"
+
+
+def _results(res, length: float, d: Display) -> str:
     b = res.base
     # a loss and a gain are named as such, never shown as a negative loss; the parts keep the sign of the total
     gains = b.q_per_length[0] < 0
@@ -97,6 +109,7 @@ def _results(res, d: Display) -> str:
             ("Richardson number Ri", "still air" if b.richardson[0] is None else scientific(b.richardson[0], 4)),
             ("Regime", regime_text(mode_names(b.regime[0]), flow_names(b.flow_regime[0])))]
     out = [_table(rows, ("Quantity", "Value"))]
+    out.append(_line_totals(res, length, d))
     out += [f'<div class="caution">{html.escape(d.localize(c))}</div>' for c in res.cautions]
     out += [f'<div class="warning">{html.escape(d.localize(w))}</div>' for w in res.warnings]
     methods = [(m.mode, law_name(m.method), d.text(m.values.q_per_length[0], "q_per_length"),
@@ -150,14 +163,15 @@ def render_report(snap, units: str = "SI") -> str:
         _table([("File", name), ("Author", snap.author or "—"), ("Saved (UTC)", snap.created_utc),
                 ("Note", snap.note or "—")]),
         "<h2>Inputs</h2>", _table(_case_rows(spec.case, d), ("Input", "Value")), *_study_rows(spec, d),
-        "<h2>Results</h2>", _results(res, d),
+        "<h2>Results</h2>", _results(res, spec.case.length, d),
         "<h2>Figures</h2><p class='muted'>Interactive: hover for values, drag to zoom, double-click to reset.</p>",
         *plots,
         "<h2>Provenance</h2>", _table([(k, v) for k, v in prov.items()], ("Component", "Version")),
         f"<p>SHA-256 over inputs, results and provenance: <code>{snap.sha256}</code></p>",
         "<p class='muted'>Results are engineering estimates from published correlations. Hot surfaces can burn; "
         "cold surfaces below the dew point gather condensation. Local codes, the applicable standards and "
-        "licensed practice govern. Re-run with <code>convlib.snapshot.verify</code> to check the numbers.</p>",
+        "licensed practice govern. Re-run the study and check the numbers with "
+        f"<code>convlib verify {html.escape(name)}</code>.</p>",
         "</body></html>"]
     return "\n".join(parts)
 
