@@ -101,6 +101,7 @@ class _Document(_Model):
     created_utc: str
     author: str = Field(max_length=200)
     note: str = Field(max_length=20_000)
+    saved_by: str = Field(default="", max_length=400)  # the shared server's identity of the viewer (if any)
     provenance: Provenance
     spec: dict[str, Any]
     result: dict[str, Any]
@@ -186,6 +187,7 @@ class Snapshot:
     author: str = ""
     note: str = ""
     path: Path | None = None
+    saved_by: str = ""
 
 
 def _check_pair(spec: StudySpec, result: StudyResult) -> None:
@@ -204,7 +206,7 @@ def _check_pair(spec: StudySpec, result: StudyResult) -> None:
 
 
 def save(path, spec: StudySpec, result: StudyResult, author: str = "", note: str = "",
-         overwrite: bool = False) -> Path:
+         overwrite: bool = False, saved_by: str = "") -> Path:
     """Write a snapshot file atomically.
 
     Parameters
@@ -215,6 +217,9 @@ def save(path, spec: StudySpec, result: StudyResult, author: str = "", note: str
         The study and the result of ``run_study(spec)``.
     author, note : str
         Who saved it (up to 200 characters) and why (up to 20000).
+    saved_by : str
+        Who the shared dashboard server says the viewer is (login name and address, up to 400 characters),
+        recorded beside the typed author; written only when given, so that such files stay as before.
     overwrite : bool
         Replace an existing file; otherwise ``FileExistsError`` and the file is left as it was.
 
@@ -237,7 +242,7 @@ def save(path, spec: StudySpec, result: StudyResult, author: str = "", note: str
     for name, value, kind in (("spec", spec, StudySpec), ("result", result, StudyResult)):
         if not isinstance(value, kind):
             raise TypeError(f"{name} must be a {kind.__name__}; got {type(value).__name__}")
-    for name, value, limit in (("author", author, 200), ("note", note, 20_000)):
+    for name, value, limit in (("author", author, 200), ("note", note, 20_000), ("saved_by", saved_by, 400)):
         if not isinstance(value, str) or len(value) > limit:
             raise InputError(f"{name} must be text of at most {limit} characters; got {type(value).__name__} "
                              f"of length {len(value) if isinstance(value, str) else '-'}", field=name,
@@ -257,6 +262,8 @@ def save(path, spec: StudySpec, result: StudyResult, author: str = "", note: str
                 "created_utc": _dt.datetime.now(_dt.timezone.utc).strftime("%Y-%m-%dT%H:%M:%SZ"),
                 "author": author, "note": note, "provenance": current_provenance().model_dump(),
                 "spec": spec.model_dump(mode="json"), "result": result.model_dump(mode="json")}
+    if saved_by:
+        document["saved_by"] = saved_by
     document["sha256"] = content_hash(document)
     data = (_pretty(document) + "\n").encode("utf-8")
     if len(data) > MAX_BYTES:
@@ -335,7 +342,8 @@ def load(path) -> Snapshot:
     except ValidationError as exc:
         raise fail(f"invalid study result: {_flatten(exc, 'result')}") from None
     return Snapshot(spec=spec, result=result, provenance=envelope.provenance, sha256=envelope.sha256,
-                    created_utc=envelope.created_utc, author=envelope.author, note=envelope.note, path=path)
+                    created_utc=envelope.created_utc, author=envelope.author, note=envelope.note, path=path,
+                    saved_by=envelope.saved_by)
 
 
 def _as_snapshot(source) -> Snapshot:

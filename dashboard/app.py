@@ -461,14 +461,14 @@ class App(widgets.VBox):
         panel = self.snapshots
         path = storage.snapshot_path(self.snapshot_dir, name or storage.default_name(self.study.name))
         spec = self.snapshot_spec()
-        author = storage.signed_author(author, storage.viewer_identity())  # the shared server's name for the viewer
+        saved_by = storage.viewer_identity()  # the shared server's name for the viewer ("" on a local dashboard)
 
         progress = self._progress_message(panel, "Running the study")
 
         def run():
             result = run_study(spec, progress=progress)
             path.parent.mkdir(parents=True, exist_ok=True)
-            written = cl_snapshot.save(path, spec, result, author=author, note=note)
+            written = cl_snapshot.save(path, spec, result, author=author, note=note, saved_by=saved_by)
             storage.record_snapshot(path.parent, written)  # the listing that follows need not open it
             return written
 

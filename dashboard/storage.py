@@ -34,7 +34,7 @@ from convlib.files import read_capped, write_atomic
 from . import settings
 
 __all__ = ["SUFFIX", "INDEX_NAME", "INDEX_SCHEMA_VERSION", "safe_name", "snapshot_path", "default_name",
-           "SnapshotEntry", "list_snapshots", "record_snapshot", "viewer_identity", "signed_author"]
+           "SnapshotEntry", "list_snapshots", "record_snapshot", "viewer_identity"]
 
 SUFFIX = ".snapshot.json"
 _ALLOWED = re.compile(r"[^A-Za-z0-9._-]+")
@@ -383,18 +383,3 @@ def viewer_identity(connection_file: str | os.PathLike | None = None) -> str:
     address = str(data.get("address") or "").strip()[:100]
     return " at ".join(part for part in (name, address) if part)
 
-
-def signed_author(typed: str, identity: str) -> str:
-    """The author recorded in a snapshot: the typed name and, on a shared server, the server's identity.
-
-    >>> signed_author("A. Engineer", "Anonymous Io at 10.20.0.11")
-    'A. Engineer [signed in as Anonymous Io at 10.20.0.11]'
-    >>> signed_author("", "Anonymous Io at 10.20.0.11")
-    '[signed in as Anonymous Io at 10.20.0.11]'
-    >>> signed_author("A. Engineer", "")
-    'A. Engineer'
-    """
-    typed = (typed or "").strip()
-    if not identity:
-        return typed
-    return f"{typed} [signed in as {identity}]".strip()

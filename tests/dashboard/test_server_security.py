@@ -377,7 +377,7 @@ def test_behind_proxy_refuses_to_listen_beyond_loopback(capsys):
 # ----------------------------------------------------------------------------- who saved a snapshot
 def test_the_server_records_who_each_session_belongs_to(tmp_path):
     """Snapshots record the server's identity of the viewer, not only a typed name (issue 14, point 3)."""
-    from dashboard.storage import signed_author, viewer_identity
+    from dashboard.storage import viewer_identity
 
     with VoilaServer(token=TOKEN, pool_size=1, extra_args=["--behind-proxy", "--connect-grace", "300"]) as srv:
         time.sleep(3.0)
@@ -393,7 +393,14 @@ def test_the_server_records_who_each_session_belongs_to(tmp_path):
             assert identity.endswith(" at 10.20.0.31") and len(identity) > len(" at 10.20.0.31"), identity
             record = found[0].with_name(f"viewer-{kid}.json")
             assert record.stat().st_mode & 0o077 == 0  # only the server's user reads it
-            assert signed_author("A. Engineer", identity) == f"A. Engineer [signed in as {identity}]"
+            from convlib import snapshot
+            from convlib.study import CaseSpec, StudySpec, run_study
+
+            spec = StudySpec(case=CaseSpec(kind="bare", surface_temperature=353.15, diameter=0.1))
+            path = snapshot.save(tmp_path / "s.snapshot.json", spec, run_study(spec), author="A. Engineer",
+                                 saved_by=identity)
+            loaded = snapshot.load(path)
+            assert (loaded.author, loaded.saved_by) == ("A. Engineer", identity)
             client.close()
 
         run(go())
