@@ -106,7 +106,8 @@ def _with_unit(value, kind: str, field: str):
 
 def _input_with_units(data, input_field: str, value_fields: tuple[str, ...]):
     """Values of an axis, tornado bar or distribution written with units, in the unit kind of their input."""
-    if isinstance(data, dict) and data.get(input_field) in INPUTS:
+    name = data.get(input_field) if isinstance(data, dict) else None
+    if isinstance(name, str) and name in INPUTS:  # anything else is left to the model's own validation
         kind = _UNIT_KINDS[INPUTS[data[input_field]][0]]
         data = {k: _with_unit(v, kind, k) if k in value_fields else v for k, v in data.items()}
     return data
