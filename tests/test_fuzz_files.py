@@ -19,7 +19,7 @@ from hypothesis import example, given
 from hypothesis import strategies as st
 
 from convlib import cli, snapshot
-from convlib.linelist import COLUMNS, REQUIRED, read_line_list, run_line_list
+from convlib.linelist import COLUMNS, REQUIRED, read_line_list, run_line_list, write_results_csv
 from convlib.study import CaseSpec, StudySpec, evaluate_case, load_demo_study, run_study
 from fuzz_helpers import outcome
 
@@ -98,7 +98,7 @@ assert set(_HEADER) <= set(COLUMNS)
 
 
 @given(column=st.sampled_from(_HEADER), cell=st.one_of(st.sampled_from(_UNIT_TEXT), st.text(max_size=16)))
-def test_a_line_list_row_parses_and_runs_or_is_a_row_error(column, cell):
+def test_a_line_list_row_parses_and_runs_or_is_a_row_error(tmp_path_factory, column, cell):
     buffer = io.StringIO()
     csv.writer(buffer).writerows([_HEADER, [dict(_GOOD, **{column: cell})[c] for c in _HEADER]])
     parsed = outcome(read_line_list, io.StringIO(buffer.getvalue()))
@@ -108,6 +108,15 @@ def test_a_line_list_row_parses_and_runs_or_is_a_row_error(column, cell):
     result = outcome(run_line_list, io.StringIO(buffer.getvalue()))
     if not isinstance(result, Exception):
         assert len(result) + len(result.errors) <= 1  # the row ran or is a row error; nothing else happened
+        path = tmp_path_factory.mktemp("csv") / "out.csv"
+        write_results_csv(result, path)
+        with open(path, newline="", encoding="utf-8") as fh:
+            header, *rows = list(csv.reader(fh))
+        text = {"row", "tag", "status", "notes", "location", "layers", "description"}  # the user's own words
+        cells = {row[i].strip().lower() for row in rows for i, name in enumerate(header)
+                 if i < len(row) and name.split("[")[0] not in text}
+        # numbers only: "not computed" is an empty cell with a note, never NaN or inf
+        assert not {"nan", "inf", "-inf", "infinity"} & cells, header
 
 
 def test_the_undamaged_row_runs():
