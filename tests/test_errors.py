@@ -105,7 +105,9 @@ def test_bad_rows_are_row_errors_naming_the_column():
     reasons = {e.tag: e.reason for e in result.errors}
     assert reasons["B-1"].startswith("outer_diameter: ") and "'-0.1'" in reasons["B-1"]
     assert reasons["C-1"].startswith("nps: NPS 4.3 is not a standard size in schedule 40")
-    assert reasons["D-1"].startswith("could not be computed: temperature must be between")
+    # the message names the inputs whose values leave the property range, and the range
+    assert reasons["D-1"].startswith("could not be computed: fluid_temperature or air_temperature: ")
+    assert "temperature must be between" in reasons["D-1"]
     assert all(isinstance(e, RowError) for e in result.errors)
 
 

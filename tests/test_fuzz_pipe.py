@@ -118,8 +118,16 @@ def test_sizing_finite_or_input_error_and_flags_not_reachable(kind, d, tf, ta, k
         return
     # "not reachable" and "beyond the listed thicknesses" are explicit flags with a message, and the
     # thicknesses are finite exactly where they exist
-    assert_finite(out, skip=("required_thickness", "commercial_thickness", "value_at_commercial"))
+    assert_finite(out, skip=("required_thickness", "commercial_thickness", "value_at_commercial", "margin",
+                             "dew_point", "surface_temperature_at_commercial", "q_per_length_at_commercial"))
     reachable, listed = np.asarray(out.achievable), np.asarray(out.listed)
+    # the echoed assumptions: margin and dew point belong to a condensation sizing (NaN, "not applicable", else),
+    # the state at the listed thickness exists where a listed thickness does
+    condensation = kind == "condensation"
+    assert np.all(np.isfinite(out.margin)) == condensation and np.all(np.isnan(out.margin)) != condensation
+    assert np.all(np.isfinite(out.dew_point)) == condensation
+    for name in ("surface_temperature_at_commercial", "q_per_length_at_commercial"):
+        assert np.array_equal(np.isfinite(getattr(out, name)), listed), name
     assert np.array_equal(np.isfinite(out.required_thickness), reachable)
     assert np.array_equal(np.isfinite(out.commercial_thickness), listed)
     assert not np.any(listed & ~reachable)
