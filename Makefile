@@ -40,7 +40,7 @@ loadtest: $(STAMP)
 
 # Property-based tests with the long hypothesis profile (thousands of examples per test): make fuzz
 fuzz: $(STAMP)
-	HYPOTHESIS_PROFILE=long $(PY) -m pytest -q -m fuzz
+	HYPOTHESIS_PROFILE=long $(PY) -m pytest -q -m fuzz -p no:cacheprovider --hypothesis-show-statistics --durations=0
 
 bench: $(STAMP)
 	$(PY) benchmarks/startup.py
