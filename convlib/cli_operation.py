@@ -171,8 +171,8 @@ def _cmd_tank(args) -> int:
         wall = {} if args.wall_thickness is None else dict(
             wall_thickness=value(args, "wall_thickness"), wall_conductivity=value(args, "wall_conductivity"))
 
-        def build(extra):
-            return spherical_tank(diameter, layers=[*extra, *face_layers("wall")], **wall, **common)
+        def build(extra, **over):
+            return spherical_tank(diameter, layers=[*extra, *face_layers("wall")], **wall, **{**common, **over})
     else:
         if args.height is None:
             raise InputError("--height is required for a vertical tank", field="--height",
@@ -184,11 +184,11 @@ def _cmd_tank(args) -> int:
         ground = value(args, "ground_temperature")
         height = value(args, "height")
 
-        def build(extra):
+        def build(extra, **over):
             return vertical_tank(diameter, height, wall_layers=[*extra, *face_layers("wall")],
                                  roof_layers=[*extra, *face_layers("roof")], floor=args.floor,
                                  floor_layers=face_layers("floor"), ground_temperature=ground,
-                                 ground_conductivity=args.ground_conductivity, **common)
+                                 ground_conductivity=args.ground_conductivity, **{**common, **over})
     _emit_faces(args, "tank faces", build([]), common["air_temperature"], _sizing(args, build))
     return 0
 
@@ -196,6 +196,11 @@ def _cmd_tank(args) -> int:
 def _sizing(args, build) -> list[dict]:
     """Rows of insulation per face for ``--touch-limit`` / ``--heat-flux-limit`` (none without a limit)."""
     limits = {name: getattr(args, name) for name in ("touch_limit", "heat_flux_limit") if getattr(args, name)}
+    for option in ("hottest_air_temperature", "wind_for_touch"):
+        if getattr(args, option) and not args.touch_limit:
+            flag = f"--{option.replace('_', '-')}"
+            raise InputError(f"{flag} applies to --touch-limit only", field=flag, rule="only with --touch-limit",
+                             value=getattr(args, option))
     if not limits:
         return []
     if len(limits) > 1 or args.insulation_conductivity is None:
@@ -206,10 +211,22 @@ def _sizing(args, build) -> list[dict]:
     k = value(args, "insulation_conductivity")
     limit = ({"surface_limit": value(args, "touch_limit")} if args.touch_limit else
              {"heat_flux_limit": value(args, "heat_flux_limit")})
-    sized = insulation_per_face(lambda t: build([Layer(t, k, name="sized insulation")]), **limit)
+    if args.touch_limit:  # the worst case for a burn: still air at the design hottest ambient unless told
+        limit.update(hottest_air_temperature=value(args, "hottest_air_temperature"),
+                     wind_for_touch=bool(args.wind_for_touch))
+    sized = insulation_per_face(lambda t, **over: build([Layer(t, k, name="sized insulation")], **over), **limit)
+
     def known(x):
         return None if np.isnan(x) else x
-    return [{"tag": f.face, "limit on": "surface temperature" if args.touch_limit else "heat flux",
+
+    def echo(f):
+        if not args.touch_limit:
+            return {}
+        air = f.air_temperature if not np.isnan(f.air_temperature) else value(args, "air_temperature")
+        wind = f.wind_speed if not np.isnan(f.wind_speed) else value(args, "wind_speed")
+        return {"touch_limit": limit["surface_limit"], "air_temperature": air, "wind_speed": wind,
+                "jacket_emissivity": args.emissivity}
+    return [{"tag": f.face, "limit on": "surface temperature" if args.touch_limit else "heat flux", **echo(f),
              "required_thickness": known(f.required), "commercial_thickness": known(f.commercial),
              "notes": "not reachable within 300 mm" if np.isnan(f.required) else (
                  "beyond the listed thicknesses" if np.isnan(f.commercial) else "-")} for f in sized]
@@ -359,6 +376,10 @@ def add_commands(sub) -> None:
     add_quantity(tank, "insulation-conductivity", "insulation_conductivity", "size insulation of this k, e.g. "
                  "0.04W/m/K, for a limit:")
     add_quantity(tank, "touch-limit", "temperature", "hottest jacket (or, on a cold tank, coldest), e.g. 60degC")
+    add_quantity(tank, "hottest-air-temperature", "air_temperature", "touch sizing: design hottest ambient, e.g. "
+                 "40degC (default --air-temperature)")
+    tank.add_argument("--wind-for-touch", action="store_true", help="touch sizing in the given --wind-speed "
+                      "(default: still air, the worst case)")
     add_quantity(tank, "heat-flux-limit", "heat_flux", "largest heat flow per area, e.g. 50W/m2")
     tank.add_argument("--tag", default="tank", help="label for the output")
     output_options(tank)

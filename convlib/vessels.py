@@ -40,6 +40,8 @@ the heat flow through the soil surface around the tank.
 from __future__ import annotations
 
 import dataclasses
+import functools
+import inspect
 from dataclasses import dataclass
 from typing import NamedTuple
 
@@ -455,10 +457,13 @@ class FaceThickness(NamedTuple):
     face: str
     required: float
     commercial: float
+    air_temperature: float = float("nan")  # air the sizing ran at [K] (NaN: the builder's own)
+    wind_speed: float = float("nan")       # wind the sizing ran at [m/s] (NaN: the builder's own)
 
 
 def insulation_per_face(build, *, surface_limit=None, heat_flux_limit=None, max_thickness=0.3,
-                        commercial_thicknesses=COMMERCIAL_THICKNESSES, tolerance=1e-5) -> tuple[FaceThickness, ...]:
+                        commercial_thicknesses=COMMERCIAL_THICKNESSES, tolerance=1e-5,
+                        hottest_air_temperature=None, wind_for_touch=False) -> tuple[FaceThickness, ...]:
     r"""Smallest insulation on each exposed face of a vessel or duct that meets a limit.
 
     ``build(thickness)`` returns the :class:`FacesResult` of the vessel with ``thickness`` [m] (an array) of
@@ -482,6 +487,16 @@ def insulation_per_face(build, *, surface_limit=None, heat_flux_limit=None, max_
         Listed thicknesses [m]; default :data:`convlib.design.COMMERCIAL_THICKNESSES` (common practice).
     tolerance : float
         On the thickness [m].
+    hottest_air_temperature : numeric, optional
+        With ``surface_limit``: the design hottest ambient [K] the sizing runs at (the worst case for a burn);
+        default: the builder's own air.
+    wind_for_touch : bool
+        With ``surface_limit``: size in the builder's wind; default False sizes in still air (the worst case).
+
+    With ``surface_limit``, a ``build`` that accepts the keywords ``air_temperature`` and ``wind_speed`` is
+    called with the sizing's conditions (still air, and the hottest ambient when given); the faces echo them
+    (:attr:`FaceThickness.air_temperature`, :attr:`FaceThickness.wind_speed`). A ``build(thickness)`` without
+    these keywords keeps its own conditions (it cannot take a hottest ambient).
 
     Examples
     --------
@@ -502,6 +517,26 @@ def insulation_per_face(build, *, surface_limit=None, heat_flux_limit=None, max_
     else:
         limit = float(as_array("heat_flux_limit", heat_flux_limit, unit="W/m2", low=0.0, low_inclusive=False))
     t_max = float(as_array("max_thickness", max_thickness, unit="m", low=0.0, low_inclusive=False))
+    conditions = {}
+    if surface_limit is not None:
+        params = inspect.signature(build).parameters
+        takes = any(p.kind is p.VAR_KEYWORD for p in params.values()) or {"air_temperature",
+                                                                             "wind_speed"} <= set(params)
+        if hottest_air_temperature is not None:
+            if not takes:
+                raise InputError("hottest_air_temperature needs a build(thickness, *, air_temperature, wind_speed)",
+                                 field="build", rule="accepts air_temperature and wind_speed keywords",
+                                 value=getattr(build, "__name__", repr(build)))
+            conditions["air_temperature"] = float(as_array("hottest_air_temperature", hottest_air_temperature,
+                                                           unit="K", low=0.0, low_inclusive=False))
+        if takes and not wind_for_touch:
+            conditions["wind_speed"] = 0.0
+    elif hottest_air_temperature is not None or wind_for_touch:
+        raise InputError("hottest_air_temperature and wind_for_touch apply to a surface_limit only",
+                         field="hottest_air_temperature, wind_for_touch", rule="only with surface_limit",
+                         value=(hottest_air_temperature, wind_for_touch))
+    if conditions:
+        build = functools.partial(build, **conditions)
     bare = build(np.zeros(1))
     names = [f.name for f in bare.faces if f.surface is not None]
     hot = np.array([float(np.ravel(bare.face(n).q_total)[0]) >= 0.0 for n in names])
@@ -526,7 +561,8 @@ def insulation_per_face(build, *, surface_limit=None, heat_flux_limit=None, max_
                         xatol=tolerance, xrtol=0.0)
         required[todo] = np.where(res.success, res.x, np.nan)
     commercial = listed_thickness(required, commercial_thicknesses)
-    return tuple(FaceThickness(n, float(r), float(c)) for n, r, c in zip(names, required, commercial))
+    air, wind = conditions.get("air_temperature", float("nan")), conditions.get("wind_speed", float("nan"))
+    return tuple(FaceThickness(n, float(r), float(c), air, wind) for n, r, c in zip(names, required, commercial))
 
 
 def _ground_floor(d, floor_temperature, layers, air_temperature, ground_temperature, ground_conductivity,

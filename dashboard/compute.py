@@ -281,6 +281,10 @@ class Sizing:
     commercial: float | None     # [m]
     messages: tuple[str, ...]
     cautions: tuple[str, ...]
+    # the assumptions the sizing ran at (echoed from convlib's ThicknessResult)
+    air_temperature: float = float("nan")     # [K]: touch: the design hottest ambient
+    wind_speed: float = float("nan")          # [m/s]: touch: 0, still air
+    jacket_emissivity: float = float("nan")   # [-]
 
 
 @dataclass(frozen=True)
@@ -299,14 +303,22 @@ class InsulationView:
 
 
 def _sizing(name, result) -> Sizing:
-    req = float(np.asarray(result.required_thickness).ravel()[0])
-    com = float(np.asarray(result.commercial_thickness).ravel()[0])
-    return Sizing(name, float(np.asarray(result.limit).ravel()[0]), None if np.isnan(req) else req,
-                  None if np.isnan(com) else com, tuple(result.messages), tuple(result.cautions))
+    def first(x):
+        return float("nan") if x is None else float(np.asarray(x, dtype=float).ravel()[0])
+
+    req, com = first(result.required_thickness), first(result.commercial_thickness)
+    return Sizing(name, first(result.limit), None if np.isnan(req) else req,
+                  None if np.isnan(com) else com, tuple(result.messages), tuple(result.cautions),
+                  first(result.air_temperature), first(result.wind_speed), first(result.jacket_emissivity))
 
 
-def insulation_view(case: CaseSpec, touch_limit: float, heat_loss_limit: float, still_air: bool) -> InsulationView:
-    """Thickness curves and the thicknesses that meet the touch, heat-loss and condensation limits."""
+def insulation_view(case: CaseSpec, touch_limit: float, heat_loss_limit: float, still_air: bool,
+                    hottest_air_temperature: float | None = None) -> InsulationView:
+    """Thickness curves and the thicknesses that meet the touch, heat-loss and condensation limits.
+
+    The touch sizing runs at the design hottest ambient ``hottest_air_temperature`` [K] (default: the case's air)
+    and in still air whatever ``still_air`` says (the worst case for a burn); ``still_air`` applies to the others.
+    """
     if case.kind != "insulated":
         raise ValueError("insulation sizing applies to an insulated line: switch the line kind to 'insulated'")
     wind = 0.0 if still_air else case.wind_speed
@@ -324,8 +336,10 @@ def insulation_view(case: CaseSpec, touch_limit: float, heat_loss_limit: float, 
     sizings = [_sizing("heat loss", design.thickness_for_heat_loss(d, tf, heat_loss_limit=heat_loss_limit,
                                                                    **common, **outdoor))]
     if hot:
+        hottest = case.air_temperature if hottest_air_temperature is None else hottest_air_temperature
         sizings.append(_sizing("touch", design.thickness_for_surface_temperature(
-            d, tf, surface_limit=touch_limit, **common, **outdoor)))
+            d, tf, surface_limit=touch_limit, hottest_air_temperature=hottest, **common,
+            **{**outdoor, "wind_speed": 0.0})))
     else:
         sizings.append(_sizing("condensation", design.thickness_against_condensation(
             d, tf, relative_humidity=case.relative_humidity, **common)))

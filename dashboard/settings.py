@@ -77,6 +77,7 @@ CONTROLS: dict[str, ControlSetting] = {
     "relative_humidity": ControlSetting("Humidity", "dimensionless", 0.05, 1.0, {"SI": 1.0, "US": 1.0}, _PERCENT),
     "solar_irradiance": ControlSetting("Sun on the line", "heat_flux", 0.0, 1400.0, {"SI": 10.0, "US": 5.0}),
     "pressure": ControlSetting("Air pressure", "pressure", 2.0e4, 2.0e5, {"SI": 0.1, "US": 0.1}, widget="text"),
+    "hottest_air_temperature": ControlSetting("Hottest air", "temperature", 233.15, 333.15, {"SI": 0.5, "US": 1.0}),
     "heat_loss_limit": ControlSetting("Heat-loss limit", "heat_per_length", 1.0, 5000.0, {"SI": 1.0, "US": 1.0},
                                       widget="text"),
     # "In operation" panel
@@ -138,6 +139,7 @@ QUANTITIES: dict[str, tuple[str, dict | None, int]] = {
     "fluid_pressure": ("pressure", {"SI": "bar", "US": "psi"}, 3),
     "maintain_temperature": ("temperature", None, 1),
     "design_air_temperature": ("temperature", None, 1),
+    "hottest_air_temperature": ("temperature", None, 1),
     "design_wind_speed": ("speed", None, 3),
     "tracing_margin": ("dimensionless", _PERCENT, 3),
     "initial_temperature": ("temperature", None, 1),

@@ -129,6 +129,33 @@ def test_tank_insulation_sized_per_face_through_the_command_line():
     assert bad.returncode == 2 and "--insulation-conductivity" in bad.stderr
 
 
+def test_tank_touch_sizing_at_hottest_ambient_in_still_air_through_the_command_line():
+    # re-evaluated at the design hottest ambient (40 degC) in still air: meets 60 degC, misses it 0.1 mm thinner
+    args = ("tank", "--diameter", "6m", "--height", "8m", "--fluid-temperature", "200degC", "--air-temperature",
+            "20degC", "--wind-speed", "6", "--emissivity", "0.1", "--insulation-conductivity", "0.04",
+            "--touch-limit", "60degC", "--hottest-air-temperature", "40degC")
+    proc = run(*args, "--json")
+    assert proc.returncode == 0, proc.stderr
+    rows = json.loads(proc.stdout)["insulation per face (sized; the layers given stay outside it)"]["results"]
+
+    def face(t, name):
+        return cl.vertical_tank(6.0, 8.0, fluid_temperature=473.15, air_temperature=313.15, wind_speed=0.0,
+                                emissivity=0.1, wall_layers=[Layer(t, 0.04)], roof_layers=[Layer(t, 0.04)]).face(name)
+    for row in rows:
+        assert (row["air_temperature"], row["wind_speed"], row["jacket_emissivity"]) == (313.15, 0.0, 0.1)
+        assert row["touch_limit"] == pytest.approx(333.15)
+        t = row["required_thickness"]
+        assert float(face(t, row["tag"]).surface_temperature) <= 333.15 + 1e-3 < float(
+            face(t - 1e-4, row["tag"]).surface_temperature)
+    table = run(*args)
+    assert table.returncode == 0 and "T_air" in table.stdout and "40.0" in table.stdout
+    windy = json.loads(run(*args, "--wind-for-touch", "--json").stdout)
+    assert windy["insulation per face (sized; the layers given stay outside it)"]["results"][0]["wind_speed"] == 6.0
+    bad = run("tank", "--diameter", "6m", "--height", "8m", "--fluid-temperature", "200degC", "--air-temperature",
+              "20degC", "--insulation-conductivity", "0.04", "--heat-flux-limit", "50", "--wind-for-touch")
+    assert bad.returncode == 2 and "--touch-limit" in bad.stderr
+
+
 def test_duct_json_is_the_library_duct():
     proc = run("duct", "--width", "600mm", "--height", "400mm", "--length", "20m", "--fluid-temperature", "13degC",
                "--air-temperature", "32degC", "--layer", "25mm,0.035", "--inner-coefficient", "15", "--json")

@@ -374,3 +374,26 @@ def test_sizing_bare_enough_and_unreachable():
     assert all(np.isnan(f.required) and np.isnan(f.commercial) for f in hopeless)
     with pytest.raises(ValueError, match="surface_limit or heat_flux_limit"):
         v.insulation_per_face(lambda t: _tank(t, 363.15))
+
+
+def test_touch_sizing_in_still_air_at_the_design_hottest_ambient():
+    # re-evaluation check (the sizing's own definition): at the design hottest ambient in still air the face
+    # meets the touch limit with the thickness found and misses it 0.1 mm thinner; 60 degC: ASTM C1055 / ISO 13732-1
+    # practice for a metal jacket (common practice, no source)
+    tf, limit, hottest = 473.15, 333.15, 318.15
+
+    def build(t, air_temperature=293.15, wind_speed=6.0):  # the case: 20 degC in a 6 m/s wind
+        return _tank(t, tf, ta=air_temperature, wind_speed=wind_speed, outdoor=True)
+
+    sized = v.insulation_per_face(build, surface_limit=limit, hottest_air_temperature=hottest)
+    windy = v.insulation_per_face(build, surface_limit=limit, hottest_air_temperature=hottest, wind_for_touch=True)
+    for f, w in zip(sized, windy):
+        assert (f.air_temperature, f.wind_speed) == (hottest, 0.0)
+        at = build(f.required, hottest, 0.0).face(f.face)
+        thinner = build(f.required - 1e-4, hottest, 0.0).face(f.face)
+        assert float(at.surface_temperature) <= limit + 1e-3 < float(thinner.surface_temperature)
+        assert w.required < f.required  # wind cools the jacket: sizing in it would leave a burn in still air
+    with pytest.raises(cl.InputError, match="build"):  # a build that cannot take the hottest ambient
+        v.insulation_per_face(lambda t: _tank(t, tf), surface_limit=limit, hottest_air_temperature=hottest)
+    with pytest.raises(cl.InputError, match="surface_limit"):
+        v.insulation_per_face(build, heat_flux_limit=50.0, hottest_air_temperature=hottest)

@@ -31,7 +31,9 @@ class InsulationPanel(Panel):
     heat_loss_limit : float
         Highest heat flow [W/m].
     still_air : bool
-        Size in still air (worst case) instead of the case's wind.
+        Size in still air (worst case) instead of the case's wind (heat loss; touch is always in still air).
+    hottest_air_temperature : float or None
+        Design hottest ambient of the touch sizing [K]; ``None`` until set: it follows the case's air.
     """
 
     view = traitlets.Instance(InsulationView, allow_none=True)
@@ -39,6 +41,7 @@ class InsulationPanel(Panel):
     touch_limit = traitlets.Float(design.TOUCH_LIMIT_METAL_JACKET)
     heat_loss_limit = traitlets.Float(60.0)
     still_air = traitlets.Bool(True)
+    hottest_air_temperature = traitlets.Float(None, allow_none=True)
 
     def __init__(self, heat_loss_limit: float = 60.0, **kwargs):
         super().__init__(**kwargs)
@@ -47,6 +50,9 @@ class InsulationPanel(Panel):
                                           layout=widgets.Layout(width="380px"))
         self.limit_control = QuantityControl("heat_loss_limit", heat_loss_limit, self.units, self._limit_changed)
         self.limit_control.box.layout.width = "330px"
+        self._hottest_set = False   # False: the hottest ambient follows the case's air
+        self.hottest_control = QuantityControl("hottest_air_temperature", 293.15, self.units, self._hottest_changed)
+        self.hottest_control.box.layout.width = "330px"
         self.conditions = widgets.ToggleButtons(options=[("still air (worst case)", True), ("the case's wind", False)],
                                                 description="Size in", style={**DESCRIPTION_STYLE,
                                                                               "button_width": "150px"})
@@ -55,23 +61,35 @@ class InsulationPanel(Panel):
         self.summary = widgets.HTML()
         self.summary.add_class("cl-table")
         self._fill_touch()
-        self.children = [widgets.HBox([self.touch_box, self.limit_control.box],
+        self.children = [widgets.HBox([self.touch_box, self.hottest_control.box, self.limit_control.box],
                                       layout=widgets.Layout(flex_flow="row wrap")),
                          self.conditions, self.message, self.plot_box, self.summary]
 
     def interactive(self):
-        return [self.touch_box, self.limit_control, self.conditions]
+        return [self.touch_box, self.hottest_control, self.limit_control, self.conditions]
 
     def reset(self):
         super().reset()
         self.touch_limit = design.TOUCH_LIMIT_METAL_JACKET
         self.heat_loss_limit = self._default_limit
         self.still_air = True
+        self._hottest_set = False
+        self.hottest_air_temperature = None
         self.limit_control.set_si(self._default_limit)
         self._fill_touch()
 
     def _limit_changed(self, name, value):
         self.heat_loss_limit = value
+
+    def _hottest_changed(self, name, value):
+        self._hottest_set = True
+        self.hottest_air_temperature = value
+
+    def follow_case_air(self, air_temperature: float) -> None:
+        """Default the design hottest ambient to the case's air until the user sets it [K]."""
+        if not self._hottest_set:
+            self.hottest_control.set_si(air_temperature)
+            self.hottest_air_temperature = float(air_temperature)
 
     def _touch_changed(self, change):
         if change["new"] is not None:
@@ -88,6 +106,7 @@ class InsulationPanel(Panel):
     def _units_changed(self, change):
         if hasattr(self, "limit_control"):
             self.limit_control.set_system(change["new"])
+            self.hottest_control.set_system(change["new"])
             self._fill_touch()
 
     @traitlets.observe("view", "units", "applicable")
@@ -108,11 +127,18 @@ class InsulationPanel(Panel):
             rows.append(f"<tr><td>{html.escape(s.name)}</td><td>{html.escape(d.text(s.limit, quantity))}</td>"
                         f"<td>{html.escape(need)}</td><td>{html.escape(listed)}</td></tr>")
             notes += [*s.messages]
+        touch = [s for s in v.sizings if s.name == "touch"]
+        if touch:
+            t = touch[0]
+            still = "still air" if t.wind_speed == 0 else d.text(t.wind_speed, "wind_speed")
+            notes_touch = (f"Touch sized at: hottest air {d.text(t.air_temperature, 'air_temperature')}, {still}, "
+                           f"jacket ε {t.jacket_emissivity:.2f}, limit {d.text(t.limit, 'surface_temperature')}.")
         critical = ("none" if v.critical <= 0 else d.text(v.critical, "insulation_thickness"))
         cautions = [c for s in v.sizings for c in s.cautions]
         self.summary.value = (
             "<table><tr><th>Limit</th><th>Value</th><th>Thickness that meets it</th><th>Next listed thickness</th>"
             "</tr>" + "".join(rows) + f"</table><p>Critical thickness: {html.escape(critical)}. "
             f"Current thickness: {html.escape(d.text(v.current_thickness, 'insulation_thickness'))}.</p>"
+            + (f"<p class='cl-assumptions'>{html.escape(notes_touch)}</p>" if touch else "")
             + message_html(notes, "warning", self.display) + message_html(cautions, "caution", self.display))
         self.set_message()

@@ -68,6 +68,43 @@ def test_insulation_sizing_equals_convlib_design(app, study):
     assert {s.name: s for s in panel.view.sizings}["heat loss"].required > sizings["heat loss"].required
 
 
+def test_touch_sizing_at_design_hottest_ambient_in_still_air(app, study):
+    # convlib.design.thickness_for_surface_temperature(..., hottest_air_temperature=..., wind_speed=0) is the
+    # reference: the panel must show exactly its thickness and its echoed assumptions
+    show(app, "insulation")
+    panel = app.insulation
+    case = study.case
+    assert panel.hottest_control.si == pytest.approx(case.air_temperature)  # default: the case's air
+    app.line.controls["wind_speed"].widget.value = 6.0       # wind on the case: touch must still size in still air
+    panel.conditions.value = False                            # heat loss in the case's wind
+    panel.hottest_control.widget.value = 40.0                # degC, SI display
+    hottest = 313.15
+    jacket = [Layer(case.jacket_thickness, case.jacket_conductivity, name="jacket")]
+    touch = design.thickness_for_surface_temperature(
+        case.diameter, case.fluid_temperature, air_temperature=case.air_temperature,
+        hottest_air_temperature=hottest, wind_speed=0.0, insulation_conductivity=case.insulation_conductivity,
+        outer_layers=jacket, jacket_emissivity=case.emissivity, sky_view_fraction=case.sky_view_fraction,
+        solar_irradiance=case.solar_irradiance, pressure=case.pressure, max_thickness=0.3,
+        surface_limit=design.TOUCH_LIMIT_METAL_JACKET)
+    s = {s.name: s for s in panel.view.sizings}["touch"]
+    assert s.required == pytest.approx(float(touch.required_thickness), abs=1e-6)
+    assert s.commercial == pytest.approx(float(touch.commercial_thickness))
+    assert (s.air_temperature, s.wind_speed) == (pytest.approx(hottest), 0.0)
+    assert s.jacket_emissivity == pytest.approx(case.emissivity)
+    d = Display()
+    text = panel.summary.value
+    assert d.text(float(touch.required_thickness), "insulation_thickness") in text
+    assert f"hottest air {d.text(hottest, 'air_temperature')}, still air" in text
+    assert f"jacket ε {case.emissivity:.2f}" in text
+    # the hotter the design ambient, the more insulation touch needs
+    panel.hottest_control.widget.value = 20.0
+    assert {s.name: s for s in panel.view.sizings}["touch"].required < s.required
+    # US units: the control keeps its SI value and shows it in degF
+    app.units = "US"
+    assert panel.hottest_control.si == pytest.approx(293.15)
+    assert "°F" in panel.summary.value and "hottest air 68" in panel.summary.value
+
+
 def test_cold_line_sizes_against_condensation(app, study):
     line = app.line
     line.controls["fluid_temperature"].widget.value = 5.0
