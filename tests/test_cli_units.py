@@ -14,6 +14,7 @@ from convlib.cli import main
 from convlib.design import thickness_for_heat_loss
 from convlib.operation import steam_line
 from convlib.pipe_sizes import nominal_pipe
+from cli_helpers import run_error, run_json
 
 INCH = 0.0254                                      # m, exact (1959 international yard and pound agreement)
 # NIST SP 811 (2008), appendix B.8, "British thermal unit_IT inch per hour square foot degree Fahrenheit":
@@ -23,21 +24,6 @@ BTU_PER_H_FT2_F = 5.678263
 PSI = 6894.757                                     # Pa, NIST SP 811 (2008), appendix B.8 (pound-force per sq. inch)
 ATMOSPHERE = 101325.0                              # Pa, standard atmosphere, exact (10th CGPM, 1954)
 NPS4 = 0.1143                                      # m, NPS 4 outer diameter 4.500 in (ASME B36.10M)
-
-
-def run_json(capsys, *argv):
-    code = main([*argv, "--json"])
-    out, err = capsys.readouterr()
-    assert code == 0, err
-    return json.loads(out)
-
-
-def run_error(capsys, *argv):
-    code = main(list(argv))
-    out, err = capsys.readouterr()
-    assert code == 2, out
-    assert err.count("\n") == 1 and "Traceback" not in err   # one line
-    return err
 
 
 def line_row(capsys, *argv):

@@ -6,7 +6,6 @@ Every physical expectation is an independent calculation: the sized thickness is
 form with the constants of Alduchov & Eskridge (1996), unit factors from their definitions (NIST SP 811).
 The command line runs in-process through ``convlib.cli.main`` (the code of ``python -m convlib``).
 """
-import json
 import math
 
 import pytest
@@ -17,6 +16,7 @@ from convlib.operation import line_temperature_profile
 from convlib.pipe import Layer, insulated_pipe
 from convlib.pipe_sizes import nominal_pipe
 from convlib.study import CaseSpec, StudySpec, run_study
+from cli_helpers import run_json, run_text
 
 NPS4 = nominal_pipe("4", "40").outer_diameter      # 0.1143 m, ASME B36.10M (4.500 in)
 NPS2 = nominal_pipe("2", "40").outer_diameter      # 0.0603 m, ASME B36.10M (2.375 in)
@@ -30,20 +30,6 @@ def magnus_dew_point(air_k, rh):
     t = air_k - 273.15
     gamma = math.log(rh) + 17.625 * t / (243.04 + t)
     return 273.15 + 243.04 * gamma / (17.625 - gamma)
-
-
-def run_json(capsys, *argv):
-    code = main([*argv, "--json"])
-    out, err = capsys.readouterr()
-    assert code == 0, err
-    return json.loads(out)
-
-
-def run_text(capsys, *argv):
-    code = main(list(argv))
-    out, err = capsys.readouterr()
-    assert code == 0, err
-    return out
 
 
 def run_error(capsys, *argv):
