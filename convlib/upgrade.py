@@ -147,6 +147,8 @@ def _columns(survey, option, thickness, investment, saved_kwh_samples, settings)
     with np.errstate(divide="ignore", invalid="ignore"):
         payback_samples = np.where(money > 0, investment[:, None] / np.where(money > 0, money, 1.0), np.inf)
     npv = money * factor - investment[:, None]
+    excess = np.percentile(survey.annual_excess_samples, _PERCENTILES, axis=1)  # one pass per array
+    npv_p = np.percentile(npv, _PERCENTILES, axis=1)
     lines = survey.lines
     n = len(lines)
     return {
@@ -154,15 +156,12 @@ def _columns(survey, option, thickness, investment, saved_kwh_samples, settings)
         "service": np.where(hot, "hot", "cold").astype(object),
         "condition": survey.condition_names, "k_effective": survey.k_effective, "ratio": survey.ratio,
         "q_now": survey.q_now, "q_design": survey.q_design,
-        "excess_kwh_p5": np.percentile(survey.annual_excess_samples, 5, axis=1),
-        "excess_kwh_p50": np.percentile(survey.annual_excess_samples, 50, axis=1),
-        "excess_kwh_p95": np.percentile(survey.annual_excess_samples, 95, axis=1),
+        "excess_kwh_p5": excess[0], "excess_kwh_p50": excess[1], "excess_kwh_p95": excess[2],
         "option": np.full(n, option, dtype=object), "thickness": thickness, "investment": investment,
         "saved_kwh_p50": np.percentile(saved_kwh_samples, 50, axis=1),
         "saving_p5": p5, "saving_p50": p50, "saving_p95": p95,
         "payback_p50": np.where(p50 > 0, investment / np.where(p50 > 0, p50, 1.0), np.inf),  # at the median saving
-        "npv_p5": np.percentile(npv, 5, axis=1), "npv_p50": np.percentile(npv, 50, axis=1),
-        "npv_p95": np.percentile(npv, 95, axis=1),
+        "npv_p5": npv_p[0], "npv_p50": npv_p[1], "npv_p95": npv_p[2],
         "probability_payback": np.mean(payback_samples <= settings.payback_years, axis=1),
         "co2_saved_kg_p50": np.percentile(co2, 50, axis=1),
     }
