@@ -25,6 +25,7 @@ _LAZY = {
     "Layer": "pipe", "PipeResult": "pipe", "insulated_pipe": "pipe",
     "nominal_pipe": "pipe_sizes",
     "SurfaceResult": "surface", "bare_surface": "surface",
+    "Surroundings": "surroundings",
     "CaseSpec": "study", "StudyResult": "study", "StudySpec": "study", "run_study": "study",
     "LineListResult": "linelist", "read_line_list": "linelist", "run_line_list": "linelist",
     "write_results_csv": "linelist",
@@ -61,7 +62,7 @@ def __dir__():
 
 __all__ = [
     "air", "fluid_properties", "FluidProperties", "dew_point", "nusselt", "catalog", "correlations",
-    "bare_surface", "SurfaceResult", "geometry", "radiation", "regimes", "__version__", "InputError",
+    "bare_surface", "SurfaceResult", "Surroundings", "geometry", "radiation", "regimes", "__version__", "InputError",
     "insulated_pipe", "Layer", "PipeResult", "Conductivity", "nominal_pipe",
     "StudySpec", "CaseSpec", "StudyResult", "run_study", "snapshot",
     "run_line_list", "read_line_list", "write_results_csv", "LineListResult",

@@ -28,7 +28,8 @@ from .conductivity import Conductivity
 from .errors import InputError
 from .regimes import Flag
 from .roots import find_root
-from .surface import OuterSurface, SurfaceResult, property_range_named
+from .surface import OuterSurface, SurfaceResult, check_cross_flow, property_range_named
+from .surroundings import Surroundings, resolve
 from .validation import LAYER_THICKNESS_MAX, as_array, as_bounded, as_size
 
 __all__ = ["Layer", "PipeResult", "insulated_pipe"]
@@ -85,19 +86,19 @@ def insulated_pipe(
     fluid_temperature,
     layers=(),
     *,
-    air_temperature,
+    air_temperature=None,
     jacket_emissivity=0.9,
-    wind_speed=0.0,
+    wind_speed=None,
     length=1.0,
     pipe_wall_thickness=None,
     pipe_conductivity=None,
     inner_coefficient=None,
     surroundings_temperature=None,
-    sky_view_fraction=0.0,
+    sky_view_fraction=None,
     sky_temperature=None,
-    solar_irradiance=0.0,
+    solar_irradiance=None,
     solar_absorptivity=None,
-    pressure=101325.0,
+    pressure=None,
     natural=None,
     forced=None,
     mixing_exponent=None,
@@ -105,6 +106,7 @@ def insulated_pipe(
     convection_factor=1.0,
     convection_coefficient=None,
     tolerance=1e-6,
+    surroundings: Surroundings | None = None,
 ) -> PipeResult:
     r"""Heat loss (or gain) and outer surface temperature of a horizontal pipe with layers.
 
@@ -116,13 +118,13 @@ def insulated_pipe(
         Temperature of the fluid inside [K]; below the air temperature for a cold line.
     layers : sequence of Layer
         From the pipe outwards (e.g. insulation, then jacket); empty for a bare pipe.
-    air_temperature : numeric
-        Ambient air temperature [K].
+    air_temperature, wind_speed, surroundings_temperature, sky_view_fraction, sky_temperature, solar_irradiance,
+    pressure
+        Fields of the surroundings, as in :class:`convlib.surroundings.Surroundings`; or give ``surroundings``.
     jacket_emissivity : numeric
         Emissivity of the outermost surface [-].
-    wind_speed, length, surroundings_temperature, sky_view_fraction, sky_temperature,
-    solar_irradiance, solar_absorptivity, pressure, natural, forced, mixing_exponent, exact_properties,
-    convection_factor, convection_coefficient
+    length, solar_absorptivity, natural, forced, mixing_exponent, exact_properties, convection_factor,
+    convection_coefficient
         As in :func:`convlib.surface.bare_surface`.
     pipe_wall_thickness : numeric, optional
         Pipe wall thickness [m]; with ``pipe_conductivity`` adds the wall's resistance.
@@ -132,6 +134,8 @@ def insulated_pipe(
         Inside film coefficient [W/m2/K]; default: the inner surface is at the fluid temperature.
     tolerance : float
         Absolute tolerance on the surface temperature [K].
+    surroundings : Surroundings, optional
+        The surroundings as one object, instead of their keywords (not both).
 
     Returns
     -------
@@ -159,13 +163,15 @@ def insulated_pipe(
     for layer in layers:
         radii.append(radii[-1] + layer.thickness)
     d_out = 2.0 * radii[-1]
+    around = resolve(surroundings, air_temperature=air_temperature, wind_speed=wind_speed,
+                     surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction,
+                     sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure)
+    check_cross_flow("horizontal_cylinder", around)
     outer = OuterSurface.build(
-        "horizontal_cylinder", air_temperature=air_temperature, diameter=d_out, length=length,
-        wind_speed=wind_speed, emissivity=jacket_emissivity, surroundings_temperature=surroundings_temperature,
-        sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance,
-        solar_absorptivity=solar_absorptivity, pressure=pressure, natural=natural, forced=forced,
+        "horizontal_cylinder", diameter=d_out, length=length, emissivity=jacket_emissivity,
+        solar_absorptivity=solar_absorptivity, natural=natural, forced=forced,
         mixing_exponent=mixing_exponent, exact_properties=exact_properties, convection_factor=convection_factor,
-        convection_coefficient=convection_coefficient)
+        convection_coefficient=convection_coefficient, **around.surface_keywords())
 
     # ---- fixed resistances [K m/W] inside the layers: inner film and pipe wall
     r_fixed = np.zeros(())

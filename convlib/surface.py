@@ -17,11 +17,12 @@ from .errors import InputError
 from .geometry import SHAPES, dimensions
 from .properties import fluid_properties
 from .radiation import effective_coefficient, net_flux, sky_temperature as clear_sky_temperature, solar_gain
+from .surroundings import Surroundings, resolve
 from .regimes import Flag, convection_mode, flow_names, flow_regime, mode_names, summarize_flags
 from .validation import (CONVECTION_COEFFICIENT_MAX, CONVECTION_FACTOR_MAX, MIXING_EXPONENT_RANGE,
                          SOLAR_IRRADIANCE_MAX, WIND_SPEED_MAX, as_array, as_bounded, as_size, check_choice)
 
-__all__ = ["GRAVITY", "SurfaceResult", "OuterSurface", "bare_surface"]
+__all__ = ["GRAVITY", "SurfaceResult", "OuterSurface", "bare_surface", "check_cross_flow"]
 
 #: Standard acceleration of gravity [m/s2] (CGPM 1901, exact by definition).
 GRAVITY = 9.80665
@@ -286,23 +287,31 @@ class OuterSurface:
         return SurfaceResult(**{n: np.array(a) for n, a in zip(names, arrays)})
 
 
+def check_cross_flow(shape: str, around: Surroundings) -> None:
+    """Refuse wind along the axis of a horizontal cylinder: the laws of the registry are for cross-flow."""
+    if shape == "horizontal_cylinder" and around.wind_direction == "along" and np.any(around.wind_speed > 0):
+        raise InputError("wind_direction 'along' a horizontal cylinder has no law in the registry (its forced laws "
+                         "are for cross-flow); use 'across' (the usual design case, it gives the larger loss)",
+                         field="wind_direction", rule="'across' for a horizontal cylinder in wind", value="along")
+
+
 def bare_surface(
     shape: str = "horizontal_cylinder",
     *,
     surface_temperature,
-    air_temperature,
+    air_temperature=None,
     diameter=None,
     length=None,
     height=None,
     width=None,
-    wind_speed=0.0,
+    wind_speed=None,
     emissivity=0.9,
     surroundings_temperature=None,
-    sky_view_fraction=0.0,
+    sky_view_fraction=None,
     sky_temperature=None,
-    solar_irradiance=0.0,
+    solar_irradiance=None,
     solar_absorptivity=None,
-    pressure=101325.0,
+    pressure=None,
     natural: str | None = None,
     forced: str | None = None,
     flow_direction: str = "transverse",
@@ -312,6 +321,7 @@ def bare_surface(
     convection_factor=1.0,
     convection_coefficient=None,
     strict: bool = False,
+    surroundings: Surroundings | None = None,
 ) -> SurfaceResult:
     r"""Heat loss (or gain) of a surface at a known temperature.
 
@@ -322,27 +332,17 @@ def bare_surface(
     surface_temperature : numeric
         Outer surface temperature :math:`T_s` [K].
     air_temperature : numeric
-        Ambient air temperature :math:`T_a` [K].
+        Ambient air temperature :math:`T_a` [K] (or give ``surroundings``).
     diameter, length, height, width : numeric
         Sizes the shape takes [m] (see :mod:`convlib.geometry`), 1e-6 to 1e6 m
         (:data:`convlib.validation.SIZE_RANGE`).
-    wind_speed : numeric
-        Wind speed [m/s], 0 to 100 (incompressible flow); 0 is still air (purely natural convection).
+    wind_speed, surroundings_temperature, sky_view_fraction, sky_temperature, solar_irradiance, pressure
+        Fields of the surroundings, as in :class:`convlib.surroundings.Surroundings` (defaults: still air,
+        surroundings at the air temperature, no sky in view, a clear sky, no sun, 101325 Pa).
     emissivity : numeric
         Long-wave emissivity of the surface [-], 0..1.
-    surroundings_temperature : numeric, optional
-        Temperature of the surroundings (walls, ground) [K]; default the air temperature.
-    sky_view_fraction : numeric
-        Part of the surface's view taken by the sky [-], 0 indoors; outdoors
-        e.g. 0.5 for a horizontal line (:data:`convlib.radiation.SKY_VIEW_FRACTION_TYPICAL`).
-    sky_temperature : numeric, optional
-        Sky temperature [K]; default a clear sky after Swinbank (1963).
-    solar_irradiance : numeric
-        Solar irradiance on the projected area [W/m2], 0 to 1400 (about the solar constant).
     solar_absorptivity : numeric, optional
         Short-wave absorptivity [-]; default the emissivity (grey surface).
-    pressure : numeric
-        Air pressure [Pa] (lower at altitude; natural convection weakens).
     natural, forced : str, optional
         Registry keys of the natural and forced correlations; default per shape.
     flow_direction : {"transverse", "assisting", "opposing"}
@@ -365,6 +365,8 @@ def bare_surface(
         still those of the physical situation (to compare the given value with the correlations).
     strict : bool
         Raise ``InputError`` (a ``ValueError``) if any correlation is evaluated outside its range.
+    surroundings : Surroundings, optional
+        The surroundings as one object, instead of the keywords above (not both).
 
     Returns
     -------
@@ -378,14 +380,16 @@ def bare_surface(
     >>> round(float(r.q_per_length)), r.regime_names().item()
     (245, 'natural')
     """
+    around = resolve(surroundings, air_temperature=air_temperature, wind_speed=wind_speed,
+                     surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction,
+                     sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure)
+    check_cross_flow(shape, around)
     conditions = OuterSurface.build(
-        shape, air_temperature=air_temperature, diameter=diameter, length=length, height=height, width=width,
-        wind_speed=wind_speed, emissivity=emissivity, surroundings_temperature=surroundings_temperature,
-        sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance,
-        solar_absorptivity=solar_absorptivity, pressure=pressure, natural=natural, forced=forced,
+        shape, diameter=diameter, length=length, height=height, width=width, emissivity=emissivity,
+        solar_absorptivity=solar_absorptivity, natural=natural, forced=forced,
         flow_direction=flow_direction, mixing_exponent=mixing_exponent, fluid=fluid,
         exact_properties=exact_properties, convection_factor=convection_factor,
-        convection_coefficient=convection_coefficient)
+        convection_coefficient=convection_coefficient, **around.surface_keywords())
     ts = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
     with property_range_named("surface_temperature, air_temperature"):
         result = conditions.result(conditions.exchange(ts))
