@@ -273,7 +273,7 @@ def _progress_bar(fraction: float, text: str) -> None:
 
 
 def _load_spec(args):
-    from .study import StudySpec, load_demo_study
+    from .study import StudySpec, check_plausible, load_demo_study
 
     if args.demo == bool(args.study):
         raise InputError("give a study file or --demo (the invented demo study), not both", field="study, --demo",
@@ -282,10 +282,15 @@ def _load_spec(args):
         return load_demo_study()
     data = read_json(args.study, MAX_STUDY_BYTES, label=f"study file {args.study}", field="study")
     try:
-        return StudySpec.model_validate(data)
+        spec = StudySpec.model_validate(data)
     except ValueError as exc:
         raise InputError(f"study file {args.study}: {_pydantic_text(exc)}", field="study", rule="a valid study",
                          value=args.study) from None
+    try:
+        check_plausible(spec, allow_unusual=getattr(args, "allow_unusual", False), override="--allow-unusual")
+    except InputError as exc:
+        raise InputError(f"study file {args.study}: {exc}", field=exc.field, rule=exc.rule, value=exc.value) from None
+    return spec
 
 
 def _pydantic_text(exc) -> str:
@@ -598,6 +603,7 @@ def build_parser() -> argparse.ArgumentParser:
     run.add_argument("--author", default="", help="author recorded in the snapshot")
     run.add_argument("--note", default="", help="note recorded in the snapshot")
     run.add_argument("--overwrite", action="store_true", help="replace an existing snapshot file")
+    run.add_argument("--allow-unusual", action="store_true", help=ALLOW_HELP)
     output_options(run, quantities=False)
     run.set_defaults(func=_cmd_run)
 
@@ -672,6 +678,10 @@ def main(argv=None) -> int:
         return 2
     except (ValueError, OSError) as exc:
         message = str(exc).replace("\n", "; ")
+        if isinstance(exc, InputError) and "K for " in message:  # property data's kelvin, deep in a solve
+            from .units import kelvin_for_reader
+
+            message = kelvin_for_reader(message, getattr(args, "units", "SI") or "SI")
         print(f"convlib: error: {message}", file=sys.stderr)
         return 2
 

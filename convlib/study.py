@@ -104,6 +104,42 @@ def _with_unit(value, kind: str, field: str):
     return value
 
 
+#: Plausibility guard of a study file's case (the ranges of :data:`convlib.units.INPUTS`): field -> input name.
+_CASE_GUARDS = {"diameter": "pipe_diameter", "length": "length", "height": "size", "width": "size",
+                "surface_temperature": "temperature", "fluid_temperature": "temperature",
+                "air_temperature": "air_temperature", "surroundings_temperature": "temperature",
+                "wind_speed": "wind_speed", "pressure": "air_pressure", "insulation_thickness": "thickness",
+                "insulation_conductivity": "insulation_conductivity", "jacket_thickness": "thickness"}
+
+
+def check_plausible(spec: "StudySpec", *, allow_unusual: bool = False, override: str = "allow_unusual=True",
+                    label: str = "case") -> None:
+    """Refuse a study whose case holds a value outside the range engineers use (a plain number in a study file
+    is SI: 95 for a temperature is 95 K, 168 for a diameter is 168 m), with a hint in the user's units
+    ("did you mean 95 degC?"), unless ``allow_unusual``. Raises :class:`~convlib.errors.InputError`.
+
+    Examples
+    --------
+    >>> spec = StudySpec(case=CaseSpec(kind="bare", surface_temperature=95.0, air_temperature=293.15))
+    >>> check_plausible(spec)
+    Traceback (most recent call last):
+    ...
+    convlib.errors.InputError: case.surface_temperature: '95.0' (read as 95 K) is below the range engineers use for a temperature (150 to 1300 K); did you mean 95 degC or 95 degF? Write the unit, or give allow_unusual=True to compute it anyway
+    >>> check_plausible(spec, allow_unusual=True)
+    """
+    from .units import KIND_SI_UNIT, INPUTS, read
+
+    if allow_unusual:
+        return
+    case = spec.case
+    for field_name, input_name in _CASE_GUARDS.items():
+        value = getattr(case, field_name)
+        if value is None or (field_name == "jacket_thickness" and value == 0.0):
+            continue
+        read(repr(float(value)), input_name, f"{label}.{field_name}", override=override,
+             plain_unit=KIND_SI_UNIT[INPUTS[input_name].kind])
+
+
 def _input_with_units(data, input_field: str, value_fields: tuple[str, ...]):
     """Values of an axis, tornado bar or distribution written with units, in the unit kind of their input."""
     name = data.get(input_field) if isinstance(data, dict) else None

@@ -462,3 +462,25 @@ def help_units(name: str) -> str:
     if not spec.si:
         return "plain number: a fraction, or write 80%"
     return f"plain number: {spec.si} (--units US: {spec.us})"
+
+
+_KELVIN_RANGE = re.compile(r"between (-?[\d.]+(?:e[-+]?\d+)?) and (-?[\d.]+(?:e[-+]?\d+)?) K\b")
+_KELVIN_VALUE = re.compile(r"(?<![\w.])(-?[\d.]+(?:e[-+]?\d+)?) K\b(?! \()")
+
+
+def kelvin_for_reader(message: str, system: str = "SI") -> str:
+    """A message with kelvin figures (from the property data, deep in a solve) also in the reader's own unit:
+    ``"between 82.22 and 2000 K"`` -> ``"between 82.22 and 2000 K (-191 to 1727 degC)"`` (degF with ``"US"``).
+
+    Examples
+    --------
+    >>> kelvin_for_reader("temperature must be between 82.22 and 2000 K for Air (gas); got 2774.26 K", "US")
+    'temperature must be between 82.22 and 2000 K (-311.7 degF to 3140 degF) for Air (gas); got 2774.26 K (4534 degF)'
+    """
+    unit = display_unit("temperature", system)
+
+    def show(kelvin: str) -> str:
+        return f"{float(from_si(float(kelvin), 'temperature', unit)):.4g} {unit}"
+
+    message = _KELVIN_RANGE.sub(lambda m: f"between {m[1]} and {m[2]} K ({show(m[1])} to {show(m[2])})", message)
+    return _KELVIN_VALUE.sub(lambda m: f"{m[1]} K ({show(m[1])})", message)
