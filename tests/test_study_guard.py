@@ -68,6 +68,6 @@ def test_property_range_errors_speak_the_readers_units(capsys):
                     "--air-temperature", "70degF", "--allow-unusual", "--units", "US")
     assert "2000 K (3140 degF)" in err or "3140 degF" in err
     assert "(4535 degF)" in err
-    err = run_error(capsys, "surface", "--diameter", "100mm", "--surface-temperature", "3000degC",
+    err = run_error(capsys, "surface", "--diameter", "100mm", "--surface-temperature", "4000degC",
                     "--air-temperature", "20degC", "--allow-unusual")
     assert "1727 degC" in err   # 2000 K - 273.15
