@@ -22,7 +22,7 @@ from .regimes import Flag, convection_mode, flow_names, flow_regime, mode_names,
 from .validation import (CONVECTION_COEFFICIENT_MAX, CONVECTION_FACTOR_MAX, MIXING_EXPONENT_RANGE,
                          SOLAR_IRRADIANCE_MAX, WIND_SPEED_MAX, as_array, as_bounded, as_size, check_choice)
 
-__all__ = ["GRAVITY", "SurfaceResult", "OuterSurface", "bare_surface", "check_cross_flow"]
+__all__ = ["GRAVITY", "SurfaceResult", "OuterSurface", "bare_surface"]
 
 #: Standard acceleration of gravity [m/s2] (CGPM 1901, exact by definition).
 GRAVITY = 9.80665
