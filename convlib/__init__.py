@@ -32,6 +32,7 @@ _LAZY = {
     "condensate_rate": "operation", "freeze_time": "operation", "line_temperature_profile": "operation",
     "minimum_flow": "operation",
     "steam_line": "operation", "tracing_duty": "operation",
+    "cool_down_time": "transients", "warm_up_condensate": "transients",
     "rectangular_duct": "vessels", "spherical_tank": "vessels", "vertical_tank": "vessels",
 }
 
@@ -67,5 +68,5 @@ __all__ = [
     "StudySpec", "CaseSpec", "StudyResult", "run_study", "snapshot",
     "run_line_list", "read_line_list", "write_results_csv", "LineListResult",
     "operation", "vessels", "line_temperature_profile", "minimum_flow", "steam_line", "condensate_rate",
-    "tracing_duty", "freeze_time", "vertical_tank", "spherical_tank", "rectangular_duct",
+    "tracing_duty", "freeze_time", "cool_down_time", "warm_up_condensate", "vertical_tank", "spherical_tank", "rectangular_duct",
 ]

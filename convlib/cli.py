@@ -45,6 +45,7 @@ from .cli_common import (ALLOW_HELP, LAYER_UNITS, add_quantity, conditions, disp
                          pretty_unit, surface_cautions, surface_row, table, units_map, value)
 from .cli_operation import add_commands as add_operation_commands
 from .cli_survey import add_commands as add_survey_commands
+from .cli_transients import add_commands as add_transient_commands
 from .correlations import catalog
 from .demo import load_demo_site, operation_rows
 from .errors import InputError
@@ -642,6 +643,7 @@ def build_parser() -> argparse.ArgumentParser:
 
     add_operation_commands(sub)
     add_survey_commands(sub)
+    add_transient_commands(sub)
 
     cat = sub.add_parser("correlations", help="list the correlation registry")
     cat.add_argument("--geometry", help="only this geometry")

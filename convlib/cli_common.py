@@ -61,6 +61,15 @@ FIELDS = {
     "jacket_emissivity": ("emissivity", "dimensionless", "{:.2f}"),
     "surface_temperature_at_listed": ("T_surface@listed", "temperature", "{:.1f}"),
     "q_per_length_at_listed": ("q@listed", "heat_per_length", "{:.1f}"),
+    "final_temperature": ("T_final", "temperature", "{:.1f}"),
+    "q_initial": ("q_initial", "heat_per_length", "{:.1f}"),
+    "q_final": ("q_final", "heat_per_length", "{:.1f}"),
+    "time": ("t", "time", "{:.2f}"),
+    "saturation_temperature": ("T_sat", "temperature", "{:.1f}"),
+    "wall_mass": ("M_wall", "mass", "{:.0f}"),
+    "warm_up_condensate": ("condensate_warm-up", "mass", "{:.1f}"),
+    "running_condensate_rate": ("condensate_running", "mass_flow", "{:.2f}"),
+    "mean_condensate_rate": ("condensate_mean", "mass_flow", "{:.1f}"),
 }
 
 

@@ -46,6 +46,7 @@ KIND_SI_UNIT = {
     "area": "m**2",
     "time": "s",
     "mass_flow": "kg/s",
+    "mass": "kg",
     "dimensionless": "",
 }
 
@@ -54,12 +55,12 @@ DISPLAY_UNITS = {
     "SI": {"temperature": "degC", "temperature_difference": "delta_degC", "length": "mm", "speed": "m/s",
            "pressure": "kPa", "heat_per_length": "W/m", "heat_flux": "W/m**2", "power": "W",
            "coefficient": "W/m**2/K", "conductivity": "W/m/K", "energy": "kWh", "area": "m**2", "time": "hour",
-           "mass_flow": "kg/hour", "dimensionless": ""},
+           "mass_flow": "kg/hour", "mass": "kg", "dimensionless": ""},
     "US": {"temperature": "degF", "temperature_difference": "delta_degF", "length": "inch", "speed": "mph",
            "pressure": "psi", "heat_per_length": "Btu/hour/foot", "heat_flux": "Btu/hour/foot**2",
            "power": "Btu/hour", "coefficient": "Btu/hour/foot**2/delta_degF",
            "conductivity": "Btu*inch/hour/foot**2/delta_degF", "energy": "MMBtu", "area": "foot**2", "time": "hour",
-           "mass_flow": "lb/hour", "dimensionless": ""},
+           "mass_flow": "lb/hour", "mass": "lb", "dimensionless": ""},
 }
 
 
@@ -154,6 +155,8 @@ _FAST = {
     "conductivity": {"W/m/K": (1.0, 0.0)}, "coefficient": {"W/m**2/K": (1.0, 0.0)},
     "heat_per_length": {"W/m": (1.0, 0.0)}, "heat_flux": {"W/m**2": (1.0, 0.0)}, "power": {"W": (1.0, 0.0)},
     "mass_flow": {"kg/s": (1.0, 0.0), "kg/h": (1 / _HOUR, 0.0), "lb/h": (_POUND / _HOUR, 0.0)},
+    "mass": {"kg": (1.0, 0.0), "lb": (_POUND, 0.0)},
+    "time": {"s": (1.0, 0.0), "min": (60.0, 0.0), "h": (_HOUR, 0.0), "hour": (_HOUR, 0.0)},
     "dimensionless": {"": (1.0, 0.0), "%": (0.01, 0.0), "percent": (0.01, 0.0)},
 }
 
@@ -386,6 +389,7 @@ INPUTS = {
     "mass_flow": Input("mass_flow", "kg/s", "lb/h", 1e-7, 1e4, "a mass flow", ("kg/s", "kg/h", "lb/h")),
     "relative_humidity": Input("dimensionless", "", "", 0.0, 1.0, "a relative humidity", ("%",),
                                maximum=1.0),
+    "duration": Input("time", "min", "min", 60.0, 7 * 86400.0, "a warm-up or cool-down time", ("min", "h", "s")),
     "temperature_margin": Input("temperature_difference", "delta_degC", "delta_degF", 0.0, 30.0,
                                 "a temperature margin", ("K", "delta_degC", "delta_degF"), minimum_inclusive=True),
 }
