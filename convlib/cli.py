@@ -116,7 +116,7 @@ def _sizing_rows(tag, result, kind_label) -> dict:
                commercial_thickness=known(result.commercial_thickness),
                surface_temperature_at_listed=known(result.surface_temperature_at_commercial),
                q_per_length_at_listed=known(result.q_per_length_at_commercial),
-               notes="; ".join(result.messages) or "-")
+               notes="; ".join(result.messages) or "-", warnings=result.warning_messages())
     return row
 
 

@@ -18,9 +18,12 @@ from dataclasses import dataclass
 import numpy as np
 
 from .errors import InputError
+from .conductivity import Conductivity
 from .pipe import Layer, insulated_pipe
 from .properties import dew_point
 from .roots import find_root
+from .regimes import summarize_flags
+from .surroundings import Surroundings, resolve
 from .validation import as_array
 
 __all__ = [
@@ -86,40 +89,86 @@ class ThicknessResult:
     surface_temperature_at_commercial: np.ndarray = None  # jacket at the listed thickness [K]; NaN if none
     q_per_length_at_commercial: np.ndarray = None         # heat flow at the listed thickness [W/m]; NaN if none
     limit_given: bool = True                     # False where the limit is the library's default
+    warnings: np.ndarray = None                  # union of the flags of every solve made per point (Flag mask)
+
+    def warning_messages(self) -> list[str]:
+        """Readable warnings of the solves the sizing made, with counts."""
+        return [] if self.warnings is None else summarize_flags(self.warnings)
 
 
-def _pipe_args(pipe_outer_diameter, fluid_temperature, air_temperature, wind_speed, jacket_emissivity,
-               sky_view_fraction, solar_irradiance, solar_absorptivity, pressure, limit):
-    """Validate and broadcast the per-point inputs; returns (shape, dict of flat arrays)."""
-    values = dict(
-        pipe_outer_diameter=as_array("pipe_outer_diameter", pipe_outer_diameter, unit="m", low=0.0,
-                                     low_inclusive=False),
-        fluid_temperature=as_array("fluid_temperature", fluid_temperature, unit="K", low=0.0, low_inclusive=False),
-        air_temperature=as_array("air_temperature", air_temperature, unit="K", low=0.0, low_inclusive=False),
-        wind_speed=as_array("wind_speed", wind_speed, unit="m/s", low=0.0),
-        jacket_emissivity=as_array("jacket_emissivity", jacket_emissivity, low=0.0, high=1.0),
-        sky_view_fraction=as_array("sky_view_fraction", sky_view_fraction, low=0.0, high=1.0),
-        solar_irradiance=as_array("solar_irradiance", solar_irradiance, unit="W/m2", low=0.0),
-        solar_absorptivity=(as_array("jacket_emissivity", jacket_emissivity) if solar_absorptivity is None else
-                            as_array("solar_absorptivity", solar_absorptivity, low=0.0, high=1.0)),
-        pressure=as_array("pressure", pressure, unit="Pa", low=0.0, low_inclusive=False),
-        limit=np.asarray(limit, dtype=float),
-    )
-    shape = np.broadcast_shapes(*(v.shape for v in values.values()))
-    return shape, {k: np.broadcast_to(v, shape).ravel() for k, v in values.items()}
+#: Keywords of :func:`convlib.pipe.insulated_pipe` a sizing passes on by name; numeric ones travel per point.
+PIPE_NUMERIC = ("jacket_emissivity", "solar_absorptivity", "pipe_wall_thickness", "pipe_conductivity",
+                "inner_coefficient", "mixing_exponent", "convection_factor", "convection_coefficient")
+PIPE_CHOICES = ("natural", "forced", "exact_properties")
+#: Fields of the surroundings that reach the outer surface.
+_AROUND = ("air_temperature", "wind_speed", "surroundings_temperature", "sky_view_fraction", "sky_temperature",
+           "solar_irradiance", "pressure")
+
+@dataclass(frozen=True)
+class _Cases:
+    """The per-point inputs of a sizing by name: flat arrays of one length (``None``: not given), the choices,
+    and the outer layers (their numeric thickness and constant conductivity per point)."""
+
+    shape: tuple
+    arrays: dict
+    choices: dict
+    outer: tuple  # (name, Conductivity or None) per outer layer; per-point values in arrays
+
+    @property
+    def size(self) -> int:
+        return int(np.prod(self.shape, dtype=int))
+
+    def subset(self, mask) -> "_Cases":
+        return dataclasses.replace(self, arrays={k: (None if v is None else v[mask]) for k, v in self.arrays.items()})
+
+    def __getitem__(self, name):
+        return self.arrays[name]
 
 
-_PIPE_KEYS = ("pipe_outer_diameter", "fluid_temperature", "air_temperature", "wind_speed", "jacket_emissivity",
-              "sky_view_fraction", "solar_irradiance", "solar_absorptivity", "pressure")
+def _cases(pipe_outer_diameter, fluid_temperature, around: Surroundings, insulation_conductivity, outer_layers,
+           pipe_keywords: dict, **extra) -> _Cases:
+    """Validate, broadcast and flatten every numeric input of a sizing."""
+    values = {"pipe_outer_diameter": as_array("pipe_outer_diameter", pipe_outer_diameter, unit="m", low=0.0,
+                                              low_inclusive=False),
+              "fluid_temperature": as_array("fluid_temperature", fluid_temperature, unit="K", low=0.0,
+                                            low_inclusive=False)}
+    values.update({name: getattr(around, name) for name in _AROUND})
+    for name in PIPE_NUMERIC:
+        given = pipe_keywords.get(name)
+        values[name] = None if given is None else np.asarray(given, dtype=float)
+    k = Conductivity.of(insulation_conductivity)
+    values["insulation_conductivity"] = k.constant_value if k.is_constant else None
+    outer = []
+    for j, layer in enumerate(outer_layers):
+        if not isinstance(layer, Layer):
+            raise InputError(f"outer_layers must be Layer objects; got {layer!r}", field="outer_layers",
+                             rule="Layer objects", value=layer)
+        values[f"outer {j} thickness"] = layer.thickness
+        values[f"outer {j} conductivity"] = layer.conductivity.constant_value if layer.conductivity.is_constant \
+            else None
+        outer.append((layer.name, None if layer.conductivity.is_constant else layer.conductivity))
+    values.update({name: np.asarray(v, dtype=float) for name, v in extra.items()})
+    shape = np.broadcast_shapes(*(np.shape(v) for v in values.values() if v is not None))
+    arrays = {name: None if v is None else np.broadcast_to(v, shape).ravel() for name, v in values.items()}
+    choices = {name: pipe_keywords.get(name) for name in PIPE_CHOICES}
+    choices["exact_properties"] = bool(choices["exact_properties"])
+    return _Cases(shape=shape, arrays=arrays, choices=choices, outer=tuple(outer))
 
 
-def _evaluate(thickness, point, insulation_conductivity, outer_layers, options):
-    """insulated_pipe with the sized layer at ``thickness`` for per-point arrays ``point``."""
-    d, tf, ta, wind, eps, sky, sun, alpha, p = point
-    layers = [Layer(thickness, insulation_conductivity, name="insulation"), *outer_layers]
-    return insulated_pipe(d, tf, layers, air_temperature=ta, wind_speed=wind, jacket_emissivity=eps,
-                          sky_view_fraction=sky, solar_irradiance=sun, solar_absorptivity=alpha, pressure=p,
-                          **options)
+def _evaluate(thickness, cases: _Cases, insulation_conductivity):
+    """insulated_pipe with the sized layer at ``thickness`` for the per-point inputs ``cases``."""
+    a = cases.arrays
+    k = a["insulation_conductivity"] if a["insulation_conductivity"] is not None else insulation_conductivity
+    layers = [Layer(thickness, k, name="insulation")]
+    for j, (name, conductivity) in enumerate(cases.outer):
+        layers.append(Layer(a[f"outer {j} thickness"], conductivity if conductivity is not None
+                            else a[f"outer {j} conductivity"], name=name))
+    keywords = {name: a[name] for name in (*_AROUND, *PIPE_NUMERIC) if a[name] is not None}
+    return insulated_pipe(a["pipe_outer_diameter"], a["fluid_temperature"], layers, **keywords, **cases.choices)
+
+
+def _around(surroundings, **keywords) -> Surroundings:
+    return resolve(surroundings, **keywords)
 
 
 def listed_thickness(required, commercial_thicknesses=COMMERCIAL_THICKNESSES):
@@ -137,49 +186,61 @@ def listed_thickness(required, commercial_thicknesses=COMMERCIAL_THICKNESSES):
                                                  np.nan))
 
 
-def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, outer_layers, max_thickness,
-          commercial_thicknesses, options, cautions, shape, low_thickness=None, margin=np.nan, dew=np.nan,
-          limit_given=True):
+class _Flags:
+    """Union of the warning flags of every solve a sizing makes, per point."""
+
+    def __init__(self, size: int):
+        self.mask = np.zeros(size, dtype=np.int16)
+
+    def evaluate(self, thickness, cases: _Cases, index, insulation_conductivity):
+        result = _evaluate(thickness, cases, insulation_conductivity)
+        np.bitwise_or.at(self.mask, index, np.ravel(result.warnings).astype(np.int16))
+        return result
+
+
+def _size(metric, sign, quantity, limit_name, cases: _Cases, insulation_conductivity, max_thickness,
+          commercial_thicknesses, cautions, low_thickness=None, margin=np.nan, dew=np.nan, limit_given=True,
+          notes=()):
     """Thickness where sign * (metric - limit) turns <= 0, per point."""
-    point = tuple(pipe[k] for k in _PIPE_KEYS)
-    limit = pipe["limit"]
+    shape, limit = cases.shape, cases["limit"]
     t_max = float(as_array("max_thickness", max_thickness, unit="m", low=0.0, low_inclusive=False))
     largest = float(np.max(as_array("commercial_thicknesses", commercial_thicknesses, unit="m", low=0.0,
                                     low_inclusive=False)))  # checked before the search
+    flags = _Flags(limit.size)
+    every = np.arange(limit.size)
 
-    def excess(t, lim, *pt):
-        return sign * (metric(_evaluate(t, pt, insulation_conductivity, outer_layers, options)) - lim)
+    def excess(t, index):
+        part = cases.subset(index)
+        return sign * (metric(flags.evaluate(t, part, index, insulation_conductivity)) - part["limit"])
 
     t_low = np.zeros_like(limit) if low_thickness is None else np.asarray(low_thickness, float).ravel()
-    at_low = excess(t_low, limit, *point)
-    at_max = excess(np.full_like(limit, t_max), limit, *point)
+    at_low = excess(t_low, every)
+    at_max = excess(np.full_like(limit, t_max), every)
     met_low = at_low <= 0
     achievable = met_low | (at_max <= 0)  # met at the start of the search already (e.g. a line colder than the limit)
     required = np.where(met_low, t_low, np.nan)
     if low_thickness is not None:
         # the search starts above zero (critical thickness): a bare line that meets the limit needs nothing
-        bare_ok = excess(np.zeros_like(limit), limit, *point) <= 0
+        bare_ok = excess(np.zeros_like(limit), every) <= 0
         required = np.where(bare_ok, 0.0, required)
         met_low, achievable = met_low | bare_ok, achievable | bare_ok
     todo = achievable & ~met_low
+    unsolved = 0
     if todo.any():
-        res = find_root(excess, t_low[todo], np.full(int(todo.sum()), t_max),
-                        args=(limit[todo], *(a[todo] for a in point)), xatol=1e-6, xrtol=0.0)
+        res = find_root(excess, t_low[todo], np.full(int(todo.sum()), t_max), args=(every[todo],), xatol=1e-6,
+                        xrtol=0.0)
         required[todo] = np.where(res.success, res.x, np.nan)  # a failed search is never reported as a thickness
         unsolved = int(np.count_nonzero(~res.success))
-    else:
-        unsolved = 0
     commercial = listed_thickness(required, commercial_thicknesses)
     at_commercial = np.full_like(limit, np.nan)
     surface_at, q_at = np.full_like(limit, np.nan), np.full_like(limit, np.nan)
     has = ~np.isnan(commercial)
     if has.any():
-        listed = _evaluate(commercial[has], tuple(a[has] for a in point), insulation_conductivity, outer_layers,
-                           options)
+        listed = flags.evaluate(commercial[has], cases.subset(has), every[has], insulation_conductivity)
         at_commercial[has] = metric(listed)
         surface_at[has] = np.ravel(listed.surface_temperature)
         q_at[has] = np.ravel(listed.q_per_length)
-    messages = []
+    messages = list(notes)
     if (~achievable).any():
         messages.append(f"{int((~achievable).sum())} of {achievable.size} case(s): no thickness up to "
                         f"{t_max * 1000:g} mm keeps the {quantity} within the {limit_name}")
@@ -189,25 +250,31 @@ def _size(metric, sign, quantity, limit_name, pipe, insulation_conductivity, out
     if beyond.any():
         messages.append(f"{int(beyond.sum())} case(s) need more than the largest listed thickness "
                         f"({largest * 1000:g} mm)")
+    emissivity = cases["jacket_emissivity"] if cases["jacket_emissivity"] is not None else np.full(limit.size, 0.9)
     return ThicknessResult(
         required_thickness=required.reshape(shape), commercial_thickness=commercial.reshape(shape),
         achievable=achievable.reshape(shape), listed=has.reshape(shape),
         value_at_commercial=at_commercial.reshape(shape),
         limit=limit.reshape(shape), quantity=quantity, messages=tuple(messages), cautions=tuple(cautions),
-        air_temperature=pipe["air_temperature"].reshape(shape), wind_speed=pipe["wind_speed"].reshape(shape),
-        jacket_emissivity=pipe["jacket_emissivity"].reshape(shape),
+        air_temperature=cases["air_temperature"].reshape(shape), wind_speed=cases["wind_speed"].reshape(shape),
+        jacket_emissivity=emissivity.reshape(shape),
         margin=np.broadcast_to(np.asarray(margin, float), shape).copy(),
         dew_point=np.broadcast_to(np.asarray(dew, float), shape).copy(),
         surface_temperature_at_commercial=surface_at.reshape(shape), q_per_length_at_commercial=q_at.reshape(shape),
-        limit_given=limit_given)
+        limit_given=limit_given, warnings=flags.mask.reshape(shape))
 
 
-def thickness_for_surface_temperature(pipe_outer_diameter, fluid_temperature, *, air_temperature,
-                                      insulation_conductivity, surface_limit=None, hottest_air_temperature=None,
-                                      outer_layers=(), jacket_emissivity=0.1, wind_speed=0.0,
-                                      sky_view_fraction=0.0, solar_irradiance=0.0, solar_absorptivity=None,
-                                      pressure=101325.0, max_thickness=0.3,
-                                      commercial_thicknesses=COMMERCIAL_THICKNESSES, **options) -> ThicknessResult:
+def thickness_for_surface_temperature(pipe_outer_diameter, fluid_temperature, *, insulation_conductivity,
+                                      surface_limit=None, hottest_air_temperature=None, outer_layers=(),
+                                      jacket_emissivity=0.1, solar_absorptivity=None, pipe_wall_thickness=None,
+                                      pipe_conductivity=None, inner_coefficient=None, natural=None, forced=None,
+                                      mixing_exponent=None, convection_factor=None, convection_coefficient=None,
+                                      exact_properties=False, max_thickness=0.3,
+                                      commercial_thicknesses=COMMERCIAL_THICKNESSES,
+                                      surroundings: Surroundings | None = None, air_temperature=None,
+                                      wind_speed=None, surroundings_temperature=None, sky_view_fraction=None,
+                                      sky_temperature=None, solar_irradiance=None,
+                                      pressure=None) -> ThicknessResult:
     """Insulation thickness that keeps a hot line's jacket at or below a touch limit.
 
     Give the worst case: the highest ambient (``hottest_air_temperature``), still air (the
@@ -222,19 +289,26 @@ def thickness_for_surface_temperature(pipe_outer_diameter, fluid_temperature, *,
         [m]
     fluid_temperature : numeric
         [K]
-    air_temperature : numeric
-        Design ambient [K]; used for the sizing unless ``hottest_air_temperature`` is given.
-    insulation_conductivity : float or Conductivity
+    insulation_conductivity : numeric or Conductivity
         [W/m/K]
     surface_limit : numeric, optional
         Highest allowed jacket temperature [K]; default :data:`TOUCH_LIMIT_METAL_JACKET` (the caution then
         says it is a default).
     hottest_air_temperature : numeric, optional
-        Design hottest ambient [K] the sizing runs at; default ``air_temperature``.
+        Design hottest ambient [K] the sizing runs at; default the surroundings' air temperature.
     outer_layers : sequence of Layer
         Fixed layers outside the sized insulation (a jacket).
-    **options
-        Passed to :func:`convlib.pipe.insulated_pipe` (e.g. ``natural``, ``pipe_wall_thickness``).
+    jacket_emissivity : numeric
+        Of the outermost surface [-].
+    max_thickness, commercial_thicknesses
+        Largest thickness searched [m]; the catalogue the result is rounded up to [m].
+    pipe_wall_thickness, pipe_conductivity, inner_coefficient, solar_absorptivity, natural, forced,
+    mixing_exponent, convection_factor, convection_coefficient, exact_properties
+        As in :func:`convlib.pipe.insulated_pipe`; every numeric one may be an array.
+    surroundings : Surroundings, optional
+        The surroundings; or give their fields as keywords (``air_temperature``, ``wind_speed``,
+        ``surroundings_temperature``, ``sky_view_fraction``, ``sky_temperature``, ``solar_irradiance``,
+        ``pressure``), not both.
 
     Returns
     -------
@@ -246,29 +320,56 @@ def thickness_for_surface_temperature(pipe_outer_diameter, fluid_temperature, *,
     >>> round(float(r.required_thickness) * 1000, 1), float(r.commercial_thickness)
     (69.7, 0.07)
     """
+    around = _around(surroundings, air_temperature=air_temperature, wind_speed=wind_speed,
+                     surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction,
+                     sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure)
     given = surface_limit is not None
     limit = as_array("surface_limit", surface_limit if given else TOUCH_LIMIT_METAL_JACKET, unit="K", low=0.0,
                      low_inclusive=False)
-    air = air_temperature if hottest_air_temperature is None else as_array(
-        "hottest_air_temperature", hottest_air_temperature, unit="K", low=0.0, low_inclusive=False)
-    shape, pipe = _pipe_args(pipe_outer_diameter, fluid_temperature, air, wind_speed,
-                             jacket_emissivity, sky_view_fraction, solar_irradiance, solar_absorptivity,
-                             pressure, limit)
-    return _size(lambda r: r.surface_temperature, 1.0, "surface temperature [K]", "touch limit", pipe,
-                 insulation_conductivity, outer_layers, max_thickness, commercial_thicknesses, options,
-                 (CAUTION_TOUCH_GIVEN if given else CAUTION_TOUCH,), shape, limit_given=given)
+    if hottest_air_temperature is not None:
+        around = around.replace(air_temperature=as_array("hottest_air_temperature", hottest_air_temperature,
+                                                         unit="K", low=0.0, low_inclusive=False))
+    cases = _cases(pipe_outer_diameter, fluid_temperature, around, insulation_conductivity, outer_layers,
+                   dict(jacket_emissivity=jacket_emissivity, solar_absorptivity=solar_absorptivity,
+                        pipe_wall_thickness=pipe_wall_thickness, pipe_conductivity=pipe_conductivity,
+                        inner_coefficient=inner_coefficient, natural=natural, forced=forced,
+                        mixing_exponent=mixing_exponent, convection_factor=convection_factor,
+                        convection_coefficient=convection_coefficient, exact_properties=exact_properties),
+                   limit=limit)
+    return _size(lambda r: r.surface_temperature, 1.0, "surface temperature [K]", "touch limit", cases,
+                 insulation_conductivity, max_thickness, commercial_thicknesses,
+                 (CAUTION_TOUCH_GIVEN if given else CAUTION_TOUCH,), limit_given=given)
 
 
-def thickness_for_heat_loss(pipe_outer_diameter, fluid_temperature, *, air_temperature, insulation_conductivity,
-                            heat_loss_limit, outer_layers=(), jacket_emissivity=0.9, wind_speed=0.0,
-                            sky_view_fraction=0.0, solar_irradiance=0.0, solar_absorptivity=None,
-                            pressure=101325.0, max_thickness=0.3, commercial_thicknesses=COMMERCIAL_THICKNESSES,
-                            **options) -> ThicknessResult:
+def thickness_for_heat_loss(pipe_outer_diameter, fluid_temperature, *, insulation_conductivity, heat_loss_limit,
+                            outer_layers=(), jacket_emissivity=0.9, solar_absorptivity=None, pipe_wall_thickness=None,
+                            pipe_conductivity=None, inner_coefficient=None, natural=None, forced=None,
+                            mixing_exponent=None, convection_factor=None, convection_coefficient=None,
+                            exact_properties=False, max_thickness=0.3, commercial_thicknesses=COMMERCIAL_THICKNESSES,
+                            surroundings: Surroundings | None = None, air_temperature=None, wind_speed=None,
+                            surroundings_temperature=None, sky_view_fraction=None, sky_temperature=None,
+                            solar_irradiance=None, pressure=None) -> ThicknessResult:
     """Insulation thickness that keeps the heat flow per metre at or below a limit [W/m].
 
     For a cold line the limit applies to the heat gain (give it positive). Below the
     critical thickness added insulation raises the flow; the search starts there
     (:func:`critical_thickness`), so a thin layer that would make things worse is never returned.
+
+    Parameters
+    ----------
+    pipe_outer_diameter, fluid_temperature, insulation_conductivity, outer_layers, jacket_emissivity
+        As in :func:`thickness_for_surface_temperature`.
+    heat_loss_limit : numeric
+        Largest heat flow per metre of line [W/m].
+    max_thickness, commercial_thicknesses
+        As in :func:`thickness_for_surface_temperature`.
+    pipe_wall_thickness, pipe_conductivity, inner_coefficient, solar_absorptivity, natural, forced,
+    mixing_exponent, convection_factor, convection_coefficient, exact_properties
+        As in :func:`convlib.pipe.insulated_pipe`; every numeric one may be an array.
+    surroundings : Surroundings, optional
+        The surroundings; or give their fields as keywords (``air_temperature``, ``wind_speed``,
+        ``surroundings_temperature``, ``sky_view_fraction``, ``sky_temperature``, ``solar_irradiance``,
+        ``pressure``), not both.
 
     Examples
     --------
@@ -277,19 +378,20 @@ def thickness_for_heat_loss(pipe_outer_diameter, fluid_temperature, *, air_tempe
     >>> round(float(r.required_thickness) * 1000, 1), float(r.commercial_thickness)
     (49.9, 0.05)
     """
+    around = _around(surroundings, air_temperature=air_temperature, wind_speed=wind_speed,
+                     surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction,
+                     sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure)
     limit = as_array("heat_loss_limit", heat_loss_limit, unit="W/m", low=0.0, low_inclusive=False)
-    shape, pipe = _pipe_args(pipe_outer_diameter, fluid_temperature, air_temperature, wind_speed,
-                             jacket_emissivity, sky_view_fraction, solar_irradiance, solar_absorptivity,
-                             pressure, limit)
-    critical = critical_thickness(pipe["pipe_outer_diameter"], pipe["fluid_temperature"],
-                                  air_temperature=pipe["air_temperature"],
-                                  insulation_conductivity=insulation_conductivity, outer_layers=outer_layers,
-                                  jacket_emissivity=pipe["jacket_emissivity"], wind_speed=pipe["wind_speed"],
-                                  sky_view_fraction=pipe["sky_view_fraction"], pressure=pipe["pressure"],
-                                  max_thickness=max_thickness, **options)
-    result = _size(lambda r: np.abs(r.q_per_length), 1.0, "heat flow [W/m]", "heat-loss limit", pipe,
-                   insulation_conductivity, outer_layers, max_thickness, commercial_thicknesses, options, (),
-                   shape, low_thickness=critical)
+    keywords = dict(jacket_emissivity=jacket_emissivity, solar_absorptivity=solar_absorptivity,
+                    pipe_wall_thickness=pipe_wall_thickness, pipe_conductivity=pipe_conductivity,
+                    inner_coefficient=inner_coefficient, natural=natural, forced=forced,
+                    mixing_exponent=mixing_exponent, convection_factor=convection_factor,
+                    convection_coefficient=convection_coefficient, exact_properties=exact_properties)
+    cases = _cases(pipe_outer_diameter, fluid_temperature, around, insulation_conductivity, outer_layers, keywords,
+                   limit=limit)
+    critical = _critical(cases, insulation_conductivity, max_thickness)
+    result = _size(lambda r: np.abs(r.q_per_length), 1.0, "heat flow [W/m]", "heat-loss limit", cases,
+                   insulation_conductivity, max_thickness, commercial_thicknesses, (), low_thickness=critical)
     if np.any(critical > 0):
         worst = float(np.max(critical))
         note = (f"critical thickness up to {worst * 1000:.1f} mm: a thinner layer of this insulation increases the "
@@ -298,16 +400,41 @@ def thickness_for_heat_loss(pipe_outer_diameter, fluid_temperature, *, air_tempe
     return result
 
 
-def thickness_against_condensation(pipe_outer_diameter, fluid_temperature, *, air_temperature, relative_humidity,
-                                   insulation_conductivity, margin=CONDENSATION_MARGIN, outer_layers=(),
-                                   jacket_emissivity=0.9, pressure=101325.0, max_thickness=0.3,
-                                   commercial_thicknesses=COMMERCIAL_THICKNESSES, **options) -> ThicknessResult:
+def thickness_against_condensation(pipe_outer_diameter, fluid_temperature, *, insulation_conductivity,
+                                   relative_humidity=None, margin=CONDENSATION_MARGIN, outer_layers=(),
+                                   jacket_emissivity=0.9, solar_absorptivity=None, pipe_wall_thickness=None,
+                                   pipe_conductivity=None, inner_coefficient=None, natural=None, forced=None,
+                                   mixing_exponent=None, convection_factor=None, convection_coefficient=None,
+                                   exact_properties=False, max_thickness=0.3,
+                                   commercial_thicknesses=COMMERCIAL_THICKNESSES,
+                                   surroundings: Surroundings | None = None, air_temperature=None,
+                                   wind_speed=None, surroundings_temperature=None, sky_view_fraction=None,
+                                   sky_temperature=None, solar_irradiance=None, pressure=None) -> ThicknessResult:
     """Insulation thickness that keeps a cold line's jacket above the dew point plus a margin.
 
-    Evaluated in still air (the worst case for a cold surface) at the design air
-    temperature and relative humidity (0-1, over liquid water above 0 degC); the dew
-    point (frost point below 0 degC) comes from CoolProp's humid-air routines.
-    A low jacket emissivity lowers the surface temperature of a cold line.
+    Evaluated in still air, out of the sun and with no sky in view (the worst case for a cold
+    surface: wind, sun and sky given are noted and not used) at the design air temperature and
+    relative humidity (0-1, over liquid water above 0 degC; from the surroundings or the keyword);
+    the dew point (frost point below 0 degC) comes from CoolProp's humid-air routines. A low jacket
+    emissivity lowers the surface temperature of a cold line.
+
+    Parameters
+    ----------
+    pipe_outer_diameter, fluid_temperature, insulation_conductivity, outer_layers, jacket_emissivity
+        As in :func:`thickness_for_surface_temperature`.
+    relative_humidity : numeric
+        Of the design air [-], 0-1 (or the surroundings' ``relative_humidity``).
+    margin : numeric
+        How far the jacket stays above the dew point [K].
+    max_thickness, commercial_thicknesses
+        As in :func:`thickness_for_surface_temperature`.
+    pipe_wall_thickness, pipe_conductivity, inner_coefficient, solar_absorptivity, natural, forced,
+    mixing_exponent, convection_factor, convection_coefficient, exact_properties
+        As in :func:`convlib.pipe.insulated_pipe`; every numeric one may be an array.
+    surroundings : Surroundings, optional
+        The surroundings; or give their fields as keywords (``air_temperature``, ``wind_speed``,
+        ``surroundings_temperature``, ``sky_view_fraction``, ``sky_temperature``, ``solar_irradiance``,
+        ``pressure``), not both.
 
     Examples
     --------
@@ -316,25 +443,56 @@ def thickness_against_condensation(pipe_outer_diameter, fluid_temperature, *, ai
     >>> round(float(r.required_thickness) * 1000, 1), float(r.commercial_thickness)
     (28.6, 0.03)
     """
-    rh = as_array("relative_humidity", relative_humidity, low=0.0, high=1.0, low_inclusive=False)
-    ta = as_array("air_temperature", air_temperature, unit="K", low=0.0, low_inclusive=False)
+    around = _around(surroundings, air_temperature=air_temperature, wind_speed=wind_speed,
+                     surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction,
+                     sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure,
+                     relative_humidity=relative_humidity)
+    if around.relative_humidity is None:
+        raise InputError("relative_humidity is required for a condensation sizing (0-1)", field="relative_humidity",
+                         rule="given, 0-1", value=None)
     margin = as_array("margin", margin, unit="K", low=0.0)
-    limit = dew_point(ta, rh, pressure) + margin
-    shape, pipe = _pipe_args(pipe_outer_diameter, fluid_temperature, ta, 0.0, jacket_emissivity, 0.0, 0.0, None,
-                             pressure, limit)
-    return _size(lambda r: r.surface_temperature, -1.0, "surface temperature [K]", "dew point plus margin", pipe,
-                 insulation_conductivity, outer_layers, max_thickness, commercial_thicknesses, options,
-                 (CAUTION_CONDENSATION,), shape, margin=margin, dew=limit - margin)
+    limit = dew_point(around.air_temperature, around.relative_humidity, around.pressure) + margin
+    notes = []
+    if np.any(around.wind_speed > 0) or np.any(around.sky_view_fraction > 0) or np.any(around.solar_irradiance > 0):
+        notes.append("sized in still air, out of the sun and with no sky in view (the worst case for a cold jacket); "
+                     "the wind, sun and sky given were not used")
+    around = around.replace(wind_speed=0.0, sky_view_fraction=0.0, solar_irradiance=0.0)
+    cases = _cases(pipe_outer_diameter, fluid_temperature, around, insulation_conductivity, outer_layers,
+                   dict(jacket_emissivity=jacket_emissivity, solar_absorptivity=solar_absorptivity,
+                        pipe_wall_thickness=pipe_wall_thickness, pipe_conductivity=pipe_conductivity,
+                        inner_coefficient=inner_coefficient, natural=natural, forced=forced,
+                        mixing_exponent=mixing_exponent, convection_factor=convection_factor,
+                        convection_coefficient=convection_coefficient, exact_properties=exact_properties),
+                   limit=limit, margin=margin)
+    return _size(lambda r: r.surface_temperature, -1.0, "surface temperature [K]", "dew point plus margin", cases,
+                 insulation_conductivity, max_thickness, commercial_thicknesses, (CAUTION_CONDENSATION,),
+                 margin=cases["margin"].reshape(cases.shape), dew=(limit - margin), notes=notes)
 
 
-def critical_thickness(pipe_outer_diameter, fluid_temperature, *, air_temperature, insulation_conductivity,
-                       outer_layers=(), jacket_emissivity=0.9, wind_speed=0.0, sky_view_fraction=0.0,
-                       pressure=101325.0, max_thickness=0.3, **options) -> np.ndarray:
+def critical_thickness(pipe_outer_diameter, fluid_temperature, *, insulation_conductivity, outer_layers=(),
+                       jacket_emissivity=0.9, solar_absorptivity=None, pipe_wall_thickness=None,
+                       pipe_conductivity=None, inner_coefficient=None, natural=None, forced=None,
+                       mixing_exponent=None, convection_factor=None, convection_coefficient=None,
+                       exact_properties=False, max_thickness=0.3, surroundings: Surroundings | None = None,
+                       air_temperature=None, wind_speed=None, surroundings_temperature=None, sky_view_fraction=None,
+                       sky_temperature=None, solar_irradiance=None, pressure=None) -> np.ndarray:
     r"""Thickness below which adding insulation increases the heat flow [m]; 0 where there is none.
 
     Found numerically from the maximum of :math:`|q'|` against thickness with the
     full outer model (convection depending on diameter, plus radiation); the textbook
     :math:`r_{cr} = k/h` is the constant-h special case.
+
+    Parameters
+    ----------
+    pipe_outer_diameter, fluid_temperature, insulation_conductivity, outer_layers, jacket_emissivity, max_thickness
+        As in :func:`thickness_for_surface_temperature`.
+    pipe_wall_thickness, pipe_conductivity, inner_coefficient, solar_absorptivity, natural, forced,
+    mixing_exponent, convection_factor, convection_coefficient, exact_properties
+        As in :func:`convlib.pipe.insulated_pipe`; every numeric one may be an array.
+    surroundings : Surroundings, optional
+        The surroundings; or give their fields as keywords (``air_temperature``, ``wind_speed``,
+        ``surroundings_temperature``, ``sky_view_fraction``, ``sky_temperature``, ``solar_irradiance``,
+        ``pressure``), not both.
 
     Examples
     --------
@@ -343,31 +501,43 @@ def critical_thickness(pipe_outer_diameter, fluid_temperature, *, air_temperatur
     >>> round(float(critical_thickness(0.006, 353.15, air_temperature=293.15, insulation_conductivity=0.2)) * 1000, 1)
     8.4
     """
-    shape, pipe = _pipe_args(pipe_outer_diameter, fluid_temperature, air_temperature, wind_speed,
-                             jacket_emissivity, sky_view_fraction, 0.0, None, pressure, 0.0)
-    point = tuple(pipe[k] for k in _PIPE_KEYS)
-    t_max = float(max_thickness)
+    around = _around(surroundings, air_temperature=air_temperature, wind_speed=wind_speed,
+                     surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction,
+                     sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure)
+    cases = _cases(pipe_outer_diameter, fluid_temperature, around, insulation_conductivity, outer_layers,
+                   dict(jacket_emissivity=jacket_emissivity, solar_absorptivity=solar_absorptivity,
+                        pipe_wall_thickness=pipe_wall_thickness, pipe_conductivity=pipe_conductivity,
+                        inner_coefficient=inner_coefficient, natural=natural, forced=forced,
+                        mixing_exponent=mixing_exponent, convection_factor=convection_factor,
+                        convection_coefficient=convection_coefficient, exact_properties=exact_properties))
+    return _critical(cases, insulation_conductivity, max_thickness).reshape(cases.shape)
 
-    def flow(t, *pt):
-        return np.abs(_evaluate(t, pt, insulation_conductivity, outer_layers, options).q_per_length)
 
-    def slope(t, *pt):
+def _critical(cases: _Cases, insulation_conductivity, max_thickness) -> np.ndarray:
+    """Critical thickness per (flat) point [m]."""
+    t_max = float(as_array("max_thickness", max_thickness, unit="m", low=0.0, low_inclusive=False))
+    n = cases.size
+    every = np.arange(n)
+
+    def flow(t, index):
+        return np.abs(_evaluate(t, cases.subset(index), insulation_conductivity).q_per_length)
+
+    def slope(t, index):
         step = np.maximum(1e-6, 1e-4 * t)
-        return (flow(t + step, *pt) - flow(np.maximum(t - step, 0.0), *pt)) / (t + step - np.maximum(t - step, 0.0))
+        low = np.maximum(t - step, 0.0)
+        return (flow(t + step, index) - flow(low, index)) / (t + step - low)
 
     grid = np.concatenate([[0.0], np.geomspace(1e-4, t_max, 40)])
-    n = point[0].size
-    values = flow(np.repeat(grid[None, :], n, 0).ravel(), *(np.repeat(a, grid.size) for a in point))
+    values = flow(np.tile(grid, n), np.repeat(every, grid.size))
     best = np.argmax(values.reshape(n, grid.size), axis=1)
     result = np.zeros(n)
     inner = (best > 0) & (best < grid.size - 1)
     if inner.any():
         lo, hi = grid[best[inner] - 1], grid[best[inner] + 1]
-        res = find_root(lambda t, *pt: -slope(t, *pt), lo, hi, args=tuple(a[inner] for a in point), xatol=1e-7,
-                        xrtol=0.0)
+        res = find_root(lambda t, index: -slope(t, index), lo, hi, args=(every[inner],), xatol=1e-7, xrtol=0.0)
         result[inner] = np.where(res.success, res.x, grid[best[inner]])
     result[best == grid.size - 1] = t_max
-    return result.reshape(shape)
+    return result
 
 
 # ----------------------------------------------------------------------------- annual energy
@@ -410,6 +580,10 @@ class AnnualEnergy:
     cost: np.ndarray              # purchased energy x price [currency]
     co2_kg: np.ndarray            # purchased energy x emission factor [kg]
     q_per_length_by_bin: np.ndarray  # [W/m]
+    warnings: np.ndarray = None      # union over the bins of the flags of every solve (Flag mask)
+
+    def warning_messages(self) -> list[str]:
+        return [] if self.warnings is None else summarize_flags(self.warnings)
 
 
 #: Default efficiency of the heat source and COP of the chiller. Common practice, no source.
@@ -419,7 +593,11 @@ DEFAULT_COOLING_COP = 3.0
 
 def annual_energy(pipe_outer_diameter, fluid_temperature, layers=(), *, bins: WeatherBins, length=1.0,
                   energy_price=0.0, heating_efficiency=DEFAULT_HEATING_EFFICIENCY, cooling_cop=DEFAULT_COOLING_COP,
-                  co2_per_kwh=0.0, **pipe_options) -> AnnualEnergy:
+                  co2_per_kwh=0.0, jacket_emissivity=0.9, solar_absorptivity=None, pipe_wall_thickness=None,
+                  pipe_conductivity=None, inner_coefficient=None, natural=None, forced=None, mixing_exponent=None,
+                  convection_factor=None, convection_coefficient=None, exact_properties=False,
+                  surroundings_temperature=None, sky_view_fraction=None, sky_temperature=None, solar_irradiance=None,
+                  pressure=None) -> AnnualEnergy:
     """Annual heat lost (or gained) by lines over weather bins, and what it costs.
 
     Parameters
@@ -428,7 +606,7 @@ def annual_energy(pipe_outer_diameter, fluid_temperature, layers=(), *, bins: We
         Per case [m], [K]; broadcast together (the bins form an extra last axis).
     layers : sequence of Layer
     bins : WeatherBins
-        Air temperature, wind and operating hours per bin.
+        Air temperature, wind and operating hours per bin (the air and wind of the surroundings).
     length : numeric
         Line length [m], fittings included as equivalent length (:func:`equivalent_length`).
     energy_price : numeric
@@ -439,8 +617,11 @@ def annual_energy(pipe_outer_diameter, fluid_temperature, layers=(), *, bins: We
         Coefficient of performance of the chiller (> 0); cold lines.
     co2_per_kwh : numeric
         Emission factor of the purchased energy [kg/kWh].
-    **pipe_options
-        Passed to :func:`convlib.pipe.insulated_pipe` (jacket_emissivity, sky_view_fraction, ...).
+    jacket_emissivity, solar_absorptivity, pipe_wall_thickness, pipe_conductivity, inner_coefficient, natural,
+    forced, mixing_exponent, convection_factor, convection_coefficient, exact_properties
+        As in :func:`convlib.pipe.insulated_pipe`.
+    surroundings_temperature, sky_view_fraction, sky_temperature, solar_irradiance, pressure
+        The rest of the surroundings (:class:`convlib.surroundings.Surroundings`), the same in every bin.
 
     Examples
     --------
@@ -449,6 +630,14 @@ def annual_energy(pipe_outer_diameter, fluid_temperature, layers=(), *, bins: We
     >>> round(float(e.heat_kwh)), round(float(e.cost))
     (14857, 1398)
     """
+    pipe_keywords = {name: value for name, value in dict(
+        jacket_emissivity=jacket_emissivity, solar_absorptivity=solar_absorptivity,
+        pipe_wall_thickness=pipe_wall_thickness, pipe_conductivity=pipe_conductivity,
+        inner_coefficient=inner_coefficient, natural=natural, forced=forced, mixing_exponent=mixing_exponent,
+        convection_factor=convection_factor, convection_coefficient=convection_coefficient,
+        surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction,
+        sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure).items()
+        if value is not None}
     d = as_array("pipe_outer_diameter", pipe_outer_diameter, unit="m", low=0.0, low_inclusive=False)
     tf = as_array("fluid_temperature", fluid_temperature, unit="K", low=0.0, low_inclusive=False)
     length = as_array("length", length, unit="m", low=0.0)
@@ -456,10 +645,22 @@ def annual_energy(pipe_outer_diameter, fluid_temperature, layers=(), *, bins: We
     cop = as_array("cooling_cop", cooling_cop, low=0.0, low_inclusive=False)
     price = as_array("energy_price", energy_price, low=0.0)
     co2 = as_array("co2_per_kwh", co2_per_kwh, unit="kg/kWh", low=0.0)
-    case_shape = np.broadcast_shapes(d.shape, tf.shape)
-    expand = lambda a: np.broadcast_to(a, case_shape)[..., None]  # noqa: E731
+    numeric = {name: np.asarray(value, dtype=float) for name, value in pipe_keywords.items()
+               if name not in ("natural", "forced")}
+    case_shape = np.broadcast_shapes(d.shape, tf.shape, length.shape, eff.shape, cop.shape, price.shape, co2.shape,
+                                     *(v.shape for v in numeric.values()),
+                                     *(np.shape(layer.thickness) for layer in layers))
+    expand = lambda a: np.broadcast_to(a, case_shape)[..., None]  # noqa: E731  # the bins: a last axis
+    per_case = {name: expand(v) for name, v in numeric.items()}
+    for layer in layers:
+        if not isinstance(layer, Layer):
+            raise InputError(f"layers must be Layer objects (thickness, conductivity); got {layer!r}", field="layers",
+                             rule="Layer objects", value=layer)
+    layers = [Layer(expand(layer.thickness), layer.conductivity if not layer.conductivity.is_constant
+                    else expand(layer.conductivity.constant_value), name=layer.name) for layer in layers]
     r = insulated_pipe(expand(d), expand(tf), layers, air_temperature=bins.air_temperature,
-                       wind_speed=bins.wind_speed, length=1.0, **pipe_options)
+                       wind_speed=bins.wind_speed, length=1.0, exact_properties=exact_properties, natural=natural,
+                       forced=forced, **per_case)
     q = r.q_per_length
     heat_kwh = (q * bins.hours).sum(axis=-1) * length / 1000.0
     # The service decides what is bought: a line whose fluid is above the hours-weighted air temperature is a
@@ -468,7 +669,8 @@ def annual_energy(pipe_outer_diameter, fluid_temperature, layers=(), *, bins: We
     hot = np.broadcast_to(tf, case_shape) > mean_air
     purchased = np.where(hot, np.maximum(heat_kwh, 0.0) / eff, np.maximum(-heat_kwh, 0.0) / cop)
     return AnnualEnergy(heat_kwh=heat_kwh, purchased_kwh=purchased, cost=purchased * price,
-                        co2_kg=purchased * co2, q_per_length_by_bin=q)
+                        co2_kg=purchased * co2, q_per_length_by_bin=q,
+                        warnings=np.bitwise_or.reduce(r.warnings, axis=-1))
 
 
 # ----------------------------------------------------------------------------- fittings

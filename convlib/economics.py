@@ -241,7 +241,11 @@ def life_cycle_cost(annual_heat_kwh, investment, tariff: Tariff, finance: Financ
 
 
 def economic_thickness(pipe_outer_diameter, fluid_temperature, thicknesses, installed_cost, *, insulation_conductivity,
-                       bins, tariff: Tariff, finance: Finance, length=1.0, outer_layers=(), **pipe_options):
+                       bins, tariff: Tariff, finance: Finance, length=1.0, outer_layers=(), jacket_emissivity=0.9,
+                       solar_absorptivity=None, pipe_wall_thickness=None, pipe_conductivity=None,
+                       inner_coefficient=None, natural=None, forced=None, mixing_exponent=None, convection_factor=None,
+                       convection_coefficient=None, exact_properties=False, surroundings_temperature=None,
+                       sky_view_fraction=None, sky_temperature=None, solar_irradiance=None, pressure=None):
     """The listed thickness with the least life-cycle cost, per case (vectorized over cases x thicknesses x bins).
 
     Parameters
@@ -259,13 +263,17 @@ def economic_thickness(pipe_outer_diameter, fluid_temperature, thicknesses, inst
         Line length per case [m].
     outer_layers : sequence of Layer
         Jacket etc. outside the insulation.
-    **pipe_options
-        Passed to :func:`convlib.pipe.insulated_pipe`.
+    jacket_emissivity, solar_absorptivity, pipe_wall_thickness, pipe_conductivity, inner_coefficient, natural,
+    forced, mixing_exponent, convection_factor, convection_coefficient, exact_properties
+        As in :func:`convlib.pipe.insulated_pipe` (numeric ones per case).
+    surroundings_temperature, sky_view_fraction, sky_temperature, solar_irradiance, pressure
+        The rest of the surroundings (the bins give air and wind).
 
     Returns
     -------
     dict with ``thickness`` (best, per case) [m], ``index`` into ``thicknesses``, ``life_cycle_cost`` per case and
-    thickness [currency], ``annual_heat_kwh`` per case and thickness [kWh].
+    thickness [currency], ``annual_heat_kwh`` per case and thickness [kWh], ``warnings`` per case (union of the
+    flags of every solve, :class:`convlib.regimes.Flag`).
 
     Examples
     --------
@@ -285,12 +293,29 @@ def economic_thickness(pipe_outer_diameter, fluid_temperature, thicknesses, inst
         raise InputError("thicknesses: give at least one listed thickness", field="thicknesses",
                          rule="at least one value", value=[])
     length = as_array("length", length, unit="m", low=0.0)
-    case_shape = np.broadcast_shapes(d.shape, tf.shape, length.shape)
+    numeric = {name: np.asarray(value, dtype=float) for name, value in dict(
+        jacket_emissivity=jacket_emissivity, solar_absorptivity=solar_absorptivity,
+        pipe_wall_thickness=pipe_wall_thickness, pipe_conductivity=pipe_conductivity,
+        inner_coefficient=inner_coefficient, mixing_exponent=mixing_exponent, convection_factor=convection_factor,
+        convection_coefficient=convection_coefficient, surroundings_temperature=surroundings_temperature,
+        sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance,
+        pressure=pressure).items() if value is not None}
+    for layer in outer_layers:
+        if not isinstance(layer, Layer):
+            raise InputError(f"outer_layers must be Layer objects; got {layer!r}", field="outer_layers",
+                             rule="Layer objects", value=layer)
+    case_shape = np.broadcast_shapes(d.shape, tf.shape, length.shape, *(v.shape for v in numeric.values()),
+                                     *(np.shape(layer.thickness) for layer in outer_layers))
     cost = np.broadcast_to(as_array("installed_cost", installed_cost, unit="per m", low=0.0), case_shape + t.shape)
     grid = lambda a: np.broadcast_to(a, case_shape)[..., None, None]  # noqa: E731 cases x thickness x bins
-    r = insulated_pipe(grid(d), grid(tf), [Layer(t[:, None], insulation_conductivity), *outer_layers],
-                       air_temperature=bins.air_temperature, wind_speed=bins.wind_speed, length=1.0, **pipe_options)
+    outer = [Layer(grid(layer.thickness), layer.conductivity if not layer.conductivity.is_constant
+                   else grid(layer.conductivity.constant_value), name=layer.name) for layer in outer_layers]
+    r = insulated_pipe(grid(d), grid(tf), [Layer(t[:, None], insulation_conductivity), *outer],
+                       air_temperature=bins.air_temperature, wind_speed=bins.wind_speed, length=1.0, natural=natural,
+                       forced=forced, exact_properties=exact_properties,
+                       **{name: grid(value) for name, value in numeric.items()})
     heat_kwh = (r.q_per_length * bins.hours).sum(axis=-1) * np.broadcast_to(length, case_shape)[..., None] / 1000.0
     lcc = life_cycle_cost(heat_kwh, cost * np.broadcast_to(length, case_shape)[..., None], tariff, finance)
     index = np.argmin(lcc, axis=-1)
-    return {"thickness": t[index], "index": index, "life_cycle_cost": lcc, "annual_heat_kwh": heat_kwh}
+    return {"thickness": t[index], "index": index, "life_cycle_cost": lcc, "annual_heat_kwh": heat_kwh,
+            "warnings": np.bitwise_or.reduce(r.warnings.reshape(*case_shape, -1), axis=-1)}

@@ -227,7 +227,8 @@ def condensation_hours(weather: HourlyWeather, surface_temperature, margin=0.0) 
 
 
 def jacket_condensation_hours(pipe_outer_diameter, fluid_temperature, layers, weather: HourlyWeather, *,
-                              jacket_emissivity=0.9, margin=0.0, **pipe_options) -> np.ndarray:
+                              jacket_emissivity=0.9, margin=0.0, sky_view_fraction=None, sky_temperature=None,
+                              solar_absorptivity=None, convection_coefficient=None) -> np.ndarray:
     """Hours a year in which the jacket of a (cold) outdoor line is below the dew point plus ``margin`` [h].
 
     The jacket temperature is solved hour by hour (:func:`convlib.pipe.insulated_pipe` over lines x hours, the
@@ -239,6 +240,10 @@ def jacket_condensation_hours(pipe_outer_diameter, fluid_temperature, layers, we
         Per line [m], [K], [-] (1-D or scalars).
     layers : sequence of Layer
         Layer arrays per line need a trailing axis of 1 (the hours).
+    margin : numeric
+        How far the jacket must stay above the dew point [K].
+    sky_view_fraction, sky_temperature, solar_absorptivity, convection_coefficient
+        As in :func:`convlib.pipe.insulated_pipe` (the weather gives air, wind and pressure).
 
     Examples
     --------
@@ -255,7 +260,8 @@ def jacket_condensation_hours(pipe_outer_diameter, fluid_temperature, layers, we
     eps = np.atleast_1d(np.asarray(jacket_emissivity, dtype=float))
     r = insulated_pipe(d[:, None], tf[:, None], layers, air_temperature=weather.air_temperature,
                        wind_speed=weather.wind_speed, jacket_emissivity=eps[:, None],
-                       pressure=weather.pressure, **pipe_options)
+                       pressure=weather.pressure, sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature,
+                       solar_absorptivity=solar_absorptivity, convection_coefficient=convection_coefficient)
     return condensation_hours(weather, r.surface_temperature, margin)
 
 
