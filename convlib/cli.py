@@ -418,10 +418,10 @@ _LINE_UNITS = {"length": "m", "equivalent_length": "m", "outer_diameter": "m", "
                "air_temperature": "K", "surface_temperature": "K", "dew_point": "K", "q_per_length": "W/m",
                "q_total": "W", "operating_hours": "h", "heat_kwh": "kWh", "purchased_kwh": "kWh", "co2_kg": "kg",
                "outlet_temperature": "K", "freezing_position": "m", "tracing_duty_per_length": "W/m",
-               "tracing_duty": "W", "condensate": "kg/h"}
+               "tracing_duty": "W", "condensate": "kg/s"}
 _TOTAL_UNITS = {"length": "m", "equivalent_length": "m", "q_lost": "W", "q_gained": "W", "heat_lost_kwh": "kWh/yr",
                 "heat_gained_kwh": "kWh/yr", "purchased_kwh": "kWh/yr", "co2_kg": "kg/yr", "tracing_duty": "W",
-                "condensate": "kg/h"}
+                "condensate": "kg/s"}
 
 
 def _cmd_lines(args) -> int:
@@ -473,7 +473,8 @@ def _cmd_lines(args) -> int:
     print(f"purchased energy {_energy_text(t['purchased_kwh'], args.units)}, cost {t['cost']:.0f}/yr, "
           f"CO2 {t['co2_kg'] / 1000:.1f} t/yr; {t['touch_flags']} touch and {t['condensation_flags']} "
           f"condensation flag(s) (flags, not verdicts)")
-    extras = [f"{label} {t[name]:.{digits}f} {unit} on {int(np.sum(~np.isnan(getattr(result, name))))} line(s)"
+    shown = {"condensate": float(from_si(t["condensate"], "mass_flow", "kg/h")), "tracing_duty": t["tracing_duty"]}
+    extras = [f"{label} {shown[name]:.{digits}f} {unit} on {int(np.sum(~np.isnan(getattr(result, name))))} line(s)"
               for name, label, unit, digits in (("condensate", "steam condensate", "kg/h", 1),
                                                 ("tracing_duty", "tracing duty", "W", 0))
               if np.any(~np.isnan(getattr(result, name)))]

@@ -70,7 +70,7 @@ def _outlet(args) -> int:
         m = minimum_flow(pipe_diameter(args), inlet, given_layers, outlet_limit=limit, length=length, **common)
         row = {"tag": args.tag, "fluid_temperature": inlet, "outlet_limit": limit, "air_temperature": air,
                "equilibrium_temperature": float(m.equilibrium_temperature),
-               "minimum_mass_flow": float(m.mass_flow), "warnings": []}
+               "minimum_mass_flow": float(m.mass_flow), "warnings": m.warning_messages()}
         if flow is not None:
             row["mass_flow"] = flow
             row["enough"] = "yes" if flow >= float(m.mass_flow) else "no"
@@ -97,7 +97,7 @@ def _outlet(args) -> int:
             unit = "foot" if args.units == "US" else "m"
             row["freezes"] = (f"at {float(from_si(float(r.freezing_position), 'length', unit)):.1f} "
                               f"{pretty_unit(unit)}" if freezes else "no")
-        row["warnings"] = []
+        row["warnings"] = r.warning_messages()
         sections.append(("temperature along the line", [row]))
         cautions += list(r.cautions)
         if not freezes or args.json:
@@ -126,7 +126,7 @@ def _cmd_steam(args) -> int:
     row = {"tag": args.tag, "steam_pressure": pressure, "fluid_temperature": float(r.saturation_temperature),
            "air_temperature": air, "surface_temperature": float(r.pipe.surface_temperature),
            "q_per_length": float(r.q_per_length), "q_total": float(r.q_total),
-           "condensate_rate": float(r.condensate_rate) / 3600.0, "warnings": r.pipe.warning_messages()}
+           "condensate_rate": float(r.condensate_rate), "warnings": r.warning_messages()}
     emit(args, [("saturated steam line", [row])], [*surface_cautions([row]), *r.cautions])
     return 0
 
@@ -146,9 +146,9 @@ def _cmd_freeze(args) -> int:
     row = {"tag": args.tag, "initial_temperature": initial, "air_temperature": ambient,
            "freezes": "no" if bool(r.never_freezes) else "yes"}  # said in the row, never as an inf time
     if not bool(r.never_freezes):
-        row.update(time_to_freezing_point=3600.0 * float(r.hours_to_freezing_point),
-                   time_to_freeze_solid=3600.0 * float(r.hours_to_freeze_solid),
-                   time_total=3600.0 * float(r.hours_total))
+        row.update(time_to_freezing_point=float(r.time_to_freezing_point),
+                   time_to_freeze_solid=float(r.time_to_freeze_solid), time_total=float(r.time_total))
+    row["warnings"] = r.warning_messages()
     emit(args, [("freeze time (stagnant water)", [row])], [*r.notes, *r.cautions])
     return 0
 

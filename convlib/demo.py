@@ -12,6 +12,7 @@ import numpy as np
 
 from .pipe import Layer
 from .pipe_sizes import nominal_pipe
+from .units import from_si
 
 __all__ = ["load_demo_site", "layers", "operation_rows"]
 
@@ -50,7 +51,7 @@ def operation_rows(op: dict) -> tuple[list[dict], set[str]]:
                    sky_view_fraction=c["sky_view_fraction"], jacket_emissivity=c["jacket_emissivity"])
     rows.append({"tag": c["tag"], "what": f"saturated steam at {c['steam_pressure'] / 1e5:g} bar(a) "
                                           f"({float(s.saturation_temperature) - 273.15:.1f} °C), {c['length']:g} m",
-                 "result": f"condensate {float(s.condensate_rate):.1f} kg/h, loss {float(s.q_total) / 1000:.1f} kW"})
+                 "result": f"condensate {float(from_si(s.condensate_rate, 'mass_flow', 'kg/h')):.1f} kg/h, loss {float(s.q_total) / 1000:.1f} kW"})
     cautions.update(s.cautions)
     c = op["traced_line"]
     t = tracing_duty(nominal_pipe(c["nps"], c["schedule"]).outer_diameter, c["maintain_temperature"],
@@ -70,8 +71,8 @@ def operation_rows(op: dict) -> tuple[list[dict], set[str]]:
     rows.append({"tag": c["tag"], "what": f"stagnant water from {c['initial_temperature'] - 273.15:.0f} °C at "
                                           f"{c['minimum_air_temperature'] - 273.15:.0f} °C air",
                  "result": "never freezes" if bool(np.all(f.never_freezes)) else
-                           f"0 °C after {float(f.hours_to_freezing_point):.1f} h, solid after "
-                           f"{float(f.hours_total):.1f} h"})
+                           f"0 °C after {float(from_si(f.time_to_freezing_point, 'time', 'h')):.1f} h, solid after "
+                           f"{float(from_si(f.time_total, 'time', 'h')):.1f} h"})
     cautions.update(f.cautions)
     c = op["tank"]
     k = vertical_tank(c["diameter"], c["height"], air_temperature=c["air_temperature"],

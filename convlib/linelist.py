@@ -493,7 +493,7 @@ class LineListResult:
     freezing_position: np.ndarray          # where the water reaches 0 degC [m from the inlet]; NaN if it does not
     tracing_duty_per_length: np.ndarray    # NaN without maintain_temperature [W/m]
     tracing_duty: np.ndarray               # over the equivalent length [W]
-    condensate: np.ndarray                 # NaN without steam_pressure [kg/h]
+    condensate: np.ndarray                 # NaN without steam_pressure [kg/s]
     notes: tuple[str, ...]
     errors: tuple[RowError, ...] = ()
     settings: dict = field(default_factory=dict)
@@ -774,7 +774,7 @@ OUTPUT_COLUMNS = (
     ("outlet_temperature[degC]", "outlet_temperature", ("temperature", "degC")),
     ("freezing_position[m]", "freezing_position", None),
     ("tracing_duty[W/m]", "tracing_duty_per_length", None), ("tracing_duty_total[W]", "tracing_duty", None),
-    ("condensate[kg/h]", "condensate", None),
+    ("condensate[kg/h]", "condensate", ("mass_flow", "kg/h")),
 )
 
 

@@ -22,11 +22,14 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import time
+import warnings
 
 import numpy as np
 
 from .errors import InputError
 from .pipe import PipeResult, insulated_pipe
+from .regimes import summarize_flags
+from .surroundings import Surroundings, resolve
 from .properties import CP, fluid_properties  # CP: CoolProp.CoolProp, imported on first use
 from .roots import find_root
 from .validation import SIZE_RANGE, _show, as_array, as_bounded, check_choice
@@ -160,13 +163,44 @@ def _positive(name, value, unit=""):
     return as_array(name, value, unit=unit, low=0.0, low_inclusive=False)
 
 
-def _loss_function(pipe_outer_diameter, layers, air_temperature, pipe_options):
-    """q'(T) [W/m] of the line with the fluid at T, outer coefficient re-evaluated (surface solved to 1e-8 K)."""
-    options = {"tolerance": 1e-8, **pipe_options}
+#: How the functions of this module document the keywords they pass on to :func:`convlib.pipe.insulated_pipe`.
+PIPE_KEYWORDS_DOC = ("jacket_emissivity, solar_absorptivity, pipe_wall_thickness, pipe_conductivity, inner_coefficient, "
+                     "natural, forced, mixing_exponent, convection_factor, convection_coefficient, exact_properties: "
+                     "as in convlib.pipe.insulated_pipe; surroundings or its fields air_temperature, wind_speed, "
+                     "surroundings_temperature, sky_view_fraction, sky_temperature, solar_irradiance, pressure")
 
+
+def _pipe_keywords(**given) -> dict:
+    """The insulated_pipe keywords a caller gave (``None``: not given)."""
+    return {name: value for name, value in given.items() if value is not None}
+
+
+class _Flags:
+    """Union of the warning flags of every insulated_pipe solve a function makes, per case."""
+
+    def __init__(self):
+        self.seen = []
+
+    def add(self, warnings):
+        self.seen.append(np.asarray(warnings))
+
+    def union(self, shape) -> np.ndarray:
+        out = np.zeros(shape, dtype=np.int16)
+        for w in self.seen:
+            if w.ndim > len(shape):  # quadrature nodes or grids on leading axes
+                w = np.bitwise_or.reduce(w.reshape((-1, *w.shape[w.ndim - len(shape):])), axis=0)
+            out |= np.broadcast_to(w, shape).astype(np.int16)
+        return out
+
+
+def _loss_function(pipe_outer_diameter, layers, around: Surroundings, pipe_keywords: dict, flags: _Flags):
+    """q'(T) [W/m] of the line with the fluid at T, outer coefficient re-evaluated (surface solved to 1e-8 K);
+    the flags of every solve go to ``flags``."""
     def loss(temperature):
-        return insulated_pipe(pipe_outer_diameter, temperature, layers, air_temperature=air_temperature,
-                              length=1.0, **options).q_per_length
+        r = insulated_pipe(pipe_outer_diameter, temperature, layers, length=1.0, tolerance=1e-8, surroundings=around,
+                           **pipe_keywords)
+        flags.add(r.warnings)
+        return r.q_per_length
     return loss
 
 
@@ -219,6 +253,10 @@ class LineProfile:
     freezing_position: np.ndarray        # distance from the inlet where it does [m]; NaN where it does not
     notes: tuple[str, ...]
     cautions: tuple[str, ...]
+    warnings: np.ndarray = None          # union of the flags of every insulated_pipe solve, per case
+
+    def warning_messages(self) -> list[str]:
+        return [] if self.warnings is None else summarize_flags(self.warnings)
 
 
 @dataclass(frozen=True)
@@ -234,24 +272,27 @@ class _Line:
     freezing: np.ndarray           # freezing temperature [K], NaN where not checked
     shape: tuple
     evaluations: list
+    flags: _Flags
 
 
-def _line_model(pipe_outer_diameter, inlet_temperature, layers, air_temperature, fluid, fluid_pressure, fluid_phase,
-                specific_heat, constant_coefficient, freezing_temperature, pipe_options, extra_shapes=()) -> _Line:
+def _line_model(pipe_outer_diameter, inlet_temperature, layers, around: Surroundings, fluid, fluid_pressure,
+                fluid_phase, specific_heat, constant_coefficient, freezing_temperature, pipe_keywords,
+                extra_shapes=()) -> _Line:
     tin = _positive("inlet_temperature", inlet_temperature, "K")
     p_fluid = _positive("fluid_pressure", fluid_pressure, "Pa")
     fixed_cp = None if specific_heat is None else _positive("specific_heat", specific_heat, "J/kg/K")
-    ta = _positive("air_temperature", air_temperature, "K")
+    ta = around.air_temperature
     check_choice("fluid_phase", fluid_phase, ("liquid", "gas"))
     calls = [0]
-    pipe_loss = _loss_function(pipe_outer_diameter, layers, ta, pipe_options)
+    flags = _Flags()
+    pipe_loss = _loss_function(pipe_outer_diameter, layers, around, pipe_keywords, flags)
 
     def loss(temperature):
         calls[0] += 1
         return pipe_loss(temperature)
 
     coefficient_in = _frozen_coefficient(loss, tin, ta)
-    shape = np.broadcast_shapes(coefficient_in.shape, tin.shape, p_fluid.shape, ta.shape, *extra_shapes,
+    shape = np.broadcast_shapes(coefficient_in.shape, tin.shape, p_fluid.shape, ta.shape, around.shape, *extra_shapes,
                                 () if fixed_cp is None else fixed_cp.shape)
     tin = np.broadcast_to(tin, shape)
     if isinstance(freezing_temperature, str):
@@ -300,7 +341,7 @@ def _line_model(pipe_outer_diameter, inlet_temperature, layers, air_temperature,
             safe = sign * np.maximum(np.abs(theta), _NEAR_EQUILIBRIUM)
             return loss(t_eq + safe) / safe
     return _Line(tin=tin, theta_in=tin - t_eq, t_eq=t_eq, coefficient_in=np.broadcast_to(coefficient_in, shape),
-                 coefficient=coefficient, cp=cp, freezing=tf, shape=shape, evaluations=calls)
+                 coefficient=coefficient, cp=cp, freezing=tf, shape=shape, evaluations=calls, flags=flags)
 
 
 def _equilibrium_temperature(loss, ta, coefficient_in):
@@ -362,9 +403,9 @@ def _length_between(line, flow, theta_from, theta_to):
 
 
 def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), *, mass_flow, length,
-                             air_temperature, fluid="Water", fluid_pressure=101325.0, fluid_phase="liquid",
+                             fluid="Water", fluid_pressure=101325.0, fluid_phase="liquid",
                              specific_heat=None, constant_coefficient=False, freezing_temperature="auto",
-                             tolerance=1e-6, max_step=0.1, time_limit=TIME_LIMIT, **pipe_options) -> LineProfile:
+                             tolerance=1e-6, max_step=0.1, time_limit=TIME_LIMIT, jacket_emissivity=0.9, solar_absorptivity=None, pipe_wall_thickness=None, pipe_conductivity=None, inner_coefficient=None, natural=None, forced=None, mixing_exponent=None, convection_factor=None, convection_coefficient=None, exact_properties=False, surroundings: Surroundings | None = None, air_temperature=None, wind_speed=None, surroundings_temperature=None, sky_view_fraction=None, sky_temperature=None, solar_irradiance=None, pressure=None) -> LineProfile:
     r"""Fluid temperature along a line that loses (or gains) heat to the air, from trickle to full flow.
 
     The fluid tends to its equilibrium temperature :math:`T_{eq}`, at which :math:`q'(T_{eq}) = 0`
@@ -421,10 +462,13 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
     time_limit : float
         Wall-clock bound of the march [s], default :data:`TIME_LIMIT`; reaching it (or the step bound)
         raises ``InputError`` saying where the march stopped.
-    **pipe_options
-        Passed to :func:`convlib.pipe.insulated_pipe` (``wind_speed``, ``jacket_emissivity``,
-        ``inner_coefficient`` -- give it for gas lines and bare lines, where the inside film is not
-        negligible --, ``pipe_wall_thickness``, ``sky_view_fraction``, ...).
+    jacket_emissivity, solar_absorptivity, pipe_wall_thickness, pipe_conductivity, inner_coefficient, natural,
+    forced, mixing_exponent, convection_factor, convection_coefficient, exact_properties
+        As in :func:`convlib.pipe.insulated_pipe` (give ``inner_coefficient`` for gas lines and bare lines, where
+        the inside film is not negligible).
+    surroundings, air_temperature, wind_speed, surroundings_temperature, sky_view_fraction, sky_temperature,
+    solar_irradiance, pressure
+        The surroundings (:class:`convlib.surroundings.Surroundings`), or its fields as keywords.
 
     Examples
     --------
@@ -448,8 +492,8 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
     tol = float(_positive("tolerance", tolerance, "K"))
     limit_s = float(as_array("time_limit", time_limit, unit="s", low=0.0))
     step = float(as_array("max_step", max_step, low=0.0, high=1.0, low_inclusive=False))
-    line = _line_model(pipe_outer_diameter, inlet_temperature, layers, air_temperature, fluid, fluid_pressure,
-                       fluid_phase, specific_heat, constant_coefficient, freezing_temperature, pipe_options,
+    line = _line_model(pipe_outer_diameter, inlet_temperature, layers, resolve(surroundings, air_temperature=air_temperature, wind_speed=wind_speed, surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure), fluid, fluid_pressure,
+                       fluid_phase, specific_heat, constant_coefficient, freezing_temperature, _pipe_keywords(jacket_emissivity=jacket_emissivity, solar_absorptivity=solar_absorptivity, pipe_wall_thickness=pipe_wall_thickness, pipe_conductivity=pipe_conductivity, inner_coefficient=inner_coefficient, natural=natural, forced=forced, mixing_exponent=mixing_exponent, convection_factor=convection_factor, convection_coefficient=convection_coefficient, exact_properties=exact_properties),
                        (flow.shape, run.shape))
     shape, tin, t_eq, theta_in = line.shape, line.tin, line.t_eq, line.theta_in
     capacity_in = flow * line.cp(tin)  # [W/K]
@@ -512,7 +556,7 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
         fraction=grid, position=position, temperature=temperature, q_per_length=q_line,
         inlet_loss_coefficient=line.coefficient_in.copy(), steps=accepted, rejected_steps=rejected,
         evaluations=line.evaluations[0], equilibrium_temperature=t_eq.copy(), freezes=freezes,
-        freezing_position=x_freeze, notes=tuple(notes), cautions=tuple(cautions))
+        freezing_position=x_freeze, notes=tuple(notes), cautions=tuple(cautions), warnings=line.flags.union(shape))
 
 
 @dataclass(frozen=True)
@@ -525,11 +569,15 @@ class MinimumFlow:
     any_flow: np.ndarray                 # bool: the equilibrium itself is within the limit
     notes: tuple[str, ...]
     cautions: tuple[str, ...]
+    warnings: np.ndarray = None          # union of the flags of every insulated_pipe solve, per case
+
+    def warning_messages(self) -> list[str]:
+        return [] if self.warnings is None else summarize_flags(self.warnings)
 
 
-def minimum_flow(pipe_outer_diameter, inlet_temperature, layers=(), *, outlet_limit, length, air_temperature,
+def minimum_flow(pipe_outer_diameter, inlet_temperature, layers=(), *, outlet_limit, length,
                  fluid="Water", fluid_pressure=101325.0, fluid_phase="liquid", specific_heat=None,
-                 constant_coefficient=False, freezing_temperature="auto", **pipe_options) -> MinimumFlow:
+                 constant_coefficient=False, freezing_temperature="auto", jacket_emissivity=0.9, solar_absorptivity=None, pipe_wall_thickness=None, pipe_conductivity=None, inner_coefficient=None, natural=None, forced=None, mixing_exponent=None, convection_factor=None, convection_coefficient=None, exact_properties=False, surroundings: Surroundings | None = None, air_temperature=None, wind_speed=None, surroundings_temperature=None, sky_view_fraction=None, sky_temperature=None, solar_irradiance=None, pressure=None) -> MinimumFlow:
     r"""Smallest mass flow [kg/s] whose outlet stays at ``outlet_limit``: at or above it on a line hotter than
     its surroundings, at or below it on a colder one.
 
@@ -552,6 +600,8 @@ def minimum_flow(pipe_outer_diameter, inlet_temperature, layers=(), *, outlet_li
     Other parameters
         As :func:`line_temperature_profile`.
 
+    The surroundings, the layers and the insulated_pipe keywords as in :func:`line_temperature_profile`.
+
     Examples
     --------
     The 8 in line of 2.5 km under 80 mm of insulation at -10 degC air, 95 degC in, outlet kept above 5 degC:
@@ -564,8 +614,8 @@ def minimum_flow(pipe_outer_diameter, inlet_temperature, layers=(), *, outlet_li
     """
     run = _positive("length", length, "m")
     limit = _positive("outlet_limit", outlet_limit, "K")
-    line = _line_model(pipe_outer_diameter, inlet_temperature, layers, air_temperature, fluid, fluid_pressure,
-                       fluid_phase, specific_heat, constant_coefficient, freezing_temperature, pipe_options,
+    line = _line_model(pipe_outer_diameter, inlet_temperature, layers, resolve(surroundings, air_temperature=air_temperature, wind_speed=wind_speed, surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure), fluid, fluid_pressure,
+                       fluid_phase, specific_heat, constant_coefficient, freezing_temperature, _pipe_keywords(jacket_emissivity=jacket_emissivity, solar_absorptivity=solar_absorptivity, pipe_wall_thickness=pipe_wall_thickness, pipe_conductivity=pipe_conductivity, inner_coefficient=inner_coefficient, natural=natural, forced=forced, mixing_exponent=mixing_exponent, convection_factor=convection_factor, convection_coefficient=convection_coefficient, exact_properties=exact_properties),
                        (run.shape, limit.shape))
     shape, theta_in = line.shape, line.theta_in
     limit = np.broadcast_to(limit, shape)
@@ -596,7 +646,8 @@ def minimum_flow(pipe_outer_diameter, inlet_temperature, layers=(), *, outlet_li
     freeze_risk = ~np.isnan(line.freezing) & (line.t_eq < line.freezing)
     return MinimumFlow(mass_flow=flow, outlet_limit=limit.copy(), equilibrium_temperature=line.t_eq.copy(),
                        any_flow=any_flow, notes=tuple(notes),
-                       cautions=(CAUTION_LINE_FREEZE,) if np.any(freeze_risk) else ())
+                       cautions=(CAUTION_LINE_FREEZE,) if np.any(freeze_risk) else (),
+                       warnings=line.flags.union(shape))
 
 
 def _check_phase(fluid, phase, inlet, pressure):
@@ -658,7 +709,7 @@ def latent_heat_of_vaporization(steam_pressure, fluid="Water"):
 
 
 def condensate_rate(q_total, steam_pressure, fluid="Water"):
-    r"""Condensate formed by a heat loss from saturated steam [kg/h]: :math:`3600\,Q / h_{fg}(p)`.
+    r"""Condensate formed by a heat loss from saturated steam [kg/s]: :math:`Q / h_{fg}(p)`.
 
     Parameters
     ----------
@@ -671,11 +722,11 @@ def condensate_rate(q_total, steam_pressure, fluid="Water"):
 
     Examples
     --------
-    >>> round(float(condensate_rate(10_000.0, 1.0e6)), 2)
+    >>> round(float(condensate_rate(10_000.0, 1.0e6)) * 3600.0, 2)   # kg/h
     17.87
     """
     q = as_array("q_total", q_total, unit="W")
-    return 3600.0 * np.maximum(q, 0.0) / latent_heat_of_vaporization(steam_pressure, fluid)
+    return np.maximum(q, 0.0) / latent_heat_of_vaporization(steam_pressure, fluid)
 
 
 @dataclass(frozen=True)
@@ -686,19 +737,40 @@ class SteamLine:
     latent_heat: np.ndarray              # h_fg [J/kg]
     q_per_length: np.ndarray             # [W/m]
     q_total: np.ndarray                  # [W]
-    condensate_per_length: np.ndarray    # [kg/h per m]
-    condensate_rate: np.ndarray          # [kg/h]
+    condensate_per_length: np.ndarray    # [kg/s per m]
+    condensate_rate: np.ndarray          # [kg/s]
     pipe: PipeResult
     cautions: tuple[str, ...]
 
+    @property
+    def warnings(self) -> np.ndarray:
+        """Flags of the line's solve (convlib.regimes.Flag)."""
+        return self.pipe.warnings
 
-def steam_line(pipe_outer_diameter, steam_pressure, layers=(), *, air_temperature, length=1.0,
-               **pipe_options) -> SteamLine:
+    def warning_messages(self) -> list[str]:
+        return self.pipe.warning_messages()
+
+
+def steam_line(pipe_outer_diameter, steam_pressure, layers=(), *, length=1.0, jacket_emissivity=0.9, solar_absorptivity=None, pipe_wall_thickness=None, pipe_conductivity=None, inner_coefficient=None, natural=None, forced=None, mixing_exponent=None, convection_factor=None, convection_coefficient=None, exact_properties=False, surroundings: Surroundings | None = None, air_temperature=None, wind_speed=None, surroundings_temperature=None, sky_view_fraction=None, sky_temperature=None, solar_irradiance=None, pressure=None) -> SteamLine:
     """Heat loss and condensate of a line of saturated steam at ``steam_pressure`` [Pa].
 
     The fluid is at the saturation temperature all along (a condensing vapour stays at it);
     the loss is :func:`convlib.pipe.insulated_pipe` at that temperature and the condensate
-    :func:`condensate_rate`. ``pipe_options`` as in :func:`convlib.pipe.insulated_pipe`.
+    :func:`condensate_rate` (kg/s).
+
+    Parameters
+    ----------
+    pipe_outer_diameter, steam_pressure : numeric
+        Pipe [m]; absolute steam pressure [Pa].
+    layers : sequence of Layer
+    length : numeric
+        Line length [m].
+    jacket_emissivity, solar_absorptivity, pipe_wall_thickness, pipe_conductivity, inner_coefficient, natural,
+    forced, mixing_exponent, convection_factor, convection_coefficient, exact_properties
+        As in :func:`convlib.pipe.insulated_pipe`.
+    surroundings, air_temperature, wind_speed, surroundings_temperature, sky_view_fraction, sky_temperature,
+    solar_irradiance, pressure
+        The surroundings (:class:`convlib.surroundings.Surroundings`), or its fields as keywords.
 
     Examples
     --------
@@ -707,15 +779,15 @@ def steam_line(pipe_outer_diameter, steam_pressure, layers=(), *, air_temperatur
     >>> from convlib.pipe import Layer
     >>> s = steam_line(0.1143, 1.0e6, [Layer(0.08, 0.045)], air_temperature=273.15, length=100.0,
     ...                jacket_emissivity=0.1)
-    >>> round(float(s.saturation_temperature) - 273.15, 1), round(float(s.q_total)), round(float(s.condensate_rate), 2)
+    >>> round(float(s.saturation_temperature) - 273.15, 1), round(float(s.q_total)), round(float(s.condensate_rate) * 3600, 2)
     (179.9, 5346, 9.55)
     """
     run = as_bounded("length", length, unit="m", accepted=(0.0, SIZE_RANGE[1]))
     t_sat, h_fg = saturation_temperature(steam_pressure), latent_heat_of_vaporization(steam_pressure)
-    r = insulated_pipe(pipe_outer_diameter, t_sat, layers, air_temperature=air_temperature, length=1.0,
-                       **pipe_options)
+    r = insulated_pipe(pipe_outer_diameter, t_sat, layers, length=1.0, surroundings=resolve(surroundings, air_temperature=air_temperature, wind_speed=wind_speed, surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure),
+                       **_pipe_keywords(jacket_emissivity=jacket_emissivity, solar_absorptivity=solar_absorptivity, pipe_wall_thickness=pipe_wall_thickness, pipe_conductivity=pipe_conductivity, inner_coefficient=inner_coefficient, natural=natural, forced=forced, mixing_exponent=mixing_exponent, convection_factor=convection_factor, convection_coefficient=convection_coefficient, exact_properties=exact_properties))
     shape = np.broadcast_shapes(r.q_per_length.shape, run.shape, h_fg.shape)
-    per_metre = 3600.0 * np.maximum(r.q_per_length, 0.0) / h_fg
+    per_metre = np.maximum(r.q_per_length, 0.0) / h_fg
     full = lambda a: np.broadcast_to(a, shape).copy()  # noqa: E731
     return SteamLine(saturation_temperature=full(t_sat), latent_heat=full(h_fg), q_per_length=full(r.q_per_length),
                      q_total=full(r.q_per_length * run), condensate_per_length=full(per_metre),
@@ -736,9 +808,16 @@ class TracingDuty:
     notes: tuple[str, ...]
     cautions: tuple[str, ...]
 
+    @property
+    def warnings(self) -> np.ndarray:
+        return self.pipe.warnings
 
-def tracing_duty(pipe_outer_diameter, maintain_temperature, layers=(), *, air_temperature, wind_speed=0.0,
-                 margin=TRACING_MARGIN, length=1.0, **pipe_options) -> TracingDuty:
+    def warning_messages(self) -> list[str]:
+        return self.pipe.warning_messages()
+
+
+def tracing_duty(pipe_outer_diameter, maintain_temperature, layers=(), *, margin=TRACING_MARGIN, length=1.0,
+                 jacket_emissivity=0.9, solar_absorptivity=None, pipe_wall_thickness=None, pipe_conductivity=None, inner_coefficient=None, natural=None, forced=None, mixing_exponent=None, convection_factor=None, convection_coefficient=None, exact_properties=False, surroundings: Surroundings | None = None, air_temperature=None, wind_speed=None, surroundings_temperature=None, sky_view_fraction=None, sky_temperature=None, solar_irradiance=None, pressure=None) -> TracingDuty:
     r"""Heat-tracing duty to hold a line at its maintain temperature with no flow [W/m].
 
     .. math:: P' = (1 + m)\, \max(q'(T_{maintain}),\ 0)
@@ -753,14 +832,17 @@ def tracing_duty(pipe_outer_diameter, maintain_temperature, layers=(), *, air_te
         Pipe [m]; temperature the tracer holds [K] (e.g. 278.15 K = 5 degC against freezing).
     layers : sequence of Layer
         Insulation and jacket (a traced line usually takes the next larger insulation size).
-    air_temperature, wind_speed : numeric
-        Design minimum ambient [K] and maximum wind [m/s] (0 indoors).
     margin : numeric
         Design margin on the loss [-], >= 0; default :data:`TRACING_MARGIN`.
     length : numeric
         Traced length [m], fittings as equivalent length.
-    **pipe_options
-        Passed to :func:`convlib.pipe.insulated_pipe` (``jacket_emissivity``, ``sky_view_fraction``, ...).
+    jacket_emissivity, solar_absorptivity, pipe_wall_thickness, pipe_conductivity, inner_coefficient, natural,
+    forced, mixing_exponent, convection_factor, convection_coefficient, exact_properties
+        As in :func:`convlib.pipe.insulated_pipe`.
+    surroundings, air_temperature, wind_speed, surroundings_temperature, sky_view_fraction, sky_temperature,
+    solar_irradiance, pressure
+        The surroundings (:class:`convlib.surroundings.Surroundings`), or its fields as keywords: the design
+        minimum ambient and maximum wind (0 indoors).
 
     Examples
     --------
@@ -774,8 +856,8 @@ def tracing_duty(pipe_outer_diameter, maintain_temperature, layers=(), *, air_te
     t_maintain = _positive("maintain_temperature", maintain_temperature, "K")
     m = as_bounded("margin", margin, accepted=(0.0, MARGIN_MAX))
     run = as_bounded("length", length, unit="m", accepted=(0.0, SIZE_RANGE[1]))
-    r = insulated_pipe(pipe_outer_diameter, t_maintain, layers, air_temperature=air_temperature,
-                       wind_speed=wind_speed, length=1.0, **pipe_options)
+    r = insulated_pipe(pipe_outer_diameter, t_maintain, layers, length=1.0, surroundings=resolve(surroundings, air_temperature=air_temperature, wind_speed=wind_speed, surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure),
+                       **_pipe_keywords(jacket_emissivity=jacket_emissivity, solar_absorptivity=solar_absorptivity, pipe_wall_thickness=pipe_wall_thickness, pipe_conductivity=pipe_conductivity, inner_coefficient=inner_coefficient, natural=natural, forced=forced, mixing_exponent=mixing_exponent, convection_factor=convection_factor, convection_coefficient=convection_coefficient, exact_properties=exact_properties))
     shape = np.broadcast_shapes(r.q_per_length.shape, m.shape, run.shape)
     loss = np.broadcast_to(r.q_per_length, shape)
     duty = np.maximum(loss, 0.0) * (1.0 + m)
@@ -799,19 +881,44 @@ class FreezeTime:
     summed into a total or written to a file says nothing. Every other case has finite times.
     """
 
-    hours_to_freezing_point: np.ndarray      # sensible cooling from the initial temperature [h]
-    hours_to_freeze_solid: np.ndarray        # further time, at the freezing point, until all water is ice [h]
-    hours_total: np.ndarray                  # [h]
+    time_to_freezing_point: np.ndarray       # sensible cooling from the initial temperature [s]
+    time_to_freeze_solid: np.ndarray         # further time, at the freezing point, until all water is ice [s]
+    time_total: np.ndarray                   # [s]
     never_freezes: np.ndarray                # bool: q' at the freezing point <= 0
     water_mass_per_length: np.ndarray        # [kg/m]
     heat_capacity_per_length: np.ndarray     # water + pipe wall at the initial temperature [J/m/K]
     q_at_freezing_point: np.ndarray          # q' with the water at the freezing point [W/m]
-    curve_hours: np.ndarray                  # (n, *shape) [h]; last point: frozen solid
+    curve_time: np.ndarray                   # (n, *shape) [s]; last point: frozen solid
     curve_temperature: np.ndarray            # (n, *shape) [K]
     inlet_loss_coefficient: np.ndarray       # U' = q'(T_0) / (T_0 - T_a) [W/m/K]
     steps: int
     notes: tuple[str, ...]
     cautions: tuple[str, ...]
+    warnings: np.ndarray = None              # union of the flags of every insulated_pipe solve, per case
+
+    def warning_messages(self) -> list[str]:
+        return [] if self.warnings is None else summarize_flags(self.warnings)
+
+    # ---- names of 0.2.0 in hours: deprecated, removed in the next version (the results are SI now)
+    def _hours(self, old: str, new: str) -> np.ndarray:
+        warnings.warn(f"FreezeTime.{old} is deprecated: use {new} (seconds) / 3600", DeprecationWarning, stacklevel=3)
+        return getattr(self, new) / 3600.0
+
+    @property
+    def hours_to_freezing_point(self) -> np.ndarray:
+        return self._hours("hours_to_freezing_point", "time_to_freezing_point")
+
+    @property
+    def hours_to_freeze_solid(self) -> np.ndarray:
+        return self._hours("hours_to_freeze_solid", "time_to_freeze_solid")
+
+    @property
+    def hours_total(self) -> np.ndarray:
+        return self._hours("hours_total", "time_total")
+
+    @property
+    def curve_hours(self) -> np.ndarray:
+        return self._hours("curve_hours", "curve_time")
 
 
 #: Water properties are taken no lower than this [K]: CoolProp's IAPWS-95 liquid starts at the
@@ -820,11 +927,11 @@ _WATER_PROPERTY_FLOOR = 273.17
 _WATER_PROPERTY_CEILING = 372.0   # liquid at 1 atm (boils at 373.12 K)
 
 
-def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, layers=(), *, air_temperature,
+def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, layers=(), *,
                 pipe_density=CARBON_STEEL_DENSITY, pipe_specific_heat=CARBON_STEEL_SPECIFIC_HEAT,
                 water_specific_heat=None, latent_heat=LATENT_HEAT_OF_FUSION,
                 freezing_temperature=WATER_FREEZING_TEMPERATURE, constant_coefficient=False, tolerance=1e-7,
-                max_step=0.1, time_limit=TIME_LIMIT, **pipe_options) -> FreezeTime:
+                max_step=0.1, time_limit=TIME_LIMIT, jacket_emissivity=0.9, solar_absorptivity=None, pipe_conductivity=None, inner_coefficient=None, natural=None, forced=None, mixing_exponent=None, convection_factor=None, convection_coefficient=None, exact_properties=False, surroundings: Surroundings | None = None, air_temperature=None, wind_speed=None, surroundings_temperature=None, sky_view_fraction=None, sky_temperature=None, solar_irradiance=None, pressure=None) -> FreezeTime:
     r"""Time for stagnant water in an insulated line to reach the freezing point and to freeze solid.
 
     Sensible cooling of the water and the pipe wall, the outer coefficient re-evaluated:
@@ -845,8 +952,6 @@ def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, l
     initial_temperature : numeric
         Water temperature when the flow stops [K], from the freezing point to 372 K.
     layers : sequence of Layer
-    air_temperature : numeric
-        Design minimum ambient [K].
     pipe_density, pipe_specific_heat : numeric
         Wall [kg/m3], [J/kg/K]; default carbon steel (common practice).
     water_specific_heat : numeric, optional
@@ -861,9 +966,12 @@ def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, l
         Largest step as a fraction of the temperature fall (0-1].
     time_limit : float
         Wall-clock bound of the march [s], as in :func:`line_temperature_profile`.
-    **pipe_options
-        Passed to :func:`convlib.pipe.insulated_pipe` (``wind_speed``, ``jacket_emissivity``,
-        ``pipe_conductivity`` -- the wall's resistance then counts too --, ...).
+    jacket_emissivity, solar_absorptivity, pipe_conductivity, inner_coefficient, natural, forced,
+    mixing_exponent, convection_factor, convection_coefficient, exact_properties
+        As in :func:`convlib.pipe.insulated_pipe` (with ``pipe_conductivity`` the wall's resistance counts too).
+    surroundings, air_temperature, wind_speed, surroundings_temperature, sky_view_fraction, sky_temperature,
+    solar_irradiance, pressure
+        The surroundings, or its fields as keywords: the design minimum ambient.
 
     Examples
     --------
@@ -871,7 +979,7 @@ def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, l
 
     >>> from convlib.pipe import Layer
     >>> f = freeze_time(0.0603, 0.00391, 283.15, [Layer(0.025, 0.04)], air_temperature=258.15, wind_speed=5.0)
-    >>> round(float(f.hours_to_freezing_point), 2), round(float(f.hours_to_freeze_solid), 1)
+    >>> round(float(f.time_to_freezing_point) / 3600, 2), round(float(f.time_to_freeze_solid) / 3600, 1)
     (4.08, 33.3)
     """
     d = _positive("pipe_outer_diameter", pipe_outer_diameter, "m")
@@ -887,7 +995,8 @@ def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, l
         raise InputError(f"initial_temperature must be at least the freezing_temperature "
                          f"({float(np.max(tf)):g} K); got {float(np.min(t0)):g} K", field="initial_temperature",
                          rule="at least the freezing_temperature", value=float(np.min(t0)))
-    ta = _positive("air_temperature", air_temperature, "K")
+    around = resolve(surroundings, air_temperature=air_temperature, wind_speed=wind_speed, surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure)
+    ta = around.air_temperature
     rho_p = _positive("pipe_density", pipe_density, "kg/m3")
     c_p = _positive("pipe_specific_heat", pipe_specific_heat, "J/kg/K")
     lf = _positive("latent_heat", latent_heat, "J/kg")
@@ -896,10 +1005,14 @@ def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, l
     limit_s = float(as_array("time_limit", time_limit, unit="s", low=0.0))
     fixed_cw = None if water_specific_heat is None else _positive("water_specific_heat", water_specific_heat,
                                                                   "J/kg/K")
-    options = dict(pipe_options)
-    if "pipe_conductivity" in options:
+    options = _pipe_keywords(jacket_emissivity=jacket_emissivity, solar_absorptivity=solar_absorptivity,
+                             pipe_conductivity=pipe_conductivity, inner_coefficient=inner_coefficient, natural=natural,
+                             forced=forced, mixing_exponent=mixing_exponent, convection_factor=convection_factor,
+                             convection_coefficient=convection_coefficient, exact_properties=exact_properties)
+    if "pipe_conductivity" in options or "inner_coefficient" in options:
         options["pipe_wall_thickness"] = wall
-    loss = _loss_function(d, layers, ta, options)
+    flags = _Flags()
+    loss = _loss_function(d, layers, around, options, flags)
 
     def water(temperature):
         return fluid_properties("Water", np.clip(temperature, _WATER_PROPERTY_FLOOR, _WATER_PROPERTY_CEILING))
@@ -930,14 +1043,14 @@ def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, l
     grid, values, accepted, _, _ = _march(rhs, np.zeros((1, *shape)), scale, tol, step, limit_s)
     sensible, solid = values[-1, 0], np.broadcast_to(m_w * lf, shape) / np.where(never, 1.0, q_freeze)
     curve_t = np.concatenate([t0[None] - grid.reshape((-1,) + (1,) * len(shape)) * fall[None], tf[None]])
-    curve_h = np.concatenate([values[:, 0], (sensible + solid)[None]]) / 3600.0
+    curve_s = np.concatenate([values[:, 0], (sensible + solid)[None]])
     notes = [f"{int(never.sum())} case(s) settle above the freezing point: no freezing under these conditions"
              ] if never.any() else []
-    hours = lambda seconds: np.where(never, np.inf, seconds / 3600.0)  # noqa: E731
+    seconds = lambda t: np.where(never, np.inf, t)  # noqa: E731
     return FreezeTime(
-        hours_to_freezing_point=hours(sensible), hours_to_freeze_solid=hours(solid), hours_total=hours(sensible + solid),
+        time_to_freezing_point=seconds(sensible), time_to_freeze_solid=seconds(solid), time_total=seconds(sensible + solid),
         never_freezes=never.copy(), water_mass_per_length=np.broadcast_to(m_w, shape).copy(),
         heat_capacity_per_length=np.broadcast_to(capacity(t0), shape).copy(), q_at_freezing_point=q_freeze.copy(),
-        curve_hours=np.where(never[None], np.nan, curve_h), curve_temperature=np.where(never[None], np.nan, curve_t),
+        curve_time=np.where(never[None], np.nan, curve_s), curve_temperature=np.where(never[None], np.nan, curve_t),
         inlet_loss_coefficient=np.broadcast_to(coefficient, shape).copy(), steps=accepted, notes=tuple(notes),
-        cautions=(CAUTION_FREEZE,))
+        cautions=(CAUTION_FREEZE,), warnings=flags.union(shape))

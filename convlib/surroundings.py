@@ -151,11 +151,12 @@ def _numeric(value) -> bool:
     return True
 
 
-def resolve(surroundings: Surroundings | None = None, **keywords) -> Surroundings:
-    """The :class:`Surroundings` of a call: the object given, or one built from plain keywords.
+def resolve(surroundings: Surroundings | None = None, *, air_temperature=None, pressure=None, wind_speed=None,
+            wind_direction=None, relative_humidity=None, surroundings_temperature=None, sky_view_fraction=None,
+            sky_temperature=None, ground_temperature=None, solar_irradiance=None) -> Surroundings:
+    """The :class:`Surroundings` of a call: the object given, or one built from its fields as keywords.
 
-    ``keywords`` are fields of :class:`Surroundings`; ``None`` means "not given". Giving the object
-    and any keyword together is refused (the two could disagree).
+    ``None`` means "not given". Giving the object and any keyword together is refused (the two could disagree).
 
     Examples
     --------
@@ -166,11 +167,11 @@ def resolve(surroundings: Surroundings | None = None, **keywords) -> Surrounding
     ...
     convlib.errors.InputError: give the surroundings either as surroundings=Surroundings(...) or as keywords, not both; got both and wind_speed
     """
-    unknown = set(keywords) - set(SURROUNDINGS_FIELDS)
-    if unknown:
-        raise InputError(f"not a field of the surroundings: {', '.join(sorted(unknown))}; the fields are "
-                         f"{', '.join(SURROUNDINGS_FIELDS)}", field=", ".join(sorted(unknown)),
-                         rule="a field of Surroundings", value=sorted(unknown))
+    keywords = dict(air_temperature=air_temperature, pressure=pressure, wind_speed=wind_speed,
+                    wind_direction=wind_direction, relative_humidity=relative_humidity,
+                    surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction,
+                    sky_temperature=sky_temperature, ground_temperature=ground_temperature,
+                    solar_irradiance=solar_irradiance)
     given = {name: value for name, value in keywords.items() if value is not None}
     if surroundings is not None:
         if not isinstance(surroundings, Surroundings):

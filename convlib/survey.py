@@ -257,19 +257,22 @@ def read_survey(source, first_index: int = 0) -> tuple[SurveyLines, list[RowErro
 
 
 def effective_conductivity(pipe_outer_diameter, fluid_temperature, insulation_thickness, surface_temperature, *,
-                           air_temperature, jacket_emissivity=0.9, wind_speed=0.0, **outer_options):
+                           jacket_emissivity=0.9, solar_absorptivity=None, convection_coefficient=None,
+                           surroundings=None, air_temperature=None, wind_speed=None, surroundings_temperature=None,
+                           sky_view_fraction=None, sky_temperature=None, solar_irradiance=None, pressure=None):
     """Effective conductivity of the insulation from a measured jacket temperature, and the heat flow now.
 
     Parameters
     ----------
     pipe_outer_diameter, insulation_thickness : numeric
         [m]
-    fluid_temperature, surface_temperature, air_temperature : numeric
+    fluid_temperature, surface_temperature : numeric
         [K]; the surface between air and fluid.
-    jacket_emissivity, wind_speed : numeric
-        At the survey [-], [m/s].
-    **outer_options
-        Passed to :func:`convlib.surface.bare_surface` (sky_view_fraction, pressure, ...).
+    jacket_emissivity, solar_absorptivity, convection_coefficient : numeric
+        Of the jacket at the survey, as in :func:`convlib.surface.bare_surface`.
+    surroundings, air_temperature, wind_speed, surroundings_temperature, sky_view_fraction, sky_temperature,
+    solar_irradiance, pressure
+        The surroundings at the survey (:class:`convlib.surroundings.Surroundings`), or its fields as keywords.
 
     Returns
     -------
@@ -290,8 +293,13 @@ def effective_conductivity(pipe_outer_diameter, fluid_temperature, insulation_th
     tf = as_array("fluid_temperature", fluid_temperature, unit="K", low=0.0, low_inclusive=False)
     ts = as_array("surface_temperature", surface_temperature, unit="K", low=0.0, low_inclusive=False)
     outer = d + 2.0 * t
-    q = bare_surface("horizontal_cylinder", surface_temperature=ts, air_temperature=air_temperature, diameter=outer,
-                     length=1.0, wind_speed=wind_speed, emissivity=jacket_emissivity, **outer_options).q_per_length
+    q = bare_surface("horizontal_cylinder", surface_temperature=ts, diameter=outer, length=1.0,
+                     emissivity=jacket_emissivity, solar_absorptivity=solar_absorptivity,
+                     convection_coefficient=convection_coefficient, surroundings=surroundings,
+                     air_temperature=air_temperature, wind_speed=wind_speed,
+                     surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction,
+                     sky_temperature=sky_temperature, solar_irradiance=solar_irradiance,
+                     pressure=pressure).q_per_length
     drop = tf - ts
     with np.errstate(divide="ignore", invalid="ignore"):
         k = q * np.log(outer / d) / (2.0 * np.pi * drop)

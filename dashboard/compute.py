@@ -505,15 +505,15 @@ def operation_view(case: CaseSpec, inputs: OperationInputs, sweep_input: str = "
     else:
         sp, st, sf = profile(thickness=grid), tracing(thickness=grid), freeze(thickness=grid)
         current = (case.insulation_thickness, case.insulation_thickness)
-    seconds = lambda hours: np.where(np.isfinite(hours), 3600.0 * np.asarray(hours, float), np.nan)  # noqa: E731
+    seconds = lambda t: np.where(np.isfinite(t), np.asarray(t, float), np.nan)  # noqa: E731
     notes = tuple(dict.fromkeys((*t.notes, *f.notes)))
     cautions = (*f.cautions, *t.cautions)
     if steam:  # saturated all along: the profile is flat at the saturation temperature
         t_sat = _item(p.saturation_temperature)
         position, temperature = np.array([0.0, case.length]), np.full(2, t_sat)
-        outlet, condensate = t_sat, _item(p.condensate_rate) / 3600.0
+        outlet, condensate = t_sat, _item(p.condensate_rate)
         sweep_outlet, sweep_condensate = np.asarray(sp.saturation_temperature, float), np.asarray(
-            sp.condensate_rate, float) / 3600.0
+            sp.condensate_rate, float)
         cautions = (*p.cautions, *cautions)
         if abs(case.fluid_temperature - t_sat) > 0.5:
             notes = (f"saturated steam at the pressure given is at {t_sat - 273.15:.1f} degC: the steam results use "
@@ -531,12 +531,12 @@ def operation_view(case: CaseSpec, inputs: OperationInputs, sweep_input: str = "
         temperature=temperature, outlet_temperature=outlet, condensate_rate=condensate,
         q_total=_item(p.q_total), tracing_loss_per_length=_item(t.heat_loss_per_length),
         tracing_per_length=_item(t.duty_per_length), tracing_total=_item(t.duty_total),
-        time_to_freezing_point=3600.0 * _item(f.hours_to_freezing_point),
-        time_to_frozen=3600.0 * _item(f.hours_total),
+        time_to_freezing_point=_item(f.time_to_freezing_point),
+        time_to_frozen=_item(f.time_total),
         never_freezes=bool(np.asarray(f.never_freezes).ravel()[0]), sweep_input=sweep_input, sweep_values=grid,
         sweep_outlet=sweep_outlet, sweep_condensate=sweep_condensate,
         sweep_tracing=np.asarray(st.duty_per_length, float),
-        sweep_freezing_point=seconds(sf.hours_to_freezing_point), sweep_frozen=seconds(sf.hours_total),
+        sweep_freezing_point=seconds(sf.time_to_freezing_point), sweep_frozen=seconds(sf.time_total),
         current_operating=float(current[0]), current_design=float(current[1]), notes=notes, cautions=cautions)
 
 

@@ -59,17 +59,17 @@ def test_freeze_time_finite_or_never_freezes_flag(d, wall_fraction, t0, ta, laye
         return
     never = np.asarray(out.never_freezes)
     # times and curves are finite where the line freezes; "never" is the flag, with a note saying so
-    assert_finite(out, skip=("hours_to_freezing_point", "hours_to_freeze_solid", "hours_total", "curve_hours",
+    assert_finite(out, skip=("time_to_freezing_point", "time_to_freeze_solid", "time_total", "curve_time",
                              "curve_temperature"))
-    for name in ("hours_to_freezing_point", "hours_to_freeze_solid", "hours_total"):
+    for name in ("time_to_freezing_point", "time_to_freeze_solid", "time_total"):
         hours = np.asarray(getattr(out, name))
         assert np.all(np.isfinite(hours) | never), name
         assert np.all(hours[~never] >= 0), name
-    assert np.all(np.isfinite(out.curve_hours) | never)
+    assert np.all(np.isfinite(out.curve_time) | never)
     if never.any():
         assert any("no freezing" in n for n in out.notes)
     else:
-        assert float(out.hours_total) >= float(out.hours_to_freezing_point)
+        assert float(out.time_total) >= float(out.time_to_freezing_point)
 
 
 @slow

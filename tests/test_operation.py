@@ -375,7 +375,7 @@ def test_random_minimum_flows_put_the_outlet_on_the_limit():
 def test_condensate_rate_from_steam_tables():
     # IAPWS-IF97 steam tables (e.g. Cengel, Table A-5, from memory): h_fg = 2256.5 kJ/kg at 101.325 kPa,
     # 2014.6 kJ/kg and Tsat = 179.88 C at 1000 kPa; 1 kW lost condenses 3600 kJ/h / h_fg.
-    np.testing.assert_allclose(op.condensate_rate([1000.0, 1000.0], [101325.0, 1.0e6]),
+    np.testing.assert_allclose(3600.0 * op.condensate_rate([1000.0, 1000.0], [101325.0, 1.0e6]),  # kg/s -> kg/h
                                [3600.0 / 2256.5, 3600.0 / 2014.6], rtol=2e-4)
     s = op.steam_line(0.1143, 1.0e6, air_temperature=273.15)
     assert float(s.saturation_temperature) == pytest.approx(179.88 + 273.15, abs=0.02)
@@ -391,7 +391,7 @@ def test_steam_line_is_the_pipe_at_saturation():
     q = cl.insulated_pipe(0.1143, t_sat, [Layer(0.08, 0.045)], air_temperature=273.15, jacket_emissivity=0.1)
     assert float(s.saturation_temperature) == pytest.approx(t_sat, abs=1e-6)
     assert float(s.q_total) == pytest.approx(250.0 * float(q.q_per_length), rel=1e-6)
-    assert float(s.condensate_rate) == pytest.approx(3600 * float(s.q_total) / h_fg, rel=1e-9)
+    assert float(s.condensate_rate) == pytest.approx(float(s.q_total) / h_fg, rel=1e-9)  # kg/s
     assert s.cautions
 
 
@@ -445,14 +445,14 @@ def test_freeze_time_constant_coefficient_matches_hand_calculation(wind):
     water = PropsSI("D", "T", t0, "P", 101325.0, "Water") * math.pi * bore ** 2 / 4
     steel = 7800.0 * 450.0 * math.pi * (d ** 2 - bore ** 2) / 4  # steel, DIN EN 12524 (test below)
     sensible, solid = _hand_freeze(u, water, water * cw + steel, t0, 273.15, ta, L_FUSION)
-    assert float(f.hours_to_freezing_point) == pytest.approx(sensible, rel=1e-6)
-    assert float(f.hours_to_freeze_solid) == pytest.approx(solid, rel=1e-6)
-    assert float(f.hours_total) == pytest.approx(sensible + solid, rel=1e-6)
+    assert float((f.time_to_freezing_point / 3600)) == pytest.approx(sensible, rel=1e-6)
+    assert float((f.time_to_freeze_solid / 3600)) == pytest.approx(solid, rel=1e-6)
+    assert float((f.time_total / 3600)) == pytest.approx(sensible + solid, rel=1e-6)
     # cooling curve: T(t) = Ta + (T0 - Ta) exp(-U' t / C') (analytic), last point frozen solid at 0 C
-    t = f.curve_hours[:-1] * 3600
+    t = f.curve_time[:-1]
     np.testing.assert_allclose(f.curve_temperature[:-1] - ta, (t0 - ta) * np.exp(-u * t / (water * cw + steel)),
                                rtol=1e-6)
-    assert f.curve_temperature[-1] == 273.15 and f.curve_hours[-1] == pytest.approx(sensible + solid, rel=1e-6)
+    assert f.curve_temperature[-1] == 273.15 and f.curve_time[-1] / 3600 == pytest.approx(sensible + solid, rel=1e-6)
     assert any("no substitute for draining or heat tracing" in c for c in f.cautions)
 
 
@@ -472,19 +472,19 @@ def test_freeze_time_lies_between_constant_coefficient_bounds():
     assert float(f.heat_capacity_per_length) == pytest.approx(capacity, rel=5e-4)  # density from the 1 K table
     fast, _ = _hand_freeze(u0, 1.0, capacity, t0, 273.15, ta, 0.0)
     slow, _ = _hand_freeze(uf, 1.0, capacity, t0, 273.15, ta, 0.0)
-    assert fast < float(f.hours_to_freezing_point) < slow
+    assert fast < float((f.time_to_freezing_point / 3600)) < slow
     assert float(f.water_mass_per_length) == pytest.approx(water, rel=5e-4)
-    assert float(f.hours_to_freeze_solid) == pytest.approx(water * L_FUSION / q[1] / 3600, rel=5e-4)
-    assert np.all(np.diff(f.curve_hours) > 0) and np.all(np.diff(f.curve_temperature) <= 0)
+    assert float((f.time_to_freeze_solid / 3600)) == pytest.approx(water * L_FUSION / q[1] / 3600, rel=5e-4)
+    assert np.all(np.diff(f.curve_time) > 0) and np.all(np.diff(f.curve_temperature) <= 0)
 
 
 def test_freeze_time_never_when_the_line_stays_above_freezing_and_vectorized():
     f = op.freeze_time(0.0603, 0.00391, [283.15, 283.15, 273.15], [Layer(0.025, 0.04)],
                        air_temperature=[258.15, 278.15, 258.15])
-    assert np.isinf(f.hours_total[1]) and f.never_freezes.tolist() == [False, True, False]
-    assert f.hours_to_freezing_point[2] == 0.0 and f.hours_to_freeze_solid[2] > 0  # starts at 0 C
+    assert np.isinf((f.time_total[1] / 3600)) and f.never_freezes.tolist() == [False, True, False]
+    assert (f.time_to_freezing_point[2] / 3600) == 0.0 and (f.time_to_freeze_solid[2] / 3600) > 0  # starts at 0 C
     alone = op.freeze_time(0.0603, 0.00391, 283.15, [Layer(0.025, 0.04)], air_temperature=258.15)
-    assert float(f.hours_total[0]) == pytest.approx(float(alone.hours_total), rel=1e-6)
+    assert float((f.time_total[0] / 3600)) == pytest.approx(float(alone.time_total / 3600), rel=1e-6)
     assert f.notes
 
 
