@@ -372,7 +372,7 @@ def bench_small_solves(cfg: Config) -> Row:
 
     from convlib.pipe import Layer
     from convlib.roots import find_root
-    from convlib.surface import OuterSurface
+    from convlib.surface import POINT_FIELDS as POINTS, OuterSurface
 
     n_calls = cfg.size(200)
     wind = np.linspace(0.0, 15.0, 31)
@@ -382,9 +382,9 @@ def bench_small_solves(cfg: Config) -> Row:
     per_flux = np.pi * (0.219 + 0.2)
 
     def residual(ts, tf_, *point):
-        return (tf_ - ts) / resistance - per_flux * outer.exchange(ts, *point, flux_only=True)
+        return (tf_ - ts) / resistance - per_flux * outer.exchange(ts, dict(zip(POINTS, point)), flux_only=True)
 
-    args = (tf, *(np.broadcast_to(a, wind.shape) for a in outer.point_arrays()))
+    args = (tf, *(np.broadcast_to(a, wind.shape) for a in outer.point_fields().values()))
     lo, hi = np.full(wind.shape, 267.0), np.full(wind.shape, 389.0)
     answers = {}
 

@@ -27,10 +27,10 @@ import numpy as np
 from .conductivity import Conductivity
 from .errors import InputError
 from .regimes import Flag
-from .roots import find_root
 from .surface import OuterSurface, SurfaceResult, check_cross_flow, property_range_named
 from .surroundings import Surroundings, resolve
 from .validation import LAYER_THICKNESS_MAX, as_array, as_bounded, as_size
+from .wall import solve_face
 
 __all__ = ["Layer", "PipeResult", "insulated_pipe"]
 
@@ -196,41 +196,13 @@ def insulated_pipe(
                              rule="less than half the pipe_outer_diameter", value=float(np.max(wall)))
         r_wall = _drops(0.5 * d_pipe - wall, 0.5 * d_pipe) / k_wall
         r_fixed = r_fixed + r_wall
-    drops = [_drops(radii[j], radii[j + 1]) for j in range(len(layers))]
-    all_constant = all(layer.conductivity.is_constant for layer in layers)
-
-    shape = np.broadcast_shapes(tf.shape, d_out.shape, np.shape(r_fixed), *(o.shape for o in outer.point_arrays()),
-                                *(np.shape(layer.conductivity.constant_value) for layer in layers
-                                  if layer.conductivity.is_constant))
-    full = lambda a: np.broadcast_to(np.asarray(a, dtype=float), shape)  # noqa: E731
-    if all_constant:
-        # one lumped resistance: film + wall + layers in series
-        r_inside = r_fixed + sum((d / layer.conductivity.constant_value for d, layer in zip(drops, layers)),
-                                 np.zeros(()))
-        layer_args = ()
-    else:
-        r_inside = r_fixed
-        layer_args = tuple(full(d) for d in drops)
-    n_layer_args = len(layer_args)
-    args = (full(tf), full(r_inside), full(d_out), *layer_args, *(full(a) for a in outer.point_arrays()))
-
-    def residual(ts, tf_, r_inside_, d_, *rest):
-        layer_drops, point = rest[:n_layer_args], rest[n_layer_args:]
-        q_out = outer.exchange(ts, *point, flux_only=True) * np.pi * d_
-        if all_constant:
-            with np.errstate(divide="ignore", invalid="ignore"):
-                q_in = (tf_ - ts) / r_inside_
-        else:
-            q_in = _stack_flow(ts, tf_, r_inside_, layer_drops, layers)
-        return q_in - q_out
-
-    # A point with no resistance at all (bare pipe, no film, no wall) sits at the fluid temperature.
-    no_resistance = np.broadcast_to(np.asarray(r_fixed) <= 0, shape)
-    for layer in layers:
-        no_resistance = no_resistance & (layer.thickness <= 0)
     with property_range_named("fluid_temperature, air_temperature"):
-        ts, converged = _solve_surface(residual, args, outer, tolerance, no_resistance)
+        solved = solve_face(outer, tf, layers, kind="cylinder", inner_diameter=d_pipe, fixed_resistance=r_fixed,
+                            tolerance=tolerance)
+        ts, converged = solved.surface_temperature, solved.converged
         exchange = outer.exchange(ts)
+    shape = ts.shape
+    drops = solved.drops
     surface = outer.result(exchange)
     q_line = surface.q_per_length  # per metre of pipe (run length = length)
 
@@ -265,86 +237,3 @@ def insulated_pipe(
                       outer_diameter=np.broadcast_to(d_out, shape).copy(),
                       interface_temperatures=np.stack([np.broadcast_to(x, shape) for x in temps]),
                       interface_names=tuple(names), converged=np.broadcast_to(converged, shape).copy())
-
-
-def _stack_flow(ts, tf, r_inside, drops, layers):
-    """q' [W/m] through film, wall and layers with temperature-dependent conductivity.
-
-    Marches from the fluid outwards through the layers in their order (each through
-    its Kirchhoff potential, see :mod:`convlib.conductivity`) and finds, by a
-    bracketed solve, the q' whose march ends at the surface temperature ``ts``.
-    The march's end temperature falls strictly as q' rises, so that q' is unique.
-    """
-    def end_temperature(q, tf_, ts_, r_inside_, *drops_):
-        t = tf_ - q * r_inside_
-        for layer, drop in zip(layers, drops_):
-            t = layer.conductivity.temperature_after(t, q * drop)
-        return t - ts_
-
-    # bracket from the extreme conductivities of each layer's data
-    k_min, k_max = [], []
-    for layer in layers:
-        c = layer.conductivity
-        k = c.constant_value if c.is_constant else c.at(np.linspace(*np.clip(c.valid_range, 1.0, 3000.0), 64))
-        k_min.append(k.min())
-        k_max.append(k.max())
-    r_low = r_inside + sum(d / k for d, k in zip(drops, k_max))
-    r_high = r_inside + sum(d / k for d, k in zip(drops, k_min))
-    q_a, q_b = (tf - ts) / r_low, (tf - ts) / r_high
-    q_lo = np.minimum(q_a, q_b) - 1e-9 * np.abs(q_a) - 1e-12
-    q_hi = np.maximum(q_a, q_b) + 1e-9 * np.abs(q_a) + 1e-12
-    res = find_root(end_temperature, q_lo, q_hi, args=(tf, ts, r_inside, *drops), xatol=1e-12, xrtol=1e-13)
-    # A failed solve is never passed on as a number: NaN makes the surface solve drop the point and report it.
-    return np.where(res.success, res.x, np.nan)
-
-
-def _solve_surface(residual, args, outer, tolerance, direct):
-    """Bracket and solve residual(ts, *args) = 0 for every point; returns (ts, converged).
-
-    A point the solver cannot settle (including one whose residual is NaN because an inner solve failed)
-    raises ``InputError``: what is returned has converged everywhere.
-
-    ``direct`` marks points without resistance: their surface is at the fluid temperature.
-    """
-    tf = args[0]
-    ta = np.broadcast_to(outer.air_temperature, tf.shape)
-    env = [ta, np.broadcast_to(outer.surroundings_temperature, tf.shape),
-           np.broadcast_to(outer.sky_temperature, tf.shape)]
-    lo = np.minimum.reduce([tf, *env])
-    hi = np.maximum.reduce([tf, *env])
-    if np.any(direct):
-        lo, hi = np.where(direct, tf - 1.0, lo), np.where(direct, tf + 1.0, hi)
-    # Sun can lift a surface above everything around it: widen the top of the bracket.
-    solar = np.broadcast_to(outer.solar_per_area, tf.shape)
-    hi = hi + np.where(solar > 0, solar / 2.0, 0.0) + 0.5
-    lo = np.maximum(lo - 0.5, 0.5 * lo)
-    with np.errstate(all="ignore"):
-        res = find_root(residual, lo, hi, args=args, xatol=tolerance, xrtol=0.0)
-        x, success = np.array(res.x, dtype=float), np.array(res.success, dtype=bool)
-        lo, hi = np.array(lo, dtype=float), np.array(hi, dtype=float)
-        # Widen the few brackets that held no sign change (strong sun, odd surroundings) and retry them;
-        # a point whose residual is not finite at its bracket (an inner solve failed) is not widened but reported.
-        stuck = np.zeros_like(success)
-        for _ in range(6):
-            bad = ~success & ~direct & ~stuck
-            if not bad.any():
-                break
-            part = tuple(a[bad] for a in args)
-            finite = np.isfinite(residual(lo[bad], *part)) & np.isfinite(residual(hi[bad], *part))
-            stuck[bad] = ~finite
-            bad = ~success & ~direct & ~stuck
-            if not bad.any():
-                break
-            width = hi[bad] - lo[bad]
-            lo_b, hi_b = np.maximum(lo[bad] - width, 0.5 * lo[bad]), hi[bad] + width
-            lo[bad], hi[bad] = lo_b, hi_b
-            retry = find_root(residual, lo_b, hi_b, args=tuple(a[bad] for a in args), xatol=tolerance, xrtol=0.0)
-            x[bad], success[bad] = retry.x, retry.success
-    ts = np.where(direct, tf, x)
-    converged = direct | success
-    if not np.all(converged):
-        bad = np.flatnonzero(~converged.ravel())[:3]
-        raise InputError(f"outer surface temperature could not be found at {np.count_nonzero(~converged)} "
-                         f"point(s) (first indices {bad.tolist()}); check the inputs there", field="inputs",
-                         rule="a combination whose outer surface temperature the solver finds", value=bad.tolist())
-    return ts, converged

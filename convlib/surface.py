@@ -22,7 +22,7 @@ from .regimes import Flag, convection_mode, flow_names, flow_regime, mode_names,
 from .validation import (CONVECTION_COEFFICIENT_MAX, CONVECTION_FACTOR_MAX, MIXING_EXPONENT_RANGE,
                          SOLAR_IRRADIANCE_MAX, WIND_SPEED_MAX, as_array, as_bounded, as_size, check_choice)
 
-__all__ = ["GRAVITY", "SurfaceResult", "OuterSurface", "bare_surface"]
+__all__ = ["GRAVITY", "POINT_FIELDS", "SurfaceResult", "OuterSurface", "bare_surface"]
 
 #: Standard acceleration of gravity [m/s2] (CGPM 1901, exact by definition).
 GRAVITY = 9.80665
@@ -88,8 +88,8 @@ class SurfaceResult:
         return {f.name: getattr(self, f.name) for f in fields(self)}
 
 
-#: Per-point inputs of :meth:`OuterSurface.exchange`, in the order solvers pass them.
-_POINT_FIELDS = ("air_temperature", "wind_speed", "emissivity", "surroundings_temperature", "sky_view_fraction",
+#: Per-point inputs of :meth:`OuterSurface.exchange`, by name (:meth:`OuterSurface.point_fields`).
+POINT_FIELDS = ("air_temperature", "wind_speed", "emissivity", "surroundings_temperature", "sky_view_fraction",
                  "sky_temperature", "solar_per_area", "pressure", "mixing_exponent", "natural_length",
                  "forced_length", "diameter_over_length", "convection_factor", "given_coefficient")
 
@@ -183,22 +183,27 @@ class OuterSurface:
                 accepted=(0.0, CONVECTION_COEFFICIENT_MAX)),
         )
 
-    def point_arrays(self) -> tuple[np.ndarray, ...]:
-        """The per-point inputs of :meth:`exchange`, in its argument order."""
-        return tuple(getattr(self, name) for name in _POINT_FIELDS)
+    def point_fields(self) -> dict[str, np.ndarray]:
+        """The per-point inputs of :meth:`exchange` by name (:data:`POINT_FIELDS`)."""
+        return {name: getattr(self, name) for name in POINT_FIELDS}
 
-    def exchange(self, surface_temperature, *point_arrays, flux_only: bool = False):
+    def exchange(self, surface_temperature, point: dict | None = None, *, flux_only: bool = False):
         """Heat exchange per unit area at ``surface_temperature`` [K] (no input checks).
 
-        ``point_arrays`` default to :meth:`point_arrays`; a solver passes subsets of them.
+        ``point`` holds the per-point inputs by name, default :meth:`point_fields`; a solver passes
+        subsets of them (the points still searching).
         Returns a dict of arrays: the :class:`SurfaceResult` fields that do not depend
         on the area (``q_per_area``, ``q_convection_per_area``, ``q_radiation_per_area``, ...);
         with ``flux_only`` just the net flux ``q_per_area`` [W/m2] (a solver's residual:
         no flags, regimes or derived coefficients).
         """
         check = not flux_only
-        (ta, wind, eps, tsur, fraction, t_sky, solar, p, n_mix, l_nat, l_frc,
-         ratio, factor, given) = point_arrays or self.point_arrays()
+        pt = self.point_fields() if point is None else point
+        ta, wind, eps, tsur, fraction = (pt["air_temperature"], pt["wind_speed"], pt["emissivity"],
+                                         pt["surroundings_temperature"], pt["sky_view_fraction"])
+        t_sky, solar, p, n_mix = pt["sky_temperature"], pt["solar_per_area"], pt["pressure"], pt["mixing_exponent"]
+        l_nat, l_frc, ratio = pt["natural_length"], pt["forced_length"], pt["diameter_over_length"]
+        factor, given = pt["convection_factor"], pt["given_coefficient"]
         ts = surface_temperature
         info = SHAPES[self.shape]
         nat_hot = corr.get(info.natural_geometry, self.natural)

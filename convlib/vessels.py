@@ -50,13 +50,14 @@ import numpy as np
 from .correlations.mixed import combine, default_mixing_exponent
 from .design import COMMERCIAL_THICKNESSES, listed_thickness
 from .errors import InputError
-from .pipe import Layer, _solve_surface, _stack_flow
+from .pipe import Layer
 from .properties import fluid_properties
 from .radiation import SKY_VIEW_FRACTION_TYPICAL
 from .regimes import Flag, convection_mode
 from .roots import find_root
 from .surface import GRAVITY, OuterSurface, SurfaceResult
 from .validation import as_array, as_size, check_choice
+from .wall import layer_drops, shell_drop, solve_face
 
 __all__ = ["GROUND_CONDUCTIVITY", "FLOORS", "WIND_DIRECTIONS", "SQUARE_CYLINDER_RE_RANGE", "Face", "FacesResult",
            "disc_as_plate", "vertical_tank", "spherical_tank", "rectangular_duct", "FaceThickness",
@@ -134,69 +135,11 @@ def _sky(outdoor, shape):
     return SKY_VIEW_FRACTION_TYPICAL[shape] if outdoor else 0.0
 
 
-def _shell_drop(kind, r1, r2):
-    """Conduction resistance times conductivity of a shell from radius r1 to r2: ln(r2/r1)/(2 pi) per metre
-    of a cylinder, (1/r1 - 1/r2)/(4 pi) of a whole sphere (Incropera et al., 6th ed., eqs. 3.28 and 3.36)."""
-    if kind == "cylinder":
-        return np.log(r2 / r1) / (2.0 * np.pi)
-    return (1.0 / r1 - 1.0 / r2) / (4.0 * np.pi)
-
-
-def _layer_drops(layers, kind, inner_diameter):
-    """Per-layer conduction factors (:func:`_shell_drop`; thickness per m2 of a flat face) and the outer diameter."""
-    drops, radius = [], 0.5 * inner_diameter
-    for layer in layers:
-        if not isinstance(layer, Layer):
-            raise InputError(f"layers must be Layer objects (thickness, conductivity); got {layer!r}", field="layers",
-                             rule="Layer objects", value=layer)
-        if kind == "flat":
-            drops.append(layer.thickness)
-        else:
-            drops.append(_shell_drop(kind, radius, radius + layer.thickness))
-            radius = radius + layer.thickness
-    return drops, 2.0 * radius
-
-
 def _solve_face(outer, fluid_temperature, layers, kind, inner_diameter, tolerance, fixed_resistance=0.0):
-    """Outer surface temperature [K] of a face with layers, the fluid inside at ``fluid_temperature``.
-
-    Conduction through the layers (cylindrical per metre, spherical for the whole shell, or flat
-    per m2), after ``fixed_resistance`` (inner film and shell, same basis), balances the outer
-    exchange, solved for all points at once by the bracketed solver of :mod:`convlib.pipe`.
-    """
-    drops, outer_diameter = _layer_drops(layers, kind, inner_diameter)
-    per_flux = {"cylinder": np.pi * outer_diameter, "sphere": np.pi * outer_diameter ** 2}.get(kind, np.ones(()))
-    constant = all(layer.conductivity.is_constant for layer in layers)
-    shape = np.broadcast_shapes(np.shape(fluid_temperature), np.shape(per_flux), *(np.shape(d) for d in drops),
-                                *(o.shape for o in outer.point_arrays()),
-                                *(np.shape(layer.conductivity.constant_value) for layer in layers
-                                  if layer.conductivity.is_constant))
-    full = lambda a: np.broadcast_to(np.asarray(a, dtype=float), shape)  # noqa: E731
-    fixed = np.asarray(fixed_resistance, dtype=float)
-    shape = np.broadcast_shapes(shape, fixed.shape)
-    if constant:
-        resistance = sum((d / layer.conductivity.constant_value for d, layer in zip(drops, layers)), fixed)
-        layer_args = (full(resistance),)
-    else:
-        layer_args = (full(fixed), *(full(d) for d in drops))
-    n_layer = len(layer_args)
-
-    def residual(ts, tf, scale, *rest):
-        layer_part, point = rest[:n_layer], rest[n_layer:]
-        q_out = outer.exchange(ts, *point, flux_only=True) * scale
-        if constant:
-            with np.errstate(divide="ignore", invalid="ignore"):
-                q_in = (tf - ts) / layer_part[0]
-        else:
-            q_in = _stack_flow(ts, tf, layer_part[0], layer_part[1:], layers)
-        return q_in - q_out
-
-    direct = np.broadcast_to(fixed <= 0, shape).copy()
-    for layer in layers:
-        direct = direct & (layer.thickness <= 0)
-    args = (full(fluid_temperature), full(per_flux), *layer_args, *(full(a) for a in outer.point_arrays()))
-    ts, _ = _solve_surface(residual, args, outer, tolerance, np.broadcast_to(direct, shape))
-    return ts, outer_diameter
+    """Outer surface temperature [K] and outer diameter of a face with layers: :func:`convlib.wall.solve_face`."""
+    solved = solve_face(outer, fluid_temperature, layers, kind=kind, inner_diameter=inner_diameter,
+                        fixed_resistance=fixed_resistance, tolerance=tolerance)
+    return solved.surface_temperature, solved.outer_diameter
 
 
 def _film(inner_coefficient):
@@ -339,7 +282,7 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
         return _solve_face(outer, inner, layers, kind, inner_diameter, tolerance, fixed)
 
     # wall: a vertical cylinder of the insulated outer diameter (the film per metre: 1/(h_i pi D))
-    _, d_wall = _layer_drops(wall_layers, "cylinder", d)
+    _, d_wall = layer_drops(wall_layers, "cylinder", d)
     wall = OuterSurface.build("vertical_cylinder", diameter=d_wall, length=h,
                               sky_view_fraction=_sky(outdoor, "vertical_cylinder"), **common)
     ts_wall, _ = solve(wall, wall_layers, "cylinder", d, film / (np.pi * d))
@@ -432,11 +375,11 @@ def spherical_tank(diameter, *, air_temperature, surface_temperature=None, fluid
                              field="wall_thickness", rule="less than half the diameter", value=t)
         k_wall = as_array("wall_conductivity", wall_conductivity, unit="W/m/K", low=0.0, low_inclusive=False)
         d_inner = d - 2.0 * t
-        fixed = fixed + _shell_drop("sphere", 0.5 * d_inner, 0.5 * d) / k_wall
+        fixed = fixed + shell_drop("sphere", 0.5 * d_inner, 0.5 * d) / k_wall
     fixed = fixed + _film(inner_coefficient) / (np.pi * d_inner ** 2)
     inner = _known_temperature(surface_temperature, fluid_temperature, "shell", layers=layers,
                                wall_thickness=wall_thickness, inner_coefficient=inner_coefficient)
-    _, d_out = _layer_drops(layers, "sphere", d)
+    _, d_out = layer_drops(layers, "sphere", d)
     outer = OuterSurface.build("sphere", diameter=d_out, air_temperature=air_temperature, wind_speed=wind_speed,
                                emissivity=emissivity, surroundings_temperature=surroundings_temperature,
                                sky_view_fraction=_sky(outdoor, "sphere"), sky_temperature=sky_temperature,
@@ -683,7 +626,7 @@ def rectangular_duct(width, height, length, *, air_temperature, surface_temperat
     fixed = _film(inner_coefficient)
     inner = _known_temperature(surface_temperature, fluid_temperature, "duct", layers=layers,
                                inner_coefficient=inner_coefficient)
-    _layer_drops(layers, "flat", w)  # checks the layers
+    layer_drops(layers, "flat", w)  # checks the layers
     grow = sum((2.0 * layer.thickness for layer in layers), np.zeros(()))
     w_out, h_out = w + grow, h + grow
     across = wind_direction == "across" and convection_coefficient is None

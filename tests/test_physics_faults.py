@@ -225,8 +225,8 @@ def _failing(real, name):
 
 def test_failed_layer_stack_solve_is_reported_not_used(monkeypatch):
     """A failed inner heat-flow solve (k(T) layers) used to be passed on as a number; now the point is refused."""
-    from convlib import pipe
-    monkeypatch.setattr(pipe, "find_root", _failing(pipe.find_root, "end_temperature"))
+    from convlib import wall  # the one wall solver (convlib.wall) holds the layered-flow solve
+    monkeypatch.setattr(wall, "find_root", _failing(wall.find_root, "end_temperature"))
     k = Conductivity.table(*BLANKET)
     with pytest.raises(cl.InputError, match="could not be found"):
         cl.insulated_pipe(D4, 673.15, [Layer(0.05, k)], air_temperature=TA)
