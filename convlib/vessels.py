@@ -47,6 +47,8 @@ from typing import NamedTuple
 
 import numpy as np
 
+from . import correlations as corr
+from .correlations.forced import nusselt_square_cylinder_crossflow_jakob
 from .correlations.mixed import combine, default_mixing_exponent
 from .design import COMMERCIAL_THICKNESSES, listed_thickness
 from .errors import InputError
@@ -57,6 +59,7 @@ from .regimes import Flag, convection_mode
 from .roots import find_root
 from .surface import GRAVITY, OuterSurface, SurfaceResult
 from .validation import as_array, as_size, check_choice
+from .surroundings import Surroundings, resolve
 from .wall import layer_drops, shell_drop, solve_face
 
 __all__ = ["GROUND_CONDUCTIVITY", "FLOORS", "WIND_DIRECTIONS", "SQUARE_CYLINDER_RE_RANGE", "Face", "FacesResult",
@@ -73,7 +76,7 @@ FLOORS = ("ground", "open", "none")
 WIND_DIRECTIONS = ("along", "across")
 
 #: Reynolds range of the square-cylinder constants (Jakob 1949, as in Incropera et al., 6th ed., Table 7.3).
-SQUARE_CYLINDER_RE_RANGE = (5.0e3, 1.0e5)
+SQUARE_CYLINDER_RE_RANGE = corr.get("square_cylinder_crossflow", "jakob").re_range
 
 
 @dataclass(frozen=True)
@@ -131,8 +134,11 @@ def disc_as_plate(diameter):
     return np.pi * d / 4.0, np.pi * d / (2.0 * (np.pi - 2.0))
 
 
-def _sky(outdoor, shape):
-    return SKY_VIEW_FRACTION_TYPICAL[shape] if outdoor else 0.0
+def _sky(outdoor, shape, around=None):
+    """Sky view fraction of a face: typical for its orientation outdoors, else the surroundings' (0 indoors)."""
+    if outdoor:
+        return SKY_VIEW_FRACTION_TYPICAL[shape]
+    return 0.0 if around is None else around.sky_view_fraction
 
 
 def _solve_face(outer, fluid_temperature, layers, kind, inner_diameter, tolerance, fixed_resistance=0.0):
@@ -187,20 +193,17 @@ def _total(faces, notes):
     return FacesResult(faces=tuple(faces), q_total=total, area=area, notes=tuple(notes))
 
 
-def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None, fluid_temperature=None,
-                  wall_layers=(), roof_layers=(), floor="ground", floor_layers=(), emissivity=0.9, wind_speed=0.0,
-                  outdoor=False, sky_temperature=None, surroundings_temperature=None, ground_temperature=None,
-                  ground_conductivity=GROUND_CONDUCTIVITY, inner_coefficient=None, pressure=101325.0,
-                  exact_properties=False, convection_factor=1.0, convection_coefficient=None,
-                  tolerance=1e-6) -> FacesResult:
+def vertical_tank(diameter, height, *, surface_temperature=None, fluid_temperature=None,
+                  wall_layers=(), roof_layers=(), floor="ground", floor_layers=(), emissivity=0.9,
+                  outdoor=False, ground_temperature=None, ground_conductivity=GROUND_CONDUCTIVITY,
+                  inner_coefficient=None, exact_properties=False, convection_factor=1.0, convection_coefficient=None,
+                  tolerance=1e-6, surroundings: Surroundings | None = None, air_temperature=None, wind_speed=None, surroundings_temperature=None, sky_view_fraction=None, sky_temperature=None, solar_irradiance=None, pressure=None) -> FacesResult:
     r"""Heat lost (or gained) by a vertical cylindrical tank, face by face.
 
     Parameters
     ----------
     diameter, height : numeric
         Tank diameter and wall height [m] (of the shell; layers add outside).
-    air_temperature : numeric
-        Ambient air temperature [K].
     surface_temperature : numeric, optional
         Known temperature of every face [K] (a bare tank); no layers then.
     fluid_temperature : numeric, optional
@@ -214,12 +217,10 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
         (plate facing down), or left out of the total.
     emissivity : numeric
         Long-wave emissivity of the outer surfaces (bare shell or jacket) [-].
-    wind_speed : numeric
-        Horizontal wind [m/s]: across the wall, along roof and open floor.
     outdoor : bool
         Sky view per face from :data:`convlib.radiation.SKY_VIEW_FRACTION_TYPICAL` (wall 0.5,
-        roof 1, open floor 0); indoors 0. No solar gain (night-time design).
-    sky_temperature, surroundings_temperature, pressure, exact_properties, convection_factor, convection_coefficient
+        roof 1, open floor 0). The wind is horizontal: across the wall, along roof and open floor.
+    exact_properties, convection_factor, convection_coefficient
         As in :func:`convlib.surface.bare_surface` (a given coefficient applies to every exposed face).
     ground_temperature : numeric, optional
         Undisturbed soil temperature [K]; default the air temperature (say the annual mean of the site).
@@ -230,6 +231,11 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
         every face; default none (the thin shell at the contents' temperature).
     tolerance : float
         Surface temperature solve [K].
+    surroundings, air_temperature, wind_speed, surroundings_temperature, sky_view_fraction, sky_temperature,
+    solar_irradiance, pressure
+        The surroundings (:class:`convlib.surroundings.Surroundings`), or its fields as keywords (still air,
+        surroundings at the air, no sky, no sun, 101325 Pa by default). ``sky_view_fraction`` applies to every
+        face; ``outdoor=True`` gives each face the typical fraction of its orientation instead.
 
     Returns
     -------
@@ -270,9 +276,11 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
     if floor == "none" and floor_layers:
         raise InputError("floor_layers need floor='ground' or 'open'; the floor is left out", field="floor_layers",
                          rule="only with floor='ground' or 'open'", value=floor_layers)
-    common = dict(air_temperature=air_temperature, wind_speed=wind_speed, emissivity=emissivity,
-                  surroundings_temperature=surroundings_temperature, sky_temperature=sky_temperature,
-                  pressure=pressure, exact_properties=exact_properties, convection_factor=convection_factor,
+    around = resolve(surroundings, air_temperature=air_temperature, wind_speed=wind_speed, surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure, ground_temperature=ground_temperature)
+    common = dict(air_temperature=around.air_temperature, wind_speed=around.wind_speed, emissivity=emissivity,
+                  surroundings_temperature=around.surroundings_temperature, sky_temperature=around.sky_temperature,
+                  solar_irradiance=around.solar_irradiance,
+                  pressure=around.pressure, exact_properties=exact_properties, convection_factor=convection_factor,
                   convection_coefficient=convection_coefficient)
     notes = []
 
@@ -284,7 +292,7 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
     # wall: a vertical cylinder of the insulated outer diameter (the film per metre: 1/(h_i pi D))
     _, d_wall = layer_drops(wall_layers, "cylinder", d)
     wall = OuterSurface.build("vertical_cylinder", diameter=d_wall, length=h,
-                              sky_view_fraction=_sky(outdoor, "vertical_cylinder"), **common)
+                              sky_view_fraction=_sky(outdoor, "vertical_cylinder", around), **common)
     ts_wall, _ = solve(wall, wall_layers, "cylinder", d, film / (np.pi * d))
     faces = [_face("wall", wall, ts_wall, np.pi * d_wall * h)]
 
@@ -292,18 +300,19 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
     disc_area = np.pi * d ** 2 / 4.0
     plate_length, plate_width = disc_as_plate(d)
     roof = OuterSurface.build("horizontal_plate_up", length=plate_length, width=plate_width,
-                              sky_view_fraction=_sky(outdoor, "horizontal_plate_up"), **common)
+                              sky_view_fraction=_sky(outdoor, "horizontal_plate_up", around), **common)
     ts_roof, _ = solve(roof, roof_layers, "flat", d, film)
     faces.append(_face("roof", roof, ts_roof, disc_area))
     notes.append("roof as a plate with the disc's A/P = D/4 and mean chord pi D/4; heat per area times pi D^2/4")
 
     if floor == "open":
         under = OuterSurface.build("horizontal_plate_down", length=plate_length, width=plate_width,
-                                   sky_view_fraction=_sky(outdoor, "horizontal_plate_down"), **common)
+                                   sky_view_fraction=_sky(outdoor, "horizontal_plate_down", around), **common)
         ts_floor, _ = solve(under, floor_layers, "flat", d, film)
         faces.append(_face("floor", under, ts_floor, disc_area))
     elif floor == "ground":
-        faces.append(_ground_floor(d, inner, floor_layers, air_temperature, ground_temperature, ground_conductivity,
+        faces.append(_ground_floor(d, inner, floor_layers, around.air_temperature, around.ground_temperature,
+                                   ground_conductivity,
                                    film))
         notes.append("floor on the ground: disc on a semi-infinite soil, S = 2 D (steady state; an estimate)")
     else:
@@ -311,11 +320,10 @@ def vertical_tank(diameter, height, *, air_temperature, surface_temperature=None
     return _total(faces, notes)
 
 
-def spherical_tank(diameter, *, air_temperature, surface_temperature=None, fluid_temperature=None, layers=(),
+def spherical_tank(diameter, *, surface_temperature=None, fluid_temperature=None, layers=(),
                    wall_thickness=None, wall_conductivity=None, inner_coefficient=None, emissivity=0.9,
-                   wind_speed=0.0, outdoor=False, sky_temperature=None, surroundings_temperature=None,
-                   pressure=101325.0, exact_properties=False, convection_factor=1.0, convection_coefficient=None,
-                   tolerance=1e-6) -> FacesResult:
+                   outdoor=False, exact_properties=False, convection_factor=1.0, convection_coefficient=None,
+                   tolerance=1e-6, surroundings: Surroundings | None = None, air_temperature=None, wind_speed=None, surroundings_temperature=None, sky_view_fraction=None, sky_temperature=None, solar_irradiance=None, pressure=None) -> FacesResult:
     r"""Heat lost (or gained) by a spherical vessel (storage sphere, ball tank): one face, the shell.
 
     The shell is a sphere of the ``sphere`` shape of :mod:`convlib.geometry` (natural convection
@@ -328,8 +336,6 @@ def spherical_tank(diameter, *, air_temperature, surface_temperature=None, fluid
     ----------
     diameter : numeric
         Outer diameter of the shell [m] (layers add outside; the wall is inside it).
-    air_temperature : numeric
-        [K]
     surface_temperature, fluid_temperature : numeric
         Give one: a bare shell at a known temperature, or the contents [K].
     layers : sequence of Layer
@@ -338,13 +344,17 @@ def spherical_tank(diameter, *, air_temperature, surface_temperature=None, fluid
         Shell wall [m] and its conductivity [W/m/K], given together.
     inner_coefficient : numeric, optional
         Film coefficient between the contents and the wall [W/m2/K] (on the inner area).
-    emissivity, wind_speed, sky_temperature, surroundings_temperature, pressure, exact_properties,
-    convection_factor, convection_coefficient
+    emissivity, exact_properties, convection_factor, convection_coefficient
         As in :func:`convlib.surface.bare_surface`.
     outdoor : bool
-        Sky view fraction 0.5 (:data:`convlib.radiation.SKY_VIEW_FRACTION_TYPICAL`); indoors 0.
+        Sky view fraction 0.5 (:data:`convlib.radiation.SKY_VIEW_FRACTION_TYPICAL`).
     tolerance : float
         Surface temperature solve [K].
+    surroundings, air_temperature, wind_speed, surroundings_temperature, sky_view_fraction, sky_temperature,
+    solar_irradiance, pressure
+        The surroundings (:class:`convlib.surroundings.Surroundings`), or its fields as keywords (still air,
+        surroundings at the air, no sky, no sun, 101325 Pa by default). ``sky_view_fraction`` applies to every
+        face; ``outdoor=True`` gives each face the typical fraction of its orientation instead.
 
     Returns
     -------
@@ -380,10 +390,13 @@ def spherical_tank(diameter, *, air_temperature, surface_temperature=None, fluid
     inner = _known_temperature(surface_temperature, fluid_temperature, "shell", layers=layers,
                                wall_thickness=wall_thickness, inner_coefficient=inner_coefficient)
     _, d_out = layer_drops(layers, "sphere", d)
-    outer = OuterSurface.build("sphere", diameter=d_out, air_temperature=air_temperature, wind_speed=wind_speed,
-                               emissivity=emissivity, surroundings_temperature=surroundings_temperature,
-                               sky_view_fraction=_sky(outdoor, "sphere"), sky_temperature=sky_temperature,
-                               pressure=pressure, exact_properties=exact_properties,
+    around = resolve(surroundings, air_temperature=air_temperature, wind_speed=wind_speed, surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure)
+    outer = OuterSurface.build("sphere", diameter=d_out, air_temperature=around.air_temperature,
+                               wind_speed=around.wind_speed, emissivity=emissivity,
+                               surroundings_temperature=around.surroundings_temperature,
+                               sky_view_fraction=_sky(outdoor, "sphere", around), sky_temperature=around.sky_temperature,
+                               solar_irradiance=around.solar_irradiance,
+                               pressure=around.pressure, exact_properties=exact_properties,
                                convection_factor=convection_factor, convection_coefficient=convection_coefficient)
     if layers or np.any(fixed > 0):
         ts, _ = _solve_face(outer, inner, layers, "sphere", d, tolerance, fixed)
@@ -536,33 +549,15 @@ def _ground_floor(d, floor_temperature, layers, air_temperature, ground_temperat
 
 
 # ----------------------------------------------------------------------------- ducts
-def nusselt_square_cylinder_jakob(Re, Pr):
-    r"""Mean Nusselt number of a square cylinder in cross flow, a flat face to the flow.
-
-    .. math:: Nu_D = 0.102\, Re_D^{0.675}\, Pr^{1/3}, \qquad 5\times10^3 \le Re_D \le 10^5
-
-    :math:`D` is the side of the square, properties at the film temperature. Measured in air
-    (gases); constants of Jakob (1949) after Hilpert's (1933) measurements, as tabulated in
-    Incropera et al., *Fundamentals of Heat and Mass Transfer*, 6th ed., Table 7.3 (from memory;
-    the corner-to-flow orientation has C = 0.246, m = 0.588). Not in the correlation registry.
-
-    References
-    ----------
-    M. Jakob (1949), *Heat Transfer*, Vol. 1, Wiley, New York.
-
-    Examples
-    --------
-    >>> round(float(nusselt_square_cylinder_jakob(2.0e4, 0.71)), 1)
-    72.8
-    """
-    return 0.102 * np.asarray(Re, dtype=float) ** 0.675 * np.asarray(Pr, dtype=float) ** (1.0 / 3.0)
+#: The square-cylinder law now lives in the correlation registry ("square_cylinder_crossflow", "jakob");
+#: this name stays one version for scripts that called it here.
+nusselt_square_cylinder_jakob = nusselt_square_cylinder_crossflow_jakob
 
 
-def rectangular_duct(width, height, length, *, air_temperature, surface_temperature=None, fluid_temperature=None,
-                     layers=(), inner_coefficient=None, wind_speed=0.0, wind_direction="along", emissivity=0.9,
-                     outdoor=False, sky_temperature=None, surroundings_temperature=None, pressure=101325.0,
-                     exact_properties=False, convection_factor=1.0, convection_coefficient=None,
-                     tolerance=1e-6) -> FacesResult:
+def rectangular_duct(width, height, length, *, surface_temperature=None, fluid_temperature=None,
+                     layers=(), inner_coefficient=None, wind_direction=None, emissivity=0.9,
+                     outdoor=False, exact_properties=False, convection_factor=1.0, convection_coefficient=None,
+                     tolerance=1e-6, surroundings: Surroundings | None = None, air_temperature=None, wind_speed=None, surroundings_temperature=None, sky_view_fraction=None, sky_temperature=None, solar_irradiance=None, pressure=None) -> FacesResult:
     r"""Heat lost (or gained) by a horizontal rectangular duct, bare at a known surface temperature or insulated.
 
     Faces: ``sides`` (two vertical plates, height x length), ``top`` (plate facing up, length x
@@ -586,22 +581,24 @@ def rectangular_duct(width, height, length, *, air_temperature, surface_temperat
     ----------
     width, height, length : numeric
         Duct section (sheet metal, layers add outside) and run [m].
-    air_temperature : numeric
-        [K]
     surface_temperature, fluid_temperature : numeric
         Give one: every face at a known temperature (no layers), or the contents [K].
     layers : sequence of Layer
         Insulation and jacket of every face, from the duct outwards (constant or k(T)).
     inner_coefficient : numeric, optional
         Film coefficient inside [W/m2/K] (with ``fluid_temperature``); default none (wall at the contents).
-    wind_speed : numeric
-        [m/s]
-    wind_direction : {"along", "across"}
-    emissivity, outdoor, sky_temperature, surroundings_temperature, pressure, exact_properties, convection_factor,
-    convection_coefficient
+    wind_direction : {"along", "across"}, optional
+        Of the wind relative to the duct; default the surroundings' when a Surroundings object is given,
+        else ``"along"``.
+    emissivity, outdoor, exact_properties, convection_factor, convection_coefficient
         As in :func:`vertical_tank` (with a given coefficient the wind direction plays no part).
     tolerance : float
         Surface temperature solve [K].
+    surroundings, air_temperature, wind_speed, surroundings_temperature, sky_view_fraction, sky_temperature,
+    solar_irradiance, pressure
+        The surroundings (:class:`convlib.surroundings.Surroundings`), or its fields as keywords (still air,
+        surroundings at the air, no sky, no sun, 101325 Pa by default). ``sky_view_fraction`` applies to every
+        face; ``outdoor=True`` gives each face the typical fraction of its orientation instead.
 
     Examples
     --------
@@ -618,6 +615,9 @@ def rectangular_duct(width, height, length, *, air_temperature, surface_temperat
     >>> round(float(r.q_total))
     586
     """
+    around = resolve(surroundings, air_temperature=air_temperature, wind_speed=wind_speed, surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure)
+    # a duct's wind runs along it unless told (the keyword, or a Surroundings object's wind_direction)
+    wind_direction = wind_direction or (surroundings.wind_direction if surroundings is not None else "along")
     check_choice("wind_direction", wind_direction, WIND_DIRECTIONS)
     w = as_size("width", width)
     h = as_size("height", height)
@@ -630,34 +630,37 @@ def rectangular_duct(width, height, length, *, air_temperature, surface_temperat
     grow = sum((2.0 * layer.thickness for layer in layers), np.zeros(()))
     w_out, h_out = w + grow, h + grow
     across = wind_direction == "across" and convection_coefficient is None
-    wind = as_array("wind_speed", wind_speed, unit="m/s", low=0.0)
-    common = dict(air_temperature=air_temperature, wind_speed=0.0 * wind if across else wind, emissivity=emissivity,
-                  surroundings_temperature=surroundings_temperature, sky_temperature=sky_temperature,
-                  pressure=pressure, exact_properties=exact_properties, convection_factor=convection_factor,
+    wind = around.wind_speed
+    common = dict(air_temperature=around.air_temperature, wind_speed=0.0 * wind if across else wind,
+                  emissivity=emissivity, surroundings_temperature=around.surroundings_temperature,
+                  sky_temperature=around.sky_temperature, solar_irradiance=around.solar_irradiance,
+                  pressure=around.pressure, exact_properties=exact_properties, convection_factor=convection_factor,
                   convection_coefficient=convection_coefficient)
     outers = [("sides", OuterSurface.build("vertical_plate", height=h_out, width=run,
-                                           sky_view_fraction=_sky(outdoor, "vertical_plate"), **common),
+                                           sky_view_fraction=_sky(outdoor, "vertical_plate", around), **common),
                2.0 * h_out * run),
               ("top", OuterSurface.build("horizontal_plate_up", length=run, width=w_out,
-                                         sky_view_fraction=_sky(outdoor, "horizontal_plate_up"), **common),
+                                         sky_view_fraction=_sky(outdoor, "horizontal_plate_up", around), **common),
                w_out * run),
               ("bottom", OuterSurface.build("horizontal_plate_down", length=run, width=w_out,
-                                            sky_view_fraction=_sky(outdoor, "horizontal_plate_down"), **common),
+                                            sky_view_fraction=_sky(outdoor, "horizontal_plate_down", around), **common),
                w_out * run)]
     notes = ["ends of the duct left out"]
     if layers:
         notes.append("layers as flat slabs on each face (corners neglected)")
-    p_air = as_array("pressure", pressure, unit="Pa", low=0.0, low_inclusive=False)
+    p_air = around.pressure
     n_mix = default_mixing_exponent("transverse", round_body=False)
     factor = as_array("convection_factor", convection_factor, low=0.0, low_inclusive=False)
 
     def cross_flow(ts, outer):
         """The cross-flow mix at surface temperature ``ts`` (its h and the SurfaceResult replacement)."""
         ta = np.asarray(outer.air_temperature)
-        film = fluid_properties("Air", 0.5 * (ts + ta), pressure=p_air, exact=exact_properties)
+        film = fluid_properties(outer.fluid, 0.5 * (ts + ta), pressure=p_air, exact=exact_properties)
         reynolds = wind * h_out / film.nu
-        h_forced = np.where(wind > 0, nusselt_square_cylinder_jakob(reynolds, film.pr) * film.k / h_out, 0.0)
-        outside = (wind > 0) & ((reynolds < SQUARE_CYLINDER_RE_RANGE[0]) | (reynolds > SQUARE_CYLINDER_RE_RANGE[1]))
+        nu, law_flags = corr.evaluate("square_cylinder_crossflow", "jakob", Re=np.where(wind > 0, reynolds, 1.0),
+                                      Pr=film.pr, check=True)
+        h_forced = np.where(wind > 0, nu * film.k / h_out, 0.0)
+        outside = np.where(wind > 0, law_flags, 0).astype(np.int16)
         grashof = GRAVITY * film.beta * np.abs(ts - ta) / film.nu ** 2 * h_out ** 3
         h_mix, _ = combine(h_forced, outer.exchange(ts)["h_natural"], n_mix, "transverse")
         return h_mix, _cross_flow(wind, reynolds, h_forced, factor, n_mix, outside, grashof)
@@ -700,7 +703,7 @@ def _cross_flow(wind, reynolds, h_forced, factor, n_mix, outside, grashof):
         per_run = outer.area / outer.run_length
         with np.errstate(divide="ignore", invalid="ignore"):
             richardson = np.where(wind > 0, grashof / np.where(wind > 0, reynolds, 1.0) ** 2, np.inf)
-        flags = r.warnings | np.where(outside, Flag.FORCED_OUT_OF_RANGE, 0).astype(np.int16)
+        flags = r.warnings | outside
         shape = np.broadcast_shapes(r.q_per_area.shape, np.shape(h_conv), np.shape(richardson))
         full = lambda a: np.broadcast_to(a, shape).copy()  # noqa: E731
         r = SurfaceResult(**{f.name: full(getattr(r, f.name)) for f in dataclasses.fields(SurfaceResult)})

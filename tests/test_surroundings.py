@@ -94,3 +94,34 @@ def test_replace_validates_again():
     assert float(s.replace(wind_speed=4.0).wind_speed) == 4.0
     with pytest.raises(InputError, match="emissivity|sky_view_fraction"):
         s.replace(sky_view_fraction=-0.1)
+
+
+def test_vessels_take_the_surroundings_object_like_their_keywords():
+    around = dict(air_temperature=268.15, wind_speed=4.0, surroundings_temperature=263.15, pressure=95000.0)
+    layers = [cl.Layer(0.1, 0.04)]
+    a = cl.vertical_tank(6.0, 8.0, fluid_temperature=353.15, wall_layers=layers, roof_layers=layers, outdoor=True,
+                         **around)
+    b = cl.vertical_tank(6.0, 8.0, fluid_temperature=353.15, wall_layers=layers, roof_layers=layers, outdoor=True,
+                         surroundings=Surroundings(**around))
+    np.testing.assert_array_equal(a.q_total, b.q_total)
+    s1 = cl.spherical_tank(12.0, fluid_temperature=243.15, layers=layers, **around)
+    s2 = cl.spherical_tank(12.0, fluid_temperature=243.15, layers=layers, surroundings=Surroundings(**around))
+    np.testing.assert_array_equal(s1.q_total, s2.q_total)
+
+
+def test_a_duct_takes_its_wind_direction_from_the_surroundings_object():
+    across = Surroundings(air_temperature=268.15, wind_speed=5.0, wind_direction="across")
+    by_object = cl.rectangular_duct(0.6, 0.6, 20.0, surface_temperature=313.15, surroundings=across)
+    by_keyword = cl.rectangular_duct(0.6, 0.6, 20.0, surface_temperature=313.15, air_temperature=268.15,
+                                     wind_speed=5.0, wind_direction="across")
+    along = cl.rectangular_duct(0.6, 0.6, 20.0, surface_temperature=313.15, air_temperature=268.15, wind_speed=5.0)
+    np.testing.assert_array_equal(by_object.q_total, by_keyword.q_total)
+    assert float(by_object.q_total) != float(along.q_total)
+
+
+def test_the_duct_cross_flow_law_is_in_the_registry():
+    # Jakob (1949) as tabulated by Incropera et al., 6th ed., Table 7.3: square, face to the flow, C = 0.102,
+    # m = 0.675 for 5e3 <= Re <= 1e5 (from memory); Nu = 0.102 x 2e4^0.675 x 0.71^(1/3) = 72.8 by hand
+    record = next(r for r in cl.catalog("square_cylinder_crossflow") if r["key"] == "jakob")
+    assert record["re_range"] == (5e3, 1e5)
+    assert float(cl.nusselt("square_cylinder_crossflow", "jakob", Re=2e4, Pr=0.71)) == pytest.approx(72.8, abs=0.05)

@@ -16,6 +16,7 @@ __all__ = [
     "nusselt_sphere_crossflow_whitaker",
     "nusselt_plate_parallel_flow_laminar",
     "nusselt_plate_parallel_flow_mixed_layer",
+    "nusselt_square_cylinder_crossflow_jakob",
     "HILPERT_TABLE",
     "ZUKAUSKAS_TABLE",
 ]
@@ -219,3 +220,26 @@ def nusselt_plate_parallel_flow_mixed_layer(Re, Pr):
         lam = 0.664 * Re ** 0.5
         turb = 0.037 * Re ** 0.8 - 871.0
     return np.where(Re <= 5e5, lam, turb) * Pr ** (1.0 / 3.0)
+
+
+def nusselt_square_cylinder_crossflow_jakob(Re, Pr):
+    r"""Mean Nusselt number of a square cylinder in cross flow, a flat face to the flow.
+
+    .. math:: Nu_D = 0.102\, Re_D^{0.675}\, Pr^{1/3}, \qquad 5\times10^3 \le Re_D \le 10^5
+
+    :math:`D` is the side of the square, properties at the film temperature. Measured in air
+    (gases); constants of Jakob (1949) after Hilpert's (1933) measurements, as tabulated in
+    Incropera et al., *Fundamentals of Heat and Mass Transfer*, 6th ed., Table 7.3 (from memory;
+    the corner-to-flow orientation has C = 0.246, m = 0.588).
+
+    References
+    ----------
+    M. Jakob (1949), *Heat Transfer*, Vol. 1, Wiley, New York.
+
+    Examples
+    --------
+    >>> round(float(nusselt_square_cylinder_crossflow_jakob(2.0e4, 0.71)), 1)
+    72.8
+    """
+    Re, Pr = _arr(Re), _arr(Pr)
+    return 0.102 * Re ** 0.675 * Pr ** (1.0 / 3.0)

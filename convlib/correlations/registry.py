@@ -116,7 +116,7 @@ DISPLAY_NAMES = {
     "churchill_chu": "Churchill–Chu", "churchill_chu_laminar": "Churchill–Chu, laminar", "morgan": "Morgan",
     "kuehn_goldstein": "Kuehn–Goldstein", "mcadams": "McAdams", "vdi": "VDI Heat Atlas", "churchill": "Churchill",
     "yuge": "Yuge", "churchill_bernstein": "Churchill–Bernstein", "hilpert": "Hilpert", "zukauskas": "Zukauskas",
-    "whitaker": "Whitaker", "laminar": "Pohlhausen, laminar", "mixed_layer": "mixed boundary layer",
+    "whitaker": "Whitaker", "jakob": "Jakob", "laminar": "Pohlhausen, laminar", "mixed_layer": "mixed boundary layer",
 }
 
 
@@ -214,6 +214,13 @@ REGISTRY: tuple[Correlation, ...] = (
                 ("Re", "Pr", "viscosity_ratio"), "Whitaker (1972), AIChE J. 18:361", "10.1002/aic.690180219",
                 re_range=(3.5, 7.6e4), pr_range=("0.71", "380"), extra_ranges=(("viscosity_ratio", "1.0", "3.2"),),
                 accuracy_percent=30.0, accuracy_note="±30 % (source)", property_temperature="free_stream"),
+    # ---- square cylinder (duct) in cross flow, a flat face to the wind, forced (length scale = the side)
+    Correlation("jakob", "square_cylinder_crossflow", "forced", _f.nusselt_square_cylinder_crossflow_jakob,
+                ("Re", "Pr"), "Jakob (1949), Heat Transfer, Vol. 1, Wiley; constants as tabulated by Incropera et al., "
+                "Fundamentals of Heat and Mass Transfer, 6th ed., Table 7.3", None, re_range=(5e3, 1e5),
+                pr_range=("0.7", None), fitted_for_air_only=True, accuracy_percent=25.0,
+                accuracy_note="about ±25 % (common practice, no source)", length_scale="side",
+                notes="measured in gases; a section far from square is outside the law"),
     # ---- flat plate in parallel flow, forced (length scale = length along the flow)
     Correlation("laminar", "plate_parallel_flow", "forced", _f.nusselt_plate_parallel_flow_laminar, ("Re", "Pr"),
                 "Pohlhausen (1921), ZAMM 1:115", "10.1002/zamm.19210010205", re_range=(1e2, 5e5),
