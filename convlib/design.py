@@ -456,7 +456,9 @@ def thickness_against_condensation(pipe_outer_diameter, fluid_temperature, *, in
     if np.any(around.wind_speed > 0) or np.any(around.sky_view_fraction > 0) or np.any(around.solar_irradiance > 0):
         notes.append("sized in still air, out of the sun and with no sky in view (the worst case for a cold jacket); "
                      "the wind, sun and sky given were not used")
-    around = around.replace(wind_speed=0.0, sky_view_fraction=0.0, solar_irradiance=0.0)
+    # still air, no sky, no sun -- kept in the shape of what was given, so that every input still broadcasts
+    around = around.replace(wind_speed=0.0 * around.wind_speed, sky_view_fraction=0.0 * around.sky_view_fraction,
+                            solar_irradiance=0.0 * around.solar_irradiance)
     cases = _cases(pipe_outer_diameter, fluid_temperature, around, insulation_conductivity, outer_layers,
                    dict(jacket_emissivity=jacket_emissivity, solar_absorptivity=solar_absorptivity,
                         pipe_wall_thickness=pipe_wall_thickness, pipe_conductivity=pipe_conductivity,

@@ -224,8 +224,11 @@ def appraise(saved_kwh, investment, tariff: Tariff, finance: Finance) -> Apprais
     with np.errstate(divide="ignore", invalid="ignore"):
         payback = np.where(saving > 0.0, cost / np.where(saving > 0.0, saving, 1.0), np.inf)
     npv = saving * finance.factor - cost
-    return Appraisal(saved_kwh=kwh, annual_saving=saving, investment=np.broadcast_to(cost, saving.shape),
-                     simple_payback=payback, npv=npv, co2_saved_kg=kwh * tariff.co2_per_heat_kwh, pays_back=npv > 0)
+    shape = np.broadcast_shapes(kwh.shape, cost.shape, np.shape(finance.factor))
+    full = lambda a: np.broadcast_to(a, shape).copy()  # noqa: E731
+    return Appraisal(saved_kwh=full(kwh), annual_saving=full(saving), investment=full(cost),
+                     simple_payback=full(payback), npv=full(npv), co2_saved_kg=full(kwh * tariff.co2_per_heat_kwh),
+                     pays_back=full(npv > 0))
 
 
 def life_cycle_cost(annual_heat_kwh, investment, tariff: Tariff, finance: Finance) -> np.ndarray:
@@ -284,6 +287,7 @@ def economic_thickness(pipe_outer_diameter, fluid_temperature, thicknesses, inst
     >>> float(r["thickness"]) in (0.06, 0.08, 0.10, 0.12)
     True
     """
+    from .conductivity import Conductivity
     from .pipe import Layer, insulated_pipe
 
     d = as_array("pipe_outer_diameter", pipe_outer_diameter, unit="m", low=0.0, low_inclusive=False)
@@ -304,13 +308,16 @@ def economic_thickness(pipe_outer_diameter, fluid_temperature, thicknesses, inst
         if not isinstance(layer, Layer):
             raise InputError(f"outer_layers must be Layer objects; got {layer!r}", field="outer_layers",
                              rule="Layer objects", value=layer)
+    k = Conductivity.of(insulation_conductivity)
     case_shape = np.broadcast_shapes(d.shape, tf.shape, length.shape, *(v.shape for v in numeric.values()),
-                                     *(np.shape(layer.thickness) for layer in outer_layers))
+                                     *(np.shape(layer.thickness) for layer in outer_layers),
+                                     np.shape(k.constant_value) if k.is_constant else ())
     cost = np.broadcast_to(as_array("installed_cost", installed_cost, unit="per m", low=0.0), case_shape + t.shape)
     grid = lambda a: np.broadcast_to(a, case_shape)[..., None, None]  # noqa: E731 cases x thickness x bins
     outer = [Layer(grid(layer.thickness), layer.conductivity if not layer.conductivity.is_constant
                    else grid(layer.conductivity.constant_value), name=layer.name) for layer in outer_layers]
-    r = insulated_pipe(grid(d), grid(tf), [Layer(t[:, None], insulation_conductivity), *outer],
+    insulation = Layer(t[:, None], grid(k.constant_value) if k.is_constant else k)
+    r = insulated_pipe(grid(d), grid(tf), [insulation, *outer],
                        air_temperature=bins.air_temperature, wind_speed=bins.wind_speed, length=1.0, natural=natural,
                        forced=forced, exact_properties=exact_properties,
                        **{name: grid(value) for name, value in numeric.items()})

@@ -267,14 +267,32 @@ def _layers(cell, unit: str | None, allow_unusual: bool = False) -> list[dict]:
     return layers
 
 
+_LEADING_NUMBER = re.compile(r"\s*([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)(.*)$", re.S)
+
+
 def _conductivity_and_name(text: str) -> tuple[str, str]:
-    """``"0.045 W/m/K mineral wool"`` -> ``("0.045 W/m/K", "mineral wool")``: the longest leading words that
-    read as a conductivity (a unit may follow the number after a space), the rest the layer's name."""
-    words = text.split()
-    for n in range(len(words), 1, -1):
-        if is_unit(" ".join(words[1:n]), "conductivity"):
-            return " ".join(words[:n]), " ".join(words[n:])
-    return (words[0] if words else ""), " ".join(words[1:])
+    """``"0.045 W/m/K mineral wool"`` -> ``("0.045 W/m/K", "mineral wool")``: the number and the longest run of
+    following words that reads as a conductivity unit (written after a space or glued to the number, e.g.
+    ``"1Btu in/(h ft² °F)"``), the rest the layer's name.
+
+    >>> _conductivity_and_name("1Btu in/(h ft² °F) wool")
+    ('1Btu in/(h ft² °F)', 'wool')
+    >>> _conductivity_and_name("0.045 mineral wool")
+    ('0.045', 'mineral wool')
+    """
+    m = _LEADING_NUMBER.match(text)
+    if m is None:
+        words = text.split()
+        return (words[0] if words else ""), " ".join(words[1:])
+    number, rest = m[1], m[2]
+    glued = bool(rest) and not rest[0].isspace()
+    words = rest.split()
+    for n in range(len(words), 0, -1):
+        if is_unit(" ".join(words[:n]), "conductivity"):
+            return number + ("" if glued else " ") + " ".join(words[:n]), " ".join(words[n:])
+    if glued and words:  # a unit glued to the number that is not a conductivity: reported by the reader
+        return number + words[0], " ".join(words[1:])
+    return number, " ".join(words)
 
 
 def _parse_row(row: int, cells: dict, units: dict, allow_unusual: bool = False) -> ParsedLine | RowError:

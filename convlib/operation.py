@@ -292,7 +292,10 @@ def _line_model(pipe_outer_diameter, inlet_temperature, layers, around: Surround
         return pipe_loss(temperature)
 
     coefficient_in = _frozen_coefficient(loss, tin, ta)
+    given_freezing = (None if isinstance(freezing_temperature, str) or freezing_temperature is None
+                      else _positive("freezing_temperature", freezing_temperature, "K"))
     shape = np.broadcast_shapes(coefficient_in.shape, tin.shape, p_fluid.shape, ta.shape, around.shape, *extra_shapes,
+                                () if given_freezing is None else given_freezing.shape,
                                 () if fixed_cp is None else fixed_cp.shape)
     tin = np.broadcast_to(tin, shape)
     if isinstance(freezing_temperature, str):
@@ -302,7 +305,7 @@ def _line_model(pipe_outer_diameter, inlet_temperature, layers, around: Surround
     elif freezing_temperature is None:
         tf = np.full(shape, np.nan)
     else:
-        tf = np.broadcast_to(_positive("freezing_temperature", freezing_temperature, "K"), shape).astype(float)
+        tf = np.broadcast_to(given_freezing, shape).astype(float)
         if np.any(tin <= tf):
             raise InputError(f"inlet_temperature must be above the freezing_temperature; got {np.min(tin):g} K "
                              f"with freezing at {np.max(tf):g} K", field="inlet_temperature",
@@ -1009,7 +1012,7 @@ def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, l
                              pipe_conductivity=pipe_conductivity, inner_coefficient=inner_coefficient, natural=natural,
                              forced=forced, mixing_exponent=mixing_exponent, convection_factor=convection_factor,
                              convection_coefficient=convection_coefficient, exact_properties=exact_properties)
-    if "pipe_conductivity" in options or "inner_coefficient" in options:
+    if "pipe_conductivity" in options:
         options["pipe_wall_thickness"] = wall
     flags = _Flags()
     loss = _loss_function(d, layers, around, options, flags)
@@ -1026,7 +1029,8 @@ def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, l
     coefficient = _frozen_coefficient(loss, t0, ta)
     loss_at = (lambda t: coefficient * (t - ta)) if constant_coefficient else loss  # noqa: E731
     q_start = loss_at(t0)
-    shape = np.broadcast_shapes(q_start.shape, m_w.shape, c_wall.shape, tf.shape, lf.shape)
+    shape = np.broadcast_shapes(q_start.shape, m_w.shape, c_wall.shape, tf.shape, lf.shape,
+                                () if fixed_cw is None else fixed_cw.shape)
     t0, tf = np.broadcast_to(t0, shape), np.broadcast_to(tf, shape)
     q_freeze = np.broadcast_to(loss_at(tf), shape)
     never = q_freeze <= 0.0

@@ -304,7 +304,7 @@ def effective_conductivity(pipe_outer_diameter, fluid_temperature, insulation_th
     with np.errstate(divide="ignore", invalid="ignore"):
         k = q * np.log(outer / d) / (2.0 * np.pi * drop)
     k = np.where((k > 0) & np.isfinite(k), k, np.where(drop * q > 0, np.inf, np.nan))
-    return k, q
+    return k, np.broadcast_to(q, k.shape).copy()
 
 
 def condition_class(ratio, resolvable=True, thresholds=CONDITION_THRESHOLDS) -> np.ndarray:

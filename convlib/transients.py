@@ -178,33 +178,34 @@ def cool_down_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature
 
     nodes, weights = np.polynomial.legendre.leggauss(NODES)
     s0, s1 = np.log(np.abs(t0 - ta)), np.log(np.abs(t1 - ta))
-    shape = np.broadcast_shapes(s0.shape, s1.shape, around.shape, d.shape, wall.shape, m_f.shape)
+    common = dict(jacket_emissivity=jacket_emissivity, inner_coefficient=inner_coefficient,
+                  convection_coefficient=convection_coefficient, surroundings=around, tolerance=1e-8)
+    start, end = insulated_pipe(d, t0, layers, **common), insulated_pipe(d, t1, layers, **common)
+    shape = np.broadcast_shapes(s0.shape, s1.shape, around.shape, d.shape, wall.shape, m_f.shape, c_wall.shape,
+                                start.q_per_length.shape, end.q_per_length.shape,
+                                () if fixed_c is None else fixed_c.shape)
+    s0, s1 = np.broadcast_to(s0, shape), np.broadcast_to(s1, shape)
     expand = (slice(None),) + (None,) * len(shape)
     s = 0.5 * (s0 + s1) + 0.5 * (s0 - s1) * nodes[expand]
     side = np.sign(t0 - ta)
     temperature = ta + side * np.exp(s)
-    common = dict(jacket_emissivity=jacket_emissivity, inner_coefficient=inner_coefficient,
-                  convection_coefficient=convection_coefficient, surroundings=around, tolerance=1e-8)
-    if inner_coefficient is not None:
-        common.update(pipe_wall_thickness=wall)
     at_nodes = insulated_pipe(d, temperature, layers, **common)
-    ends = insulated_pipe(d, np.stack(np.broadcast_arrays(t0, t1, np.zeros(shape))[:2]), layers, **common)
     cp_f = (properties(temperature).cp if fixed_c is None else fixed_c)
     capacity = m_f * cp_f + c_wall
     q = at_nodes.q_per_length
     moving = side * q > 0  # heat flows away from the fluid towards the air
-    never = ~np.all(moving, axis=0) | ~(side * ends.q_per_length[1] > 0)
+    never = ~np.all(moving, axis=0) | ~(np.broadcast_to(side, shape) * end.q_per_length > 0)
     integrand = capacity * (temperature - ta) / np.where(moving, q, 1.0)
     seconds = 0.5 * (s0 - s1) * np.tensordot(weights, integrand, axes=(0, 0))
-    flags = np.bitwise_or.reduce(at_nodes.warnings, axis=0) | np.bitwise_or.reduce(ends.warnings, axis=0)
+    flags = np.bitwise_or.reduce(at_nodes.warnings, axis=0) | start.warnings | end.warnings
     never = np.broadcast_to(never, shape)
     notes = ((f"{int(never.sum())} case(s) settle before the final temperature (the surroundings hold the line "
               f"there): no time exists",) if never.any() else ())
     return CoolDown(time=np.where(never, np.inf, np.broadcast_to(seconds, shape)), never_reaches=never.copy(),
                     heat_capacity_per_length=np.broadcast_to(m_f * (properties(t0).cp if fixed_c is None else fixed_c)
                                                              + c_wall, shape).copy(),
-                    q_initial=np.broadcast_to(ends.q_per_length[0], shape).copy(),
-                    q_final=np.broadcast_to(ends.q_per_length[1], shape).copy(),
+                    q_initial=np.broadcast_to(start.q_per_length, shape).copy(),
+                    q_final=np.broadcast_to(end.q_per_length, shape).copy(),
                     warnings=np.broadcast_to(flags, shape).copy(), notes=notes, cautions=(CAUTION_COOL_DOWN,))
 
 
