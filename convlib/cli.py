@@ -40,7 +40,7 @@ import sys
 import numpy as np
 
 from . import __version__
-from .cli_common import (ALLOW_HELP, LAYER_UNITS, add_quantity, conditions, display_unit, emit, from_si, layers,
+from .cli_common import (ALLOW_HELP, deprecated_options, LAYER_UNITS, add_quantity, conditions, display_unit, emit, from_si, layers,
                          condensation_check, condensation_options, output_options, pipe_diameter, pipe_options,
                          pretty_unit, surface_cautions, surface_row, table, units_map, value)
 from .cli_operation import add_commands as add_operation_commands
@@ -107,8 +107,8 @@ def _sizing_rows(tag, result, kind_label) -> dict:
         row["dew_point"] = known(result.dew_point)
         row["margin"] = known(result.margin)
     else:
-        row["touch_limit"] = known(result.limit)
-    if "touch_limit" in row:
+        row["surface_limit"] = known(result.limit)
+    if "surface_limit" in row:
         row["limit_source"] = "given" if result.limit_given else "default"
     row.update(air_temperature=known(result.air_temperature),
                wind_speed=known(result.wind_speed), jacket_emissivity=known(result.jacket_emissivity),
@@ -142,18 +142,18 @@ def _cmd_size(args) -> int:
     outer = layers(args, "jacket")
     cond = conditions(args)
     common = dict(insulation_conductivity=k, outer_layers=outer, commercial_thicknesses=_thickness_list(args))
-    chosen = [name for name in ("touch_limit", "heat_loss_limit", "relative_humidity") if getattr(args, name)]
+    chosen = [name for name in ("surface_limit", "heat_loss_limit", "relative_humidity") if getattr(args, name)]
     if len(chosen) != 1:
-        raise InputError("give exactly one limit: --touch-limit, --heat-loss-limit or --relative-humidity",
-                         field="--touch-limit, --heat-loss-limit, --relative-humidity", rule="exactly one of them",
+        raise InputError("give exactly one limit: --surface-limit, --heat-loss-limit or --relative-humidity",
+                         field="--surface-limit, --heat-loss-limit, --relative-humidity", rule="exactly one of them",
                          value=chosen)
-    for option, needs in (("hottest_air_temperature", "touch_limit"), ("wind_for_touch", "touch_limit"),
+    for option, needs in (("hottest_air_temperature", "surface_limit"), ("wind_for_touch", "surface_limit"),
                           ("condensation_margin", "relative_humidity")):
         if getattr(args, option) and not getattr(args, needs):
             flag = f"--{option.replace('_', '-')}"
             raise InputError(f"{flag} applies to --{needs.replace('_', '-')} only", field=flag,
                              rule=f"only with --{needs.replace('_', '-')}", value=getattr(args, option))
-    if args.touch_limit:
+    if args.surface_limit:
         # the worst case for a burn: the design hottest ambient and still air unless the user says otherwise
         hottest = value(args, "hottest_air_temperature")
         if hottest is not None:
@@ -161,7 +161,7 @@ def _cmd_size(args) -> int:
         if not args.wind_for_touch:
             ignored = cond["wind_speed"]
             cond["wind_speed"] = 0.0
-        res = thickness_for_surface_temperature(d, tf, surface_limit=value(args, "touch_limit"), **common, **cond)
+        res = thickness_for_surface_temperature(d, tf, surface_limit=value(args, "surface_limit"), **common, **cond)
         label = "touch temperature"
     elif args.heat_loss_limit:
         res = thickness_for_heat_loss(d, tf, heat_loss_limit=value(args, "heat_loss_limit"), **common, **cond)
@@ -174,7 +174,7 @@ def _cmd_size(args) -> int:
                                              **({} if margin is None else {"margin": margin}), **common, **cond)
         label = "condensation"
     row = _sizing_rows(args.tag, res, label)
-    if args.touch_limit and not args.wind_for_touch and ignored:
+    if args.surface_limit and not args.wind_for_touch and ignored:
         note = "sized in still air (the worst case); --wind-for-touch sizes in the given wind"
         row["notes"] = note if row["notes"] == "-" else f"{row['notes']}; {note}"
     if args.json:
@@ -212,18 +212,18 @@ def _cmd_demo(args) -> int:
                       jacket_emissivity=s.jacket_emissivity)
         if s.fluid_temperature > s.air_temperature:
             sun = design["solar_irradiance"] if s.sky_view_fraction > 0 else 0.0
-            res = thickness_for_surface_temperature(s.outer_diameter(), s.fluid_temperature,
+            res = thickness_for_surface_temperature(s.pipe_diameter(), s.fluid_temperature,
                                                     air_temperature=design["hottest_air_temperature"],
                                                     surface_limit=design["touch_limit"], solar_irradiance=sun,
                                                     **common)
             sizing.append(_sizing_rows(s.tag, res, "touch temperature"))
-            res = thickness_for_heat_loss(s.outer_diameter(), s.fluid_temperature, air_temperature=s.air_temperature,
+            res = thickness_for_heat_loss(s.pipe_diameter(), s.fluid_temperature, air_temperature=s.air_temperature,
                                           heat_loss_limit=design["heat_loss_limit"], wind_speed=s.wind_speed,
                                           sky_view_fraction=s.sky_view_fraction, **common)
             sizing.append(_sizing_rows(s.tag, res, "heat loss"))
             cautions.add(CAUTION_TOUCH)
         else:
-            res = thickness_against_condensation(s.outer_diameter(), s.fluid_temperature,
+            res = thickness_against_condensation(s.pipe_diameter(), s.fluid_temperature,
                                                  air_temperature=s.air_temperature,
                                                  relative_humidity=s.relative_humidity or 0.75,
                                                  margin=design["condensation_margin"], **common)
@@ -582,7 +582,7 @@ def build_parser() -> argparse.ArgumentParser:
                  "conductivity of the insulation to size, e.g. 0.04W/m/K", required=True)
     size.add_argument("--jacket", action="append", help="fixed layer outside it: THICKNESS,CONDUCTIVITY[,NAME] "
                       f"[{LAYER_UNITS}]")
-    add_quantity(size, "touch-limit", "temperature", "highest jacket temperature, e.g. 60degC; sized in still air "
+    add_quantity(size, "surface-limit", "temperature", "highest jacket temperature, e.g. 60degC; sized in still air "
                  "at the hottest ambient")
     add_quantity(size, "hottest-air-temperature", "air_temperature", "touch sizing: design hottest ambient, e.g. "
                  "40degC (default --air-temperature)")
@@ -671,6 +671,8 @@ def _join_negative_values(argv: list[str]) -> list[str]:
 def main(argv=None) -> int:
     argv = _join_negative_values(sys.argv[1:] if argv is None else list(argv))
     args = build_parser().parse_args(argv or ["demo"])  # no command: the demo site
+    for warning in deprecated_options(argv):
+        print(warning, file=sys.stderr)
     try:
         return args.func(args)
     except BrokenPipeError:  # output piped into e.g. `head`: stop quietly

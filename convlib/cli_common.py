@@ -11,6 +11,7 @@ import sys
 from . import __version__
 from .design import CAUTION_CONDENSATION, CONDENSATION_MARGIN, TOUCH_LIMIT_METAL_JACKET
 from .errors import InputError
+from .layer_text import split_layer
 from .pipe import Layer
 from .pipe_sizes import SCHEDULES, nominal_pipe
 from .properties import dew_point
@@ -53,7 +54,7 @@ FIELDS = {
     "condensate_rate": ("condensate", "mass_flow", "{:.2f}"),
     "required_thickness": ("t_required", "length", "{:.1f}"),
     "commercial_thickness": ("t_listed", "length", "{:.3g}"),
-    "touch_limit": ("T_limit", "temperature", "{:.1f}"),
+    "surface_limit": ("T_limit", "temperature", "{:.1f}"),
     "heat_loss_limit": ("q_limit", "heat_per_length", "{:.1f}"),
     "dew_point": ("T_dew", "temperature", "{:.1f}"),
     "margin": ("margin", "temperature_difference", "{:.1f}"),
@@ -198,10 +199,24 @@ def quantity(name: str):
     return typed
 
 
+#: Option names of 0.2.0, still read for one version with a warning: old -> the one name now used everywhere.
+DEPRECATED_OPTIONS = {"--minimum-ambient": "--air-temperature", "--touch-limit": "--surface-limit",
+                      "--pipe-diameter": "--pipe-outer-diameter"}
+
+
 def add_quantity(p, option: str, name: str, help: str, **kwargs) -> None:
-    """An option taking a quantity of input ``name``; its help says how a plain number is read."""
-    p.add_argument(f"--{option}", type=quantity(name), help=f"{help} [{help_units(name)}]".replace("%", "%%"),
+    """An option taking a quantity of input ``name``; its help says how a plain number is read. The option's
+    deprecated name of 0.2.0 (:data:`DEPRECATED_OPTIONS`) is accepted too."""
+    old = [o for o, new in DEPRECATED_OPTIONS.items() if new == f"--{option}"]
+    p.add_argument(f"--{option}", *old, type=quantity(name), help=f"{help} [{help_units(name)}]".replace("%", "%%"),
                    **kwargs)
+
+
+def deprecated_options(argv) -> list[str]:
+    """Warnings for the deprecated option names in ``argv``."""
+    used = {token.split("=", 1)[0] for token in argv if token.startswith("--")}
+    return [f"convlib: warning: {old} is deprecated; use {new}" for old, new in DEPRECATED_OPTIONS.items()
+            if old in used]
 
 
 def value(args, dest: str, text=None, name: str | None = None, field: str | None = None):
@@ -217,13 +232,10 @@ def value(args, dest: str, text=None, name: str | None = None, field: str | None
 def parse_layer(text: str, index: int, args=None, option: str = "--layer") -> Layer:
     """``THICKNESS,CONDUCTIVITY[,NAME]``: plain thickness in mm (US in), conductivity W/m/K (US
     Btu·in/(h·ft²·°F))."""
-    parts = [p.strip() for p in text.split(",")]
-    if len(parts) not in (2, 3):
-        raise InputError(f"{option} {text!r}: write THICKNESS,CONDUCTIVITY[,NAME], e.g. 50mm,0.04,mineral wool",
-                         field=option, rule="THICKNESS,CONDUCTIVITY[,NAME]", value=text)
-    thickness = value(args, "", parts[0], "thickness", f"{option} {index} thickness")
-    conductivity = value(args, "", parts[1], "conductivity", f"{option} {index} conductivity")
-    return Layer(thickness, conductivity, name=parts[2] if len(parts) == 3 else f"layer {index}")
+    thickness_text, conductivity_text, name = split_layer(text, option)
+    thickness = value(args, "", thickness_text, "thickness", f"{option} {index} thickness")
+    conductivity = value(args, "", conductivity_text, "conductivity", f"{option} {index} conductivity")
+    return Layer(thickness, conductivity, name=name or f"layer {index}")
 
 
 def layers(args, dest: str = "layer") -> list[Layer]:
@@ -231,13 +243,13 @@ def layers(args, dest: str = "layer") -> list[Layer]:
 
 
 def pipe_diameter(args) -> float:
-    if (args.nps is None) == (args.pipe_diameter is None):
-        raise InputError("give the pipe as --nps (with --schedule) or as --pipe-diameter, not both",
-                         field="--nps, --pipe-diameter", rule="exactly one of them",
-                         value=(args.nps, args.pipe_diameter))
+    if (args.nps is None) == (args.pipe_outer_diameter is None):
+        raise InputError("give the pipe as --nps (with --schedule) or as --pipe-outer-diameter, not both",
+                         field="--nps, --pipe-outer-diameter", rule="exactly one of them",
+                         value=(args.nps, args.pipe_outer_diameter))
     if args.nps is not None:
         return nominal_pipe(args.nps, args.schedule).outer_diameter
-    return value(args, "pipe_diameter")
+    return value(args, "pipe_outer_diameter")
 
 
 def outside(args) -> dict:
@@ -280,9 +292,11 @@ def pipe_options(p) -> None:
 def pipe_size_options(p) -> None:
     p.add_argument("--nps", help="nominal pipe size, e.g. 4, 0.75, 3/4 or 1-1/2")
     p.add_argument("--schedule", default="40", choices=SCHEDULES, help="pipe schedule (default 40)")
-    add_quantity(p, "pipe-diameter", "pipe_diameter", "pipe outer diameter instead of --nps, e.g. 114.3mm")
+    add_quantity(p, "pipe-outer-diameter", "pipe_diameter", "pipe outer diameter instead of --nps, e.g. 114.3mm")
     add_quantity(p, "wind-speed", "wind_speed", "wind speed (default 0: still air)", default="0")
-    p.add_argument("--jacket-emissivity", type=float, default=0.9, help="emissivity of the outer surface")
+    p.add_argument("--jacket-emissivity", "--emissivity", dest="jacket_emissivity", type=float, default=0.9,
+                   help="emissivity of the outer surface (jacket, or the bare pipe); both names accepted, as on "
+                        "tank and duct")
     p.add_argument("--sky-view-fraction", type=float, default=0.0, help="part of the view that is sky (0 indoors)")
     add_quantity(p, "convection-coefficient", "coefficient", GIVEN_COEFFICIENT_HELP)
     p.add_argument("--tag", default="line", help="label for the output")

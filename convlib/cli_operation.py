@@ -20,7 +20,7 @@ from .vessels import (FLOORS, GROUND_CONDUCTIVITY, WIND_DIRECTIONS, insulation_p
 
 def _cmd_trace(args) -> int:
     maintain = value(args, "maintain_temperature")
-    ambient = value(args, "minimum_ambient")
+    ambient = value(args, "air_temperature")
     r = tracing_duty(pipe_diameter(args), maintain, layers(args), air_temperature=ambient, margin=args.margin,
                      length=value(args, "length"), **outside(args))
     row = {"tag": args.tag, "maintain_temperature": maintain, "air_temperature": ambient,
@@ -138,10 +138,10 @@ def _cmd_freeze(args) -> int:
     elif args.nps is not None:
         wall = nominal_pipe(args.nps, args.schedule).wall_thickness
     else:
-        raise InputError("--wall-thickness is required with --pipe-diameter (with --nps it comes from the schedule)",
-                         field="--wall-thickness", rule="given with --pipe-diameter", value=None)
+        raise InputError("--wall-thickness is required with --pipe-outer-diameter (with --nps it comes from the schedule)",
+                         field="--wall-thickness", rule="given with --pipe-outer-diameter", value=None)
     initial = value(args, "initial_temperature")
-    ambient = value(args, "minimum_ambient")
+    ambient = value(args, "air_temperature")
     r = freeze_time(d, wall, initial, layers(args), air_temperature=ambient, **outside(args))
     row = {"tag": args.tag, "initial_temperature": initial, "air_temperature": ambient,
            "freezes": "no" if bool(r.never_freezes) else "yes"}  # said in the row, never as an inf time
@@ -194,24 +194,24 @@ def _cmd_tank(args) -> int:
 
 
 def _sizing(args, build) -> list[dict]:
-    """Rows of insulation per face for ``--touch-limit`` / ``--heat-flux-limit`` (none without a limit)."""
-    limits = {name: getattr(args, name) for name in ("touch_limit", "heat_flux_limit") if getattr(args, name)}
+    """Rows of insulation per face for ``--surface-limit`` / ``--heat-flux-limit`` (none without a limit)."""
+    limits = {name: getattr(args, name) for name in ("surface_limit", "heat_flux_limit") if getattr(args, name)}
     for option in ("hottest_air_temperature", "wind_for_touch"):
-        if getattr(args, option) and not args.touch_limit:
+        if getattr(args, option) and not args.surface_limit:
             flag = f"--{option.replace('_', '-')}"
-            raise InputError(f"{flag} applies to --touch-limit only", field=flag, rule="only with --touch-limit",
+            raise InputError(f"{flag} applies to --surface-limit only", field=flag, rule="only with --surface-limit",
                              value=getattr(args, option))
     if not limits:
         return []
     if len(limits) > 1 or args.insulation_conductivity is None:
-        raise InputError("to size insulation give one of --touch-limit or --heat-flux-limit, and "
+        raise InputError("to size insulation give one of --surface-limit or --heat-flux-limit, and "
                          "--insulation-conductivity",
-                         field="--touch-limit, --heat-flux-limit, --insulation-conductivity",
+                         field="--surface-limit, --heat-flux-limit, --insulation-conductivity",
                          rule="one limit and --insulation-conductivity", value=(limits, args.insulation_conductivity))
     k = value(args, "insulation_conductivity")
-    limit = ({"surface_limit": value(args, "touch_limit")} if args.touch_limit else
+    limit = ({"surface_limit": value(args, "surface_limit")} if args.surface_limit else
              {"heat_flux_limit": value(args, "heat_flux_limit")})
-    if args.touch_limit:  # the worst case for a burn: still air at the design hottest ambient unless told
+    if args.surface_limit:  # the worst case for a burn: still air at the design hottest ambient unless told
         limit.update(hottest_air_temperature=value(args, "hottest_air_temperature"),
                      wind_for_touch=bool(args.wind_for_touch))
     sized = insulation_per_face(lambda t, **over: build([Layer(t, k, name="sized insulation")], **over), **limit)
@@ -220,13 +220,13 @@ def _sizing(args, build) -> list[dict]:
         return None if np.isnan(x) else x
 
     def echo(f):
-        if not args.touch_limit:
+        if not args.surface_limit:
             return {}
         air = f.air_temperature if not np.isnan(f.air_temperature) else value(args, "air_temperature")
         wind = f.wind_speed if not np.isnan(f.wind_speed) else value(args, "wind_speed")
-        return {"touch_limit": limit["surface_limit"], "air_temperature": air, "wind_speed": wind,
+        return {"surface_limit": limit["surface_limit"], "air_temperature": air, "wind_speed": wind,
                 "jacket_emissivity": args.emissivity}
-    return [{"tag": f.face, "limit on": "surface temperature" if args.touch_limit else "heat flux", **echo(f),
+    return [{"tag": f.face, "limit on": "surface temperature" if args.surface_limit else "heat flux", **echo(f),
              "required_thickness": known(f.required), "commercial_thickness": known(f.commercial),
              "notes": "not reachable within 300 mm" if np.isnan(f.required) else (
                  "beyond the listed thicknesses" if np.isnan(f.commercial) else "-")} for f in sized]
@@ -248,7 +248,12 @@ def _exposure(args, what: str) -> dict:
                          value=(args.surface_temperature, args.fluid_temperature))
     known = "surface_temperature" if args.surface_temperature else "fluid_temperature"
     out = {known: value(args, known), "air_temperature": value(args, "air_temperature"),
-           "wind_speed": value(args, "wind_speed"), "emissivity": args.emissivity, "outdoor": args.outdoor}
+           "wind_speed": value(args, "wind_speed"), "emissivity": args.emissivity, "outdoor": args.outdoor,
+           "sky_view_fraction": args.sky_view_fraction, "solar_irradiance": value(args, "solar_irradiance")}
+    if args.outdoor and args.sky_view_fraction is not None:
+        raise InputError("give --outdoor (typical sky view per face) or --sky-view-fraction, not both",
+                         field="--outdoor, --sky-view-fraction", rule="at most one of them",
+                         value=(args.outdoor, args.sky_view_fraction))
     for name in ("inner_coefficient", "convection_coefficient"):  # optional
         out[name] = value(args, name)
     return out
@@ -261,8 +266,14 @@ def _exposure_options(p, what: str, contents: str, sky: str) -> None:
     add_quantity(p, "fluid-temperature", "temperature", f"temperature of the {contents} (with layers), e.g. 80degC")
     add_quantity(p, "air-temperature", "air_temperature", "ambient air temperature, e.g. 10degC", required=True)
     add_quantity(p, "wind-speed", "wind_speed", "wind speed (default 0: still air)", default="0")
-    p.add_argument("--emissivity", type=float, default=0.9, help="emissivity of the outer surfaces")
-    p.add_argument("--outdoor", action="store_true", help=f"faces see the sky ({sky})")
+    p.add_argument("--emissivity", "--jacket-emissivity", dest="emissivity", type=float, default=0.9,
+                   help="emissivity of the outer surfaces (bare shell or jacket; both names accepted, as on the "
+                        "line commands)")
+    p.add_argument("--outdoor", action="store_true", help=f"faces see the sky, each by the typical fraction of its "
+                   f"orientation ({sky})")
+    p.add_argument("--sky-view-fraction", type=float, default=None,
+                   help="part of every face's view that is sky, as on the line commands (instead of --outdoor)")
+    add_quantity(p, "solar-irradiance", "heat_flux", "sun on the projected area of the faces, e.g. 600W/m2")
     add_quantity(p, "inner-coefficient", "inner_coefficient", "film coefficient inside, every face, e.g. 200W/m2/K")
     add_quantity(p, "convection-coefficient", "coefficient", GIVEN_COEFFICIENT_HELP)
     condensation_options(p)
@@ -325,7 +336,7 @@ def add_commands(sub) -> None:
     pipe_size_options(trace)
     add_quantity(trace, "maintain-temperature", "temperature", "temperature the tracer holds, e.g. 5degC",
                  required=True)
-    add_quantity(trace, "minimum-ambient", "air_temperature", "design minimum air temperature, e.g. -20degC "
+    add_quantity(trace, "air-temperature", "air_temperature", "design minimum air temperature, e.g. -20degC "
                  "(give the design maximum wind as --wind-speed)", required=True)
     trace.add_argument("--layer", action="append", help=layer_help)
     trace.add_argument("--margin", type=float, default=TRACING_MARGIN,
@@ -350,7 +361,7 @@ def add_commands(sub) -> None:
                  "--schedule)")
     add_quantity(freeze, "initial-temperature", "temperature", "water temperature when flow stops, e.g. 10degC",
                  required=True)
-    add_quantity(freeze, "minimum-ambient", "air_temperature", "design minimum air temperature, e.g. -15degC",
+    add_quantity(freeze, "air-temperature", "air_temperature", "design minimum air temperature, e.g. -15degC",
                  required=True)
     freeze.add_argument("--layer", action="append", help=layer_help)
     output_options(freeze)
@@ -375,7 +386,7 @@ def add_commands(sub) -> None:
                       help=f"soil W/m/K (default {GROUND_CONDUCTIVITY:g})")
     add_quantity(tank, "insulation-conductivity", "insulation_conductivity", "size insulation of this k, e.g. "
                  "0.04W/m/K, for a limit:")
-    add_quantity(tank, "touch-limit", "temperature", "hottest jacket (or, on a cold tank, coldest), e.g. 60degC")
+    add_quantity(tank, "surface-limit", "temperature", "hottest jacket (or, on a cold tank, coldest), e.g. 60degC")
     add_quantity(tank, "hottest-air-temperature", "air_temperature", "touch sizing: design hottest ambient, e.g. "
                  "40degC (default --air-temperature)")
     tank.add_argument("--wind-for-touch", action="store_true", help="touch sizing in the given --wind-speed "

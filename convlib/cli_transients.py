@@ -16,8 +16,8 @@ def _wall(args) -> float:
         return value(args, "wall_thickness")
     if args.nps is not None:
         return nominal_pipe(args.nps, args.schedule).wall_thickness
-    raise InputError("--wall-thickness is required with --pipe-diameter (with --nps it comes from the schedule)",
-                     field="--wall-thickness", rule="given with --pipe-diameter", value=None)
+    raise InputError("--wall-thickness is required with --pipe-outer-diameter (with --nps it comes from the schedule)",
+                     field="--wall-thickness", rule="given with --pipe-outer-diameter", value=None)
 
 
 def _around(args) -> dict:

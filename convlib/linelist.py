@@ -48,9 +48,11 @@ are read by :func:`convlib.units.split`, the reader of the command line (a tempe
 is an interval), and a value outside the range engineers use (:data:`convlib.units.INPUTS`) makes its row an
 error with a hint unless ``allow_unusual=True``.
 
-**Layers.** ``THICKNESS@CONDUCTIVITY NAME`` per layer (conductivity in W/m/K or with its unit, name optional),
-separated by ``;``, from the pipe outwards; empty, ``bare`` or ``none``: a bare pipe. With
-``layers[mm]``: ``80@0.045 mineral wool; 0.7@200 aluminium jacket``; without it ``80mm@0.045 ...``.
+**Layers.** ``THICKNESS,CONDUCTIVITY[,NAME]`` per layer, the command line's ``--layer`` syntax
+(:mod:`convlib.layer_text`; conductivity in W/m/K or with its unit), separated by ``;``, from the pipe
+outwards, the cell quoted (it holds commas); empty, ``bare`` or ``none``: a bare pipe. With ``layers[mm]``:
+``"80,0.045,mineral wool; 0.7,200,aluminium jacket"``; without it ``"80mm,0.045,..."``. The form of 0.2.0,
+``80@0.045 mineral wool``, is still read, with a ``DeprecationWarning``.
 
 **Rows.** Row numbers are those of the file (header = row 1; blank lines count, and are skipped).
 A row that fails validation becomes a :class:`RowError` naming the column and the problem; the
@@ -73,7 +75,7 @@ of the line's air) are flags for review, not verdicts (:data:`~convlib.design.CA
 Examples
 --------
 >>> text = '''tag,nps,length[m],fluid_temperature[degC],air_temperature[degC],layers[mm],jacket_emissivity
-... FH-001,4,10,180,20,50@0.045 mineral wool,0.1
+... FH-001,4,10,180,20,"50,0.045,mineral wool",0.1
 ... '''
 >>> res = run_line_list(io.StringIO(text))
 >>> round(float(res.q_per_length[0]), 1), round(float(res.q_total[0]))
@@ -86,6 +88,7 @@ import io
 import math
 import os
 import re
+import warnings
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from importlib import resources
@@ -100,6 +103,7 @@ from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, DEFAULT_COOLING_COP, D
 from .errors import InputError
 from .files import read_capped, write_atomic
 from .lines import LineSpec
+from .layer_text import split_layer, split_layers
 from .operation import (CAUTION_LINE_FREEZE, condensate_rate, line_temperature_profile, saturation_temperature,
                         tracing_duty)
 from .pipe import Layer, insulated_pipe
@@ -250,17 +254,11 @@ def _nps(cell) -> float:
 
 
 def _layers(cell, unit: str | None, allow_unusual: bool = False) -> list[dict]:
-    text, layers = str(cell).strip(), []
-    parts = [] if text.lower() in ("bare", "none") else [p.strip() for p in text.split(";") if p.strip()]
-    for i, part in enumerate(parts, start=1):
-        m = _LAYER.match(part)
-        if m is None:
-            raise InputError(f"layers: layer {i} {part!r} is not THICKNESS@CONDUCTIVITY NAME "
-                             f"(e.g. '50mm@0.04 mineral wool')", field="layers",
-                             rule="THICKNESS@CONDUCTIVITY NAME per layer", value=part)
-        thickness = _number(m["thickness"], f"layers: layer {i} thickness", "length", unit, "thickness",
+    layers = []
+    for i, part in enumerate(split_layers(cell), start=1):
+        thickness_text, written, name = split_layer(part, f"layers: layer {i}")
+        thickness = _number(thickness_text, f"layers: layer {i} thickness", "length", unit, "thickness",
                             allow_unusual)
-        written, name = _conductivity_and_name(f"{m['conductivity']} {m['name']}".strip())
         conductivity = _number(written, f"layers: layer {i} conductivity", "conductivity", None,
                                "conductivity", allow_unusual)
         layers.append({"thickness": thickness, "conductivity": conductivity, "name": name or f"layer {i}"})
@@ -572,8 +570,8 @@ WARNING_DESIGN_AIR_ALL_YEAR = (
 
 def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
                   heating_efficiency=DEFAULT_HEATING_EFFICIENCY, cooling_cop=DEFAULT_COOLING_COP, co2_per_kwh=0.0,
-                  touch_limit=TOUCH_LIMIT_METAL_JACKET, chunk_size: int = 5000, allow_unusual: bool = False,
-                  progress: Callable[[float, str], None] | None = None) -> LineListResult:
+                  surface_limit=TOUCH_LIMIT_METAL_JACKET, chunk_size: int = 5000, allow_unusual: bool = False,
+                  progress: Callable[[float, str], None] | None = None, touch_limit=None) -> LineListResult:
     """Compute every line of a line list: surface temperature, heat flow, annual energy, flags.
 
     Lines with the same number of layers are solved together, ``chunk_size`` at a time, in one
@@ -592,9 +590,10 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
     energy_price, heating_efficiency, cooling_cop, co2_per_kwh : float
         Price per purchased kWh [currency/kWh]; seasonal efficiency of the heat source (0-1] and
         COP of the chiller (> 0); emission factor of the purchased energy [kg/kWh].
-    touch_limit : float
+    surface_limit : float
         Surface temperature above which ``touch_flag`` is set [K]; default
-        :data:`~convlib.design.TOUCH_LIMIT_METAL_JACKET`, a design default, not a rule.
+        :data:`~convlib.design.TOUCH_LIMIT_METAL_JACKET`, a design default, not a rule. (``touch_limit``, its
+        name in 0.2.0, is still read for one version with a ``DeprecationWarning``.)
     chunk_size : int
         Lines per solver call.
     allow_unusual : bool
@@ -610,7 +609,10 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
     eff = float(as_array("heating_efficiency", heating_efficiency, low=0.0, high=1.0, low_inclusive=False))
     cop = float(as_array("cooling_cop", cooling_cop, low=0.0, low_inclusive=False))
     co2 = float(as_array("co2_per_kwh", co2_per_kwh, unit="kg/kWh", low=0.0))
-    limit = float(as_array("touch_limit", touch_limit, unit="K", low=0.0, low_inclusive=False))
+    if touch_limit is not None:
+        warnings.warn("run_line_list(touch_limit=) is deprecated: use surface_limit=", DeprecationWarning, stacklevel=2)
+        surface_limit = touch_limit
+    limit = float(as_array("surface_limit", surface_limit, unit="K", low=0.0, low_inclusive=False))
     if isinstance(chunk_size, bool) or not isinstance(chunk_size, (int, np.integer)) or chunk_size < 1:
         raise InputError(f"chunk_size must be a whole number of at least 1; got {chunk_size!r}", field="chunk_size",
                          rule="a whole number of at least 1", value=chunk_size)
@@ -628,7 +630,7 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
     def col(values):
         return np.array([np.nan if v is None else v for v in values], dtype=float).reshape(n)
 
-    d, tf, ta = (col(s.outer_diameter() for s in specs), col(s.fluid_temperature for s in specs),
+    d, tf, ta = (col(s.pipe_diameter() for s in specs), col(s.fluid_temperature for s in specs),
                  col(s.air_temperature for s in specs))
     wind, eps, sky = (col(s.wind_speed for s in specs), col(s.jacket_emissivity for s in specs),
                       col(s.sky_view_fraction for s in specs))
@@ -773,7 +775,7 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
         notes=tuple("; ".join(texts[flags[i]] + notes[i]) for i in keep),
         errors=tuple(sorted(errors, key=lambda e: e.row)),
         settings={"energy_price": price, "heating_efficiency": eff, "cooling_cop": cop, "co2_per_kwh": co2,
-                  "touch_limit": limit, "weather_bins": bins is not None})
+                  "surface_limit": limit, "weather_bins": bins is not None})
 
 
 # ----------------------------------------------------------------------------- writing

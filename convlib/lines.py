@@ -39,7 +39,7 @@ class LineSpec(BaseModel):
     --------
     >>> spec = LineSpec(tag="L1", nps=4, fluid_temperature=453.15, air_temperature=293.15,
     ...                 layers=[{"thickness": 0.05, "conductivity": 0.04}])
-    >>> spec.outer_diameter()
+    >>> spec.pipe_diameter()
     0.1143
     """
 
@@ -71,11 +71,18 @@ class LineSpec(BaseModel):
         equivalent_length(self.length, self.fittings)  # raises on unknown fittings
         return self
 
-    def outer_diameter(self) -> float:
-        """Outer diameter of the pipe itself [m]."""
+    def pipe_diameter(self) -> float:
+        """Outer diameter of the pipe itself [m] (the glossary's ``pipe_outer_diameter``): given, or from the NPS."""
         if self.pipe_outer_diameter is not None:
             return self.pipe_outer_diameter
         return nominal_pipe(self.nps, self.schedule).outer_diameter
+
+    def outer_diameter(self) -> float:
+        """Deprecated name of :meth:`pipe_diameter` (``outer_diameter`` is the outside of the last layer)."""
+        import warnings
+
+        warnings.warn("LineSpec.outer_diameter() is deprecated: use pipe_diameter()", DeprecationWarning, stacklevel=2)
+        return self.pipe_diameter()
 
     def equivalent_length(self) -> float:
         """Length plus fittings as equivalent metres [m]."""
@@ -83,7 +90,7 @@ class LineSpec(BaseModel):
 
     def pipe_arguments(self) -> dict:
         """Keyword arguments of :func:`convlib.pipe.insulated_pipe` for this line (``q_total`` over its length)."""
-        return dict(pipe_outer_diameter=self.outer_diameter(), fluid_temperature=self.fluid_temperature,
+        return dict(pipe_outer_diameter=self.pipe_diameter(), fluid_temperature=self.fluid_temperature,
                     length=self.length,
                     layers=[layer.layer() for layer in self.layers], air_temperature=self.air_temperature,
                     jacket_emissivity=self.jacket_emissivity, wind_speed=self.wind_speed,

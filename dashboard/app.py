@@ -129,7 +129,7 @@ class App(widgets.VBox):
         self.sweep.observe(self._on_sweep_input, "sweep_input")
         self.uncertainty.observe(self._on_monte_carlo_request, "run_requests")
         self.uncertainty.observe(self._on_monte_carlo_settings, ["samples", "seed", "model_form"])
-        self.insulation.observe(self._on_sizing_settings, ["touch_limit", "heat_loss_limit", "still_air",
+        self.insulation.observe(self._on_sizing_settings, ["surface_limit", "heat_loss_limit", "still_air",
                                                              "hottest_air_temperature"])
         self.operation.observe(self._on_operation_settings, list(OperationPanel.SETTINGS))
         self.vessels.observe(self._on_vessel_settings, list(VesselPanel.SETTINGS))
@@ -341,7 +341,7 @@ class App(widgets.VBox):
                 return
             panel = self.insulation
             panel.follow_case_air(case.air_temperature)
-            touch, limit, still = panel.touch_limit, panel.heat_loss_limit, panel.still_air
+            touch, limit, still = panel.surface_limit, panel.heat_loss_limit, panel.still_air
             hottest = panel.hottest_air_temperature
             self._submit("insulation", panel, lambda: compute.insulation_view(case, touch, limit, still, hottest),
                          lambda view: setattr(panel, "view", view), delay=settings.EXPENSIVE_DELAY / 2)

@@ -312,7 +312,7 @@ def _sizing(name, result) -> Sizing:
                   first(result.air_temperature), first(result.wind_speed), first(result.jacket_emissivity))
 
 
-def insulation_view(case: CaseSpec, touch_limit: float, heat_loss_limit: float, still_air: bool,
+def insulation_view(case: CaseSpec, surface_limit: float, heat_loss_limit: float, still_air: bool,
                     hottest_air_temperature: float | None = None) -> InsulationView:
     """Thickness curves and the thicknesses that meet the touch, heat-loss and condensation limits.
 
@@ -338,7 +338,7 @@ def insulation_view(case: CaseSpec, touch_limit: float, heat_loss_limit: float, 
     if hot:
         hottest = case.air_temperature if hottest_air_temperature is None else hottest_air_temperature
         sizings.append(_sizing("touch", design.thickness_for_surface_temperature(
-            d, tf, surface_limit=touch_limit, hottest_air_temperature=hottest, **common,
+            d, tf, surface_limit=surface_limit, hottest_air_temperature=hottest, **common,
             **{**outdoor, "wind_speed": 0.0})))
     else:
         sizings.append(_sizing("condensation", design.thickness_against_condensation(

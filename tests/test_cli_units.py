@@ -223,3 +223,27 @@ def test_study_file_values_with_units_equal_si_values():
     assert (axis.start, axis.stop) == pytest.approx((263.15, 303.15), rel=1e-12)
     with pytest.raises(ValueError, match="diameter"):
         CaseSpec.model_validate_json('{"kind": "insulated", "diameter": "4.5 kg", "fluid_temperature": 400}')
+
+
+def test_one_option_name_per_meaning_with_the_old_names_warned(capsys):
+    """One vocabulary (issue): --air-temperature on every command (was --minimum-ambient on freeze and trace),
+    --surface-limit (was --touch-limit), --pipe-outer-diameter (was --pipe-diameter); the old names still work for
+    one version with a warning. Emissivity and sky view take the same names on line, tank and duct commands."""
+    from convlib.cli import main
+
+    args = ["freeze", "--pipe-outer-diameter", "60.3mm", "--wall-thickness", "3.91mm", "--initial-temperature",
+            "10degC", "--air-temperature=-15degC", "--layer", "25mm,0.04", "--json"]
+    assert main(args) == 0
+    new = capsys.readouterr()
+    old_args = [a.replace("--air-temperature", "--minimum-ambient").replace("--pipe-outer-diameter", "--pipe-diameter")
+                for a in args]
+    assert main(old_args) == 0
+    old = capsys.readouterr()
+    assert old.out == new.out and "warning" not in new.err
+    assert "--minimum-ambient is deprecated; use --air-temperature" in old.err
+    assert "--pipe-diameter is deprecated; use --pipe-outer-diameter" in old.err
+    for command in (["tank", "--diameter", "6m", "--height", "8m"], ["duct", "--width", "600mm", "--height", "400mm",
+                                                                    "--length", "20m"]):
+        assert main([*command, "--surface-temperature", "40degC", "--air-temperature", "10degC",
+                     "--jacket-emissivity", "0.3", "--sky-view-fraction", "0.5", "--json"]) == 0
+        capsys.readouterr()

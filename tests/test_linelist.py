@@ -420,3 +420,27 @@ def test_rows_for_json_carry_si_values_and_none_for_missing(demo):
     assert rows[0]["tag"] == demo.tag[0] and rows[0]["q_per_length"] == float(demo.q_per_length[0])
     assert any(r["dew_point"] is None for r in rows) and any(r["dew_point"] is not None for r in rows)
     assert isinstance(rows[0]["touch_flag"], bool)
+
+
+def test_one_layer_syntax_for_the_command_line_and_the_line_list(capsys):
+    """The same layer string gives the same layers on the command line and in a line-list cell (issue: one
+    layer syntax); the 0.2.0 line-list form still reads, with a DeprecationWarning."""
+    import io
+    import warnings
+
+    from cli_helpers import run_json
+    from convlib.linelist import run_line_list
+
+    header = "tag,nps,length[m],fluid_temperature[degC],air_temperature[degC],layers,jacket_emissivity\n"
+    cell = "50mm,0.045,mineral wool; 0.7mm,200,aluminium jacket"
+    new = run_line_list(io.StringIO(header + f'L1,4,10,180,20,"{cell}",0.1\n'))
+    cli = run_json(capsys, "line", "--nps", "4", "--fluid-temperature", "180degC", "--air-temperature", "20degC",
+                   "--layer", "50mm,0.045,mineral wool", "--layer", "0.7mm,200,aluminium jacket",
+                   "--jacket-emissivity", "0.1")
+    assert float(new.q_per_length[0]) == pytest.approx(cli["line"]["results"][0]["q_per_length"], rel=1e-9)
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        old = run_line_list(io.StringIO(header + "L1,4,10,180,20,50mm@0.045 mineral wool; 0.7mm@200 jacket,0.1\n"))
+    assert any(issubclass(w.category, DeprecationWarning) and "THICKNESS,CONDUCTIVITY" in str(w.message)
+               for w in caught)
+    assert float(old.q_per_length[0]) == float(new.q_per_length[0])

@@ -88,9 +88,9 @@ def test_cli_touch_sizing_uses_still_air_and_the_hottest_ambient(capsys):
                                                       jacket_emissivity=0.1, wind_speed=0.0)
     assert row["required_thickness_m"] == pytest.approx(float(direct.required_thickness), rel=1e-9)
     assert row["air_temperature"] == pytest.approx(313.15) and row["wind_speed"] == 0.0
-    assert row["jacket_emissivity"] == 0.1 and row["touch_limit"] == pytest.approx(333.15)
+    assert row["jacket_emissivity"] == 0.1 and row["surface_limit"] == pytest.approx(333.15)  # key renamed from touch_limit (one vocabulary)
     assert row["limit_source"] == "given" and "still air" in row["notes"]
-    assert out["units"]["required_thickness"] == "m" and out["units"]["touch_limit"] == "K"
+    assert out["units"]["required_thickness"] == "m" and out["units"]["surface_limit"] == "K"
     assert not any("design default" in c for c in out["cautions"])
     # told otherwise, the wind counts (a thinner layer) and the echo says so
     windy = run_json(capsys, *SIZE, "--wind-speed", "5", "--wind-for-touch")["sizing"]
@@ -118,7 +118,7 @@ def test_cli_size_options_apply_only_to_their_limit(capsys):
     err = run_error(capsys, "size", "--nps", "4", "--fluid-temperature", "180degC", "--air-temperature", "20degC",
                     "--insulation-conductivity", "0.04", "--heat-loss-limit", "60W/m", "--hottest-air-temperature",
                     "35degC")
-    assert "--hottest-air-temperature" in err and "--touch-limit" in err
+    assert "--hottest-air-temperature" in err and "--surface-limit" in err  # the option renamed from --touch-limit
 
 
 # ----------------------------------------------------------------------------- condensation sizing

@@ -26,7 +26,7 @@ class InsulationPanel(Panel):
         Curves and sizings (set by the app).
     applicable : bool
         False for a bare surface (the panel says so).
-    touch_limit : float
+    surface_limit : float
         Highest jacket temperature [K].
     heat_loss_limit : float
         Highest heat flow [W/m].
@@ -38,7 +38,7 @@ class InsulationPanel(Panel):
 
     view = traitlets.Instance(InsulationView, allow_none=True)
     applicable = traitlets.Bool(True)
-    touch_limit = traitlets.Float(design.TOUCH_LIMIT_METAL_JACKET)
+    surface_limit = traitlets.Float(design.TOUCH_LIMIT_METAL_JACKET)
     heat_loss_limit = traitlets.Float(60.0)
     still_air = traitlets.Bool(True)
     hottest_air_temperature = traitlets.Float(None, allow_none=True)
@@ -70,7 +70,7 @@ class InsulationPanel(Panel):
 
     def reset(self):
         super().reset()
-        self.touch_limit = design.TOUCH_LIMIT_METAL_JACKET
+        self.surface_limit = design.TOUCH_LIMIT_METAL_JACKET
         self.heat_loss_limit = self._default_limit
         self.still_air = True
         self._hottest_set = False
@@ -93,11 +93,11 @@ class InsulationPanel(Panel):
 
     def _touch_changed(self, change):
         if change["new"] is not None:
-            self.touch_limit = change["new"]
+            self.surface_limit = change["new"]
 
     def _fill_touch(self):
         d = self.display
-        keep = self.touch_limit
+        keep = self.surface_limit
         self.touch_box.options = [(f"{label}, {d.text(value, 'surface_temperature')}", value)
                                   for label, value in _TOUCH]
         self.touch_box.value = min((v for _, v in _TOUCH), key=lambda v: abs(v - keep))

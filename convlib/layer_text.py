@@ -1,0 +1,65 @@
+"""The one way layers are written, on the command line and in a line list.
+
+A layer is ``THICKNESS,CONDUCTIVITY[,NAME]`` (``50mm,0.045,mineral wool``; a number with or without its unit,
+plain numbers per the entry point: mm / W/m/K in SI, in / Btu·in/(h·ft²·°F) in US units, or the CSV column's
+unit); several layers, from the pipe outwards, are separated by ``;`` in a line-list cell (a CSV cell holding
+commas is quoted, as spreadsheets do) and given as repeated ``--layer`` options on the command line.
+
+The line list's form of version 0.2.0, ``THICKNESS@CONDUCTIVITY NAME``, is still read for one version, with a
+:class:`DeprecationWarning`.
+"""
+from __future__ import annotations
+
+import re
+import warnings
+
+from .errors import InputError
+
+__all__ = ["LAYER_SYNTAX", "LAYER_EXAMPLE", "split_layer", "split_layers"]
+
+LAYER_SYNTAX = "THICKNESS,CONDUCTIVITY[,NAME]"
+LAYER_EXAMPLE = "50mm,0.045,mineral wool"
+_LEGACY = re.compile(r"^(?P<thickness>[^@,]+?)\s*@\s*(?P<rest>.+)$", re.S)
+
+
+def split_layer(text: str, field: str = "layer") -> tuple[str, str, str | None]:
+    """(thickness text, conductivity text, name or ``None``) of one layer.
+
+    Examples
+    --------
+    >>> split_layer("50mm,0.045,mineral wool")
+    ('50mm', '0.045', 'mineral wool')
+    >>> split_layer("2in, 0.3 Btu*in/(h*ft**2*degF)")
+    ('2in', '0.3 Btu*in/(h*ft**2*degF)', None)
+    >>> split_layer("50")
+    Traceback (most recent call last):
+    ...
+    convlib.errors.InputError: layer '50': write THICKNESS,CONDUCTIVITY[,NAME], e.g. 50mm,0.045,mineral wool
+    """
+    text = str(text).strip()
+    if "," not in text:
+        legacy = _LEGACY.match(text)
+        if legacy is not None:
+            from .linelist import _conductivity_and_name  # the reader of "0.045 W/m/K mineral wool"
+
+            warnings.warn(f"{field} {text!r}: THICKNESS@CONDUCTIVITY NAME is deprecated; write {LAYER_SYNTAX}, "
+                          f"e.g. {LAYER_EXAMPLE}", DeprecationWarning, stacklevel=3)
+            conductivity, name = _conductivity_and_name(legacy["rest"].strip())
+            return legacy["thickness"].strip(), conductivity, name or None
+    parts = [p.strip() for p in text.split(",")]
+    if len(parts) not in (2, 3) or not parts[0] or not parts[1]:
+        raise InputError(f"{field} {text!r}: write {LAYER_SYNTAX}, e.g. {LAYER_EXAMPLE}", field=field,
+                         rule=LAYER_SYNTAX, value=text)
+    return parts[0], parts[1], (parts[2] or None) if len(parts) == 3 else None
+
+
+def split_layers(cell: str) -> list[str]:
+    """The layers of a line-list cell, separated by ``;`` (``bare`` or ``none``: no layer).
+
+    >>> split_layers("80mm,0.045,mineral wool; 0.7mm,200,aluminium jacket")
+    ['80mm,0.045,mineral wool', '0.7mm,200,aluminium jacket']
+    """
+    text = str(cell).strip()
+    if text.lower() in ("bare", "none", ""):
+        return []
+    return [part.strip() for part in text.split(";") if part.strip()]
