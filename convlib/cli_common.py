@@ -15,7 +15,7 @@ from .layer_text import split_layer
 from .pipe import Layer
 from .pipe_sizes import SCHEDULES, nominal_pipe
 from .properties import dew_point
-from .units import INPUTS, KIND_SI_UNIT, display_unit, from_si, help_units, parse, read
+from .units import INPUTS, KIND_SI_UNIT, display_unit, from_si, help_units, read
 
 CAUTION_HOT = ("Caution: surfaces above about 60 degC can burn on contact (ISO 13732-1 gives limits by material "
                "and contact time); local codes and licensed practice govern guarding and insulation.")

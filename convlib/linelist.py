@@ -92,7 +92,6 @@ import warnings
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from importlib import resources
-from pathlib import Path
 from typing import NamedTuple
 
 import numpy as np

@@ -585,10 +585,6 @@ class StudyResult(_Model):
 
 
 # ----------------------------------------------------------------------------- runner
-def _range_ok(flags: np.ndarray) -> np.ndarray:
-    return (np.asarray(flags) & ~Flag.INFORMATIONAL) == 0
-
-
 def _relative_spread(values: np.ndarray, ok: np.ndarray) -> tuple[list, list]:
     """(max - min) / |median| over axis 0 where ``ok``; ``None`` where fewer than two apply."""
     count = ok.sum(axis=0)

@@ -12,7 +12,7 @@ from pathlib import Path
 
 __all__ = [
     "ControlSetting", "CONTROLS", "QUANTITIES", "PANELS", "UNIT_SYSTEMS", "DEFAULT_UNIT_SYSTEM",
-    "EXTRA_SWEEPS", "DEFAULT_SCHEDULE", "RECOMPUTE_DELAY", "EXPENSIVE_DELAY", "MAP_POINTS", "RA_GRID", "RE_GRID",
+    "EXTRA_SWEEPS", "DEFAULT_SCHEDULE", "EXPENSIVE_DELAY", "MAP_POINTS", "RA_GRID", "RE_GRID",
     "MONTE_CARLO_SAMPLES", "MODEL_FORMS", "HEAT_LOSS_LIMIT", "SIZING_MAX_THICKNESS", "snapshot_dir", "convlib_home", "MAX_SNAPSHOT_BYTES", "PALETTE",
     "MODE_COLOURS", "PRETTY_UNITS", "FIGURE_HEIGHT", "FIGURE_WIDTH", "SIDEBAR_WIDTH", "MAP_LOWEST_WIND",
     "ServeDefaults", "SERVE", "BUNDLE_ENV", "OPERATION", "OPERATION_SERVICES", "OPERATION_SWEEPS", "VESSEL",
@@ -240,8 +240,6 @@ OPERATION_SWEEPS = {
 
 DEFAULT_SCHEDULE = "40"
 
-#: Seconds before the visible panel is recomputed after a change (0: at once, coalesced).
-RECOMPUTE_DELAY = 0.0
 #: Seconds of quiet before the expensive parts (regime map, Monte Carlo, sizing) recompute.
 EXPENSIVE_DELAY = 0.4
 

@@ -158,13 +158,6 @@ class LinePanel(Panel):
             self._quiet = False
         self._publish()
 
-    def _set_trait_quietly(self, widget, value):
-        self._quiet = True
-        try:
-            widget.value = value
-        finally:
-            self._quiet = False
-
     # ------------------------------------------------------------------ events
     @traitlets.observe("units")
     def _units_changed(self, change):

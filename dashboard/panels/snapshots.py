@@ -16,9 +16,6 @@ from .controls import DESCRIPTION_STYLE
 
 __all__ = ["SnapshotPanel", "download_link", "entry_label", "is_temporary"]
 
-ACTIONS = ("save", "open", "verify", "compare", "report", "refresh")
-
-
 def download_link(data: bytes, filename: str, text: str) -> str:
     """An HTML anchor that downloads ``data`` as ``filename`` (a data: URI; nothing is served)."""
     encoded = base64.b64encode(data).decode("ascii")
