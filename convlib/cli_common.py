@@ -255,7 +255,8 @@ def pipe_diameter(args) -> float:
 def outside(args) -> dict:
     """Wind, jacket emissivity, sky view and a given convective coefficient of a line's outer surface."""
     return dict(wind_speed=value(args, "wind_speed"), jacket_emissivity=args.jacket_emissivity,
-                sky_view_fraction=args.sky_view_fraction, convection_coefficient=value(args, "convection_coefficient"))
+                sky_view_fraction=args.sky_view_fraction, convection_coefficient=value(args, "convection_coefficient"),
+                solar_irradiance=value(args, "solar_irradiance"), solar_absorptivity=args.solar_absorptivity)
 
 
 def conditions(args) -> dict:
@@ -298,5 +299,9 @@ def pipe_size_options(p) -> None:
                    help="emissivity of the outer surface (jacket, or the bare pipe); both names accepted, as on "
                         "tank and duct")
     p.add_argument("--sky-view-fraction", type=float, default=0.0, help="part of the view that is sky (0 indoors)")
+    add_quantity(p, "solar-irradiance", "heat_flux", "sun on the line's projected area, e.g. 600W/m2 (default none; "
+                 "absorbed by the jacket at its emissivity unless --solar-absorptivity)")
+    p.add_argument("--solar-absorptivity", type=float, default=None, help="short-wave absorptivity of the jacket "
+                   "(default its emissivity)")
     add_quantity(p, "convection-coefficient", "coefficient", GIVEN_COEFFICIENT_HELP)
     p.add_argument("--tag", default="line", help="label for the output")

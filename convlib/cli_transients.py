@@ -60,7 +60,6 @@ def _cmd_warmup(args) -> int:
 
 def _surroundings_options(p) -> None:
     add_quantity(p, "air-temperature", "air_temperature", "ambient air temperature, e.g. -10degC", required=True)
-    add_quantity(p, "solar-irradiance", "heat_flux", "sun on the line's projected area, e.g. 600W/m2 (default none)")
     p.add_argument("--layer", action="append", help=LAYER_HELP)
     add_quantity(p, "wall-thickness", "wall_thickness", "pipe wall, e.g. 6.02mm (default from --nps and --schedule)")
 

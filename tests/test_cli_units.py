@@ -247,3 +247,20 @@ def test_one_option_name_per_meaning_with_the_old_names_warned(capsys):
         assert main([*command, "--surface-temperature", "40degC", "--air-temperature", "10degC",
                      "--jacket-emissivity", "0.3", "--sky-view-fraction", "0.5", "--json"]) == 0
         capsys.readouterr()
+
+
+def test_sun_on_lines_from_the_command_line_is_the_python_call(capsys):
+    """Sun on lines in the command line (issue: CLI had no sun for lines): --solar-irradiance and
+    --solar-absorptivity reach insulated_pipe unchanged."""
+    import convlib as cl
+    from cli_helpers import run_json
+
+    out = run_json(capsys, "line", "--nps", "4", "--fluid-temperature", "180degC", "--air-temperature", "20degC",
+                   "--layer", "50mm,0.04", "--sky-view-fraction", "0.5", "--solar-irradiance", "800W/m2",
+                   "--solar-absorptivity", "0.3", "--jacket-emissivity", "0.1")
+    r = cl.insulated_pipe(0.1143, 453.15, [cl.Layer(0.05, 0.04)], air_temperature=293.15, sky_view_fraction=0.5,
+                          solar_irradiance=800.0, solar_absorptivity=0.3, jacket_emissivity=0.1)
+    assert out["line"]["results"][0]["q_per_length"] == pytest.approx(float(r.q_per_length), rel=1e-9)
+    shade = cl.insulated_pipe(0.1143, 453.15, [cl.Layer(0.05, 0.04)], air_temperature=293.15, sky_view_fraction=0.5,
+                              jacket_emissivity=0.1)
+    assert float(r.q_per_length) < float(shade.q_per_length)   # absorbed sun lowers the net loss
