@@ -6,6 +6,7 @@ parsed here, at the edge, by :mod:`convlib.units`).
 from __future__ import annotations
 
 import json
+import math
 import sys
 
 from . import __version__
@@ -13,7 +14,7 @@ from .design import CAUTION_CONDENSATION, CONDENSATION_MARGIN, TOUCH_LIMIT_METAL
 from .errors import InputError
 from .layer_text import split_layer
 from .pipe import Layer
-from .pipe_sizes import SCHEDULES, nominal_pipe
+from .pipe_sizes import SCHEDULES, nominal_pipe, pipe_size
 from .properties import dew_point
 from .units import INPUTS, KIND_SI_UNIT, display_unit, from_si, help_units, read
 
@@ -243,13 +244,43 @@ def layers(args, dest: str = "layer") -> list[Layer]:
 
 
 def pipe_diameter(args) -> float:
-    if (args.nps is None) == (args.pipe_outer_diameter is None):
-        raise InputError("give the pipe as --nps (with --schedule) or as --pipe-outer-diameter, not both",
-                         field="--nps, --pipe-outer-diameter", rule="exactly one of them",
-                         value=(args.nps, args.pipe_outer_diameter))
+    """The pipe's own outside diameter [m] from exactly one of --nps, --size or --pipe-outer-diameter."""
+    given = [name for name in ("nps", "size", "pipe_outer_diameter") if getattr(args, name, None) is not None]
+    if len(given) != 1:
+        raise InputError("give the pipe as one of --nps (with --schedule), --size (DN100, CU22x1.0, B88-3/4-L) or "
+                         "--pipe-outer-diameter", field="--nps, --size, --pipe-outer-diameter",
+                         rule="exactly one of them", value=given)
     if args.nps is not None:
         return nominal_pipe(args.nps, args.schedule).outer_diameter
+    if getattr(args, "size", None) is not None:
+        return pipe_size(args.size).outer_diameter
     return value(args, "pipe_outer_diameter")
+
+
+#: Pure copper at 300 K: density [kg/m3] and specific heat [J/kg/K] (Incropera et al., Fundamentals of Heat and
+#: Mass Transfer, 6th ed., Table A.1, from memory), for the heat capacity of a copper tube's wall.
+COPPER_WALL = {"pipe_density": 8933.0, "pipe_specific_heat": 385.0}
+
+
+def wall_material(args) -> dict:
+    """Density and specific heat of the pipe wall for a copper --size (else the steel defaults of the library)."""
+    size = getattr(args, "size", None)
+    if size is not None and pipe_size(size).schedule.startswith(("EN 1057", "ASTM B88")):
+        return dict(COPPER_WALL)
+    return {}
+
+
+def pipe_wall(args) -> float | None:
+    """The pipe wall [m]: --wall-thickness, else the standard size's (NPS schedule, copper tube); None if unknown
+    (DN sizes of EN 10220 imply no wall)."""
+    if getattr(args, "wall_thickness", None) is not None:
+        return value(args, "wall_thickness")
+    if args.nps is not None:
+        return nominal_pipe(args.nps, args.schedule).wall_thickness
+    if getattr(args, "size", None) is not None:
+        wall = pipe_size(args.size).wall_thickness
+        return None if math.isnan(wall) else wall
+    return None
 
 
 def outside(args) -> dict:
@@ -293,6 +324,8 @@ def pipe_options(p) -> None:
 def pipe_size_options(p) -> None:
     p.add_argument("--nps", help="nominal pipe size, e.g. 4, 0.75, 3/4 or 1-1/2")
     p.add_argument("--schedule", default="40", choices=SCHEDULES, help="pipe schedule (default 40)")
+    p.add_argument("--size", help="the pipe by a standard size instead of --nps: DN100 (steel, EN 10220), CU22x1.0 "
+                   "(copper, EN 1057), B88-3/4-L (copper, ASTM B88 type K/L/M), NPS4/80")
     add_quantity(p, "pipe-outer-diameter", "pipe_diameter", "pipe outer diameter instead of --nps, e.g. 114.3mm")
     add_quantity(p, "wind-speed", "wind_speed", "wind speed (default 0: still air)", default="0")
     p.add_argument("--jacket-emissivity", "--emissivity", dest="jacket_emissivity", type=float, default=0.9,

@@ -7,7 +7,7 @@ from __future__ import annotations
 import numpy as np
 
 from .cli_common import (GIVEN_COEFFICIENT_HELP, LAYER_UNITS, add_quantity, condensation_check, condensation_options,
-                         emit, layers, nominal_pipe, output_options, outside, pipe_diameter, pipe_size_options,
+                         emit, layers, output_options, outside, pipe_diameter, pipe_size_options, pipe_wall, wall_material,
                          pretty_unit, surface_cautions, value)
 from .errors import InputError
 from .operation import (TRACING_MARGIN, freeze_time, line_temperature_profile, minimum_flow, steam_line,
@@ -133,16 +133,14 @@ def _cmd_steam(args) -> int:
 
 def _cmd_freeze(args) -> int:
     d = pipe_diameter(args)
-    if args.wall_thickness is not None:
-        wall = value(args, "wall_thickness")
-    elif args.nps is not None:
-        wall = nominal_pipe(args.nps, args.schedule).wall_thickness
-    else:
-        raise InputError("--wall-thickness is required with --pipe-outer-diameter (with --nps it comes from the schedule)",
-                         field="--wall-thickness", rule="given with --pipe-outer-diameter", value=None)
+    wall = pipe_wall(args)
+    if wall is None:
+        raise InputError("--wall-thickness is required with --pipe-outer-diameter or a DN size (with --nps or a "
+                         "copper --size it comes from the standard)", field="--wall-thickness",
+                         rule="given unless the size implies it", value=None)
     initial = value(args, "initial_temperature")
     ambient = value(args, "air_temperature")
-    r = freeze_time(d, wall, initial, layers(args), air_temperature=ambient, **outside(args))
+    r = freeze_time(d, wall, initial, layers(args), air_temperature=ambient, **wall_material(args), **outside(args))
     row = {"tag": args.tag, "initial_temperature": initial, "air_temperature": ambient,
            "freezes": "no" if bool(r.never_freezes) else "yes"}  # said in the row, never as an inf time
     if not bool(r.never_freezes):

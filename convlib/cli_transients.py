@@ -4,20 +4,20 @@ Registered on the ``convlib`` parser by :func:`add_commands` (see :mod:`convlib.
 """
 from __future__ import annotations
 
-from .cli_common import (LAYER_UNITS, add_quantity, emit, layers, nominal_pipe, output_options, pipe_diameter,
-                         pipe_size_options, value)
+from .cli_common import (LAYER_UNITS, add_quantity, emit, layers, output_options, pipe_diameter, pipe_size_options,
+                         pipe_wall, value, wall_material)
 from .errors import InputError
 
 LAYER_HELP = f"THICKNESS,CONDUCTIVITY[,NAME] from the pipe outwards, e.g. --layer 50mm,0.04,mineral wool [{LAYER_UNITS}]"
 
 
 def _wall(args) -> float:
-    if args.wall_thickness is not None:
-        return value(args, "wall_thickness")
-    if args.nps is not None:
-        return nominal_pipe(args.nps, args.schedule).wall_thickness
-    raise InputError("--wall-thickness is required with --pipe-outer-diameter (with --nps it comes from the schedule)",
-                     field="--wall-thickness", rule="given with --pipe-outer-diameter", value=None)
+    wall = pipe_wall(args)
+    if wall is None:
+        raise InputError("--wall-thickness is required with --pipe-outer-diameter or a DN size (with --nps or a "
+                         "copper --size it comes from the standard)", field="--wall-thickness",
+                         rule="given unless the size implies it", value=None)
+    return wall
 
 
 def _around(args) -> dict:
@@ -31,7 +31,7 @@ def _cmd_cooldown(args) -> int:
 
     initial, final = value(args, "initial_temperature"), value(args, "final_temperature")
     r = cool_down_time(pipe_diameter(args), _wall(args), initial, final, layers(args), fluid=args.fluid,
-                       fluid_pressure=value(args, "fluid_pressure"), **_around(args))
+                       fluid_pressure=value(args, "fluid_pressure"), **wall_material(args), **_around(args))
     row = {"tag": args.tag, "initial_temperature": initial, "final_temperature": final,
            "air_temperature": value(args, "air_temperature"), "reaches": "no" if bool(r.never_reaches) else "yes",
            "q_initial": float(r.q_initial), "q_final": float(r.q_final), "warnings": r.warning_messages()}
@@ -48,7 +48,7 @@ def _cmd_warmup(args) -> int:
     w = warm_up_condensate(pipe_diameter(args), _wall(args), value(args, "steam_pressure"),
                            value(args, "start_temperature") if args.start_temperature is not None
                            else value(args, "air_temperature"), value(args, "warm_up_time"), layers(args),
-                           length=length, **_around(args))
+                           length=length, **wall_material(args), **_around(args))
     row = {"tag": args.tag, "steam_pressure": value(args, "steam_pressure"),
            "saturation_temperature": float(w.saturation_temperature),
            "wall_mass": float(w.wall_mass), "warm_up_condensate": float(w.warm_up_condensate),

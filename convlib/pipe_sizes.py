@@ -1,4 +1,5 @@
-"""Standard pipe sizes: nominal pipe size (NPS) and schedule to outer diameter and wall.
+"""Standard pipe sizes: nominal pipe size (NPS) and schedule to outer diameter and wall; DN (EN 10220) and
+copper tube (EN 1057, ASTM B88) by :func:`pipe_size`.
 
 Dimensions of ASME B36.10M (welded and seamless wrought steel pipe) and
 B36.19M (stainless, the ``S`` schedules), taken from the tables carried by the
@@ -14,7 +15,8 @@ from fractions import Fraction
 
 from .errors import InputError
 
-__all__ = ["PipeSize", "nominal_pipe", "parse_nps", "SCHEDULES", "nominal_sizes"]
+__all__ = ["PipeSize", "nominal_pipe", "parse_nps", "SCHEDULES", "nominal_sizes", "pipe_size",
+           "EN10220_OUTSIDE_DIAMETER_MM", "EN1057_OUTSIDE_DIAMETER_MM", "ASTM_B88"]
 
 #: Schedules of ASME B36.10M and B36.19M offered here.
 SCHEDULES = ("5", "10", "20", "30", "40", "60", "80", "100", "120", "140", "160", "STD", "XS", "XXS",
@@ -101,3 +103,93 @@ def nominal_pipe(nps: float | str, schedule: str = "40") -> PipeSize:
     raise InputError(f"NPS {value:g} is not a standard size in schedule {schedule}; nearest: "
                      f"{', '.join(f'{n:g}' for n in sorted(near))}", field="nps",
                      rule=f"a standard size of schedule {schedule}", value=nps)
+
+
+# ----------------------------------------------------------------------------- metric steel and copper tube
+#: Outside diameters of steel tube by DN [mm]: EN 10220:2002, series 1 (the ISO 4200 main series; from memory). No
+#: wall is implied: EN 10220 lists several walls per diameter, so give the wall where it matters.
+EN10220_OUTSIDE_DIAMETER_MM = {6: 10.2, 8: 13.5, 10: 17.2, 15: 21.3, 20: 26.9, 25: 33.7, 32: 42.4, 40: 48.3,
+                               50: 60.3, 65: 76.1, 80: 88.9, 100: 114.3, 125: 139.7, 150: 168.3, 200: 219.1,
+                               250: 273.0, 300: 323.9, 350: 355.6, 400: 406.4, 450: 457.0, 500: 508.0, 600: 610.0}
+
+#: Outside diameters of copper tube [mm]: EN 1057:2006 + A1:2010, Table 3 (from memory); written ``ODxWALL``.
+EN1057_OUTSIDE_DIAMETER_MM = (6.0, 8.0, 10.0, 12.0, 14.0, 15.0, 16.0, 18.0, 22.0, 28.0, 35.0, 42.0, 54.0, 64.0,
+                              66.7, 76.1, 88.9, 108.0, 133.0, 159.0, 219.0, 267.0)
+
+#: ASTM B88 copper water tube: nominal size -> outside diameter [in] (nominal + 1/8 in) and wall [in] of types K,
+#: L and M (ASTM B88-20, Table 1; from memory). Type M has no 1/4 in size.
+ASTM_B88 = {
+    0.25: (0.375, {"K": 0.035, "L": 0.030}), 0.375: (0.500, {"K": 0.049, "L": 0.035, "M": 0.025}),
+    0.5: (0.625, {"K": 0.049, "L": 0.040, "M": 0.028}), 0.75: (0.875, {"K": 0.065, "L": 0.045, "M": 0.032}),
+    1.0: (1.125, {"K": 0.065, "L": 0.050, "M": 0.035}), 1.25: (1.375, {"K": 0.065, "L": 0.055, "M": 0.042}),
+    1.5: (1.625, {"K": 0.072, "L": 0.060, "M": 0.049}), 2.0: (2.125, {"K": 0.083, "L": 0.070, "M": 0.058}),
+    2.5: (2.625, {"K": 0.095, "L": 0.080, "M": 0.065}), 3.0: (3.125, {"K": 0.109, "L": 0.090, "M": 0.072}),
+    4.0: (4.125, {"K": 0.134, "L": 0.110, "M": 0.095}), 5.0: (5.125, {"K": 0.160, "L": 0.125, "M": 0.109}),
+    6.0: (6.125, {"K": 0.192, "L": 0.140, "M": 0.122}), 8.0: (8.125, {"K": 0.271, "L": 0.200, "M": 0.170}),
+}
+
+_INCH = 0.0254
+
+
+def _size_error(text, why: str) -> InputError:
+    rule = "DN<n> (EN 10220), NPS<n>[/<schedule>], CU<OD>x<wall> (EN 1057, mm) or B88-<n>-<K|L|M>"
+    return InputError(f"pipe size {text!r}: {why}; write e.g. DN100, NPS4/40, CU22x1.0 or B88-3/4-L", field="size",
+                      rule=rule, value=text)
+
+
+def pipe_size(text: str) -> PipeSize:
+    """A pipe or tube as engineers name it: ``DN100`` (steel, EN 10220 series 1; no wall implied, NaN),
+    ``NPS4`` or ``NPS4/80`` (ASME B36.10M, schedule 40 by default), ``CU22x1.0`` (copper, EN 1057: outside
+    diameter x wall in mm) or ``B88-3/4-L`` (copper water tube, ASTM B88 type K, L or M).
+
+    Examples
+    --------
+    >>> p = pipe_size("DN100"); p.outer_diameter, p.schedule
+    (0.1143, 'EN 10220')
+    >>> p = pipe_size("CU22x1.0"); round(p.outer_diameter, 4), round(p.inner_diameter, 4)
+    (0.022, 0.02)
+    >>> round(pipe_size("B88-3/4-L").outer_diameter, 6)
+    0.022225
+    >>> pipe_size("DN90")
+    Traceback (most recent call last):
+    ...
+    convlib.errors.InputError: pipe size 'DN90': DN 90 is not in EN 10220 series 1 (nearest: DN80, DN100); write e.g. DN100, NPS4/40, CU22x1.0 or B88-3/4-L
+    """
+    raw = str(text).strip()
+    upper = raw.upper().replace(" ", "")
+    if upper.startswith("DN"):
+        try:
+            dn = int(upper[2:])
+        except ValueError:
+            raise _size_error(raw, "DN takes a whole number") from None
+        if dn not in EN10220_OUTSIDE_DIAMETER_MM:
+            near = sorted(EN10220_OUTSIDE_DIAMETER_MM, key=lambda n: abs(n - dn))[:2]
+            raise _size_error(raw, f"DN {dn} is not in EN 10220 series 1 (nearest: "
+                                   f"{', '.join(f'DN{n}' for n in sorted(near))})")
+        od = EN10220_OUTSIDE_DIAMETER_MM[dn] / 1000.0
+        return PipeSize(math.nan, "EN 10220", od, math.nan, math.nan)
+    if upper.startswith("NPS"):
+        nps, _, schedule = upper[3:].partition("/")
+        return nominal_pipe(nps, schedule or "40")
+    if upper.startswith("CU"):
+        m = re.fullmatch(r"CU(\d+(?:\.\d+)?)X(\d+(?:\.\d+)?)", upper)
+        if m is None:
+            raise _size_error(raw, "a copper tube is CU<outside diameter>x<wall> in mm")
+        od, wall = float(m[1]), float(m[2])
+        if not any(abs(od - d) < 1e-9 for d in EN1057_OUTSIDE_DIAMETER_MM):
+            raise _size_error(raw, f"{od:g} mm is not an EN 1057 outside diameter")
+        if not 0 < 2 * wall < od:
+            raise _size_error(raw, f"the wall {wall:g} mm does not fit a {od:g} mm tube")
+        return PipeSize(math.nan, "EN 1057", od / 1000.0, wall / 1000.0, (od - 2 * wall) / 1000.0)
+    if upper.startswith("B88-"):
+        parts = raw.split("-")
+        if len(parts) < 3:
+            raise _size_error(raw, "an ASTM B88 tube is B88-<nominal size>-<K, L or M>")
+        nominal, kind = "-".join(parts[1:-1]), parts[-1].upper()
+        size = parse_nps(nominal)
+        if size not in ASTM_B88 or kind not in ASTM_B88[size][1]:
+            raise _size_error(raw, f"no ASTM B88 type {kind} tube of nominal size {nominal}")
+        od_in, walls = ASTM_B88[size]
+        od, wall = od_in * _INCH, walls[kind] * _INCH
+        return PipeSize(size, f"ASTM B88 type {kind}", od, wall, od - 2 * wall)
+    raise _size_error(raw, "unknown kind of size")
