@@ -47,6 +47,7 @@ bench: $(STAMP)
 	$(PY) benchmarks/run.py
 	$(PY) benchmarks/dashboard_latency.py
 	$(PY) benchmarks/scale.py
+	$(PY) benchmarks/memory.py
 
 clean:
 	rm -rf $(VENV) build *.egg-info .pytest_cache

@@ -24,6 +24,7 @@ from dataclasses import dataclass, fields
 
 import numpy as np
 
+from .blocks import blocked
 from .conductivity import Conductivity
 from .errors import InputError
 from .regimes import Flag
@@ -81,6 +82,7 @@ def _drops(radii_inner, radii_outer):
     return np.log(radii_outer / radii_inner) / (2.0 * np.pi)
 
 
+@blocked
 def insulated_pipe(
     pipe_outer_diameter,
     fluid_temperature,

@@ -12,6 +12,7 @@ from dataclasses import dataclass, fields
 import numpy as np
 
 from . import correlations as corr
+from .blocks import blocked
 from .correlations.mixed import FLOW_DIRECTIONS, combine, default_mixing_exponent
 from .errors import InputError
 from .geometry import SHAPES, dimensions
@@ -300,6 +301,7 @@ def check_cross_flow(shape: str, around: Surroundings) -> None:
                          field="wind_direction", rule="'across' for a horizontal cylinder in wind", value="along")
 
 
+@blocked
 def bare_surface(
     shape: str = "horizontal_cylinder",
     *,
