@@ -41,7 +41,7 @@ import numpy as np
 
 from . import __version__
 from .cli_common import (ALLOW_HELP, deprecated_options, LAYER_UNITS, add_quantity, conditions, display_unit, emit, from_si, layers,
-                         condensation_check, condensation_options, output_options, pipe_diameter, pipe_options,
+                         condensation_check, condensation_options, output_options, pipe_diameter, add_line_options,
                          pretty_unit, surface_cautions, surface_row, table, units_map, value)
 from .cli_operation import add_commands as add_operation_commands
 from .cli_survey import add_commands as add_survey_commands
@@ -567,7 +567,7 @@ def build_parser() -> argparse.ArgumentParser:
     surf.set_defaults(func=_cmd_surface)
 
     line = sub.add_parser("line", help="an insulated or bare line with a known fluid temperature")
-    pipe_options(line)
+    add_line_options(line)
     line.add_argument("--layer", action="append", help="THICKNESS,CONDUCTIVITY[,NAME] from the pipe outwards, "
                       "e.g. --layer 50mm,0.04,mineral wool --layer 0.7mm,200,jacket "
                       f"[{LAYER_UNITS}]")
@@ -577,7 +577,7 @@ def build_parser() -> argparse.ArgumentParser:
     line.set_defaults(func=_cmd_line)
 
     size = sub.add_parser("size", help="insulation thickness for a limit")
-    pipe_options(size)
+    add_line_options(size)
     add_quantity(size, "insulation-conductivity", "insulation_conductivity",
                  "conductivity of the insulation to size, e.g. 0.04W/m/K", required=True)
     size.add_argument("--jacket", action="append", help="fixed layer outside it: THICKNESS,CONDUCTIVITY[,NAME] "

@@ -315,7 +315,7 @@ def output_options(p, quantities: bool = True) -> None:
         p.add_argument("--allow-unusual", action="store_true", help=ALLOW_HELP)
 
 
-def pipe_options(p) -> None:
+def add_line_options(p) -> None:
     add_quantity(p, "fluid-temperature", "temperature", "fluid temperature, e.g. 180degC", required=True)
     add_quantity(p, "air-temperature", "air_temperature", "ambient air temperature, e.g. 20degC", required=True)
     pipe_size_options(p)
