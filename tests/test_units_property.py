@@ -50,8 +50,8 @@ CASES = {
                            lambda a: float(layers(a)[0].conductivity.coefficients[0]), {"layers": "50mm@{text}"},
                            lambda p: p.spec.layers[0].conductivity),
     "pipe diameter": ("length", ["line", "--fluid-temperature", "90degC", "--air-temperature", "20degC",
-                                 "--pipe-diameter", "{text}"],
-                      lambda a: value(a, "pipe_diameter"), {"nps": "", "outer_diameter": "{text}"},
+                                 "--pipe-outer-diameter", "{text}"],   # --pipe-diameter before 0.3
+                      lambda a: value(a, "pipe_outer_diameter"), {"nps": "", "outer_diameter": "{text}"},
                       lambda p: p.spec.pipe_outer_diameter),
     "line length": ("length", ["line", *BASE_CLI, "--length", "{text}"], lambda a: value(a, "length"),
                     {"length": "{text}"}, lambda p: p.spec.length),
@@ -65,8 +65,8 @@ CASES = {
                        lambda a: value(a, "steam_pressure"), {"steam_pressure": "{text}"},
                        lambda p: p.operation["steam_pressure"]),
     "minimum ambient": ("temperature", ["trace", "--nps", "4", "--maintain-temperature", "5degC",
-                                        "--minimum-ambient", "{text}"],
-                        lambda a: value(a, "minimum_ambient"), {"minimum_ambient": "{text}"},
+                                        "--air-temperature", "{text}"],   # --minimum-ambient before 0.3
+                        lambda a: value(a, "air_temperature"), {"minimum_ambient": "{text}"},
                         lambda p: p.operation["minimum_ambient"]),
     "relative humidity": ("dimensionless", ["size", *BASE_CLI, "--insulation-conductivity", "0.04",
                                             "--relative-humidity", "{text}"],
