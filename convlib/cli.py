@@ -446,7 +446,12 @@ def _cmd_lines(args) -> int:
     if args.output:
         write_results_csv(result, args.output)
     for e in result.errors:
-        print(f"convlib: row {e.row} ({e.tag or 'no tag'}): {e.reason}", file=sys.stderr)
+        reason = e.reason
+        if "K for " in reason:  # the property data's kelvin, also in the reader's unit
+            from .units import kelvin_for_reader
+
+            reason = kelvin_for_reader(reason, args.units)
+        print(f"convlib: row {e.row} ({e.tag or 'no tag'}): {reason}", file=sys.stderr)
     if args.json:
         json.dump({"lines": {"results": result.rows(), "units": _LINE_UNITS},
                    "errors": [e._asdict() for e in result.errors], "totals": result.totals,

@@ -71,3 +71,14 @@ def test_property_range_errors_speak_the_readers_units(capsys):
     err = run_error(capsys, "surface", "--diameter", "100mm", "--surface-temperature", "4000degC",
                     "--air-temperature", "20degC", "--allow-unusual")
     assert "1727 degC" in err   # 2000 K - 273.15
+
+
+def test_line_list_row_errors_from_the_property_data_also_speak_the_readers_units(tmp_path, capsys):
+    from convlib.cli import main
+
+    path = tmp_path / "hot.csv"   # a bare line at 4000 degC: the film leaves air's 2000 K data (as above)
+    path.write_text('tag,nps,length[m],fluid_temperature[degC],air_temperature[degC],layers,jacket_emissivity\n'
+                    'HOT,4,10,4000,20,bare,0.9\nOK,4,10,180,20,"50mm,0.04",0.1\n')
+    assert main(["lines", str(path), "--allow-unusual", "--units", "US"]) == 1
+    err = capsys.readouterr().err
+    assert "row 2 (HOT)" in err and "3140 degF" in err   # 2000 K = 3140.3 degF
