@@ -101,14 +101,14 @@ class Store(traitlets.HasTraits):
             return
         case = self.case
         axes = compute.sweep_axes(self.study, case)
-        with self.hold_trait_notifications():
-            if [a.input for a in axes] != [a.input for a in self.axes]:
-                self.axes = axes
-                if self.sweep_input not in [a.input for a in axes]:
-                    self.sweep_input = axes[0].input if axes else None
-            self.chosen = compute.chosen_laws(case)
-            self.current = compute.current_value(case, self.sweep_input)
-            self.spec = compute.study_for_case(self.study, case)
+        if [a.input for a in axes] != [a.input for a in self.axes]:
+            self.axes = axes
+            if self.sweep_input not in [a.input for a in axes]:
+                self.sweep_input = axes[0].input if axes else None
+        # the spec first: the cards (base case) update before a marker of the sweep is redrawn
+        self.spec = compute.study_for_case(self.study, case)
+        self.chosen = compute.chosen_laws(case)
+        self.current = compute.current_value(case, self.sweep_input)
 
     @traitlets.observe("sweep_input")
     def _derive_current(self, change):
