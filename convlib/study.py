@@ -17,6 +17,7 @@ correlations of the geometry.
 """
 from __future__ import annotations
 
+import json
 import math
 import warnings
 from typing import Callable, Literal
@@ -35,7 +36,7 @@ from .surface import bare_surface
 
 __all__ = [
     "SCHEMA_VERSION", "INPUTS", "CaseSpec", "SweepAxis", "MapSpec", "TornadoInput", "Distribution",
-    "UncertaintySpec", "StudySpec", "StudyResult", "evaluate_case", "run_study", "run_sweep", "axis_values",
+    "UncertaintySpec", "StudySpec", "StudyResult", "evaluate_case", "run_study", "run_sweep", "sweep_key", "axis_values",
     "load_demo_study", "cautions_for",
 ]
 
@@ -598,18 +599,24 @@ def _relative_spread(values: np.ndarray, ok: np.ndarray) -> tuple[list, list]:
     return out, count.astype(int).tolist()
 
 
-def _compare(spec: StudySpec, **overrides) -> tuple[list[MethodCurves], list[Spread]]:
+def _compare(spec: StudySpec, default=None, **overrides) -> tuple[list[MethodCurves], list[Spread]]:
     """Every compared correlation at the given points, and the spread per mode.
 
-    The forced correlations are compared only where there is wind.
+    ``default`` is the result of the case's own laws at these points when the caller has it: the comparison
+    reuses it for the natural and the forced law it holds instead of solving the same case again. The forced
+    correlations are compared only where there is wind (none are solved when no point has any).
     """
     case = spec.case
     curves, spreads = [], []
     bits = {"natural": Flag.NATURAL_OUT_OF_RANGE, "forced": Flag.FORCED_OUT_OF_RANGE}
+    own = dict(zip(("natural", "forced"), _defaults(case)))
     for mode in ("natural", "forced"):
         nus, qs, oks = [], [], []
+        if mode == "forced" and default is not None and not (np.asarray(default.reynolds) > 0).any():
+            break  # still air at every point: no forced law applies
         for key in spec.compared_methods(mode):
-            r = evaluate_case(case, **{mode: key}, **overrides)
+            r = default if (default is not None and key == own[mode]) else evaluate_case(
+                case, **{mode: key}, **overrides)
             moving = np.broadcast_to(np.asarray(r.reynolds) > 0, np.shape(r.q_per_length)).ravel()
             if mode == "forced" and not moving.any():
                 break
@@ -641,20 +648,29 @@ def _accuracy(case: CaseSpec, wind_speed=None) -> np.ndarray:
     return np.where(wind > 0, windy, still) / 100.0
 
 
+def _uniform(values) -> np.ndarray | float:
+    """``values`` as a scalar when every point holds the same value (the solver then keeps it a scalar)."""
+    a = np.asarray(values, dtype=float)
+    return float(a.flat[0]) if a.size and np.all(a == a.flat[0]) else a
+
+
 def _band(spec: StudySpec, **overrides) -> tuple[np.ndarray, np.ndarray]:
     """q_per_length with the convective coefficient at (1 - accuracy) and (1 + accuracy): the model-form band,
-    with the accuracy of the laws that apply at each point (its own wind)."""
-    acc = _accuracy(spec.case, overrides.get("wind_speed"))
-    factor = np.asarray(overrides.pop("convection_factor", spec.case.convection_factor))
-    ends = [np.asarray(evaluate_case(spec.case, convection_factor=factor * f, **overrides).q_per_length).ravel()
-            for f in (1.0 - acc, 1.0 + acc)]
-    return np.minimum(*ends), np.maximum(*ends)
+    with the accuracy of the laws that apply at each point (its own wind). Both ends are one solve: the points
+    are independent, so stacking them gives the same numbers as two calls."""
+    acc = _uniform(_accuracy(spec.case, overrides.get("wind_speed")))
+    factor = np.asarray(overrides.pop("convection_factor", spec.case.convection_factor), dtype=float)
+    shape = np.broadcast_shapes(np.shape(acc), *(np.shape(v) for v in overrides.values()))
+    ends = np.stack([np.broadcast_to(1.0 - acc, shape), np.broadcast_to(1.0 + acc, shape)])  # (2, *points)
+    q = np.asarray(evaluate_case(spec.case, convection_factor=factor * ends, **overrides).q_per_length)
+    low, high = q[0].ravel(), q[1].ravel()
+    return np.minimum(low, high), np.maximum(low, high)
 
 
 def _sweep(spec: StudySpec, axis: SweepAxis) -> SweepResult:
     x = axis_values(axis)
     default = evaluate_case(spec.case, **{axis.input: x})
-    curves, spreads = _compare(spec, **{axis.input: x})
+    curves, spreads = _compare(spec, default, **{axis.input: x})
     low, high = _band(spec, **{axis.input: x})
     return SweepResult(input=axis.input, unit=INPUTS[axis.input][0], values=x.tolist(),
                        default=_quantities(default), methods=curves, spreads=spreads,
@@ -777,6 +793,27 @@ def run_sweep(spec: StudySpec, axis: SweepAxis) -> SweepResult:
     return _sweep(spec, spec.sweeps[0])
 
 
+def sweep_key(spec: StudySpec, axis: SweepAxis) -> str:
+    """A text that is equal for two studies exactly when their sweeps along ``axis`` are equal.
+
+    It holds what :func:`run_sweep` reads: the case without its own value of the swept input (every point
+    replaces it), the laws compared and the axis; not the name, the other sweeps, maps, tornado or
+    uncertainty. A cache keyed by it does not recompute the wind sweep when only the case's wind moves.
+
+    Examples
+    --------
+    >>> spec = StudySpec(case=CaseSpec(kind="bare", surface_temperature=353.15, diameter=0.1))
+    >>> axis = SweepAxis(input="wind_speed", start=0.0, stop=4.0, count=3)
+    >>> windy = spec.model_copy(update={"case": spec.case.model_copy(update={"wind_speed": 7.0})})
+    >>> sweep_key(spec, axis) == sweep_key(windy, axis)
+    True
+    """
+    case = spec.case.model_dump(mode="json")
+    case.pop(axis.input, None)
+    return json.dumps({"case": case, "natural_methods": spec.natural_methods, "forced_methods": spec.forced_methods,
+                       "axis": axis.model_dump(mode="json")}, sort_keys=True)
+
+
 def run_study(spec: StudySpec, progress: Callable[[float, str], None] | None = None) -> StudyResult:
     """Evaluate a study: base case, correlation comparison, sweeps, maps, tornado, Monte Carlo.
 
@@ -798,7 +835,7 @@ def run_study(spec: StudySpec, progress: Callable[[float, str], None] | None = N
     case = spec.case
     report(0.0, "base case")
     base = evaluate_case(case)
-    base_methods, base_spreads = _compare(spec)
+    base_methods, base_spreads = _compare(spec, base)
     dew = float(dew_point(case.air_temperature, case.relative_humidity, case.pressure))
     ts = float(np.asarray(base.surface_temperature))
     warnings = summarize_flags(base.warnings)

@@ -9,32 +9,52 @@ sizing functions of :mod:`convlib.design`, :mod:`convlib.operation` and
 """
 from __future__ import annotations
 
+import collections
 import functools
-
+import threading
 from dataclasses import dataclass, field
 
 import numpy as np
 from convlib import correlations as corr
 from convlib import design
 from convlib import operation as op
+from convlib import snapshot
 from convlib import vessels
+from convlib.correlations.registry import display_name
+from convlib.errors import InputError
+from convlib.files import read_capped, write_atomic
 from convlib.geometry import SHAPES
+from convlib.operation import CAUTION_FREEZE, CAUTION_TRACING, TRACING_MARGIN
 from convlib.pipe import Layer
-from convlib.pipe_sizes import nominal_pipe, nominal_sizes
+from convlib.pipe_sizes import SCHEDULES, nominal_pipe, nominal_sizes
 from convlib.properties import dew_point
 from convlib.regimes import FLOW_LIMITS, Flag, flow_names, mode_names
-from convlib.study import (INPUTS, CaseSpec, StudyResult, StudySpec, SweepAxis, SweepResult, UncertaintySpec,
-                           cautions_for, evaluate_case, run_study, run_sweep)
+from convlib.study import (INPUTS, CaseSpec, MonteCarloResult, StudyResult, StudySpec, SweepAxis, SweepResult,
+                           TornadoBar, UncertaintySpec, cautions_for, evaluate_case, load_demo_study, run_study,
+                           run_sweep, sweep_key)
+from convlib.units import display_unit, from_si, to_si
 
 from . import settings
 
+#: What the other dashboard modules use of convlib, re-exported: this module is the only one importing convlib.
+REEXPORTED = (
+    "CaseSpec", "StudySpec", "StudyResult", "SweepAxis", "SweepResult", "MonteCarloResult", "TornadoBar",
+    "InputError", "SHAPES", "SCHEDULES", "nominal_pipe", "nominal_sizes", "load_demo_study", "run_study", "snapshot",
+    "read_capped", "write_atomic", "display_name", "display_unit", "from_si", "to_si", "flow_names", "mode_names",
+    "CAUTION_FREEZE", "CAUTION_TRACING", "TRACING_MARGIN", "TOUCH_LIMITS", "law_keys",
+)
+#: Touch limits offered for a jacket: (label, surface temperature [K]) (values of convlib.design).
+TOUCH_LIMITS = (("metal jacket", design.TOUCH_LIMIT_METAL_JACKET),
+                ("non-metal finish", design.TOUCH_LIMIT_NONMETAL_JACKET))
+
 __all__ = [
-    "CaseSummary", "summarize_case", "study_for_case", "sweep_axes", "sweep_study", "sweep_only", "LawCurve",
+    *REEXPORTED, "CaseSummary", "summarize_case", "study_for_case", "sweep_axes", "chosen_laws", "current_value",
+    "SweepCache", "sweep_study", "sweep_only", "LawCurve",
     "RegimeView",
     "regime_view", "RegimeMap", "regime_map", "uncertainty_study", "monte_carlo_settings", "Sizing",
     "InsulationView", "insulation_view", "OperationInputs", "OperationView", "operation_view", "operation_layers",
     "operation_options", "design_air_temperature", "pipe_wall_thickness", "VesselInputs", "VesselView",
-    "vessel_defaults", "vessel_view",
+    "vessel_defaults", "vessel_view", "operation_defaults",
 ]
 
 
@@ -131,14 +151,67 @@ def sweep_axes(study: StudySpec, case: CaseSpec) -> list[SweepAxis]:
     return axes
 
 
-def sweep_study(spec: StudySpec, axis: SweepAxis) -> StudyResult:
-    """Base case, correlation comparison and one sweep (:func:`convlib.study.run_study`): the spread panel."""
-    return run_study(spec.model_copy(update={"sweeps": [axis], "maps": [], "tornado": [], "uncertainty": None}))
+def law_keys(geometry: str) -> list[str]:
+    """Keys of the registered correlations of ``geometry`` (:func:`convlib.correlations.methods`)."""
+    return corr.methods(geometry)
 
 
-def sweep_only(spec: StudySpec, axis: SweepAxis) -> SweepResult:
-    """One sweep and nothing else (:func:`convlib.study.run_sweep`): the sweep panel."""
-    return run_sweep(spec, axis)
+def chosen_laws(case: CaseSpec) -> tuple[str, str]:
+    """The case's natural and forced laws: its own choice or its shape's default (registry keys)."""
+    info = SHAPES[case.shape]
+    return case.natural or info.default_natural, case.forced or info.default_forced
+
+
+def current_value(case: CaseSpec, name: str | None) -> float | None:
+    """The case's value of the input ``name`` [SI] (the surroundings follow the air when not given)."""
+    if not name:
+        return None
+    value = getattr(case, name, None)
+    if value is None and name == "surroundings_temperature":
+        value = case.air_temperature
+    return None if value is None else float(value)
+
+
+class SweepCache:
+    """The latest sweeps by :func:`convlib.study.sweep_key`: a sweep is not recomputed when only the case's
+    value of its own swept input changed (moving the wind does not change the sweep of wind).
+
+    Parameters
+    ----------
+    size : int
+        Sweeps kept (least recently used dropped first).
+    """
+
+    def __init__(self, size: int = 16):
+        self.size = size
+        self._items: collections.OrderedDict[str, SweepResult] = collections.OrderedDict()
+        self._lock = threading.Lock()
+
+    def get(self, spec: StudySpec, axis: SweepAxis) -> SweepResult:
+        """The sweep of ``spec`` along ``axis`` (:func:`convlib.study.run_sweep`), from the cache when known."""
+        key = sweep_key(spec, axis)
+        with self._lock:
+            if key in self._items:
+                self._items.move_to_end(key)
+                return self._items[key]
+        result = run_sweep(spec, axis)
+        with self._lock:
+            self._items[key] = result
+            while len(self._items) > self.size:
+                self._items.popitem(last=False)
+        return result
+
+
+def sweep_study(spec: StudySpec, axis: SweepAxis, cache: SweepCache | None = None) -> StudyResult:
+    """Base case, correlation comparison and one sweep (what :func:`convlib.study.run_study` returns for the
+    study with that sweep alone): the correlation view. The sweep comes from ``cache`` when given."""
+    base = run_study(spec.model_copy(update={"sweeps": [], "maps": [], "tornado": [], "uncertainty": None}))
+    return base.model_copy(update={"sweeps": [sweep_only(spec, axis, cache)]})
+
+
+def sweep_only(spec: StudySpec, axis: SweepAxis, cache: SweepCache | None = None) -> SweepResult:
+    """One sweep and nothing else (:func:`convlib.study.run_sweep`): the sweep view; from ``cache`` when given."""
+    return run_sweep(spec, axis) if cache is None else cache.get(spec, axis)
 
 
 def uncertainty_study(spec: StudySpec, *, run_monte_carlo: bool, samples: int | None = None,
@@ -324,7 +397,7 @@ def insulation_view(case: CaseSpec, surface_limit: float, heat_loss_limit: float
     wind = 0.0 if still_air else case.wind_speed
     top = max(settings.SIZING_MAX_THICKNESS * 2 / 3, 2.0 * case.insulation_thickness)
     grid = np.linspace(0.0, top, 61)
-    r = evaluate_case(case, insulation_thickness=grid, wind_speed=np.full_like(grid, wind))
+    r = evaluate_case(case, insulation_thickness=grid, wind_speed=wind)  # the wind stays a scalar
     outer = [Layer(case.jacket_thickness, case.jacket_conductivity, name="jacket")] if case.jacket_thickness else []
     common = dict(air_temperature=case.air_temperature, insulation_conductivity=case.insulation_conductivity,
                   outer_layers=outer, jacket_emissivity=case.emissivity, pressure=case.pressure,
@@ -415,6 +488,15 @@ def design_air_temperature(case: CaseSpec) -> float:
     """Default coldest air of the tracing and freeze estimates: the case's air less a margin, clipped [K]."""
     o = settings.OPERATION
     return max(case.air_temperature - o["design_air_drop"], o["design_air_floor"])
+
+
+def operation_defaults(case: CaseSpec, nps: float | None = None, schedule: str | None = None) -> dict:
+    """Defaults of the operation view that follow the line: coldest air and pipe wall (NPS/schedule when
+    chosen); none for a bare surface."""
+    if case.kind != "insulated":
+        return {}
+    return {"design_air_temperature": design_air_temperature(case),
+            "pipe_wall_thickness": pipe_wall_thickness(case.diameter, nps, schedule)}
 
 
 def pipe_wall_thickness(diameter: float, nps: float | None = None, schedule: str | None = None) -> float:
@@ -582,18 +664,24 @@ class VesselView:
 
 def vessel_defaults(case: CaseSpec) -> dict:
     """Contents temperature and insulation of the panel taken from the line: its fluid (or surface) temperature,
-    its insulation when insulated."""
-    out = {"contents_temperature": case.fluid_temperature if case.kind == "insulated" else case.surface_temperature}
+    its insulation when insulated; the design hottest air of the touch sizing is the line's air."""
+    out = {"contents_temperature": case.fluid_temperature if case.kind == "insulated" else case.surface_temperature,
+           "hottest_air_temperature": case.air_temperature}
     if case.kind == "insulated":
         out.update(vessel_insulation=case.insulation_thickness, vessel_insulation_k=case.insulation_conductivity)
     return out
 
 
-def vessel_view(case: CaseSpec, inputs: VesselInputs, sweep_input: str = "vessel_insulation") -> VesselView:
+def vessel_view(case: CaseSpec, inputs: VesselInputs, sweep_input: str = "vessel_insulation",
+                hottest_air_temperature: float | None = None) -> VesselView:
     """:func:`convlib.vessels.vertical_tank`, :func:`~convlib.vessels.spherical_tank` or
     :func:`~convlib.vessels.rectangular_duct` with the contents at ``inputs.contents_temperature`` and one
     insulation layer on every exposed face, at the case's air, wind, emissivity and sky (outdoors when the case
-    sees the sky), and the same against ``sweep_input`` in one vectorized call."""
+    sees the sky), and the same against ``sweep_input`` in one vectorized call.
+
+    The insulation per face (:func:`convlib.vessels.insulation_per_face`) is sized in still air: for hot
+    contents against the touch limit at the design hottest air ``hottest_air_temperature`` [K] (default: the
+    case's air), for cold contents above the dew point plus a margin at the case's air."""
     i = inputs
     for name, value, choices in (("shape", i.shape, settings.VESSEL_SHAPES), ("floor", i.floor, settings.VESSEL_FLOORS),
                                  ("wind_direction", i.wind_direction, settings.VESSEL_WIND),
@@ -626,9 +714,15 @@ def vessel_view(case: CaseSpec, inputs: VesselInputs, sweep_input: str = "vessel
     hot = [f for f in base.faces if f.surface is not None and float(f.surface_temperature) > limit]
     # sized at the case's air in still air (the worst case for both): a hot vessel for the touch limit, a cold
     # one above the dew point plus a margin
-    sizing_limit = (limit if i.contents_temperature >= case.air_temperature else
+    hot_contents = i.contents_temperature >= case.air_temperature
+    sizing_limit = (limit if hot_contents else
                     _item(dew_point(case.air_temperature, case.relative_humidity, case.pressure))
                     + design.CONDENSATION_MARGIN)
+    hottest = None if hottest_air_temperature is None or not hot_contents else float(hottest_air_temperature)
+
+    def build(thickness, *, air_temperature=case.air_temperature, wind_speed=0.0):
+        return run(thickness=thickness, wind=wind_speed, air=air_temperature)
+
     cautions = ((design.CAUTION_TOUCH,) if hot else ()) + (
         (design.CAUTION_CONDENSATION,) if i.contents_temperature < case.air_temperature else ())
     return VesselView(
@@ -640,4 +734,4 @@ def vessel_view(case: CaseSpec, inputs: VesselInputs, sweep_input: str = "vessel
         sweep_faces={f.name: np.broadcast_to(np.asarray(f.q_total, float), grid.shape).copy() for f in swept.faces},
         sweep_total=np.broadcast_to(np.asarray(swept.q_total, float), grid.shape).copy(), current=float(current),
         notes=tuple(base.notes), cautions=cautions, sizing_limit=sizing_limit,
-        sizing=vessels.insulation_per_face(lambda t: run(thickness=t, wind=0.0), surface_limit=sizing_limit))
+        sizing=vessels.insulation_per_face(build, surface_limit=sizing_limit, hottest_air_temperature=hottest))

@@ -10,10 +10,9 @@ import math
 import re
 
 import numpy as np
-from convlib.correlations.registry import display_name as law_name
-from convlib.units import display_unit, from_si, to_si
-
 from . import settings
+from .compute import display_name as law_name
+from .compute import display_unit, from_si, to_si
 
 __all__ = ["Display", "format_number", "quantity_kind", "pretty_unit", "input_label", "law_name", "geometry_name",
            "shape_name", "regime_text", "scientific", "NPS_OUTSIDE_INCH"]

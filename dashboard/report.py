@@ -10,11 +10,9 @@ from __future__ import annotations
 import html
 from pathlib import Path
 
-from convlib import snapshot as cl_snapshot
-from convlib.files import write_atomic
-from convlib.regimes import flow_names, mode_names
-
 from . import settings
+from .compute import flow_names, mode_names, write_atomic
+from .compute import snapshot as cl_snapshot
 from .display import Display, input_label, law_name, regime_text, scientific, shape_name
 from .figures import map_figure, spread_figure, styled, sweep_figure, uncertainty_figure
 

@@ -139,9 +139,3 @@ class Runner:
             fn(*args)
         else:
             self._loop.call_soon_threadsafe(fn, *args)
-
-    def cancel(self, key: str) -> None:
-        """Make any job of ``key`` stale."""
-        with self._lock:
-            self._latest[key] = object()
-            self._pending.discard(key)

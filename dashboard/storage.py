@@ -27,11 +27,9 @@ import stat
 from dataclasses import dataclass
 from pathlib import Path
 
-from convlib import snapshot as cl_snapshot
-from convlib.errors import InputError
-from convlib.files import read_capped, write_atomic
-
 from . import settings
+from .compute import InputError, read_capped, write_atomic
+from .compute import snapshot as cl_snapshot
 
 __all__ = ["SUFFIX", "INDEX_NAME", "INDEX_SCHEMA_VERSION", "safe_name", "snapshot_path", "default_name",
            "SnapshotEntry", "list_snapshots", "record_snapshot", "viewer_identity"]

@@ -172,13 +172,6 @@ class Panel(widgets.VBox):
         """Return the panel's own controls to their defaults; panels override."""
         self.set_message()
 
-    def redraw(self) -> None:
-        """Draw the panel again from its traits (a panel's ``_render`` observer), e.g. when a new result
-        equals the old one but a marker moved."""
-        render = getattr(self, "_render", None)
-        if render is not None:
-            render()
-
     def set_message(self, lines=(), level: str = "info") -> None:
         """Show message lines above the panel's content (nothing to clear it)."""
         if isinstance(lines, str):

@@ -5,16 +5,14 @@ import html
 
 import ipywidgets as widgets
 import traitlets
-from convlib import design
-
-from ..compute import InsulationView
+from ..compute import TOUCH_LIMITS, InsulationView
 from ..figures import insulation_figure
 from .base import Panel, message_html
 from .controls import DESCRIPTION_STYLE, QuantityControl
 
 __all__ = ["InsulationPanel"]
 
-_TOUCH = (("metal jacket", design.TOUCH_LIMIT_METAL_JACKET), ("non-metal finish", design.TOUCH_LIMIT_NONMETAL_JACKET))
+_TOUCH = TOUCH_LIMITS
 
 
 class InsulationPanel(Panel):
@@ -38,10 +36,13 @@ class InsulationPanel(Panel):
 
     view = traitlets.Instance(InsulationView, allow_none=True)
     applicable = traitlets.Bool(True)
-    surface_limit = traitlets.Float(design.TOUCH_LIMIT_METAL_JACKET)
+    surface_limit = traitlets.Float(TOUCH_LIMITS[0][1])
     heat_loss_limit = traitlets.Float(60.0)
     still_air = traitlets.Bool(True)
     hottest_air_temperature = traitlets.Float(None, allow_none=True)
+
+    #: Every setting the sizing depends on besides the case.
+    SETTINGS = ("surface_limit", "heat_loss_limit", "still_air", "hottest_air_temperature")
 
     def __init__(self, heat_loss_limit: float = 60.0, **kwargs):
         super().__init__(**kwargs)
@@ -70,7 +71,7 @@ class InsulationPanel(Panel):
 
     def reset(self):
         super().reset()
-        self.surface_limit = design.TOUCH_LIMIT_METAL_JACKET
+        self.surface_limit = TOUCH_LIMITS[0][1]
         self.heat_loss_limit = self._default_limit
         self.still_air = True
         self._hottest_set = False
@@ -85,11 +86,13 @@ class InsulationPanel(Panel):
         self._hottest_set = True
         self.hottest_air_temperature = value
 
-    def follow_case_air(self, air_temperature: float) -> None:
-        """Default the design hottest ambient to the case's air until the user sets it [K]."""
-        if not self._hottest_set:
-            self.hottest_control.set_si(air_temperature)
-            self.hottest_air_temperature = float(air_temperature)
+    def set_case_defaults(self, defaults: dict) -> None:
+        """Default the design hottest ambient (``defaults["hottest_air_temperature"]`` [K], the case's air)
+        until the user sets it."""
+        air = defaults.get("hottest_air_temperature")
+        if air is not None and not self._hottest_set:
+            self.hottest_control.set_si(air)
+            self.hottest_air_temperature = float(air)
 
     def _touch_changed(self, change):
         if change["new"] is not None:

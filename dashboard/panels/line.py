@@ -5,15 +5,11 @@ from fractions import Fraction
 
 import ipywidgets as widgets
 import traitlets
-from convlib import correlations as corr
-from convlib.geometry import SHAPES
-from convlib.pipe_sizes import SCHEDULES, nominal_pipe, nominal_sizes
-from convlib.study import CaseSpec
 from pydantic import ValidationError
 
 from .. import settings
 from ..display import law_name, regime_text, scientific, shape_name
-from ..compute import CaseSummary
+from ..compute import SCHEDULES, SHAPES, CaseSpec, CaseSummary, law_keys, nominal_pipe, nominal_sizes
 from .base import Panel, message_html, card_html, card_value_text
 from .controls import DESCRIPTION_STYLE, QuantityControl
 
@@ -70,9 +66,16 @@ class LinePanel(Panel):
         Numbers for the result cards (set by the app).
     error : str
         Why the controls do not make a valid case ("" when they do).
+    pipe_size : tuple
+        ``(nps, schedule)`` of the line, ``nps`` None unless sized by NPS (set by the panel).
+    opened : tuple
+        ``(serial, StudySpec)``: a study whose case to show in every control (an opened snapshot; the panel
+        then publishes it).
     """
 
     case = traitlets.Instance(CaseSpec)
+    pipe_size = traitlets.Tuple((None, settings.DEFAULT_SCHEDULE))
+    opened = traitlets.Tuple((0, None))
     summary = traitlets.Instance(CaseSummary, allow_none=True)
     error = traitlets.Unicode("")
 
@@ -211,7 +214,7 @@ class LinePanel(Panel):
         info = SHAPES[self._shape()]
         for widget, geometry, default, value in ((self.natural, info.natural_geometry, info.default_natural, natural),
                                                  (self.forced, info.forced_geometry, info.default_forced, forced)):
-            keys = corr.methods(geometry)
+            keys = law_keys(geometry)
             widget.options = [(f"{law_name(default)} (default)", DEFAULT_LAW)] + [(law_name(k), k) for k in keys
                                                                                  if k != default]
             widget.value = value if value in keys and value != default else DEFAULT_LAW
@@ -303,7 +306,13 @@ class LinePanel(Panel):
             return
         self.error = ""
         self.set_message()
+        self.pipe_size = (self.nps.value if self.size_mode.value == "nps" else None, self.schedule.value)
         self.case = case
+
+    @traitlets.observe("opened")
+    def _opened(self, change):
+        if change["new"][1] is not None:
+            self.set_case(change["new"][1].case)
 
     # ------------------------------------------------------------------ cards
     def _card(self, key: str, title: str, value: str, unit: str = "", sub: str = "") -> None:

@@ -6,10 +6,8 @@ import html
 import ipywidgets as widgets
 import plotly.graph_objects as go
 import traitlets
-from convlib.operation import CAUTION_FREEZE, CAUTION_TRACING, TRACING_MARGIN
-
 from .. import settings
-from ..compute import OperationInputs, OperationView
+from ..compute import CAUTION_FREEZE, CAUTION_TRACING, TRACING_MARGIN, OperationInputs, OperationView
 from ..figures import TEMPLATE, operation_profile_figure, operation_sweep_figure
 from .base import InputsPanel, figure_widget, message_html, sync_figure, card_html, card_value_text
 from .controls import DESCRIPTION_STYLE, QuantityControl

@@ -3,8 +3,7 @@ from __future__ import annotations
 
 import ipywidgets as widgets
 import traitlets
-from convlib.study import StudyResult
-
+from ..compute import StudyResult, SweepAxis
 from ..display import input_label
 from ..figures import spread_figure
 from .base import Panel
@@ -19,7 +18,9 @@ class SpreadPanel(Panel):
     Traits
     ------
     sweep_input : str
-        Input of the sweep the spread is taken along (linked with the sweep panel).
+        Input of the sweep the spread is taken along (linked with the store's, as the sweep panel's).
+    axes : list of SweepAxis
+        The sweeps offered (from the store).
     result : StudyResult or None
         Base-case comparison and one sweep (set by the app).
     x_axis : str
@@ -29,6 +30,7 @@ class SpreadPanel(Panel):
     """
 
     sweep_input = traitlets.Unicode("", allow_none=True)
+    axes = traitlets.List(traitlets.Instance(SweepAxis))
     result = traitlets.Instance(StudyResult, allow_none=True)
     x_axis = traitlets.Unicode("input")
     chosen = traitlets.Tuple((None, None))
@@ -51,11 +53,11 @@ class SpreadPanel(Panel):
         super().reset()
         self.x_axis = "input"
 
-    def set_options(self, options) -> None:
-        """Offer the same sweeps as the sweep panel: list of (label, input)."""
+    @traitlets.observe("axes")
+    def _axes_changed(self, change) -> None:
+        names = [a.input for a in self.axes]
         with self.hold_trait_notifications():
-            self.selector.options = options
-            names = [v for _, v in options]
+            self.selector.options = [(input_label(n), n) for n in names]
             if self.sweep_input in names:
                 self.selector.value = self.sweep_input
 

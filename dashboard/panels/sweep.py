@@ -3,8 +3,7 @@ from __future__ import annotations
 
 import ipywidgets as widgets
 import traitlets
-from convlib.study import SweepAxis, SweepResult
-
+from ..compute import SweepAxis, SweepResult
 from ..display import input_label
 from ..figures import sweep_figure
 from .base import Panel
@@ -67,7 +66,7 @@ class SweepPanel(Panel):
             self.selector.options = [(input_label(n), n) for n in names]
             self.selector.value = keep
 
-    @traitlets.observe("result", "units")
+    @traitlets.observe("result", "units", "current", "chosen")
     def _render(self, change=None):
         if self.result is None:
             return

@@ -5,9 +5,8 @@ import html
 
 import ipywidgets as widgets
 import traitlets
-from convlib.study import MonteCarloResult, StudySpec, TornadoBar
-
 from .. import settings
+from ..compute import MonteCarloResult, StudySpec, TornadoBar
 from ..display import input_label
 from ..figures import uncertainty_figure
 from .base import Panel
@@ -23,6 +22,10 @@ class UncertaintyPanel(Panel):
 
     Traits
     ------
+    study : StudySpec
+        The study the numbers are for (its input distributions are listed).
+    opened : tuple
+        ``(serial, StudySpec)``: a study opened from outside; its Monte Carlo settings become the panel's.
     tornado : list of TornadoBar
         Set by the app on every change while shown.
     monte_carlo : MonteCarloResult or None
@@ -43,6 +46,8 @@ class UncertaintyPanel(Panel):
         0..1 while a run goes on.
     """
 
+    study = traitlets.Instance(StudySpec)
+    opened = traitlets.Tuple((0, None))
     tornado = traitlets.List(traitlets.Instance(TornadoBar))
     monte_carlo = traitlets.Instance(MonteCarloResult, allow_none=True)
     monte_carlo_stale = traitlets.Bool(False)
@@ -54,6 +59,9 @@ class UncertaintyPanel(Panel):
     run_requests = traitlets.Int(0)
     progress = traitlets.Float(0.0)
     progress_text = traitlets.Unicode("")
+
+    #: Settings of the Monte Carlo (its result is stale when one changes).
+    SETTINGS = ("samples", "seed", "model_form")
 
     def __init__(self, study: StudySpec, **kwargs):
         super().__init__(**kwargs)
@@ -83,7 +91,7 @@ class UncertaintyPanel(Panel):
         traitlets.dlink((self, "progress_text"), (self.bar_text, "value"))
         self.table = widgets.HTML()
         self.table.add_class("cl-table")
-        self._study = study
+        self.study = study
         self.reset()
         self.children = [
             widgets.HBox([self.samples_box, self.seed_box, self.model_box, self.auto_box],
@@ -100,14 +108,23 @@ class UncertaintyPanel(Panel):
         for name, value in self._defaults.items():
             setattr(self, name, value)
 
-    def set_study(self, spec: StudySpec) -> None:
-        """Show the distributions of the study the numbers are for."""
-        self._study = spec
-        self._render_table()
+    def show_progress(self, fraction: float, text: str) -> None:
+        """Show how far a Monte Carlo run is (0..1) and what it does."""
+        self.progress, self.progress_text = fraction, text
 
-    @traitlets.observe("units")
+    @traitlets.observe("opened")
+    def _opened(self, change):
+        study = change["new"][1]
+        u = study.uncertainty if study is not None else None
+        if u is not None:
+            with self.hold_trait_notifications():
+                self.samples, self.seed, self.model_form = u.samples, u.seed, u.model_form
+
+    @traitlets.observe("units", "study")
     def _render_table(self, change=None):
-        u = self._study.uncertainty
+        if not hasattr(self, "table"):
+            return
+        u = self.study.uncertainty
         if u is None or not u.distributions:
             self.table.value = "<p>The study gives no input distributions: only the model form is sampled.</p>"
             return

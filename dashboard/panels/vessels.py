@@ -37,6 +37,8 @@ class VesselPanel(InputsPanel):
     vessel_diameter, vessel_height, duct_width, duct_height, duct_length, contents_temperature, vessel_insulation,
     vessel_insulation_k : float
         Inputs [SI], as in :class:`dashboard.compute.VesselInputs`.
+    hottest_air_temperature : float
+        Design hottest air of the touch sizing [K] (hot contents); follows the line's air until set.
     """
 
     view = traitlets.Instance(VesselView, allow_none=True)
@@ -52,15 +54,19 @@ class VesselPanel(InputsPanel):
     contents_temperature = traitlets.Float(353.15)
     vessel_insulation = traitlets.Float(settings.VESSEL["vessel_insulation"])
     vessel_insulation_k = traitlets.Float(settings.VESSEL["vessel_insulation_k"])
+    hottest_air_temperature = traitlets.Float(293.15)
 
-    #: Every setting the app listens to.
-    SETTINGS = ("shape", "floor", "wind_direction", "sweep_input", *_NUMERIC)
-    FOLLOW_CASE = _FOLLOW_CASE
+    #: Every setting the numbers depend on besides the case.
+    SETTINGS = ("shape", "floor", "wind_direction", "sweep_input", *_NUMERIC, "hottest_air_temperature")
+    FOLLOW_CASE = (*_FOLLOW_CASE, "hottest_air_temperature")
 
     def __init__(self, **kwargs):
         super().__init__(**kwargs)
         self.controls = {name: QuantityControl(name, getattr(self, name), self.units, self._control_changed)
-                         for name in _NUMERIC}
+                         for name in (*_NUMERIC, "hottest_air_temperature")}
+        hottest = self.controls["hottest_air_temperature"]
+        hottest.box.layout.width = "330px"
+        hottest.box.add_class("cl-vessel-hottest")
         self.choices = {}
         for name, options, label in (("shape", settings.VESSEL_SHAPES, "What"),
                                      ("floor", settings.VESSEL_FLOORS, "Floor"),
@@ -87,8 +93,12 @@ class VesselPanel(InputsPanel):
             card.add_class("cl-card")
             card.add_class("cl-card-vessel-total" if k == 0 else f"cl-card-vessel-face-{k}")
         self.card_row = widgets.HBox(self.cards, layout=widgets.Layout(flex_flow="row wrap", width="100%"))
-        self.notes = widgets.HTML()
-        self.children = [self.inputs_box, self.message, self.card_row, self.hint, self.notes,
+        self.notes = widgets.HTML(layout=widgets.Layout(flex="1 1 300px"))
+        # the touch sizing's design hottest air, beside its result (the first line of the notes)
+        self.sizing_row = widgets.HBox([hottest.box, self.notes],
+                                       layout=widgets.Layout(flex_flow="row wrap", width="100%",
+                                                             align_items="flex-start"))
+        self.children = [self.inputs_box, self.message, self.card_row, self.hint, self.sizing_row,
                          self.choices["sweep_input"], self.plot_box]
         self._show_shape_controls()
 
@@ -97,7 +107,7 @@ class VesselPanel(InputsPanel):
         return [*self.controls.values(), *self.choices.values()]
 
     def inputs(self) -> VesselInputs:
-        """The panel's inputs [SI]."""
+        """The panel's inputs [SI] (the touch sizing's hottest air is :attr:`hottest_air_temperature`)."""
         return VesselInputs(shape=self.shape, floor=self.floor, wind_direction=self.wind_direction,
                             **{name: getattr(self, name) for name in _NUMERIC})
 
@@ -134,6 +144,9 @@ class VesselPanel(InputsPanel):
         limit = d.text(v.sizing_limit, "surface_temperature")
         what = (f"to keep the jacket at or below {limit} (touch)" if hot else
                 f"to keep the jacket at or above {limit} (dew point + margin)")
+        air = v.sizing[0].air_temperature
+        air = v.air_temperature if np.isnan(air) else air
+        where = f"in still air at {'hottest air ' if hot else 'air '}{d.text(air, 'air_temperature')}"
         parts = []
         for f in v.sizing:
             if np.isnan(f.required):
@@ -143,7 +156,7 @@ class VesselPanel(InputsPanel):
             else:
                 parts.append(f"{f.face} {d.text(f.required, 'vessel_insulation')} "
                              f"(listed {d.text(f.commercial, 'vessel_insulation')})")
-        return f"Insulation of this k {what}, in still air at this air temperature: " + "; ".join(parts)
+        return f"Insulation of this k {what}, {where}: " + "; ".join(parts)
 
     # ------------------------------------------------------------------ rendering
     @traitlets.observe("view", "units")
@@ -170,6 +183,8 @@ class VesselPanel(InputsPanel):
             f"the insulation on every exposed face" + ("; the floor on the ground has none, and the soil is at the "
                                                        "air temperature." if bare_floor else "."))
         d = self.display
+        hot = v.inputs.contents_temperature >= v.air_temperature
+        self.controls["hottest_air_temperature"].show(hot)
         self.notes.value = message_html([self._sizing_text(v)], "info", d) + message_html(v.notes, "info", d) + \
             message_html(v.cautions, "caution", d)
         self.show_figure(vessel_figure(v, d))

@@ -114,3 +114,31 @@ def test_sphere_shows_one_face_and_converts_units(app, panel, study):
     assert panel.card_text(1) == Display("US").text(float(r.q_total), "face_loss")
     assert panel.card_text(1).endswith("Btu/h")
     assert "legs, nozzles" in panel.notes.value
+
+
+def test_touch_sizing_at_a_design_hottest_air(panel, study):
+    # convlib.vessels.insulation_per_face(..., hottest_air_temperature=...) is the reference: the panel shows its
+    # thicknesses and the air it ran at, beside the hottest-air control
+    case = study.case
+    control = panel.controls["hottest_air_temperature"]
+    assert control.si == pytest.approx(case.air_temperature)  # follows the line's air until set
+    assert control.box.layout.display is None                # hot contents: shown
+    control.widget.value = 40.0                               # degC on screen
+    layers = lambda t: [Layer(t, case.insulation_conductivity)]  # noqa: E731
+
+    def build(t, *, air_temperature=case.air_temperature, wind_speed=0.0):
+        return vessels.vertical_tank(
+            settings.VESSEL["vessel_diameter"], settings.VESSEL["vessel_height"],
+            fluid_temperature=case.fluid_temperature, wall_layers=layers(t), roof_layers=layers(t),
+            **{**_common(case), "air_temperature": air_temperature, "wind_speed": wind_speed})
+
+    sized = vessels.insulation_per_face(build, surface_limit=333.15, hottest_air_temperature=313.15)
+    d = Display("SI")
+    text = panel.notes.value
+    assert f"in still air at hottest air {d.text(313.15, 'air_temperature')}" in text
+    for f in sized:
+        assert f.air_temperature == pytest.approx(313.15) and f.wind_speed == 0.0
+        assert f"{f.face} {d.text(f.required, 'vessel_insulation')}" in text
+    # hotter air needs more insulation for the same touch limit
+    cooler = vessels.insulation_per_face(build, surface_limit=333.15, hottest_air_temperature=283.15)
+    assert all(a.required > b.required for a, b in zip(sized, cooler))
