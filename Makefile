@@ -43,6 +43,7 @@ fuzz: $(STAMP)
 	HYPOTHESIS_PROFILE=long $(PY) -m pytest -q -m fuzz -p no:cacheprovider --hypothesis-show-statistics --durations=0
 
 bench: $(STAMP)
+	$(PY) -m pip install --quiet -e '.[bench]'
 	$(PY) benchmarks/startup.py
 	$(PY) benchmarks/run.py
 	$(PY) benchmarks/dashboard_latency.py
