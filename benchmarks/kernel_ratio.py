@@ -25,7 +25,6 @@ from __future__ import annotations
 import argparse
 import json
 import os
-import resource
 import statistics
 import subprocess
 import sys
@@ -34,6 +33,8 @@ import time
 import numpy as np
 
 HERE = os.path.dirname(os.path.abspath(__file__))
+sys.path.insert(0, HERE)
+from peak_rss import peak, reset_peak  # noqa: E402
 SIZES = (1e2, 1e4, 1e6, 1e7)
 #: The issue's targets: convlib's throughput as a fraction of the kernel's, and the figures before.
 TARGETS = {"bare": (1 / 3, "1/7.5 - 1/18 at 1e4-1e7, 1/25 - 1/90 below 1e3"),
@@ -91,7 +92,6 @@ def _kernel_call(kind: str, kernels, table, c: dict, tolerance: float = 1e-6):
 
 def child(kind: str, n: int, subject: str, rounds: int, seed: int) -> dict:
     """Measure one subject at one size in this (fresh) process."""
-    sys.path.insert(0, HERE)
     small = {k: v[:10] for k, v in draw(kind, 10, seed + 1).items()}
     if subject == "kernel":
         import reference_kernel as rk
@@ -110,7 +110,7 @@ def child(kind: str, n: int, subject: str, rounds: int, seed: int) -> dict:
     cases = draw(kind, n, seed)
     if subject == "kernel":
         cases["length"] = np.ones(n)
-    base = _reset_peak()  # imports, compiled code, inputs
+    base = reset_peak()  # imports, compiled code, inputs
     t0 = time.perf_counter()
     result = call(cases)
     first = time.perf_counter() - t0
@@ -124,9 +124,10 @@ def child(kind: str, n: int, subject: str, rounds: int, seed: int) -> dict:
             result = call(cases)
             del result
         times.append((time.perf_counter() - t0) / repeat)
-    peak = _peak()
-    out = dict(times=times, repeat=repeat, warmup=warmup, base_mib=base / 1024, peak_above_mib=(peak - base) / 1024,
-               inputs_mib=sum(v.nbytes for v in cases.values()) / 2**20, evaluations=evaluations)
+    peak_kib = peak()
+    out = dict(times=times, repeat=repeat, warmup=warmup, base_mib=base / 1024,
+               peak_above_mib=(peak_kib - base) / 1024, inputs_mib=sum(v.nbytes for v in cases.values()) / 2**20,
+               evaluations=evaluations)
     if subject == "kernel":
         m = min(n, CHECK_POINTS)
         head = {k: np.ascontiguousarray(v[:m]) for k, v in cases.items()}
@@ -136,35 +137,6 @@ def child(kind: str, n: int, subject: str, rounds: int, seed: int) -> dict:
         out["max_rel_diff_q"] = float(np.max(np.abs(ours - theirs) / np.abs(theirs)))
         out["checked"] = m
     return out
-
-
-def _status(field: str) -> int | None:
-    """A ``/proc/self/status`` figure in KiB (Linux), or None."""
-    try:
-        with open("/proc/self/status") as f:
-            for line in f:
-                if line.startswith(field + ":"):
-                    return int(line.split()[1])
-    except OSError:
-        pass
-    return None
-
-
-def _reset_peak() -> int:
-    """Reset the process's peak RSS to its current RSS (Linux ``clear_refs`` 5) and return it [KiB]: the import
-    and warm-up peaks then do not hide the call's. Elsewhere the peak so far (``ru_maxrss``)."""
-    try:
-        with open("/proc/self/clear_refs", "w") as f:
-            f.write("5")
-        return _status("VmRSS")
-    except OSError:
-        return resource.getrusage(resource.RUSAGE_SELF).ru_maxrss
-
-
-def _peak() -> int:
-    """Peak RSS since :func:`_reset_peak` [KiB]."""
-    value = _status("VmHWM")
-    return resource.getrusage(resource.RUSAGE_SELF).ru_maxrss if value is None else value
 
 
 def run_child(kind: str, n: int, subject: str, rounds: int, seed: int) -> dict:
@@ -182,10 +154,9 @@ def rounds_for(kind: str, n: int, rounds: int) -> int:
 
 
 def header() -> list[str]:
-    import platform
+    from run import convlib_fingerprint, environment  # the header of benchmarks/run.py
 
-    lines = [f"python {platform.python_version()}, numpy {np.__version__}, cpu {platform.processor() or platform.machine()}, "
-             f"usable cores {len(os.sched_getaffinity(0)) if hasattr(os, 'sched_getaffinity') else os.cpu_count()}"]
+    lines = environment() + [f"convlib sources {convlib_fingerprint()}"]
     try:
         import numba
 
@@ -238,7 +209,8 @@ def main(argv=None) -> int:
             diff = ours["max_rel_diff_q"]
             if not diff <= args.rtol:
                 failed.append(f"{kind} at {n} points: q differs by {diff:.3g} (allowed {args.rtol:g})")
-            print(f"{n:8.0e} {r:6d}  {best_c:8.3g} / {med_c:<6.3g}  {best_k:8.3g} / {med_k:<6.3g}  1/{1 / ratio:<5.3g}  "
+            print(f"{n:8.0e} {r:6d}  {best_c:8.3g} / {med_c:<6.3g}  {best_k:8.3g} / {med_k:<6.3g}  "
+                  f"1/{1 / ratio:<5.3g}  "
                   f"{theirs['peak_above_mib']:19.0f} / {ours['peak_above_mib']:<18.0f}  {theirs['inputs_mib']:12.1f}  "
                   f"{ours['evaluations']:8.2f}  {diff:14.2g}")
     if failed:
