@@ -46,6 +46,7 @@ bench: $(STAMP)
 	$(PY) -m pip install --quiet -e '.[bench]'
 	$(PY) benchmarks/startup.py
 	$(PY) benchmarks/run.py
+	$(PY) benchmarks/kernel_ratio.py
 	$(PY) benchmarks/dashboard_latency.py
 	$(PY) benchmarks/scale.py
 	$(PY) benchmarks/memory.py
