@@ -43,8 +43,10 @@ fuzz: $(STAMP)
 	HYPOTHESIS_PROFILE=long $(PY) -m pytest -q -m fuzz -p no:cacheprovider --hypothesis-show-statistics --durations=0
 
 bench: $(STAMP)
+	$(PY) -m pip install --quiet -e '.[bench]'
 	$(PY) benchmarks/startup.py
 	$(PY) benchmarks/run.py
+	$(PY) benchmarks/kernel_ratio.py
 	$(PY) benchmarks/dashboard_latency.py
 	$(PY) benchmarks/scale.py
 	$(PY) benchmarks/memory.py

@@ -5,13 +5,16 @@ of the time goes to fetching fresh memory from the operating system. :func:`bloc
 inputs broadcast to one shape: above :data:`BLOCK_POINTS` points it broadcasts the numeric inputs (including the
 arrays inside ``Layer`` and ``Surroundings`` objects), evaluates contiguous blocks of the flattened points, and
 writes each result field into its place. Below it, the function runs as it is. The numbers are those of one call:
-every point is computed on its own (no point sees another).
+every point is computed on its own (no point sees another), and the warning bits stay with their points.
+When a block raises, the call is made again in one piece, so that the error (its counts, values and indices) is
+the function's own for the whole input, word for word; an iterator argument is read once, before the blocks.
 """
 from __future__ import annotations
 
 import dataclasses
 import functools
 import inspect
+from collections.abc import Iterator
 
 import numpy as np
 
@@ -22,15 +25,19 @@ BLOCK_POINTS = 65536
 
 
 def _numeric(value) -> np.ndarray | None:
-    """``value`` as a float array if it is a number or an array of numbers, else ``None``."""
-    if value is None or isinstance(value, (str, bool)):
+    """``value`` as a float array if it is a number or an array (or nested sequence) of numbers, else ``None``."""
+    if value is None or isinstance(value, (str, bytes, bool, np.bool_)):
         return None
     if isinstance(value, np.ndarray):
         return value if value.dtype.kind in "fiu" else None
     if isinstance(value, (int, float, np.number)):
         return np.asarray(value, dtype=float)
-    if isinstance(value, (list, tuple)) and value and all(isinstance(v, (int, float, np.number)) for v in value):
-        return np.asarray(value, dtype=float)
+    if isinstance(value, (list, tuple)) or hasattr(value, "__array__"):
+        try:
+            array = np.asarray(value, dtype=float)  # nested lists, pandas objects; Layer lists fail here
+        except (TypeError, ValueError):
+            return None
+        return array if array.ndim > 0 else None
     return None
 
 
@@ -128,19 +135,30 @@ def blocked(function):
             bound = signature.bind(*args, **kwargs)
         except TypeError:
             return function(*args, **kwargs)  # the function reports its own argument errors
+        # An iterator (a generator of layers) would be used up by the first block: read it once, for any call.
+        for name, value in bound.arguments.items():
+            if isinstance(value, Iterator):
+                bound.arguments[name] = tuple(value)
         parts = _Parts(dict(bound.arguments))
         try:
             shape = parts.shape()
         except ValueError:
-            return function(*args, **kwargs)  # shapes that do not broadcast: the function says which
+            return function(*bound.args, **bound.kwargs)  # shapes that do not broadcast: the function says which
         size = int(np.prod(shape, dtype=np.int64))
         if size <= BLOCK_POINTS:
-            return function(*args, **kwargs)
+            return function(*bound.args, **bound.kwargs)
         flat = {key: np.ascontiguousarray(np.broadcast_to(array, shape)).ravel() for key, array in parts.arrays.items()}
         filler = _Filler(size, shape)
         for start in range(0, size, BLOCK_POINTS):
             stop = min(start + BLOCK_POINTS, size)
-            filler.add(function(**parts.block(flat, start, stop)), start, stop)
+            try:
+                result = function(**parts.block(flat, start, stop))
+            except Exception:
+                # A block's error would name its own points (counts, indices, values): the call in one piece
+                # raises the function's own error for the whole input, word for word.
+                del filler, flat
+                return function(*bound.args, **bound.kwargs)
+            filler.add(result, start, stop)
         return filler.result()
 
     return wrapper
