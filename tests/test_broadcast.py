@@ -12,7 +12,7 @@ import numpy as np
 import pytest
 
 import convlib as cl
-from convlib import design, economics, operation, survey, transients, vessels
+from convlib import design, ducts, economics, face_sizing, operation, survey, transients, vessels
 from convlib.pipe import Layer
 
 LAYERS = [Layer(0.05, 0.04)]
@@ -207,7 +207,7 @@ def test_an_array_for_any_numeric_parameter_equals_the_scalar_calls(function, na
 
 def test_every_public_function_is_covered():
     """Every public function of these modules that takes a number is in CASES (or listed as not broadcasting)."""
-    modules = (cl.surface, cl.pipe, design, operation, transients, vessels, economics, survey)
+    modules = (cl.surface, cl.pipe, design, operation, transients, vessels, ducts, face_sizing, economics, survey)
     not_broadcasting = {"listed_thickness", "disc_as_plate", "nusselt_square_cylinder_jakob", "insulation_per_face",
                         "read_survey", "run_survey", "line_weather", "annual_heat_per_metre", "demo_survey_path",
                         "line_samples", "steam_tariff"}
