@@ -14,8 +14,9 @@ import re
 import warnings
 
 from .errors import InputError
+from .units import is_unit
 
-__all__ = ["LAYER_SYNTAX", "LAYER_EXAMPLE", "split_layer", "split_layers"]
+__all__ = ["LAYER_SYNTAX", "LAYER_EXAMPLE", "split_layer", "split_layers", "conductivity_and_name"]
 
 LAYER_SYNTAX = "THICKNESS,CONDUCTIVITY[,NAME]"
 LAYER_EXAMPLE = "50mm,0.045,mineral wool"
@@ -40,11 +41,9 @@ def split_layer(text: str, field: str = "layer") -> tuple[str, str, str | None]:
     if "," not in text:
         legacy = _LEGACY.match(text)
         if legacy is not None:
-            from .linelist import _conductivity_and_name  # the reader of "0.045 W/m/K mineral wool"
-
             warnings.warn(f"{field} {text!r}: THICKNESS@CONDUCTIVITY NAME is deprecated; write {LAYER_SYNTAX}, "
                           f"e.g. {LAYER_EXAMPLE}", DeprecationWarning, stacklevel=3)
-            conductivity, name = _conductivity_and_name(legacy["rest"].strip())
+            conductivity, name = conductivity_and_name(legacy["rest"].strip())
             return legacy["thickness"].strip(), conductivity, name or None
     parts = [p.strip() for p in text.split(",")]
     if len(parts) not in (2, 3) or not parts[0] or not parts[1]:
@@ -63,3 +62,31 @@ def split_layers(cell: str) -> list[str]:
     if text.lower() in ("bare", "none", ""):
         return []
     return [part.strip() for part in text.split(";") if part.strip()]
+
+
+_LEADING_NUMBER = re.compile(r"\s*([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)(.*)$", re.S)
+
+
+def conductivity_and_name(text: str) -> tuple[str, str]:
+    """``"0.045 W/m/K mineral wool"`` -> ``("0.045 W/m/K", "mineral wool")``: the number and the longest run of
+    following words that reads as a conductivity unit (written after a space or glued to the number, e.g.
+    ``"1Btu in/(h ft² °F)"``), the rest the layer's name.
+
+    >>> conductivity_and_name("1Btu in/(h ft² °F) wool")
+    ('1Btu in/(h ft² °F)', 'wool')
+    >>> conductivity_and_name("0.045 mineral wool")
+    ('0.045', 'mineral wool')
+    """
+    m = _LEADING_NUMBER.match(text)
+    if m is None:
+        words = text.split()
+        return (words[0] if words else ""), " ".join(words[1:])
+    number, rest = m[1], m[2]
+    glued = bool(rest) and not rest[0].isspace()
+    words = rest.split()
+    for n in range(len(words), 0, -1):
+        if is_unit(" ".join(words[:n]), "conductivity"):
+            return number + ("" if glued else " ") + " ".join(words[:n]), " ".join(words[n:])
+    if glued and words:  # a unit glued to the number that is not a conductivity: reported by the reader
+        return number + words[0], " ".join(words[1:])
+    return number, " ".join(words)

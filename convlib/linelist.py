@@ -86,384 +86,32 @@ from __future__ import annotations
 import csv
 import io
 import math
-import os
 import re
 import warnings
 from collections.abc import Callable
 from dataclasses import dataclass, field
-from importlib import resources
-from typing import NamedTuple
 
 import numpy as np
-from pydantic import ValidationError
 
 from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, DEFAULT_COOLING_COP, DEFAULT_HEATING_EFFICIENCY,
-                     FITTING_EQUIVALENT_LENGTH, TOUCH_LIMIT_METAL_JACKET, WeatherBins)
+                     TOUCH_LIMIT_METAL_JACKET, WeatherBins)
 from .errors import InputError
-from .files import read_capped, write_atomic
-from .lines import LineSpec
-from .layer_text import split_layer, split_layers
+from .files import write_atomic
+from .linelist_read import (COLUMNS, FORMULA_PREFIXES, HOURS_PER_YEAR, MAX_BYTES, MAX_CELLS, MAX_ROWS,
+                            OPERATION_COLUMNS, OUTDOOR_SKY_VIEW_FRACTION, REQUIRED,
+                            ParsedLine, RowError, demo_lines_path, read_line_list)
 from .operation import (CAUTION_LINE_FREEZE, condensate_rate, line_temperature_profile, saturation_temperature,
                         tracing_duty)
 from .pipe import Layer, insulated_pipe
-from .pipe_sizes import nominal_pipe, parse_nps
 from .properties import dew_point
 from .radiation import sky_temperature
 from .regimes import describe_flags
-from .units import KIND_SI_UNIT, from_si, is_unit, read, split, unit_affine
+from .units import from_si
 from .validation import as_array
 
-__all__ = ["COLUMNS", "OUTPUT_COLUMNS", "OUTDOOR_SKY_VIEW_FRACTION", "WARNING_DESIGN_AIR_ALL_YEAR", "RowError",
-           "ParsedLine", "LineListResult", "read_line_list", "run_line_list", "write_results_csv", "demo_lines_path"]
-
-#: Input columns and the kind of quantity of their unit suffix ("text" and "count" take none).
-COLUMNS = {
-    "tag": "text", "description": "text", "nps": "count", "schedule": "text", "outer_diameter": "length",
-    "length": "length", "fluid_temperature": "temperature", "air_temperature": "temperature",
-    "relative_humidity": "dimensionless", "layers": "length", "location": "text",
-    "sky_view_fraction": "dimensionless", "wind_speed": "speed", "jacket_emissivity": "dimensionless",
-    "operating_hours": "count", **{name: "count" for name in FITTING_EQUIVALENT_LENGTH},
-    "mass_flow": "mass_flow", "fluid": "text", "fluid_pressure": "pressure", "fluid_phase": "text",
-    "maintain_temperature": "temperature", "minimum_ambient": "temperature", "steam_pressure": "pressure",
-}
-#: Optional columns of lines in operation (not part of a LineSpec): outlet temperature and tracing duty.
-OPERATION_COLUMNS = ("mass_flow", "fluid", "fluid_pressure", "fluid_phase", "maintain_temperature",
-                     "minimum_ambient", "steam_pressure")
-FLUID_PHASES = ("liquid", "gas")
-REQUIRED = ("tag", "length", "fluid_temperature", "air_temperature")
-LOCATIONS = ("indoor", "outdoor")
-#: Sky view fraction of an outdoor line without a ``sky_view_fraction`` cell: the upper half
-#: of a horizontal pipe sees the sky, the lower half the ground. Common practice, no source.
-OUTDOOR_SKY_VIEW_FRACTION = 0.5
-HOURS_PER_YEAR = 8760.0
-MAX_BYTES = 32_000_000     #: largest line-list file read [bytes] (refused from its size before reading)
-MAX_ROWS = 200_000         #: most rows of a line list, header and blank rows included
-MAX_CELLS = 5_000_000      #: most cells of a line list (line breaks + commas; bounds memory of tiny cells)
-#: First characters that make a spreadsheet treat a cell as a formula; such text cells are written with a
-#: leading apostrophe (OWASP, "CSV Injection"); numbers in numeric columns are written as numbers.
-FORMULA_PREFIXES = ("=", "+", "-", "@", "\t", "\r")
-_HEADER = re.compile(r"^\s*(?P<name>[^\[\]]*?)\s*(?:\[(?P<unit>[^\[\]]*)\])?\s*$")
-_LAYER = re.compile(r"^(?P<thickness>[^@]+?)\s*@\s*(?P<conductivity>\S+)\s*(?P<name>.*)$")
-
-
-class RowError(NamedTuple):
-    """A row that was not computed: row number in the file (header = 1), tag, reason."""
-
-    row: int
-    tag: str
-    reason: str
-
-
-class ParsedLine(NamedTuple):
-    """A valid row: row number, :class:`~convlib.lines.LineSpec` (SI), location, operating hours [h] or None,
-    and the given :data:`OPERATION_COLUMNS` (SI) or None."""
-
-    row: int
-    spec: LineSpec
-    location: str
-    operating_hours: float | None
-    operation: dict | None = None
-
-
-def demo_lines_path():
-    """The invented line list of the Fernhill district-energy plant shipped with the package."""
-    return resources.files("convlib").joinpath("data/demo_lines.csv")
-
-
-# ----------------------------------------------------------------------------- reading
-def _columns(header) -> list[tuple[str, str | None] | None]:
-    """(name, unit) per header cell, None for an empty header cell; InputError for the whole file."""
-    out, problems, seen = [], [], set()
-    for text in ("" if h is None else str(h) for h in header):
-        m = _HEADER.match(text)
-        if m is not None and not m["name"] and not m["unit"]:
-            out.append(None)
-            continue
-        name = re.sub(r"[\s\-]+", "_", m["name"].strip().lower()) if m else text
-        unit = (m["unit"] or "").strip() if m else ""
-        unit = None if unit in ("", "-", "1") else unit
-        kind = COLUMNS.get(name)
-        if kind is None:
-            problems.append(f"unknown column {text!r}")
-        elif name in seen:
-            problems.append(f"column {name!r} appears twice")
-        elif unit is not None and kind in ("text", "count"):
-            problems.append(f"column {text!r}: {name} takes no unit")
-        elif unit is not None:
-            try:
-                _affine(unit, kind)
-            except Exception:  # noqa: BLE001 - pint raises several error types for bad units
-                problems.append(f"column {text!r}: {unit!r} is not a unit of {kind}")
-        seen.add(name)
-        out.append((name, unit))
-    missing = [c for c in REQUIRED if c not in seen]
-    if missing:
-        problems.append(f"missing required column(s): {', '.join(missing)}")
-    if not {"nps", "outer_diameter"} & seen:
-        problems.append("give the pipe size in a column 'nps' (with 'schedule') or 'outer_diameter'")
-    if problems:
-        raise InputError(f"line list header: {'; '.join(problems)}; the columns are: {', '.join(COLUMNS)}",
-                         field="header", rule=f"columns among: {', '.join(COLUMNS)}", value=list(header))
-    return out
-
-
-def _blank(cell) -> bool:
-    return cell is None or (isinstance(cell, float) and math.isnan(cell)) or (isinstance(cell, str)
-                                                                              and not cell.strip())
-
-
-#: Columns read by :func:`convlib.units.read`: the input (plausible range, hint) each one is.
-_INPUTS = {"outer_diameter": "pipe_diameter", "length": "length", "fluid_temperature": "temperature",
-           "air_temperature": "air_temperature", "wind_speed": "wind_speed", "mass_flow": "mass_flow",
-           "fluid_pressure": "fluid_pressure", "steam_pressure": "fluid_pressure", "maintain_temperature": "temperature",
-           "minimum_ambient": "air_temperature"}
-#: How a user lets an unusual value through, in both of their words.
-_OVERRIDE = "--allow-unusual (Python: allow_unusual=True)"
-
-
-def _number(cell, column: str, kind: str, unit: str | None, input_name: str | None = None,
-            allow_unusual: bool = False) -> float:
-    """SI value of a non-blank cell: a plain number in ``unit`` (else SI), or a number with its own unit (which
-    wins), read by :func:`convlib.units.split` (the parser of the command line); with ``input_name``, refused
-    outside the range engineers use unless ``allow_unusual``."""
-    if kind == "count":
-        try:
-            value = float(cell)
-        except (TypeError, ValueError):
-            raise InputError(f"{column}: {str(cell).strip()!r} is not a number", field=column, rule="a number",
-                             value=cell) from None
-        if not math.isfinite(value):
-            raise InputError(f"{column}: must be a finite number; got {cell!r}", field=column,
-                             rule="a finite number", value=cell)
-        return value
-    if input_name is None:
-        return split(cell, kind, column, unit)[0]
-    return read(cell, input_name, column, allow_unusual=allow_unusual, override=_OVERRIDE,
-                plain_unit=unit if unit is not None else KIND_SI_UNIT[kind])
-
-
-def _affine(unit: str, kind: str):
-    """SI conversion of a column's ``unit`` as offset + factor x value (:func:`convlib.units.unit_affine`)."""
-    factor, offset = unit_affine(unit, kind)
-    return lambda value: offset + factor * value
-
-
-def _nps(cell) -> float:
-    return parse_nps(cell)
-
-
-def _layers(cell, unit: str | None, allow_unusual: bool = False) -> list[dict]:
-    layers = []
-    for i, part in enumerate(split_layers(cell), start=1):
-        thickness_text, written, name = split_layer(part, f"layers: layer {i}")
-        thickness = _number(thickness_text, f"layers: layer {i} thickness", "length", unit, "thickness",
-                            allow_unusual)
-        conductivity = _number(written, f"layers: layer {i} conductivity", "conductivity", None,
-                               "conductivity", allow_unusual)
-        layers.append({"thickness": thickness, "conductivity": conductivity, "name": name or f"layer {i}"})
-    return layers
-
-
-_LEADING_NUMBER = re.compile(r"\s*([-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)(.*)$", re.S)
-
-
-def _conductivity_and_name(text: str) -> tuple[str, str]:
-    """``"0.045 W/m/K mineral wool"`` -> ``("0.045 W/m/K", "mineral wool")``: the number and the longest run of
-    following words that reads as a conductivity unit (written after a space or glued to the number, e.g.
-    ``"1Btu in/(h ft² °F)"``), the rest the layer's name.
-
-    >>> _conductivity_and_name("1Btu in/(h ft² °F) wool")
-    ('1Btu in/(h ft² °F)', 'wool')
-    >>> _conductivity_and_name("0.045 mineral wool")
-    ('0.045', 'mineral wool')
-    """
-    m = _LEADING_NUMBER.match(text)
-    if m is None:
-        words = text.split()
-        return (words[0] if words else ""), " ".join(words[1:])
-    number, rest = m[1], m[2]
-    glued = bool(rest) and not rest[0].isspace()
-    words = rest.split()
-    for n in range(len(words), 0, -1):
-        if is_unit(" ".join(words[:n]), "conductivity"):
-            return number + ("" if glued else " ") + " ".join(words[:n]), " ".join(words[n:])
-    if glued and words:  # a unit glued to the number that is not a conductivity: reported by the reader
-        return number + words[0], " ".join(words[1:])
-    return number, " ".join(words)
-
-
-def _parse_row(row: int, cells: dict, units: dict, allow_unusual: bool = False) -> ParsedLine | RowError:
-    """One row (column -> raw cell) to a :class:`ParsedLine`, or a :class:`RowError` listing every problem."""
-    problems, values = [], {}
-    tag = "" if _blank(cells.get("tag")) else str(cells["tag"]).strip()
-    for name, kind in COLUMNS.items():
-        cell = cells.get(name)
-        if _blank(cell):
-            problems += [f"{name}: missing (required)"] if name in REQUIRED else []
-            continue
-        try:
-            if kind == "text":
-                values[name] = str(cell).strip()
-            elif name in ("nps", "layers"):
-                values[name] = _nps(cell) if name == "nps" else _layers(cell, units.get(name), allow_unusual)
-            else:
-                values[name] = _number(cell, name, kind, units.get(name), _INPUTS.get(name), allow_unusual)
-                if kind == "count" and values[name] < 0:
-                    raise InputError(f"{name}: must be at least 0; got {cell!r}", field=name, rule="at least 0",
-                                     value=cell)
-        except InputError as exc:
-            problems.append(str(exc))
-    location = values.pop("location", "indoor").lower()
-    if location not in LOCATIONS:
-        problems.append(f"location: unknown location {location!r}; choose one of: {', '.join(LOCATIONS)}")
-    if values.get("relative_humidity", 0.0) > 1.0:
-        problems.append(f"relative_humidity: {cells['relative_humidity']!r} is more than 1; write a fraction 0-1 "
-                        f"or head the column relative_humidity[%]")
-    hours = values.pop("operating_hours", None)
-    operation = {name: values.pop(name) for name in OPERATION_COLUMNS if name in values}
-    if operation.get("mass_flow", 1.0) <= 0:
-        problems.append(f"mass_flow: must be greater than 0 kg/s; got {cells['mass_flow']!r}")
-    if "fluid_phase" in operation:
-        operation["fluid_phase"] = operation["fluid_phase"].lower()
-        if operation["fluid_phase"] not in FLUID_PHASES:
-            problems.append(f"fluid_phase: unknown phase {cells['fluid_phase']!r}; choose one of: "
-                            f"{', '.join(FLUID_PHASES)}")
-    for name in ("fluid_pressure", "steam_pressure", "maintain_temperature", "minimum_ambient"):
-        if operation.get(name, 1.0) <= 0:
-            problems.append(f"{name}: must be greater than 0 {'Pa' if name.endswith('pressure') else 'K'}; "
-                            f"got {cells[name]!r}")
-    if hours is not None and hours > 8784.0:
-        problems.append(f"operating_hours: {hours:g} h is more than a (leap) year of 8784 h")
-    if _blank(cells.get("nps")) == _blank(cells.get("outer_diameter")):  # (a bad cell is reported above)
-        problems.append("nps / outer_diameter: give the pipe as nps (with schedule) or as outer_diameter, not both")
-    elif "nps" in values:
-        if "schedule" in values:  # 40.0 from a numeric spreadsheet column, std, 10s
-            values["schedule"] = re.sub(r"^(\d+)\.0*$", r"\1", values["schedule"]).upper()
-        try:
-            nominal_pipe(values["nps"], values.get("schedule", "40"))
-        except InputError as exc:
-            problems.append(f"{'nps' if 'NPS' in str(exc) else 'schedule'}: {exc}")
-    if problems:
-        return RowError(row, tag, "; ".join(problems))
-    fittings = {name: values.pop(name) for name in FITTING_EQUIVALENT_LENGTH if name in values}
-    if "outer_diameter" in values:
-        values["pipe_outer_diameter"] = values.pop("outer_diameter")
-    values.setdefault("sky_view_fraction", OUTDOOR_SKY_VIEW_FRACTION if location == "outdoor" else 0.0)
-    try:
-        return ParsedLine(row, LineSpec(**values, fittings=fittings), location, hours, operation or None)
-    except ValidationError as exc:  # ranges of LineSpec: emissivity, humidity, lengths, tag
-        for e in exc.errors():
-            loc = e["loc"] or ("row",)
-            column = "outer_diameter" if loc[0] == "pipe_outer_diameter" else str(loc[0])
-            if loc[0] == "layers" and len(loc) >= 3:
-                column = f"layers: layer {loc[1] + 1} {loc[2]}"
-            shown = "" if _blank(cells.get(column)) else f"; cell {cells[column]!r}"
-            problems.append(f"{column}: {e['msg'].removeprefix('Value error, ')}{shown}")
-        return RowError(row, tag, "; ".join(problems))
-
-
-def _records(source) -> list[list[str]]:
-    """The CSV rows of a file, an open text file or a package resource, within :data:`MAX_BYTES`,
-    :data:`MAX_ROWS` and :data:`MAX_CELLS` (checked before the file is parsed, and while it is)."""
-    name = source if isinstance(source, (str, os.PathLike)) else getattr(source, "name", "")
-    label = f"line list {name}" if isinstance(name, (str, os.PathLike)) and str(name) else "line list"
-    if isinstance(source, (str, os.PathLike)):
-        data = read_capped(source, MAX_BYTES, label=label, field="source")
-    elif hasattr(source, "read"):  # an open file: read at most the cap
-        data = source.read(MAX_BYTES + 1)
-        if not isinstance(data, (str, bytes)):
-            raise InputError(f"{label}: reading it gave {type(data).__name__}, not text", field="source",
-                             rule="a text file", value=type(data).__name__)
-        if len(data) > MAX_BYTES:
-            raise InputError(f"{label}: larger than the {MAX_BYTES / 1e6:.3g} MB limit", field="source",
-                             rule=f"at most {MAX_BYTES / 1e6:.3g} MB", value=len(data))
-    elif hasattr(source, "read_bytes"):  # a package resource (importlib.resources): the package's own data
-        data = source.read_bytes()
-    else:
-        raise InputError(f"line list source must be a path, an open text file or a list of rows; got "
-                         f"{type(source).__name__}", field="source", rule="a path, file or rows",
-                         value=type(source).__name__)
-    if isinstance(data, bytes):
-        try:
-            data = data.decode("utf-8-sig")
-        except UnicodeDecodeError as exc:
-            raise InputError(f"{label}: the file is not UTF-8 text (byte {exc.start}); save it as 'CSV UTF-8'",
-                             field="source", rule="UTF-8 text", value=str(source)) from None
-    rows, separators = data.count("\n") + data.count("\r"), data.count(",")  # bounds of rows and cells, in C
-    if rows > 2 * MAX_ROWS or rows + separators > MAX_CELLS:
-        raise InputError(f"{label}: more than {MAX_ROWS} rows or {MAX_CELLS} cells; split the list",
-                         field="source", rule=f"at most {MAX_ROWS} rows and {MAX_CELLS} cells", value=rows)
-    reader = csv.reader(io.StringIO(data, newline=""))
-    try:
-        records = list(reader)
-    except csv.Error as exc:
-        raise InputError(f"{label}: not readable as CSV at row {reader.line_num}: {exc}", field="source",
-                         rule="comma-separated text", value=reader.line_num) from None
-    if len(records) > MAX_ROWS:
-        raise InputError(f"{label}: {len(records)} rows, more than {MAX_ROWS}; split the list", field="source",
-                         rule=f"at most {MAX_ROWS} rows", value=len(records))
-    return records
-
-
-def read_line_list(source, *, allow_unusual: bool = False) -> tuple[list[ParsedLine], list[RowError]]:
-    """Read and validate a line list (see the module docstring for the columns).
-
-    Parameters
-    ----------
-    source : path, file-like, or list of dict or LineSpec
-        A CSV file (path, open text file or package resource); rows as dicts keyed by column
-        header (unit suffixes allowed; numbered 2, 3, ... as below a header); or
-        :class:`~convlib.lines.LineSpec` objects (outdoor where ``sky_view_fraction > 0``).
-    allow_unusual : bool
-        Accept values outside the ranges engineers use (a temperature below 150 K, a diameter over 5 m, a
-        layer over 1 m, ...); by default such a cell makes its row an error with a hint ("did you mean
-        95 degC?").
-
-    Returns
-    -------
-    lines, errors : list of ParsedLine, list of RowError
-        The valid rows in file order; the rows that failed, with row number and reason.
-
-    Raises
-    ------
-    InputError
-        (a ``ValueError``) For the whole file: not a readable regular file, larger than
-        :data:`MAX_BYTES` (checked with ``stat`` before reading), more than :data:`MAX_ROWS`
-        rows or :data:`MAX_CELLS` cells, not UTF-8, not CSV (a cell beyond 131072 characters), no header,
-        unknown or repeated column, wrong unit suffix, missing column.
-    """
-    if isinstance(source, (list, tuple)) and source and all(isinstance(s, LineSpec) for s in source):
-        return [ParsedLine(i, s, LOCATIONS[s.sky_view_fraction > 0], None) for i, s in enumerate(source, 2)], []
-    if isinstance(source, (list, tuple)):
-        if not all(isinstance(s, dict) for s in source):
-            raise InputError("line list rows must all be dicts (column -> value) or all LineSpec objects",
-                             field="source", rule="all dicts or all LineSpec objects",
-                             value=sorted({type(s).__name__ for s in source}))
-        header = list(dict.fromkeys(k for row in source for k in row))
-        records = [header, *([row.get(k) for k in header] for row in source)]
-    else:
-        records = _records(source)
-    if not records or all(_blank(c) for c in records[0]):
-        raise InputError("line list: the first row must be the header (tag, nps or outer_diameter, length, ...)",
-                         field="header", rule="the first row", value=records[0] if records else None)
-    if len(records[0]) == 1 and ";" in str(records[0][0]):
-        raise InputError("line list: the header is separated by ';'; save the sheet as comma-separated CSV "
-                         "with '.' as the decimal mark", field="header", rule="comma-separated",
-                         value=records[0][0])
-    columns = _columns(records[0])
-    units = {c[0]: c[1] for c in columns if c is not None}
-    lines, errors = [], []
-    for number, cells in enumerate(records[1:], start=2):
-        if all(_blank(c) for c in cells):
-            continue
-        named = {c[0]: cell for c, cell in zip(columns, cells) if c is not None}
-        if any(not _blank(c) for c in cells[len(columns):]):
-            parsed = RowError(number, str(named.get("tag") or "").strip(),
-                              f"row has {len(cells)} cells but the header has {len(columns)} columns")
-        else:
-            parsed = _parse_row(number, named, units, allow_unusual)
-        (errors if isinstance(parsed, RowError) else lines).append(parsed)
-    return lines, errors
+__all__ = ["COLUMNS", "OPERATION_COLUMNS", "OUTPUT_COLUMNS", "OUTDOOR_SKY_VIEW_FRACTION", "WARNING_DESIGN_AIR_ALL_YEAR",
+           "RowError", "ParsedLine", "LineListResult", "read_line_list", "run_line_list", "write_results_csv",
+           "demo_lines_path", "REQUIRED", "MAX_BYTES", "MAX_ROWS", "MAX_CELLS"]
 
 
 # ----------------------------------------------------------------------------- computing
@@ -567,6 +215,180 @@ WARNING_DESIGN_AIR_ALL_YEAR = (
     "condition overstates the annual loss; give weather bins (CLI: --bins FILE.json) for annual energy.")
 
 
+def _settings(energy_price, heating_efficiency, cooling_cop, co2_per_kwh, surface_limit, chunk_size, bins) -> dict:
+    """The checked settings of :func:`run_line_list` (SI)."""
+    if isinstance(chunk_size, bool) or not isinstance(chunk_size, (int, np.integer)) or chunk_size < 1:
+        raise InputError(f"chunk_size must be a whole number of at least 1; got {chunk_size!r}", field="chunk_size",
+                         rule="a whole number of at least 1", value=chunk_size)
+    if bins is not None and not isinstance(bins, WeatherBins):
+        raise InputError(f"bins must be a convlib.design.WeatherBins or None; got {type(bins).__name__}",
+                         field="bins", rule="a convlib.design.WeatherBins or None", value=bins)
+    if bins is not None and bins.hours.sum() <= 0:
+        raise InputError("bins: the hours add up to 0", field="bins", rule="hours adding up to more than 0",
+                         value=bins)
+    return {"energy_price": float(as_array("energy_price", energy_price, low=0.0)),
+            "heating_efficiency": float(as_array("heating_efficiency", heating_efficiency, low=0.0, high=1.0,
+                                                 low_inclusive=False)),
+            "cooling_cop": float(as_array("cooling_cop", cooling_cop, low=0.0, low_inclusive=False)),
+            "co2_per_kwh": float(as_array("co2_per_kwh", co2_per_kwh, unit="kg/kWh", low=0.0)),
+            "surface_limit": float(as_array("surface_limit", surface_limit, unit="K", low=0.0, low_inclusive=False)),
+            "weather_bins": bins is not None}
+
+
+def _one_by_one_on_input_error(idx, compute, fail) -> None:
+    """``compute(idx)``; if it raises InputError, ``compute`` each line alone and ``fail(i, exc)`` those that raise.
+
+    Only input errors are caught: any other exception is a fault of the program and propagates.
+    """
+    try:
+        compute(idx)
+    except InputError:
+        for i in idx:
+            try:
+                compute(np.array([i]))
+            except InputError as exc:
+                fail(int(i), exc)
+
+
+class _Columns:
+    """The parsed lines as SI arrays (one entry per line, NaN where a cell was not given)."""
+
+    def __init__(self, lines: list[ParsedLine], bins: WeatherBins | None):
+        self.lines, self.specs, self.n = lines, [p.spec for p in lines], len(lines)
+        specs = self.specs
+        self.d, self.tf, self.ta = (self.col(s.pipe_diameter() for s in specs),
+                                    self.col(s.fluid_temperature for s in specs),
+                                    self.col(s.air_temperature for s in specs))
+        self.wind, self.eps, self.sky = (self.col(s.wind_speed for s in specs),
+                                         self.col(s.jacket_emissivity for s in specs),
+                                         self.col(s.sky_view_fraction for s in specs))
+        self.outdoor = np.array([p.location == "outdoor" for p in lines], dtype=bool)
+        given = self.col(p.operating_hours for p in lines)
+        self.hours = np.where(np.isnan(given), HOURS_PER_YEAR if bins is None else bins.hours.sum(), given)
+        self.count = np.array([len(s.layers) for s in specs], dtype=int)
+        self.length = self.col(s.length for s in specs)
+        self.leq, self.rh = self.col(s.equivalent_length() for s in specs), self.col(s.relative_humidity for s in specs)
+        self.operation = [p.operation or {} for p in lines]
+
+    def col(self, values) -> np.ndarray:
+        return np.array([np.nan if v is None else v for v in values], dtype=float).reshape(self.n)
+
+    def given(self, name: str) -> np.ndarray:
+        """An operation column (NaN where not given)."""
+        return self.col(g.get(name) for g in self.operation)
+
+    def layers(self, idx, extra_axis=True) -> list[Layer]:
+        """The layers of lines ``idx`` (all with the same number of layers) as arrays over the lines."""
+        k = self.count[idx[0]]
+        thick, cond = (np.array([[getattr(ly, a) for ly in self.specs[i].layers] for i in idx], dtype=float)
+                       .reshape(idx.size, k) for a in ("thickness", "conductivity"))
+        if extra_axis:
+            thick, cond = thick[:, :, None], cond[:, :, None]
+        return [Layer(thick[:, j], cond[:, j], name=f"layer {j + 1}") for j in range(k)]
+
+    def sky_of(self, air, idx):
+        """The sky temperature a one-line call takes, so that a line's numbers do not depend on its group."""
+        return np.where(self.sky[idx] > 0, sky_temperature(air), air)
+
+
+def _design_and_year(c: _Columns, bins, chunk_size, report, errors) -> dict:
+    """Heat flow, surface temperature, flags and annual energy [Wh/m] of every line; ``ok`` False for row errors.
+
+    Lines with the same number of layers are solved ``chunk_size`` at a time (design condition in column 0,
+    then one column per weather bin for outdoor lines).
+    """
+    n = c.n
+    out = {"q": np.full(n, np.nan), "ts": np.full(n, np.nan), "energy": np.full(n, np.nan),
+           "flags": np.zeros(n, dtype=np.int64), "ok": np.ones(n, dtype=bool)}
+
+    def solve(idx):
+        air, wnd = c.ta[idx, None], c.wind[idx, None]
+        if bins is not None:
+            air = np.concatenate([air, np.where(c.outdoor[idx, None], bins.air_temperature, air)], axis=1)
+            wnd = np.concatenate([wnd, np.where(c.outdoor[idx, None], bins.wind_speed, wnd)], axis=1)
+        r = insulated_pipe(c.d[idx, None], c.tf[idx, None], c.layers(idx), air_temperature=air, wind_speed=wnd,
+                           jacket_emissivity=c.eps[idx, None], sky_view_fraction=c.sky[idx, None],
+                           sky_temperature=c.sky_of(air, (idx, None)), length=1.0)
+        out["q"][idx], out["ts"][idx] = r.q_per_length[:, 0], r.surface_temperature[:, 0]
+        out["flags"][idx] = np.bitwise_or.reduce(r.warnings.astype(np.int64), axis=1)
+        out["energy"][idx] = (out["q"][idx] * c.hours[idx] if bins is None else
+                              (r.q_per_length[:, 1:] * bins.hours).sum(axis=1) * c.hours[idx] / bins.hours.sum())
+
+    def fail(i, exc):
+        out["ok"][i] = False
+        errors.append(RowError(c.lines[i].row, c.specs[i].tag, f"could not be computed: {exc}"))
+
+    done = 0
+    for k in np.unique(c.count):
+        members = np.flatnonzero(c.count == k)
+        for start in range(0, members.size, chunk_size):
+            idx = members[start:start + chunk_size]
+            _one_by_one_on_input_error(idx, solve, fail)
+            done += idx.size
+            report(done / n, f"{k}-layer lines: {done} of {n}")
+    if n == 0:
+        report(1.0, "no lines to compute")
+    return out
+
+
+def _in_operation(c: _Columns, ok, q, notes) -> dict:
+    """Outlet temperature and where the water freezes (``mass_flow``), tracing duty (``maintain_temperature`` at
+    ``minimum_ambient``), condensate (``steam_pressure``) and dew point (``relative_humidity``); a line the physics
+    refuses gets a note instead of the figure."""
+    n = c.n
+    out = {name: np.full(n, np.nan) for name in ("outlet", "frozen_at", "duty", "condensate", "t_sat", "dew")}
+    flow, maintain, steam = c.given("mass_flow"), c.given("maintain_temperature"), c.given("steam_pressure")
+    coldest = c.given("minimum_ambient")
+    coldest = np.where(np.isnan(coldest), c.ta, coldest)
+    fluid_pressure = c.col(g.get("fluid_pressure", 101325.0) for g in c.operation)
+    fluid = [(g.get("fluid", "Water"), g.get("fluid_phase", "liquid")) for g in c.operation]
+
+    def per_layer_count(idx, label, compute):
+        for k in np.unique(c.count[idx]):
+            _one_by_one_on_input_error(idx[c.count[idx] == k], compute,
+                                       lambda i, exc: notes[i].append(f"{label} not computed: {exc}"))
+
+    def outlet(i, name, phase):
+        p = line_temperature_profile(c.d[i], c.tf[i], c.layers(i, extra_axis=False), mass_flow=flow[i],
+                                     length=c.leq[i], air_temperature=c.ta[i], fluid=name,
+                                     fluid_pressure=fluid_pressure[i], fluid_phase=phase, wind_speed=c.wind[i],
+                                     jacket_emissivity=c.eps[i], sky_view_fraction=c.sky[i],
+                                     sky_temperature=c.sky_of(c.ta[i], i))
+        out["frozen_at"][i], out["outlet"][i] = p.freezing_position, p.outlet_temperature
+
+    flowing = np.flatnonzero(ok & ~np.isnan(flow))
+    for name, phase in sorted({fluid[i] for i in flowing}):
+        per_layer_count(np.array([i for i in flowing if fluid[i] == (name, phase)]), "outlet temperature",
+                        lambda i, name=name, phase=phase: outlet(i, name, phase))
+    for i in np.flatnonzero(~np.isnan(out["frozen_at"])):
+        notes[int(i)].append(f"the water reaches 0 degC {out['frozen_at'][i]:.1f} m from the inlet, before the "
+                             f"outlet (outlet temperature shown: 0 degC)")
+
+    def duty(i):
+        out["duty"][i] = tracing_duty(c.d[i], maintain[i], c.layers(i, extra_axis=False), air_temperature=coldest[i],
+                                      wind_speed=c.wind[i], jacket_emissivity=c.eps[i], sky_view_fraction=c.sky[i],
+                                      sky_temperature=c.sky_of(coldest[i], i)).duty_per_length
+
+    per_layer_count(np.flatnonzero(ok & ~np.isnan(maintain)), "tracing duty", duty)
+
+    def saturated(i):
+        out["condensate"][i] = condensate_rate(q[i] * c.leq[i], steam[i])
+        out["t_sat"][i] = saturation_temperature(steam[i])
+
+    _one_by_one_on_input_error(np.flatnonzero(ok & ~np.isnan(steam)), saturated,
+                               lambda i, exc: notes[i].append(f"condensate not computed: {exc}"))
+    for i in np.flatnonzero(np.abs(c.tf - out["t_sat"]) > 1.0):
+        notes[int(i)].append(f"fluid temperature {c.tf[i] - 273.15:.1f} degC is not the saturation temperature "
+                             f"{out['t_sat'][i] - 273.15:.1f} degC at steam_pressure: condensate from the loss as given")
+
+    def dew(i):
+        out["dew"][i] = dew_point(c.ta[i], c.rh[i])
+
+    _one_by_one_on_input_error(np.flatnonzero(ok & ~np.isnan(c.rh)), dew,
+                               lambda i, exc: notes[i].append(f"dew point not computed: {exc}"))
+    return out
+
+
 def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
                   heating_efficiency=DEFAULT_HEATING_EFFICIENCY, cooling_cop=DEFAULT_COOLING_COP, co2_per_kwh=0.0,
                   surface_limit=TOUCH_LIMIT_METAL_JACKET, chunk_size: int = 5000, allow_unusual: bool = False,
@@ -604,177 +426,37 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
     -------
     LineListResult
     """
-    price = float(as_array("energy_price", energy_price, low=0.0))
-    eff = float(as_array("heating_efficiency", heating_efficiency, low=0.0, high=1.0, low_inclusive=False))
-    cop = float(as_array("cooling_cop", cooling_cop, low=0.0, low_inclusive=False))
-    co2 = float(as_array("co2_per_kwh", co2_per_kwh, unit="kg/kWh", low=0.0))
     if touch_limit is not None:
         warnings.warn("run_line_list(touch_limit=) is deprecated: use surface_limit=", DeprecationWarning, stacklevel=2)
         surface_limit = touch_limit
-    limit = float(as_array("surface_limit", surface_limit, unit="K", low=0.0, low_inclusive=False))
-    if isinstance(chunk_size, bool) or not isinstance(chunk_size, (int, np.integer)) or chunk_size < 1:
-        raise InputError(f"chunk_size must be a whole number of at least 1; got {chunk_size!r}", field="chunk_size",
-                         rule="a whole number of at least 1", value=chunk_size)
-    if bins is not None and not isinstance(bins, WeatherBins):
-        raise InputError(f"bins must be a convlib.design.WeatherBins or None; got {type(bins).__name__}",
-                         field="bins", rule="a convlib.design.WeatherBins or None", value=bins)
-    if bins is not None and bins.hours.sum() <= 0:
-        raise InputError("bins: the hours add up to 0", field="bins", rule="hours adding up to more than 0",
-                         value=bins)
+    settings = _settings(energy_price, heating_efficiency, cooling_cop, co2_per_kwh, surface_limit, chunk_size, bins)
     report = progress or (lambda fraction, text: None)
     lines, errors = read_line_list(source, allow_unusual=allow_unusual)
-    specs, n = [p.spec for p in lines], len(lines)
-    report(0.0, f"read {n} line(s), {len(errors)} row(s) with errors")
-
-    def col(values):
-        return np.array([np.nan if v is None else v for v in values], dtype=float).reshape(n)
-
-    d, tf, ta = (col(s.pipe_diameter() for s in specs), col(s.fluid_temperature for s in specs),
-                 col(s.air_temperature for s in specs))
-    wind, eps, sky = (col(s.wind_speed for s in specs), col(s.jacket_emissivity for s in specs),
-                      col(s.sky_view_fraction for s in specs))
-    outdoor = np.array([p.location == "outdoor" for p in lines], dtype=bool)
-    given = col(p.operating_hours for p in lines)
-    hours = np.where(np.isnan(given), HOURS_PER_YEAR if bins is None else bins.hours.sum(), given)
-    count = np.array([len(s.layers) for s in specs], dtype=int)
-    q, ts, energy = np.full(n, np.nan), np.full(n, np.nan), np.full(n, np.nan)  # energy [Wh/m per year]
-    flags, ok = np.zeros(n, dtype=np.int64), np.ones(n, dtype=bool)
-
-    def group_layers(idx, extra_axis=True):
-        k = count[idx[0]]
-        thick, cond = (np.array([[getattr(ly, a) for ly in specs[i].layers] for i in idx], dtype=float)
-                       .reshape(idx.size, k) for a in ("thickness", "conductivity"))
-        if extra_axis:
-            thick, cond = thick[:, :, None], cond[:, :, None]
-        return [Layer(thick[:, j], cond[:, j], name=f"layer {j + 1}") for j in range(k)]
-
-    def solve(idx):
-        layers = group_layers(idx)
-        air, wnd = ta[idx, None], wind[idx, None]
-        if bins is not None:  # column 0: design condition; then one column per bin (outdoor lines)
-            air = np.concatenate([air, np.where(outdoor[idx, None], bins.air_temperature, air)], axis=1)
-            wnd = np.concatenate([wnd, np.where(outdoor[idx, None], bins.wind_speed, wnd)], axis=1)
-        # the sky temperature a one-line call takes, so that a line's numbers do not depend on its group
-        t_sky = np.where(sky[idx, None] > 0, sky_temperature(air), air)
-        r = insulated_pipe(d[idx, None], tf[idx, None], layers, air_temperature=air, wind_speed=wnd,
-                           jacket_emissivity=eps[idx, None], sky_view_fraction=sky[idx, None], sky_temperature=t_sky,
-                           length=1.0)
-        q[idx], ts[idx] = r.q_per_length[:, 0], r.surface_temperature[:, 0]
-        flags[idx] = np.bitwise_or.reduce(r.warnings.astype(np.int64), axis=1)
-        energy[idx] = (q[idx] * hours[idx] if bins is None else
-                       (r.q_per_length[:, 1:] * bins.hours).sum(axis=1) * hours[idx] / bins.hours.sum())
-
-    done = 0
-    for k in np.unique(count):
-        members = np.flatnonzero(count == k)
-        for start in range(0, members.size, chunk_size):
-            idx = members[start:start + chunk_size]
-            try:
-                solve(idx)
-            except InputError:  # only input errors become row errors: any other exception is a fault, raised
-                for i in idx:
-                    try:
-                        solve(np.array([i]))
-                    except InputError as exc:
-                        ok[i] = False
-                        errors.append(RowError(lines[i].row, specs[i].tag, f"could not be computed: {exc}"))
-            done += idx.size
-            report(done / n, f"{k}-layer lines: {done} of {n}")
-    if n == 0:
-        report(1.0, "no lines to compute")
+    c = _Columns(lines, bins)
+    report(0.0, f"read {c.n} line(s), {len(errors)} row(s) with errors")
+    solved = _design_and_year(c, bins, chunk_size, report, errors)
+    ok, q, ts = solved["ok"], solved["q"], solved["ts"]
     keep = np.flatnonzero(ok)
-    leq, rh = col(s.equivalent_length() for s in specs), col(s.relative_humidity for s in specs)
-    dew, notes = np.full(n, np.nan), {i: [] for i in keep}
-    # lines in operation: outlet temperature (mass_flow) and tracing duty (maintain_temperature, minimum_ambient)
-    given = [p.operation or {} for p in lines]
-    flow, maintain = col(g.get("mass_flow") for g in given), col(g.get("maintain_temperature") for g in given)
-    coldest = col(g.get("minimum_ambient") for g in given)
-    coldest = np.where(np.isnan(coldest), ta, coldest)
-    outlet, duty, frozen_at = np.full(n, np.nan), np.full(n, np.nan), np.full(n, np.nan)
-
-    def operate(idx, wanted, label, compute):
-        """Per layer count at once; a group the solver rejects is redone line by line (notes on those lines)."""
-        for k in np.unique(count[idx]):
-            members = idx[count[idx] == k]
-            try:
-                wanted[members] = compute(members, group_layers(members, extra_axis=False))
-            except InputError:
-                for i in members:
-                    try:
-                        wanted[[i]] = compute(np.array([i]), group_layers(np.array([i]), extra_axis=False))
-                    except InputError as exc:
-                        notes[int(i)].append(f"{label} not computed: {exc}")
-
-    def sky_of(air, idx):
-        return np.where(sky[idx] > 0, sky_temperature(air), air)
-
-    fluid = [(g.get("fluid", "Water"), g.get("fluid_phase", "liquid")) for g in given]
-    fluid_pressure = col(g.get("fluid_pressure", 101325.0) for g in given)
-    flowing = np.flatnonzero(ok & ~np.isnan(flow))
-
-    def outlet_of(i, layers, name, phase):
-        p = line_temperature_profile(d[i], tf[i], layers, mass_flow=flow[i], length=leq[i], air_temperature=ta[i],
-                                     fluid=name, fluid_pressure=fluid_pressure[i], fluid_phase=phase,
-                                     wind_speed=wind[i], jacket_emissivity=eps[i], sky_view_fraction=sky[i],
-                                     sky_temperature=sky_of(ta[i], i))
-        frozen_at[i] = p.freezing_position
-        return p.outlet_temperature
-
-    for name, phase in sorted({fluid[i] for i in flowing}):
-        operate(np.array([i for i in flowing if fluid[i] == (name, phase)]), outlet, "outlet temperature",
-                lambda i, layers, name=name, phase=phase: outlet_of(i, layers, name, phase))
-    for i in np.flatnonzero(~np.isnan(frozen_at)):
-        notes[int(i)].append(f"the water reaches 0 degC {frozen_at[i]:.1f} m from the inlet, before the outlet "
-                             f"(outlet temperature shown: 0 degC)")
-    operate(np.flatnonzero(ok & ~np.isnan(maintain)), duty, "tracing duty", lambda i, layers: (
-        tracing_duty(d[i], maintain[i], layers, air_temperature=coldest[i], wind_speed=wind[i],
-                     jacket_emissivity=eps[i], sky_view_fraction=sky[i],
-                     sky_temperature=sky_of(coldest[i], i)).duty_per_length))
-    steam, condensate, t_sat = col(g.get("steam_pressure") for g in given), np.full(n, np.nan), np.full(n, np.nan)
-
-    def saturated(idx):
-        condensate[idx] = condensate_rate(q[idx] * leq[idx], steam[idx])
-        t_sat[idx] = saturation_temperature(steam[idx])
-
-    steamy = np.flatnonzero(ok & ~np.isnan(steam))
-    try:
-        saturated(steamy)
-    except InputError:  # one by one, so that only the line with an impossible pressure loses its condensate
-        for i in steamy:
-            try:
-                saturated(np.array([i]))
-            except InputError as exc:
-                notes[int(i)].append(f"condensate not computed: {exc}")
-    for i in np.flatnonzero(np.abs(tf - t_sat) > 1.0):
-        notes[int(i)].append(f"fluid temperature {tf[i] - 273.15:.1f} degC is not the saturation temperature "
-                             f"{t_sat[i] - 273.15:.1f} degC at steam_pressure: condensate from the loss as given")
-    humid = np.flatnonzero(ok & ~np.isnan(rh))
-    try:
-        dew[humid] = dew_point(ta[humid], rh[humid])
-    except InputError:  # one by one, so that only the line CoolProp refuses loses its dew point
-        for i in humid:
-            try:
-                dew[i] = dew_point(ta[i], rh[i])
-            except InputError as exc:
-                notes[i].append(f"dew point not computed: {exc}")
-    texts = {m: describe_flags(m) for m in np.unique(flags[keep])}
-    heat = energy * leq / 1000.0
+    notes = {i: [] for i in keep}
+    run = _in_operation(c, ok, q, notes)
+    texts = {m: describe_flags(m) for m in np.unique(solved["flags"][keep])}
+    heat = solved["energy"] * c.leq / 1000.0
     # hot service (fluid above the design air): net loss / efficiency; cold service: net gain / COP
-    purchased = np.where(tf >= ta, np.maximum(heat, 0.0) / eff, np.maximum(-heat, 0.0) / cop)
+    purchased = np.where(c.tf >= c.ta, np.maximum(heat, 0.0) / settings["heating_efficiency"],
+                         np.maximum(-heat, 0.0) / settings["cooling_cop"])
     return LineListResult(
-        row=np.array([p.row for p in lines], dtype=int)[keep], tag=tuple(specs[i].tag for i in keep),
-        location=tuple(lines[i].location for i in keep), layer_count=count[keep],
-        length=col(s.length for s in specs)[keep], equivalent_length=leq[keep], outer_diameter=d[keep],
-        fluid_temperature=tf[keep], air_temperature=ta[keep], surface_temperature=ts[keep], dew_point=dew[keep],
-        q_per_length=q[keep], q_total=(q * leq)[keep], operating_hours=hours[keep], heat_kwh=heat[keep],
-        purchased_kwh=purchased[keep], cost=(purchased * price)[keep], co2_kg=(purchased * co2)[keep],
-        touch_flag=(ts > limit)[keep], condensation_flag=(ts < dew)[keep], outlet_temperature=outlet[keep],
-        freezing_position=frozen_at[keep],
-        tracing_duty_per_length=duty[keep], tracing_duty=(duty * leq)[keep], condensate=condensate[keep],
-        notes=tuple("; ".join(texts[flags[i]] + notes[i]) for i in keep),
-        errors=tuple(sorted(errors, key=lambda e: e.row)),
-        settings={"energy_price": price, "heating_efficiency": eff, "cooling_cop": cop, "co2_per_kwh": co2,
-                  "surface_limit": limit, "weather_bins": bins is not None})
+        row=np.array([p.row for p in lines], dtype=int)[keep], tag=tuple(c.specs[i].tag for i in keep),
+        location=tuple(lines[i].location for i in keep), layer_count=c.count[keep], length=c.length[keep],
+        equivalent_length=c.leq[keep], outer_diameter=c.d[keep], fluid_temperature=c.tf[keep],
+        air_temperature=c.ta[keep], surface_temperature=ts[keep], dew_point=run["dew"][keep],
+        q_per_length=q[keep], q_total=(q * c.leq)[keep], operating_hours=c.hours[keep], heat_kwh=heat[keep],
+        purchased_kwh=purchased[keep], cost=(purchased * settings["energy_price"])[keep],
+        co2_kg=(purchased * settings["co2_per_kwh"])[keep], touch_flag=(ts > settings["surface_limit"])[keep],
+        condensation_flag=(ts < run["dew"])[keep], outlet_temperature=run["outlet"][keep],
+        freezing_position=run["frozen_at"][keep], tracing_duty_per_length=run["duty"][keep],
+        tracing_duty=(run["duty"] * c.leq)[keep], condensate=run["condensate"][keep],
+        notes=tuple("; ".join(texts[solved["flags"][i]] + notes[i]) for i in keep),
+        errors=tuple(sorted(errors, key=lambda e: e.row)), settings=settings)
 
 
 # ----------------------------------------------------------------------------- writing

@@ -10,7 +10,7 @@ import numpy as np
 import pytest
 
 import convlib as cl
-from convlib import linelist
+from convlib import linelist, linelist_read
 from convlib.errors import InputError
 from convlib.linelist import RowError, read_line_list, run_line_list
 from convlib.validation import as_array, check_choice
@@ -141,7 +141,7 @@ def test_a_fault_while_reading_a_cell_is_raised(monkeypatch, fault):
     def broken(cell):
         raise fault
 
-    monkeypatch.setattr(linelist, "_nps", broken)
+    monkeypatch.setattr(linelist_read, "_nps", broken)
     with pytest.raises(type(fault), match="bug"):
         read_line_list(csv_text(HEADER, GOOD))
 
