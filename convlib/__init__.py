@@ -17,7 +17,7 @@ from .errors import InputError  # noqa: E402
 # Public names are imported on first access (PEP 562), so that `import convlib` and the command line start
 # fast: CoolProp, pydantic and the study layer load only when a name that needs them is used.
 _LAZY = {
-    "correlations": None, "geometry": None, "radiation": None, "regimes": None, "snapshot": None,
+    "correlations": None, "geometry": None, "radiation": None, "regimes": None, "snapshot": None, "snapshot_check": None,
     "operation": None, "vessels": None,
     "catalog": "correlations", "nusselt": "correlations",
     "FluidProperties": "properties", "air": "properties", "dew_point": "properties", "fluid_properties": "properties",

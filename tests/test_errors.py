@@ -3,6 +3,7 @@ turn only InputError into row errors, and any other exception -- a fault of the 
 
 The expected fields, rules and values are those of the inputs written in each test.
 """
+import importlib
 import io
 import pickle
 
@@ -184,7 +185,7 @@ def test_verify_reports_an_input_error_of_the_rerun_as_snapshot_error(small_snap
         raise InputError("wind_speed must be at most 100 m/s; got 120.0 m/s", field="wind_speed",
                          rule="at most 100 m/s", value=120.0)
 
-    monkeypatch.setattr(cl.snapshot, "run_study", refuse)
+    monkeypatch.setattr(importlib.import_module("convlib.snapshot_check"), "run_study", refuse)
     with pytest.raises(cl.snapshot.SnapshotError, match="re-running the study failed with this convlib: wind_speed"):
         cl.snapshot.verify(small_snapshot)
 
@@ -194,7 +195,7 @@ def test_verify_raises_a_fault_of_the_rerun(small_snapshot, monkeypatch, fault):
     def broken(spec, progress=None):
         raise fault
 
-    monkeypatch.setattr(cl.snapshot, "run_study", broken)
+    monkeypatch.setattr(importlib.import_module("convlib.snapshot_check"), "run_study", broken)
     with pytest.raises(type(fault), match="^bug$") as info:
         cl.snapshot.verify(small_snapshot)
     assert type(info.value) is type(fault)  # not wrapped in SnapshotError
