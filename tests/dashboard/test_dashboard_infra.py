@@ -13,7 +13,7 @@ from convlib.units import from_si
 
 from convlib.study import run_study
 
-from dashboard import compute, figures, serve, server, settings, storage
+from dashboard import compute, figures, plotting, serve, server, settings, storage
 from dashboard.display import Display, format_number
 from dashboard.panels.base import sync_figure
 from dashboard.runner import Runner
@@ -161,7 +161,7 @@ def test_display_uses_convlib_units():
 
 def test_every_figure_is_valid_plotly(monkeypatch, study):
     """The app builds figures without plotly's property checks; here every figure is built with them."""
-    monkeypatch.setattr(figures, "VALIDATE", True)
+    monkeypatch.setattr(plotting, "VALIDATE", True)
     spec = compute.study_for_case(study, study.case)
     summary = compute.summarize_case(study.case)
     d = Display("US")

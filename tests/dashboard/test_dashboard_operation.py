@@ -7,7 +7,7 @@ from convlib import operation as op
 from convlib.pipe import Layer
 from convlib.pipe_sizes import nominal_pipe
 
-from dashboard import compute, figures, settings
+from dashboard import compute, figures, plotting, settings
 from dashboard.display import Display
 
 from dashboard_helpers import show, trace
@@ -163,7 +163,7 @@ def test_hidden_panel_waits_until_shown(app):
 def test_operation_figures_are_valid_plotly(monkeypatch, study):
     import plotly.graph_objects as go
 
-    monkeypatch.setattr(figures, "VALIDATE", True)
+    monkeypatch.setattr(plotting, "VALIDATE", True)
     case = study.case
     inputs = compute.OperationInputs(1.0, 1.0e6, 278.15, 253.15, 10.0, 0.2, 278.15, 0.007)
     view = compute.operation_view(case, inputs, "air_temperature")
