@@ -470,8 +470,8 @@ def horizontal_tank(diameter, length, *, heads="ellipsoidal_2to1", surface_tempe
         faces.append(face_from("heads", ball, ts, np.pi * d_out ** 2))
         name = {"ellipsoidal_2to1": "2:1 ellipsoidal", "torispherical": "torispherical (F&D)",
                 "hemispherical": "hemispherical"}[heads]
-        notes.append(f"{name} heads: both together as one sphere of their area (sphere laws; an estimate, "
-                     f"see convlib.vessels.horizontal_tank)")
+        notes.append(f"{name} heads: both together as one sphere of the same area (sphere laws); an estimate, "
+                     f"no published law covers a head on a horizontal tank")
     return faces_total(faces, notes)
 
 
