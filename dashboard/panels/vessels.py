@@ -16,8 +16,8 @@ from .controls import DESCRIPTION_STYLE, QuantityControl
 __all__ = ["VesselPanel"]
 
 #: Numeric controls per shape (the others are hidden).
-_SIZES = {"vertical_tank": ("vessel_diameter", "vessel_height"), "horizontal_tank": ("vessel_diameter", "vessel_length"),
-          "sphere": ("vessel_diameter",), "duct": ("duct_width", "duct_height", "duct_length")}
+_SIZES = {"vertical_tank": ("vessel_diameter", "vessel_height"),
+          "horizontal_tank": ("vessel_diameter", "vessel_length"), "sphere": ("vessel_diameter",), "duct": ("duct_width", "duct_height", "duct_length")}
 #: Every size control, in screen order.
 _ALL_SIZES = ("vessel_diameter", "vessel_height", "vessel_length", "duct_width", "duct_height", "duct_length")
 #: Choices shown only for one shape: choice -> shape.
@@ -30,7 +30,8 @@ _MAX_FACES = 3
 
 
 class VesselPanel(InputsPanel):
-    """A vertical tank, a horizontal tank, a sphere or a rectangular duct beside the line, at the line's air, wind and emissivity.
+    """A vertical or horizontal tank, a sphere or a rectangular duct beside the line, at the line's air, wind and
+    emissivity.
 
     Traits
     ------
@@ -39,8 +40,8 @@ class VesselPanel(InputsPanel):
     shape, floor, heads, wind_direction, sweep_input : str
         Keys of :data:`dashboard.settings.VESSEL_SHAPES`, ``VESSEL_FLOORS``, ``VESSEL_HEADS``, ``VESSEL_WIND``,
         ``VESSEL_SWEEPS``.
-    vessel_diameter, vessel_height, vessel_length, duct_width, duct_height, duct_length, contents_temperature, vessel_insulation,
-    vessel_insulation_k : float
+    vessel_diameter, vessel_height, vessel_length, duct_width, duct_height, duct_length, contents_temperature,
+    vessel_insulation, vessel_insulation_k : float
         Inputs [SI], as in :class:`dashboard.compute.VesselInputs`.
     hottest_air_temperature : float
         Design hottest air of the touch sizing [K] (hot contents); follows the line's air until set.
