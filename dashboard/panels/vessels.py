@@ -17,7 +17,8 @@ __all__ = ["VesselPanel"]
 
 #: Numeric controls per shape (the others are hidden).
 _SIZES = {"vertical_tank": ("vessel_diameter", "vessel_height"),
-          "horizontal_tank": ("vessel_diameter", "vessel_length"), "sphere": ("vessel_diameter",), "duct": ("duct_width", "duct_height", "duct_length")}
+          "horizontal_tank": ("vessel_diameter", "vessel_length"), "sphere": ("vessel_diameter",),
+          "duct": ("duct_width", "duct_height", "duct_length")}
 #: Every size control, in screen order.
 _ALL_SIZES = ("vessel_diameter", "vessel_height", "vessel_length", "duct_width", "duct_height", "duct_length")
 #: Choices shown only for one shape: choice -> shape.
