@@ -679,7 +679,8 @@ def vessel_view(case: CaseSpec, inputs: VesselInputs, sweep_input: str = "vessel
     """:func:`convlib.vessels.vertical_tank`, :func:`~convlib.vessels.horizontal_tank`,
     :func:`~convlib.vessels.spherical_tank` or :func:`~convlib.vessels.rectangular_duct` with the contents at
     ``inputs.contents_temperature`` and one insulation layer on every exposed face, at the case's air, wind,
-    emissivity and sky (outdoors when the case sees the sky), and the same against ``sweep_input`` in one vectorized call.
+    emissivity and sky (outdoors when the case sees the sky), and the same against ``sweep_input`` in one
+    vectorized call.
 
     The insulation per face (:func:`convlib.vessels.insulation_per_face`) is sized in still air: for hot
     contents against the touch limit at the design hottest air ``hottest_air_temperature`` [K] (default: the
