@@ -14,8 +14,8 @@ from .operation import (TRACING_MARGIN, freeze_time, line_temperature_profile, m
                         tracing_duty)
 from .pipe import Layer
 from .units import display_unit, from_si
-from .vessels import (FLOORS, GROUND_CONDUCTIVITY, WIND_DIRECTIONS, insulation_per_face, rectangular_duct,
-                      spherical_tank, vertical_tank)
+from .vessels import (FLOORS, GROUND_CONDUCTIVITY, HEADS, WIND_DIRECTIONS, horizontal_tank, insulation_per_face,
+                      rectangular_duct, spherical_tank, vertical_tank)
 
 
 def _cmd_trace(args) -> int:
@@ -155,8 +155,17 @@ def _cmd_tank(args) -> int:
     def face_layers(face):
         return layers(args, f"{face}_layer")
 
+    def refuse(options, why):
+        given = {o: getattr(args, o.strip("-").replace("-", "_")) for o in options}
+        given = {o: g for o, g in given.items() if g not in (None, [], False)}
+        if given:
+            raise InputError(f"{', '.join(given)}: not for --shape {args.shape} ({why})", field=", ".join(given),
+                             rule=f"not given with --shape {args.shape}", value=tuple(given.values()))
+
     common = _exposure(args, "tank")
     diameter = value(args, "diameter")
+    if args.shape != "horizontal":
+        refuse(("--length", "--heads", "--head-layer"), "only for --shape horizontal")
     if args.shape == "sphere":
         if args.height is not None or args.roof_layer or args.floor_layer:
             raise InputError("a sphere takes no --height, --roof-layer or --floor-layer (its layers: --wall-layer)",
@@ -171,6 +180,18 @@ def _cmd_tank(args) -> int:
 
         def build(extra, **over):
             return spherical_tank(diameter, layers=[*extra, *face_layers("wall")], **wall, **{**common, **over})
+    elif args.shape == "horizontal":
+        refuse(("--height", "--roof-layer", "--floor-layer", "--floor", "--ground-temperature", "--wall-thickness",
+                "--wall-conductivity"), "a horizontal tank takes --length, --heads, --shell-layer and --head-layer")
+        if args.length is None:
+            raise InputError("--length is required for a horizontal tank (the shell between the heads' tangent "
+                             "lines)", field="--length", rule="given for a horizontal tank", value=None)
+        length = value(args, "length")
+        heads = args.heads or "ellipsoidal_2to1"
+
+        def build(extra, **over):
+            return horizontal_tank(diameter, length, heads=heads, shell_layers=[*extra, *face_layers("wall")],
+                                   head_layers=[*extra, *face_layers("head")], **{**common, **over})
     else:
         if args.height is None:
             raise InputError("--height is required for a vertical tank", field="--height",
@@ -181,10 +202,11 @@ def _cmd_tank(args) -> int:
                              rule="only with --shape sphere", value=(args.wall_thickness, args.wall_conductivity))
         ground = value(args, "ground_temperature")
         height = value(args, "height")
+        floor = args.floor or "ground"
 
         def build(extra, **over):
             return vertical_tank(diameter, height, wall_layers=[*extra, *face_layers("wall")],
-                                 roof_layers=[*extra, *face_layers("roof")], floor=args.floor,
+                                 roof_layers=[*extra, *face_layers("roof")], floor=floor,
                                  floor_layers=face_layers("floor"), ground_temperature=ground,
                                  ground_conductivity=args.ground_conductivity, **{**common, **over})
     _emit_faces(args, "tank faces", build([]), common["air_temperature"], _sizing(args, build))
@@ -365,19 +387,27 @@ def add_commands(sub) -> None:
     output_options(freeze)
     freeze.set_defaults(func=_cmd_freeze)
 
-    tank = sub.add_parser("tank", help="a vertical tank face by face (wall, roof, floor) or a sphere (shell)")
-    tank.add_argument("--shape", choices=("vertical", "sphere"), default="vertical",
-                      help="vertical cylindrical tank (default) or spherical vessel")
+    tank = sub.add_parser("tank", help="a vertical tank face by face (wall, roof, floor), a horizontal tank (shell, "
+                          "heads) or a sphere (shell)")
+    tank.add_argument("--shape", choices=("vertical", "horizontal", "sphere"), default="vertical",
+                      help="vertical cylindrical tank (default), horizontal tank with heads, or spherical vessel")
     add_quantity(tank, "diameter", "size", "tank diameter (of a sphere: outer shell), e.g. 10m", required=True)
     add_quantity(tank, "height", "size", "wall height of a vertical tank, e.g. 12m")
+    add_quantity(tank, "length", "size", "horizontal tank: shell length between the heads' tangent lines, e.g. 8m")
+    tank.add_argument("--heads", choices=HEADS, default=None,
+                      help="horizontal tank: shape of both heads, one of " + ", ".join(HEADS) + " (default "
+                      "ellipsoidal_2to1; torispherical is the ASME F&D head, crown radius D, knuckle 0.06 D)")
     add_quantity(tank, "wall-thickness", "wall_thickness", "sphere: shell wall, e.g. 20mm (with --wall-conductivity)")
     add_quantity(tank, "wall-conductivity", "conductivity", "sphere: shell wall conductivity, e.g. 45W/m/K")
-    _exposure_options(tank, "tank", "contents", "wall 0.5, roof 1")
-    for face in ("wall", "roof", "floor"):
+    _exposure_options(tank, "tank", "contents", "wall, shell and heads 0.5, roof 1")
+    tank.add_argument("--wall-layer", "--shell-layer", dest="wall_layer", action="append",
+                      help=f"wall (horizontal tank: shell; sphere: shell) layer THICKNESS,CONDUCTIVITY[,NAME] "
+                      f"[{LAYER_UNITS}]")
+    for face in ("roof", "floor", "head"):
         tank.add_argument(f"--{face}-layer", action="append", help=f"{face} layer THICKNESS,CONDUCTIVITY[,NAME] "
-                          f"[{LAYER_UNITS}]")
-    tank.add_argument("--floor", choices=FLOORS, default="ground", help="on the ground (default), open underneath, "
-                      "or left out")
+                          f"[{LAYER_UNITS}]" + (" (both heads of a horizontal tank)" if face == "head" else ""))
+    tank.add_argument("--floor", choices=FLOORS, default=None, help="vertical tank: on the ground (default), open "
+                      "underneath, or left out")
     add_quantity(tank, "ground-temperature", "air_temperature", "undisturbed soil temperature (default the air "
                  "temperature)")
     tank.add_argument("--ground-conductivity", type=float, default=GROUND_CONDUCTIVITY,

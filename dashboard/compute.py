@@ -638,6 +638,8 @@ class VesselInputs:
     vessel_insulation_k: float       # [W/m/K]
     floor: str = "ground"            # vertical tank: key of settings.VESSEL_FLOORS
     wind_direction: str = "along"    # duct: key of settings.VESSEL_WIND
+    vessel_length: float = settings.VESSEL["vessel_length"]  # horizontal tank: shell between the heads [m]
+    heads: str = settings.VESSEL["heads"]  # horizontal tank: key of settings.VESSEL_HEADS
 
 
 @dataclass(frozen=True)
@@ -674,16 +676,18 @@ def vessel_defaults(case: CaseSpec) -> dict:
 
 def vessel_view(case: CaseSpec, inputs: VesselInputs, sweep_input: str = "vessel_insulation",
                 hottest_air_temperature: float | None = None) -> VesselView:
-    """:func:`convlib.vessels.vertical_tank`, :func:`~convlib.vessels.spherical_tank` or
-    :func:`~convlib.vessels.rectangular_duct` with the contents at ``inputs.contents_temperature`` and one
-    insulation layer on every exposed face, at the case's air, wind, emissivity and sky (outdoors when the case
-    sees the sky), and the same against ``sweep_input`` in one vectorized call.
+    """:func:`convlib.vessels.vertical_tank`, :func:`~convlib.vessels.horizontal_tank`,
+    :func:`~convlib.vessels.spherical_tank` or :func:`~convlib.vessels.rectangular_duct` with the contents at
+    ``inputs.contents_temperature`` and one insulation layer on every exposed face, at the case's air, wind,
+    emissivity and sky (outdoors when the case sees the sky), and the same against ``sweep_input`` in one
+    vectorized call.
 
     The insulation per face (:func:`convlib.vessels.insulation_per_face`) is sized in still air: for hot
     contents against the touch limit at the design hottest air ``hottest_air_temperature`` [K] (default: the
     case's air), for cold contents above the dew point plus a margin at the case's air."""
     i = inputs
     for name, value, choices in (("shape", i.shape, settings.VESSEL_SHAPES), ("floor", i.floor, settings.VESSEL_FLOORS),
+                                 ("heads", i.heads, settings.VESSEL_HEADS),
                                  ("wind_direction", i.wind_direction, settings.VESSEL_WIND),
                                  ("sweep input", sweep_input, settings.VESSEL_SWEEPS)):
         if value not in choices:
@@ -697,6 +701,9 @@ def vessel_view(case: CaseSpec, inputs: VesselInputs, sweep_input: str = "vessel
         if i.shape == "vertical_tank":
             return vessels.vertical_tank(i.vessel_diameter, i.vessel_height, wall_layers=layers, roof_layers=layers,
                                          floor=i.floor, floor_layers=layers if i.floor == "open" else [], **common)
+        if i.shape == "horizontal_tank":
+            return vessels.horizontal_tank(i.vessel_diameter, i.vessel_length, heads=i.heads, shell_layers=layers,
+                                           head_layers=layers, **common)
         if i.shape == "sphere":
             return vessels.spherical_tank(i.vessel_diameter, layers=layers, **common)
         return vessels.rectangular_duct(i.duct_width, i.duct_height, i.duct_length, layers=layers,

@@ -16,7 +16,7 @@ __all__ = [
     "MONTE_CARLO_SAMPLES", "MODEL_FORMS", "HEAT_LOSS_LIMIT", "SIZING_MAX_THICKNESS", "snapshot_dir", "convlib_home", "MAX_SNAPSHOT_BYTES", "PALETTE",
     "MODE_COLOURS", "PRETTY_UNITS", "FIGURE_HEIGHT", "FIGURE_WIDTH", "SIDEBAR_WIDTH", "MAP_LOWEST_WIND",
     "ServeDefaults", "SERVE", "BUNDLE_ENV", "OPERATION", "OPERATION_SERVICES", "OPERATION_SWEEPS", "VESSEL",
-    "VESSEL_SHAPES", "VESSEL_FLOORS", "VESSEL_WIND", "VESSEL_SWEEPS",
+    "VESSEL_SHAPES", "VESSEL_FLOORS", "VESSEL_HEADS", "VESSEL_WIND", "VESSEL_SWEEPS",
 ]
 
 #: Unit systems offered by the units switch (keys of :data:`convlib.units.DISPLAY_UNITS`).
@@ -96,6 +96,7 @@ CONTROLS: dict[str, ControlSetting] = {
     # "Tanks & ducts" panel
     "vessel_diameter": ControlSetting("Diameter", "length", 0.3, 80.0, {"SI": 0.1, "US": 0.5}, _METRES, "text"),
     "vessel_height": ControlSetting("Wall height", "length", 0.3, 40.0, {"SI": 0.1, "US": 0.5}, _METRES, "text"),
+    "vessel_length": ControlSetting("Shell length", "length", 0.3, 80.0, {"SI": 0.1, "US": 0.5}, _METRES, "text"),
     "duct_width": ControlSetting("Duct width", "length", 0.05, 5.0, {"SI": 0.01, "US": 0.05}, _METRES, "text"),
     "duct_height": ControlSetting("Duct height", "length", 0.05, 5.0, {"SI": 0.01, "US": 0.05}, _METRES, "text"),
     "duct_length": ControlSetting("Duct run", "length", 0.5, 5000.0, {"SI": 1.0, "US": 5.0}, _METRES, "text"),
@@ -154,6 +155,7 @@ QUANTITIES: dict[str, tuple[str, dict | None, int]] = {
     # "Tanks & ducts" panel
     "vessel_diameter": ("length", _METRES, 3),
     "vessel_height": ("length", _METRES, 3),
+    "vessel_length": ("length", _METRES, 3),
     "duct_width": ("length", _METRES, 3),
     "duct_height": ("length", _METRES, 3),
     "duct_length": ("length", _METRES, 4),
@@ -215,10 +217,15 @@ OPERATION = {
 
 #: The "Tanks & ducts" panel: what it shows, its defaults [SI] and the inputs its sweep offers
 #: (name -> (label, lowest, highest) [SI]; the highest widens to include the case).
-VESSEL_SHAPES = {"vertical_tank": "vertical tank", "sphere": "sphere", "duct": "rectangular duct"}
-VESSEL = {"shape": "vertical_tank", "vessel_diameter": 3.0, "vessel_height": 6.0, "duct_width": 0.6,
-          "duct_height": 0.4, "duct_length": 20.0, "vessel_insulation": 0.1, "vessel_insulation_k": 0.04,
-          "floor": "ground", "wind_direction": "along", "sweep_points": 21}
+VESSEL_SHAPES = {"vertical_tank": "vertical tank", "horizontal_tank": "horizontal tank", "sphere": "sphere",
+                 "duct": "rectangular duct"}
+VESSEL = {"shape": "vertical_tank", "vessel_diameter": 3.0, "vessel_height": 6.0, "vessel_length": 8.0,
+          "duct_width": 0.6, "duct_height": 0.4, "duct_length": 20.0, "vessel_insulation": 0.1,
+          "vessel_insulation_k": 0.04, "floor": "ground", "heads": "ellipsoidal_2to1", "wind_direction": "along",
+          "sweep_points": 21}
+#: Heads of a horizontal tank: key of convlib.vessels.HEADS -> display name.
+VESSEL_HEADS = {"ellipsoidal_2to1": "2:1 ellipsoidal", "torispherical": "torispherical (F&D)",
+                "hemispherical": "hemispherical", "flat": "flat"}
 VESSEL_FLOORS = {"ground": "on the ground", "open": "open underneath", "none": "left out"}
 VESSEL_WIND = {"along": "along the duct", "across": "across the duct"}
 VESSEL_SWEEPS = {

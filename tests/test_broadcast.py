@@ -22,7 +22,8 @@ TARIFF, FINANCE = economics.Tariff("gas", 0.05, 0.85), economics.Finance(0.08, 0
 #: Not numbers (choices, flags, objects, lists of layers) -- they select, they do not broadcast.
 NOT_NUMERIC = {"shape", "natural", "forced", "flow_direction", "fluid", "fluid_phase", "exact_properties", "strict",
                "surroundings", "layers", "outer_layers", "wall_layers", "roof_layers", "floor_layers", "bins",
-               "tariff", "finance", "fittings", "factors", "floor", "outdoor", "wind_direction",
+               "tariff", "finance", "fittings", "factors", "floor", "outdoor", "wind_direction", "heads",
+               "shell_layers", "head_layers",
                "constant_coefficient", "resolvable"}
 #: Settings of a solve or a catalogue (one per call by design: a tolerance, a search bound, the list of thicknesses
 #: a sizing picks from or an economic study prices, class limits).
@@ -110,6 +111,9 @@ CASES = {
                                  roof_layers=LAYERS, air_temperature=283.15), lambda r: r.q_total),
     vessels.spherical_tank: (dict(diameter=12.0, fluid_temperature=243.15, layers=[Layer(0.1, 0.03)],
                                   air_temperature=298.15), lambda r: r.q_total),
+    vessels.horizontal_tank: (dict(diameter=3.0, length=8.0, fluid_temperature=353.15, shell_layers=LAYERS,
+                                   head_layers=LAYERS, air_temperature=283.15), lambda r: r.q_total),
+    vessels.head_area: (dict(diameter=3.0, heads="torispherical"), lambda r: r),
     vessels.rectangular_duct: (dict(width=0.6, height=0.4, length=20.0, fluid_temperature=313.15, layers=LAYERS,
                                     air_temperature=293.15), lambda r: r.q_total),
     economics.present_worth_factor: (dict(discount_rate=0.08, escalation=0.02, years=15.0), lambda r: r),
@@ -137,6 +141,7 @@ OWN_VALUES = {
     (vessels.spherical_tank, "fluid_temperature"): [233.15, 243.15, 253.15],
     (vessels.spherical_tank, "diameter"): [8.0, 12.0, 16.0],
     (vessels.vertical_tank, "diameter"): [3.0, 6.0, 10.0],
+    (vessels.horizontal_tank, "diameter"): [2.0, 3.0, 4.0],
     (vessels.rectangular_duct, "fluid_temperature"): [303.15, 313.15, 323.15],
     (survey.effective_conductivity, "surface_temperature"): [303.15, 313.15, 323.15],
     (transients.cool_down_time, "air_temperature"): [273.15, 283.15, 293.15],
@@ -157,6 +162,7 @@ BASE_FOR = {
                                      height=2.0, width=1.0),
     (vessels.vertical_tank, "surface_temperature"): dict(diameter=6.0, height=8.0, air_temperature=283.15),
     (vessels.spherical_tank, "surface_temperature"): dict(diameter=12.0, air_temperature=298.15),
+    (vessels.horizontal_tank, "surface_temperature"): dict(diameter=3.0, length=8.0, air_temperature=283.15),
     (vessels.rectangular_duct, "surface_temperature"): dict(width=0.6, height=0.4, length=20.0,
                                                             air_temperature=293.15),
 }

@@ -16,26 +16,33 @@ from .controls import DESCRIPTION_STYLE, QuantityControl
 __all__ = ["VesselPanel"]
 
 #: Numeric controls per shape (the others are hidden).
-_SIZES = {"vertical_tank": ("vessel_diameter", "vessel_height"), "sphere": ("vessel_diameter",),
+_SIZES = {"vertical_tank": ("vessel_diameter", "vessel_height"),
+          "horizontal_tank": ("vessel_diameter", "vessel_length"), "sphere": ("vessel_diameter",),
           "duct": ("duct_width", "duct_height", "duct_length")}
-_NUMERIC = ("vessel_diameter", "vessel_height", "duct_width", "duct_height", "duct_length", "contents_temperature",
-            "vessel_insulation", "vessel_insulation_k")
+#: Every size control, in screen order.
+_ALL_SIZES = ("vessel_diameter", "vessel_height", "vessel_length", "duct_width", "duct_height", "duct_length")
+#: Choices shown only for one shape: choice -> shape.
+_CHOICE_FOR = {"floor": "vertical_tank", "heads": "horizontal_tank", "wind_direction": "duct"}
+_NUMERIC = ("vessel_diameter", "vessel_height", "vessel_length", "duct_width", "duct_height", "duct_length",
+            "contents_temperature", "vessel_insulation", "vessel_insulation_k")
 #: Controls whose default follows the line until the user changes them.
 _FOLLOW_CASE = ("contents_temperature", "vessel_insulation", "vessel_insulation_k")
 _MAX_FACES = 3
 
 
 class VesselPanel(InputsPanel):
-    """A vertical tank, a sphere or a rectangular duct beside the line, at the line's air, wind and emissivity.
+    """A vertical or horizontal tank, a sphere or a rectangular duct beside the line, at the line's air, wind and
+    emissivity.
 
     Traits
     ------
     view : VesselView or None
         Results (set by the app).
-    shape, floor, wind_direction, sweep_input : str
-        Keys of :data:`dashboard.settings.VESSEL_SHAPES`, ``VESSEL_FLOORS``, ``VESSEL_WIND``, ``VESSEL_SWEEPS``.
-    vessel_diameter, vessel_height, duct_width, duct_height, duct_length, contents_temperature, vessel_insulation,
-    vessel_insulation_k : float
+    shape, floor, heads, wind_direction, sweep_input : str
+        Keys of :data:`dashboard.settings.VESSEL_SHAPES`, ``VESSEL_FLOORS``, ``VESSEL_HEADS``, ``VESSEL_WIND``,
+        ``VESSEL_SWEEPS``.
+    vessel_diameter, vessel_height, vessel_length, duct_width, duct_height, duct_length, contents_temperature,
+    vessel_insulation, vessel_insulation_k : float
         Inputs [SI], as in :class:`dashboard.compute.VesselInputs`.
     hottest_air_temperature : float
         Design hottest air of the touch sizing [K] (hot contents); follows the line's air until set.
@@ -44,10 +51,12 @@ class VesselPanel(InputsPanel):
     view = traitlets.Instance(VesselView, allow_none=True)
     shape = traitlets.Unicode(settings.VESSEL["shape"])
     floor = traitlets.Unicode(settings.VESSEL["floor"])
+    heads = traitlets.Unicode(settings.VESSEL["heads"])
     wind_direction = traitlets.Unicode(settings.VESSEL["wind_direction"])
     sweep_input = traitlets.Unicode("vessel_insulation")
     vessel_diameter = traitlets.Float(settings.VESSEL["vessel_diameter"])
     vessel_height = traitlets.Float(settings.VESSEL["vessel_height"])
+    vessel_length = traitlets.Float(settings.VESSEL["vessel_length"])
     duct_width = traitlets.Float(settings.VESSEL["duct_width"])
     duct_height = traitlets.Float(settings.VESSEL["duct_height"])
     duct_length = traitlets.Float(settings.VESSEL["duct_length"])
@@ -57,7 +66,7 @@ class VesselPanel(InputsPanel):
     hottest_air_temperature = traitlets.Float(293.15)
 
     #: Every setting the numbers depend on besides the case.
-    SETTINGS = ("shape", "floor", "wind_direction", "sweep_input", *_NUMERIC, "hottest_air_temperature")
+    SETTINGS = ("shape", "floor", "heads", "wind_direction", "sweep_input", *_NUMERIC, "hottest_air_temperature")
     FOLLOW_CASE = (*_FOLLOW_CASE, "hottest_air_temperature")
 
     def __init__(self, **kwargs):
@@ -70,6 +79,7 @@ class VesselPanel(InputsPanel):
         self.choices = {}
         for name, options, label in (("shape", settings.VESSEL_SHAPES, "What"),
                                      ("floor", settings.VESSEL_FLOORS, "Floor"),
+                                     ("heads", settings.VESSEL_HEADS, "Heads"),
                                      ("wind_direction", settings.VESSEL_WIND, "Wind"),
                                      ("sweep_input", {k: v[0] for k, v in settings.VESSEL_SWEEPS.items()},
                                       "Sweep against")):
@@ -79,8 +89,8 @@ class VesselPanel(InputsPanel):
             traitlets.link((box, "value"), (self, name))
             self.choices[name] = box
         size = widgets.VBox([widgets.HTML('<div class="cl-section">Size</div>'), self.choices["shape"],
-                             *(self.controls[n].box for n in _SIZES["vertical_tank"] + _SIZES["duct"]),
-                             self.choices["floor"], self.choices["wind_direction"]],
+                             *(self.controls[n].box for n in _ALL_SIZES),
+                             *(self.choices[n] for n in _CHOICE_FOR)],
                             layout=widgets.Layout(width="400px", margin="0 12px 0 0"))
         contents = widgets.VBox([widgets.HTML('<div class="cl-section">Contents and insulation</div>'),
                                  *(self.controls[n].box for n in _FOLLOW_CASE)],
@@ -108,14 +118,14 @@ class VesselPanel(InputsPanel):
 
     def inputs(self) -> VesselInputs:
         """The panel's inputs [SI] (the touch sizing's hottest air is :attr:`hottest_air_temperature`)."""
-        return VesselInputs(shape=self.shape, floor=self.floor, wind_direction=self.wind_direction,
+        return VesselInputs(shape=self.shape, floor=self.floor, heads=self.heads, wind_direction=self.wind_direction,
                             **{name: getattr(self, name) for name in _NUMERIC})
 
     def reset(self):
         super().reset()
         with self.hold_trait_notifications():
             self.reset_inputs({name: settings.VESSEL[name] for name in _NUMERIC if name in settings.VESSEL})
-            for name in ("shape", "floor", "wind_direction"):
+            for name in ("shape", "floor", "heads", "wind_direction"):
                 setattr(self, name, settings.VESSEL[name])
             self.sweep_input = "vessel_insulation"
 
@@ -130,10 +140,10 @@ class VesselPanel(InputsPanel):
 
     def _show_shape_controls(self):
         shown = set(_SIZES[self.shape])
-        for name in _SIZES["vertical_tank"] + _SIZES["duct"]:
+        for name in _ALL_SIZES:
             self.controls[name].box.layout.display = None if name in shown else "none"
-        self.choices["floor"].layout.display = None if self.shape == "vertical_tank" else "none"
-        self.choices["wind_direction"].layout.display = None if self.shape == "duct" else "none"
+        for name, shape in _CHOICE_FOR.items():
+            self.choices[name].layout.display = None if self.shape == shape else "none"
 
     def _sizing_text(self, v: VesselView) -> str:
         """One line: the insulation each face needs for the touch limit (hot) or against condensation (cold)."""
