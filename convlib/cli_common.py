@@ -53,7 +53,7 @@ FIELDS = {
     "q_per_area": ("q/A", "heat_flux", "{:.1f}"),
     "steam_pressure": ("p_steam", "pressure", "{:.4g}"),
     "condensate_rate": ("condensate", "mass_flow", "{:.2f}"),
-    "required_thickness": ("t_required", "length", "{:.1f}"),
+    "required_thickness": ("t_required", "length", "{:.3g}"),  # 3 digits: 0.157 in, 4.03 mm
     "commercial_thickness": ("t_listed", "length", "{:.3g}"),
     "surface_limit": ("T_limit", "temperature", "{:.1f}"),
     "heat_loss_limit": ("q_limit", "heat_per_length", "{:.1f}"),
