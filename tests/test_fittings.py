@@ -186,3 +186,58 @@ def test_equivalent_length_is_nan_with_a_note_where_the_line_neither_loses_nor_g
     assert np.isnan(r.equivalent_length[0]) and np.isfinite(r.equivalent_length[1])
     assert any("undefined" in n for n in r.notes)
     assert any("Caution" in n for n in r.notes)
+
+
+# ----------------------------------------------------------------------------- line list
+LIST = """tag,nps,outer_diameter[mm],length[m],fluid_temperature[degC],air_temperature[degC],layers[mm],jacket_emissivity,bare_valve,bare_flange_pair,pressure_class,location
+A,4,,10,180,20,"50,0.045",0.1,,,,indoor
+B,4,,10,180,20,"50,0.045",0.1,1,2,,indoor
+C,4,,10,180,20,"50,0.045",0.1,1,2,300,outdoor
+D,,114.3,10,180,20,"50,0.045",0.1,1,,,indoor
+E,4,,10,180,20,"50,0.045",0.1,,1,600,indoor
+F,3.5,,10,180,20,"50,0.045",0.1,1,,,indoor
+G,6,,10,5,30,"40,0.035",0.9,,3,,indoor
+"""
+
+
+def _items(tag, nps, tf, ta, layers, eps, valves, pairs, pressure_class=150, **around):
+    kw = dict(layers=layers, jacket_emissivity=eps, air_temperature=ta, pressure_class=pressure_class, **around)
+    return (valves * bare_valve(nps, tf, **kw).extra_heat if valves else 0.0) + \
+        (pairs * bare_flange_pair(nps, tf, **kw).extra_heat if pairs else 0.0)
+
+
+def test_line_list_adds_the_extra_heat_of_bare_items_to_q_total_and_the_year(tmp_path):
+    import io
+
+    from convlib.design import WeatherBins
+    from convlib.linelist import run_line_list, write_results_csv
+    from convlib.radiation import sky_temperature
+
+    res = run_line_list(io.StringIO(LIST))
+    assert res.tag == ("A", "B", "C", "G")
+    assert {e.tag: e.reason.split(":")[0] for e in res.errors} == {"D": "nps", "E": "pressure_class", "F": "nps"}
+    assert "bare valves and flange pairs need the line's nps" in res.errors[0].reason
+    assert "sizes known are" in res.errors[2].reason
+    hot = [Layer(0.05, 0.045)]
+    expected = {"A": 0.0, "B": _items("B", 4, 453.15, 293.15, hot, 0.1, 1, 2),
+                "C": _items("C", 4, 453.15, 293.15, hot, 0.1, 1, 2, 300, sky_view_fraction=0.5,
+                            sky_temperature=sky_temperature(293.15)),
+                "G": _items("G", 6, 278.15, 303.15, [Layer(0.04, 0.035)], 0.9, 0, 3)}
+    for i, tag in enumerate(res.tag):
+        assert res.bare_fittings_heat[i] == pytest.approx(float(expected[tag]), rel=1e-9)
+        assert res.q_total[i] == pytest.approx(res.q_per_length[i] * res.equivalent_length[i] + float(expected[tag]),
+                                               rel=1e-9)
+        assert res.heat_kwh[i] == pytest.approx(res.q_total[i] * 8760 / 1000, rel=1e-9)  # design air all year
+    assert res.bare_fittings_heat[2] > res.bare_fittings_heat[1] > 0 > res.bare_fittings_heat[3]  # class 300; cold
+    assert any("bare flange or valve" in c for c in res.cautions)
+    write_results_csv(res, tmp_path / "out.csv")
+    assert "bare_fittings_heat[W]" in (tmp_path / "out.csv").read_text().splitlines()[0]
+    # with weather bins the outdoor line's items see each bin's air and wind
+    bins = WeatherBins([268.15, 283.15], [4.0, 2.0], [3000.0, 5760.0])
+    year = run_line_list(io.StringIO(LIST), bins)
+    c = year.tag.index("C")
+    per_bin = [_items("C", 4, 453.15, t, hot, 0.1, 1, 2, 300, wind_speed=w, sky_view_fraction=0.5,
+                      sky_temperature=sky_temperature(t)) for t, w in ((268.15, 4.0), (283.15, 2.0))]
+    pipe = year.heat_kwh[c] - (float(per_bin[0]) * 3000 + float(per_bin[1]) * 5760) / 1000
+    line_only = run_line_list(io.StringIO(LIST.replace(",1,2,300,outdoor", ",,,300,outdoor")), bins)
+    assert pipe == pytest.approx(line_only.heat_kwh[line_only.tag.index("C")], rel=1e-9)
