@@ -241,3 +241,33 @@ def test_line_list_adds_the_extra_heat_of_bare_items_to_q_total_and_the_year(tmp
     pipe = year.heat_kwh[c] - (float(per_bin[0]) * 3000 + float(per_bin[1]) * 5760) / 1000
     line_only = run_line_list(io.StringIO(LIST.replace(",1,2,300,outdoor", ",,,300,outdoor")), bins)
     assert pipe == pytest.approx(line_only.heat_kwh[line_only.tag.index("C")], rel=1e-9)
+
+
+# ----------------------------------------------------------------------------- command line
+def test_cli_line_prints_the_extra_heat_and_equivalent_length_of_bare_items(capsys):
+    from cli_helpers import run_error, run_json, run_text
+
+    base = ("line", "--nps", "4", "--fluid-temperature", "180degC", "--air-temperature", "20degC",
+            "--layer", "50mm,0.045", "--jacket-emissivity", "0.1", "--length", "10m")
+    out = run_json(capsys, *base, "--bare-valves", "1", "--bare-flange-pairs", "2", "--pressure-class", "300")
+    rows = out["bare items (extra heat over the line they replace)"]["results"]
+    kw = dict(pressure_class=300, layers=[Layer(0.05, 0.045)], jacket_emissivity=0.1, air_temperature=293.15)
+    valve, pair = bare_valve(4, 453.15, **kw), bare_flange_pair(4, 453.15, **kw)
+    assert [r["tag"] for r in rows] == ["bare valve", "bare flange pair"]
+    assert rows[0]["extra_heat"] == pytest.approx(float(valve.extra_heat), rel=1e-9)
+    assert rows[1]["extra_heat"] == pytest.approx(2 * float(pair.extra_heat), rel=1e-9)
+    assert out["equivalent_length"] == pytest.approx(float(valve.equivalent_length + 2 * pair.equivalent_length))
+    line_q = out["line"]["results"][0]["q_total"]
+    assert out["q_total_with_bare_items"] == pytest.approx(line_q + float(valve.extra_heat + 2 * pair.extra_heat))
+    assert any("bare flange or valve" in c for c in out["cautions"])
+    text = run_text(capsys, *base, "--bare-valves", "1", "--units", "US")
+    assert "bare items add as much heat as" in text and " ft of this line" in text and "Btu/h" in text
+    assert "bare items" not in run_text(capsys, *base)  # none asked, none shown
+    assert "need --nps" in run_error(capsys, "line", "--pipe-outer-diameter", "114.3mm", "--fluid-temperature",
+                                     "180degC", "--air-temperature", "20degC", "--bare-valves", "1")
+    assert "not in the table" in run_error(capsys, "line", "--nps", "3.5", "--fluid-temperature", "180degC",
+                                           "--air-temperature", "20degC", "--bare-valves", "1")
+    with pytest.raises(SystemExit):
+        run_text(capsys, *base, "--bare-valves", "-1")
+    with pytest.raises(SystemExit):
+        run_text(capsys, *base, "--pressure-class", "600")
