@@ -3,7 +3,9 @@
 Sources:
 - Flange dimensions: ASME B16.5, Class 150 "common dimensions" as printed in a flange maker's catalogue sheet
   (ASME B16.5 Flanges, Class 150, revised 1-99; an edition that lists the thickness C with the 0.06 in raised
-  face), transcribed below.
+  face), transcribed below; and the same flanges in mm from a forging maker's catalogue ("ANSI B16.5 forged
+  flanges", Class 150). No outside table was at hand for Class 300 or for ASME B16.10 valves: those values are
+  marked "from memory" in convlib.fittings and checked here only for order (class 300 larger than class 150).
 - Pipe outside diameters: ASME B36.10M (NPS 2: 2.375 in, NPS 4: 4.500 in, NPS 8: 8.625 in).
 - Natural convection: Churchill & Chu (1975), horizontal cylinder, Int. J. Heat Mass Transfer 18, 1049,
   doi:10.1016/0017-9310(75)90222-7, and vertical plate, ibid. 1323, doi:10.1016/0017-9310(75)90243-4 (as in
@@ -44,6 +46,20 @@ def test_class_150_flanges_match_the_catalogue_sheet(nps):
     assert float(outside) / INCH == pytest.approx(sheet_outside, abs=1e-9)
     # the sheet's thickness holds the raised face; ours leaves it out; both rounded to 0.01 in
     assert float(thickness) / INCH + RAISED_FACE == pytest.approx(sheet_thickness, abs=0.011)
+
+
+#: The same flanges in millimetres, from a forging maker's catalogue ("ANSI B16.5 forged flanges", Class 150, unit mm:
+#: outside diameter D, thickness t with the raised face), NPS 1/2 ... 24 in the order of SHEET_CLASS_150.
+METRIC_CATALOGUE_150_D = (89, 99, 108, 117, 127, 152, 178, 191, 216, 229, 254, 279, 343, 406, 483, 533, 597, 635, 699,
+                          813)
+METRIC_CATALOGUE_150_T = (11.2, 12.7, 14.2, 15.7, 17.5, 19.1, 22.4, 23.9, 23.9, 23.9, 23.9, 25.4, 28.4, 30.2, 31.8, 35.1,
+                          36.6, 39.6, 42.9, 47.8)
+
+
+def test_class_150_flanges_match_a_metric_catalogue():
+    outside, thickness = flange_dimensions(np.array(sorted(SHEET_CLASS_150)), 150)
+    np.testing.assert_allclose(outside * 1000, METRIC_CATALOGUE_150_D, atol=0.6)  # catalogue rounds to 1 mm
+    np.testing.assert_allclose((thickness + RAISED_FACE * INCH) * 1000, METRIC_CATALOGUE_150_T, atol=0.35)
 
 
 def test_the_tables_cover_nps_half_to_24_and_refuse_other_sizes_listing_the_known_ones():
