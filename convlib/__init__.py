@@ -33,6 +33,7 @@ _LAZY = {
     "minimum_flow": "operation",
     "steam_line": "operation", "tracing_duty": "operation",
     "cool_down_time": "transients", "warm_up_condensate": "transients",
+    "bare_flange_pair": "fittings", "bare_valve": "fittings",
     "rectangular_duct": "vessels", "spherical_tank": "vessels", "vertical_tank": "vessels",
 }
 
@@ -68,5 +69,6 @@ __all__ = [
     "StudySpec", "CaseSpec", "StudyResult", "run_study", "snapshot",
     "run_line_list", "read_line_list", "write_results_csv", "LineListResult",
     "operation", "vessels", "line_temperature_profile", "minimum_flow", "steam_line", "condensate_rate",
-    "tracing_duty", "freeze_time", "cool_down_time", "warm_up_condensate", "vertical_tank", "spherical_tank", "rectangular_duct",
+    "tracing_duty", "freeze_time", "cool_down_time", "warm_up_condensate",
+    "bare_flange_pair", "bare_valve", "vertical_tank", "spherical_tank", "rectangular_duct",
 ]

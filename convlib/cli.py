@@ -53,6 +53,7 @@ from .files import read_json
 from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, COMMERCIAL_THICKNESSES, CONDENSATION_MARGIN, WeatherBins,
                      annual_energy, thickness_against_condensation,
                      thickness_for_heat_loss, thickness_for_surface_temperature)
+from .fittings import CAUTION_BARE, PRESSURE_CLASSES, bare_flange_pair, bare_valve
 from .geometry import SHAPES
 from .pipe import insulated_pipe
 from .surface import bare_surface
@@ -89,8 +90,55 @@ def _cmd_line(args) -> int:
                        length=value(args, "length"), **conditions(args))
     rows = [surface_row(args.tag, r, ("fluid_temperature", "outer_diameter"))]
     checked = condensation_check(args, rows, value(args, "air_temperature"))
-    emit(args, [("line", rows)], [*surface_cautions(rows), *checked])
+    sections, extra = [("line", rows)], _bare_items(args, float(r.q_total))
+    if extra:
+        sections.append(("bare items (extra heat over the line they replace)", extra.pop("rows")))
+        checked.append(CAUTION_BARE)
+    emit(args, sections, [*surface_cautions(rows), *checked], extra)
     return 0
+
+
+def _bare_items(args, q_line: float) -> dict:
+    """Rows and a summary of --bare-valves / --bare-flange-pairs on the line (convlib.fittings); {} without them."""
+    counts = {"bare valve": args.bare_valves, "bare flange pair": args.bare_flange_pairs}
+    if not any(counts.values()):
+        return {}
+    if args.nps is None:
+        raise InputError("--bare-valves and --bare-flange-pairs need --nps (their sizes come from the ASME B16.5 / "
+                         "B16.10 tables)", field="--nps", rule="given with bare items", value=None)
+    around = conditions(args)
+    for name in ("convection_coefficient", "solar_absorptivity"):  # of the jacket, not of the bare metal
+        around.pop(name)
+    rows, extra_total, equivalent_total = [], 0.0, 0.0
+    for (label, count), item in zip(counts.items(), (bare_valve, bare_flange_pair)):
+        if count:
+            f = item(args.nps, value(args, "fluid_temperature"), pressure_class=args.pressure_class,
+                     layers=layers(args), **around)
+            extra_total += count * float(f.extra_heat)
+            equivalent_total += count * float(f.equivalent_length)
+            rows.append({"tag": label, "count": count, "pressure_class": args.pressure_class,
+                         "area": float(f.area), "q_item": float(f.q_item), "extra_heat": count * float(f.extra_heat),
+                         "equivalent_length": count * float(f.equivalent_length), "warnings": []})
+    metres = equivalent_total if args.units == "SI" else equivalent_total / 0.3048
+    total = from_si(q_line + extra_total, "power", display_unit("power", args.units))
+    text = [f"bare items add as much heat as {metres:.1f} {'m' if args.units == 'SI' else 'ft'} of this line; "
+            f"line with them: Q = {total:.0f} {pretty_unit(display_unit('power', args.units))}"]
+    if args.json:
+        return {"rows": rows, "q_total_with_bare_items": q_line + extra_total, "equivalent_length": equivalent_total}
+    for row in rows:
+        row.pop("equivalent_length")
+    return {"rows": rows, "text": text}
+
+
+def _count(text: str) -> int:
+    """A whole number of items, 0 or more (argparse type)."""
+    try:
+        number = int(text)
+    except ValueError:
+        number = -1
+    if number < 0:
+        raise argparse.ArgumentTypeError(f"{text!r} is not a whole number of items (0 or more)")
+    return number
 
 
 def _sizing_rows(tag, result, kind_label) -> dict:
@@ -577,6 +625,11 @@ def build_parser() -> argparse.ArgumentParser:
                       "e.g. --layer 50mm,0.04,mineral wool --layer 0.7mm,200,jacket "
                       f"[{LAYER_UNITS}]")
     add_quantity(line, "length", "length", "line length (default 1 m)", default="1m")
+    line.add_argument("--bare-valves", type=_count, default=0, help="uninsulated flanged gate valves on the line "
+                      "(with their joints; needs --nps): their extra heat and equivalent length")
+    line.add_argument("--bare-flange-pairs", type=_count, default=0, help="uninsulated flange pairs on the line")
+    line.add_argument("--pressure-class", type=int, choices=PRESSURE_CLASSES, default=150,
+                      help="ASME B16.5 / B16.10 class of the bare valves and flanges (default 150)")
     condensation_options(line)
     output_options(line)
     line.set_defaults(func=_cmd_line)

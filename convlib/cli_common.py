@@ -65,6 +65,8 @@ FIELDS = {
     "q_per_length_at_listed": ("q@listed", "heat_per_length", "{:.1f}"),
     "final_temperature": ("T_final", "temperature", "{:.1f}"),
     "q_initial": ("q_initial", "heat_per_length", "{:.1f}"),
+    "q_item": ("Q_item", "power", "{:.0f}"),
+    "extra_heat": ("Q_extra", "power", "{:.0f}"),
     "q_final": ("q_final", "heat_per_length", "{:.1f}"),
     "time": ("t", "time", "{:.2f}"),
     "saturation_temperature": ("T_sat", "temperature", "{:.1f}"),

@@ -23,6 +23,12 @@ column                 default   meaning [default unit]
 ``operating_hours``    8760      hours per year the line is hot or cold [h] (no unit suffix)
 ``valve`` ...          0         number of fittings: ``valve``, ``flange_pair``, ``support``,
                                  ``elbow``, ``strainer`` (:data:`convlib.design.FITTING_EQUIVALENT_LENGTH`)
+``bare_valve``         0         number of uninsulated flanged gate valves (with their joints) on the line;
+                                 their extra heat (:func:`convlib.fittings.bare_valve`) is added to
+                                 ``q_total`` and the annual figures; needs ``nps``
+``bare_flange_pair``   0         number of uninsulated flange pairs (:func:`convlib.fittings.bare_flange_pair`),
+                                 added the same way
+``pressure_class``     150       ASME B16.5 / B16.10 class of the bare valves and flanges: 150 or 300
 ``mass_flow``          none      flow in the line [kg/s]: outlet temperature over the
                                  equivalent length (:func:`convlib.operation.line_temperature_profile`)
 ``fluid``              Water     CoolProp name of what flows (with ``mass_flow``), e.g. ``Water``, ``Air``
@@ -61,7 +67,9 @@ other rows are still computed. So does a row that the solvers or the property da
 program, not of the row: it is raised, not reported as a row error.
 
 **Results.** Per line at its design conditions: surface temperature, heat flow per metre and over the
-equivalent length (length plus fittings); per year: heat lost (> 0) or gained (< 0), purchased energy
+equivalent length (length plus fittings), plus the extra heat of its bare valves and flange pairs
+(``bare_fittings_heat``, at the design condition and, for outdoor lines with weather bins, in every bin; the
+outlet temperature and tracing duty leave it out, the condensate of a steam line counts it); per year: heat lost (> 0) or gained (< 0), purchased energy
 (hot service, fluid above the design air: net loss / efficiency; cold service: net gain / COP), its
 cost and CO2. With :class:`~convlib.design.WeatherBins`, outdoor lines see each bin's air temperature
 and wind, indoor lines keep their design air and wind; a given ``operating_hours`` scales every bin's
@@ -96,6 +104,7 @@ import numpy as np
 from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, DEFAULT_COOLING_COP, DEFAULT_HEATING_EFFICIENCY,
                      TOUCH_LIMIT_METAL_JACKET, WeatherBins)
 from .errors import InputError
+from .fittings import CAUTION_BARE, bare_flange_pair, bare_valve
 from .files import write_atomic
 from .linelist_read import (COLUMNS, FORMULA_PREFIXES, HOURS_PER_YEAR, MAX_BYTES, MAX_CELLS, MAX_ROWS,
                             OPERATION_COLUMNS, OUTDOOR_SKY_VIEW_FRACTION, REQUIRED,
@@ -125,7 +134,7 @@ class LineListResult:
     """Per-line results (arrays in file order, one entry per computed line), failed rows, settings.
 
     Temperatures [K], lengths and ``outer_diameter`` (of the pipe itself) [m], ``q_per_length``
-    [W/m] and ``q_total`` (= q_per_length x equivalent_length) [W] at the design conditions;
+    [W/m] and ``q_total`` (= q_per_length x equivalent_length + bare_fittings_heat) [W] at the design conditions;
     ``operating_hours`` [h/yr]; ``heat_kwh`` (lost > 0, gained < 0) and ``purchased_kwh`` [kWh/yr],
     ``cost`` (currency of the energy price), ``co2_kg`` [kg/yr]. ``dew_point`` is NaN where no
     humidity was given. ``touch_flag`` and ``condensation_flag`` are flags for review, not verdicts.
@@ -156,6 +165,7 @@ class LineListResult:
     freezing_position: np.ndarray          # where the water reaches 0 degC [m from the inlet]; NaN if it does not
     tracing_duty_per_length: np.ndarray    # NaN without maintain_temperature [W/m]
     tracing_duty: np.ndarray               # over the equivalent length [W]
+    bare_fittings_heat: np.ndarray         # extra heat of bare valves and flange pairs, in q_total [W]
     condensate: np.ndarray                 # NaN without steam_pressure [kg/s]
     notes: tuple[str, ...]
     errors: tuple[RowError, ...] = ()
@@ -193,6 +203,7 @@ class LineListResult:
         """The cautions that apply: touch and condensation where any line is flagged."""
         return tuple(text for text, flags in ((CAUTION_TOUCH, self.touch_flag),
                                               (CAUTION_CONDENSATION, self.condensation_flag),
+                                              (CAUTION_BARE, self.bare_fittings_heat != 0),
                                               (CAUTION_LINE_FREEZE, ~np.isnan(self.freezing_position)))
                      if np.any(flags))
 
@@ -205,7 +216,7 @@ class LineListResult:
 
 
 _SUMMED = ("length", "equivalent_length", "q_lost", "q_gained", "heat_lost_kwh", "heat_gained_kwh", "purchased_kwh",
-           "cost", "co2_kg", "tracing_duty", "condensate")
+           "cost", "co2_kg", "tracing_duty", "condensate", "bare_fittings_heat")
 
 ANNUAL_BASIS_DESIGN = "design air for all operating hours"
 #: Warning of every output of a line list computed without weather bins.
@@ -269,6 +280,10 @@ class _Columns:
         self.length = self.col(s.length for s in specs)
         self.leq, self.rh = self.col(s.equivalent_length() for s in specs), self.col(s.relative_humidity for s in specs)
         self.operation = [p.operation or {} for p in lines]
+        self.nps = self.col(s.nps for s in specs)
+        self.bare_valves, self.bare_pairs = (self.col(s.bare_valves for s in specs),
+                                             self.col(s.bare_flange_pairs for s in specs))
+        self.pressure_class = self.col(s.pressure_class for s in specs)
 
     def col(self, values) -> np.ndarray:
         return np.array([np.nan if v is None else v for v in values], dtype=float).reshape(self.n)
@@ -299,7 +314,13 @@ def _design_and_year(c: _Columns, bins, chunk_size, report, errors) -> dict:
     """
     n = c.n
     out = {"q": np.full(n, np.nan), "ts": np.full(n, np.nan), "energy": np.full(n, np.nan),
-           "flags": np.zeros(n, dtype=np.int64), "ok": np.ones(n, dtype=bool)}
+           "flags": np.zeros(n, dtype=np.int64), "ok": np.ones(n, dtype=bool), "extra": np.zeros(n),
+           "extra_energy": np.zeros(n)}
+
+    def year(idx, per_condition):
+        """Energy [Wh (per metre for a per-metre figure)] from the design column, or the weather bins."""
+        return (per_condition[:, 0] * c.hours[idx] if bins is None else
+                (per_condition[:, 1:] * bins.hours).sum(axis=1) * c.hours[idx] / bins.hours.sum())
 
     def solve(idx):
         air, wnd = c.ta[idx, None], c.wind[idx, None]
@@ -311,8 +332,20 @@ def _design_and_year(c: _Columns, bins, chunk_size, report, errors) -> dict:
                            sky_temperature=c.sky_of(air, (idx, None)), length=1.0)
         out["q"][idx], out["ts"][idx] = r.q_per_length[:, 0], r.surface_temperature[:, 0]
         out["flags"][idx] = np.bitwise_or.reduce(r.warnings.astype(np.int64), axis=1)
-        out["energy"][idx] = (out["q"][idx] * c.hours[idx] if bins is None else
-                              (r.q_per_length[:, 1:] * bins.hours).sum(axis=1) * c.hours[idx] / bins.hours.sum())
+        out["energy"][idx] = year(idx, r.q_per_length)
+        bare = (c.bare_valves[idx] + c.bare_pairs[idx]) > 0
+        if bare.any():  # bare valves and flange pairs: their extra heat in every condition
+            sub = idx[bare]
+            around = dict(air_temperature=air[bare], wind_speed=wnd[bare], sky_view_fraction=c.sky[sub, None],
+                          sky_temperature=c.sky_of(air[bare], (sub, None)), jacket_emissivity=c.eps[sub, None],
+                          pressure_class=c.pressure_class[sub, None], layers=c.layers(sub))
+            extra = np.zeros(air[bare].shape)
+            for count, item in ((c.bare_valves[sub], bare_valve), (c.bare_pairs[sub], bare_flange_pair)):
+                if count.any():
+                    f = item(c.nps[sub, None], c.tf[sub, None], **around)
+                    extra = extra + count[:, None] * f.extra_heat
+                    out["flags"][sub] |= np.bitwise_or.reduce(f.warnings.astype(np.int64), axis=1)
+            out["extra"][sub], out["extra_energy"][sub] = extra[:, 0], year(sub, extra)
 
     def fail(i, exc):
         out["ok"][i] = False
@@ -331,7 +364,7 @@ def _design_and_year(c: _Columns, bins, chunk_size, report, errors) -> dict:
     return out
 
 
-def _in_operation(c: _Columns, ok, q, notes) -> dict:
+def _in_operation(c: _Columns, ok, q_total, notes) -> dict:
     """Outlet temperature and where the water freezes (``mass_flow``), tracing duty (``maintain_temperature`` at
     ``minimum_ambient``), condensate (``steam_pressure``) and dew point (``relative_humidity``); a line the physics
     refuses gets a note instead of the figure."""
@@ -372,7 +405,7 @@ def _in_operation(c: _Columns, ok, q, notes) -> dict:
     per_layer_count(np.flatnonzero(ok & ~np.isnan(maintain)), "tracing duty", duty)
 
     def saturated(i):
-        out["condensate"][i] = condensate_rate(q[i] * c.leq[i], steam[i])
+        out["condensate"][i] = condensate_rate(q_total[i], steam[i])
         out["t_sat"][i] = saturation_temperature(steam[i])
 
     _one_by_one_on_input_error(np.flatnonzero(ok & ~np.isnan(steam)), saturated,
@@ -438,9 +471,10 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
     ok, q, ts = solved["ok"], solved["q"], solved["ts"]
     keep = np.flatnonzero(ok)
     notes = {i: [] for i in keep}
-    run = _in_operation(c, ok, q, notes)
+    q_total = q * c.leq + solved["extra"]
+    run = _in_operation(c, ok, q_total, notes)
     texts = {m: describe_flags(m) for m in np.unique(solved["flags"][keep])}
-    heat = solved["energy"] * c.leq / 1000.0
+    heat = (solved["energy"] * c.leq + solved["extra_energy"]) / 1000.0
     # hot service (fluid above the design air): net loss / efficiency; cold service: net gain / COP
     purchased = np.where(c.tf >= c.ta, np.maximum(heat, 0.0) / settings["heating_efficiency"],
                          np.maximum(-heat, 0.0) / settings["cooling_cop"])
@@ -449,12 +483,13 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
         location=tuple(lines[i].location for i in keep), layer_count=c.count[keep], length=c.length[keep],
         equivalent_length=c.leq[keep], outer_diameter=c.d[keep], fluid_temperature=c.tf[keep],
         air_temperature=c.ta[keep], surface_temperature=ts[keep], dew_point=run["dew"][keep],
-        q_per_length=q[keep], q_total=(q * c.leq)[keep], operating_hours=c.hours[keep], heat_kwh=heat[keep],
+        q_per_length=q[keep], q_total=q_total[keep], operating_hours=c.hours[keep], heat_kwh=heat[keep],
         purchased_kwh=purchased[keep], cost=(purchased * settings["energy_price"])[keep],
         co2_kg=(purchased * settings["co2_per_kwh"])[keep], touch_flag=(ts > settings["surface_limit"])[keep],
         condensation_flag=(ts < run["dew"])[keep], outlet_temperature=run["outlet"][keep],
         freezing_position=run["frozen_at"][keep], tracing_duty_per_length=run["duty"][keep],
         tracing_duty=(run["duty"] * c.leq)[keep], condensate=run["condensate"][keep],
+        bare_fittings_heat=solved["extra"][keep],
         notes=tuple("; ".join(texts[solved["flags"][i]] + notes[i]) for i in keep),
         errors=tuple(sorted(errors, key=lambda e: e.row)), settings=settings)
 
@@ -467,6 +502,7 @@ OUTPUT_COLUMNS = (
     *((f"{name}[degC]", name, ("temperature", "degC"))
       for name in ("fluid_temperature", "air_temperature", "surface_temperature", "dew_point")),
     ("q_per_length[W/m]", "q_per_length", None), ("q_total[W]", "q_total", None),
+    ("bare_fittings_heat[W]", "bare_fittings_heat", None),
     ("heat_lost[W]", "q_lost", None), ("heat_gained[W]", "q_gained", None),
     ("operating_hours[h]", "operating_hours", None), ("annual_heat[kWh]", "heat_kwh", None),
     ("annual_heat_lost[kWh]", "heat_lost_kwh", None), ("annual_heat_gained[kWh]", "heat_gained_kwh", None),

@@ -16,6 +16,7 @@ from pydantic import ValidationError
 
 from .design import FITTING_EQUIVALENT_LENGTH
 from .errors import InputError
+from .fittings import PRESSURE_CLASSES
 from .files import read_capped
 from .lines import LineSpec
 from .layer_text import split_layer, split_layers
@@ -32,6 +33,7 @@ COLUMNS = {
     "relative_humidity": "dimensionless", "layers": "length", "location": "text",
     "sky_view_fraction": "dimensionless", "wind_speed": "speed", "jacket_emissivity": "dimensionless",
     "operating_hours": "count", **{name: "count" for name in FITTING_EQUIVALENT_LENGTH},
+    "bare_valve": "count", "bare_flange_pair": "count", "pressure_class": "count",
     "mass_flow": "mass_flow", "fluid": "text", "fluid_pressure": "pressure", "fluid_phase": "text",
     "maintain_temperature": "temperature", "minimum_ambient": "temperature", "steam_pressure": "pressure",
 }
@@ -227,6 +229,14 @@ def _parse_row(row: int, cells: dict, units: dict, allow_unusual: bool = False) 
     if problems:
         return RowError(row, tag, "; ".join(problems))
     fittings = {name: values.pop(name) for name in FITTING_EQUIVALENT_LENGTH if name in values}
+    for column, field_name in (("bare_valve", "bare_valves"), ("bare_flange_pair", "bare_flange_pairs")):
+        if column in values:
+            values[field_name] = values.pop(column)
+    if "pressure_class" in values:
+        if values["pressure_class"] not in PRESSURE_CLASSES:
+            return RowError(row, tag, f"pressure_class: {cells['pressure_class']!r} is not one of: "
+                                      f"{', '.join(map(str, PRESSURE_CLASSES))}")
+        values["pressure_class"] = int(values["pressure_class"])
     if "outer_diameter" in values:
         values["pipe_outer_diameter"] = values.pop("outer_diameter")
     values.setdefault("sky_view_fraction", OUTDOOR_SKY_VIEW_FRACTION if location == "outdoor" else 0.0)
@@ -234,8 +244,10 @@ def _parse_row(row: int, cells: dict, units: dict, allow_unusual: bool = False) 
         return ParsedLine(row, LineSpec(**values, fittings=fittings), location, hours, operation or None)
     except ValidationError as exc:  # ranges of LineSpec: emissivity, humidity, lengths, tag
         for e in exc.errors():
-            loc = e["loc"] or ("row",)
-            column = "outer_diameter" if loc[0] == "pipe_outer_diameter" else str(loc[0])
+            given = (e.get("ctx") or {}).get("error")  # a rule of LineSpec across fields names its column
+            loc = e["loc"] or ((given.field,) if isinstance(given, InputError) and given.field in COLUMNS else ("row",))
+            column = {"pipe_outer_diameter": "outer_diameter", "bare_valves": "bare_valve",
+                      "bare_flange_pairs": "bare_flange_pair"}.get(loc[0], str(loc[0]))
             if loc[0] == "layers" and len(loc) >= 3:
                 column = f"layers: layer {loc[1] + 1} {loc[2]}"
             shown = "" if _blank(cells.get(column)) else f"; cell {cells[column]!r}"

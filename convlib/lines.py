@@ -10,6 +10,7 @@ from pydantic import BaseModel, ConfigDict, Field, model_validator
 
 from .design import equivalent_length
 from .errors import InputError
+from .fittings import flange_dimensions, valve_face_to_face
 from .pipe import Layer
 from .pipe_sizes import nominal_pipe
 
@@ -59,6 +60,9 @@ class LineSpec(BaseModel):
     sky_view_fraction: float = Field(default=0.0, ge=0.0, le=1.0)
     relative_humidity: float | None = Field(default=None, gt=0.0, le=1.0)
     fittings: dict[str, float] = Field(default_factory=dict)
+    bare_valves: float = Field(default=0.0, ge=0.0, description="uninsulated flanged gate valves (convlib.fittings)")
+    bare_flange_pairs: float = Field(default=0.0, ge=0.0, description="uninsulated flange pairs (convlib.fittings)")
+    pressure_class: int = Field(default=150, description="ASME B16.5 / B16.10 class of the bare items: 150 or 300")
 
     @model_validator(mode="after")
     def _one_diameter(self):
@@ -69,6 +73,14 @@ class LineSpec(BaseModel):
         if self.nps is not None:
             nominal_pipe(self.nps, self.schedule)  # raises with the nearest sizes
         equivalent_length(self.length, self.fittings)  # raises on unknown fittings
+        if self.bare_valves or self.bare_flange_pairs:
+            if self.nps is None:
+                raise InputError("bare valves and flange pairs need the line's nps (their sizes come from the "
+                                 "ASME B16.5 / B16.10 tables)", field="nps", rule="given with bare fittings",
+                                 value=self.pipe_outer_diameter)
+            flange_dimensions(self.nps, self.pressure_class)  # raises naming the sizes and classes known
+            if self.bare_valves:
+                valve_face_to_face(self.nps, self.pressure_class)
         return self
 
     def pipe_diameter(self) -> float:

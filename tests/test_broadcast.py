@@ -12,7 +12,7 @@ import numpy as np
 import pytest
 
 import convlib as cl
-from convlib import design, ducts, economics, face_sizing, operation, survey, transients, vessels
+from convlib import design, ducts, economics, face_sizing, fittings, operation, survey, transients, vessels
 from convlib.pipe import Layer
 
 LAYERS = [Layer(0.05, 0.04)]
@@ -60,6 +60,7 @@ VALUES = {
     "years": [5.0, 10.0, 20.0], "return_temperature": [333.15, 353.15, 363.15],
     "enthalpy_difference": [2.2e6, 2.4e6, 2.6e6], "saved_kwh": [1e3, 1e4, 1e5], "investment": [100.0, 1e3, 1e4],
     "annual_heat_kwh": [1e3, 1e4, 1e5], "insulation_thickness": [0.03, 0.05, 0.08], "ratio": [0.9, 1.5, 3.0],
+    "nps": [1.0, 4.0, 8.0], "pressure_class": [150, 300, 150],
 }
 
 #: Base case of each function (scalars); a parameter's own value replaces the base. Output: the numbers compared.
@@ -130,6 +131,12 @@ CASES = {
                                          insulation_thickness=0.05, surface_temperature=313.15,
                                          air_temperature=293.15), lambda r: r),
     survey.condition_class: (dict(ratio=1.5), lambda r: r),
+    fittings.bare_flange_pair: (dict(nps=4.0, fluid_temperature=453.15, layers=LAYERS, air_temperature=283.15),
+                                lambda r: (r.q_item, r.extra_heat, r.equivalent_length)),
+    fittings.bare_valve: (dict(nps=4.0, fluid_temperature=453.15, layers=LAYERS, air_temperature=283.15),
+                          lambda r: (r.q_item, r.extra_heat, r.equivalent_length)),
+    fittings.flange_dimensions: (dict(nps=4.0), lambda r: r),
+    fittings.valve_face_to_face: (dict(nps=4.0), lambda r: r),
 }
 #: Values that only make sense for one function (a cold line, a steam line...).
 OWN_VALUES = {
@@ -213,7 +220,8 @@ def test_an_array_for_any_numeric_parameter_equals_the_scalar_calls(function, na
 
 def test_every_public_function_is_covered():
     """Every public function of these modules that takes a number is in CASES (or listed as not broadcasting)."""
-    modules = (cl.surface, cl.pipe, design, operation, transients, vessels, ducts, face_sizing, economics, survey)
+    modules = (cl.surface, cl.pipe, design, operation, transients, vessels, ducts, face_sizing, economics, survey,
+               fittings)
     not_broadcasting = {"listed_thickness", "disc_as_plate", "nusselt_square_cylinder_jakob", "insulation_per_face",
                         "read_survey", "run_survey", "line_weather", "annual_heat_per_metre", "demo_survey_path",
                         "line_samples", "steam_tariff"}
