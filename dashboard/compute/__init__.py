@@ -1,0 +1,55 @@
+"""Every convlib call the dashboard makes, each returning a plain result for a panel.
+
+These functions touch no widget: the app runs them (in a worker thread when a
+kernel loop is running) and pushes what they return into the panels. All
+numbers come from :mod:`convlib`: :func:`convlib.study.evaluate_case`,
+:func:`convlib.study.run_study`, :func:`convlib.correlations.nusselt`, the
+sizing functions of :mod:`convlib.design`, :mod:`convlib.operation` and
+:mod:`convlib.vessels`.
+
+The layer is a package: :mod:`.case` (base case, sweeps, regimes, uncertainty), :mod:`.insulation`,
+:mod:`.operation` and :mod:`.vessels`; this module re-exports their names and the few convlib names the other
+dashboard modules use (it is the only part of the dashboard that imports convlib).
+"""
+from __future__ import annotations
+
+from convlib import design, snapshot
+from convlib.correlations.registry import display_name
+from convlib.errors import InputError
+from convlib.files import read_capped, write_atomic
+from convlib.geometry import SHAPES
+from convlib.operation import CAUTION_FREEZE, CAUTION_TRACING, TRACING_MARGIN
+from convlib.pipe_sizes import SCHEDULES, nominal_pipe, nominal_sizes
+from convlib.regimes import flow_names, mode_names
+from convlib.study import (CaseSpec, MonteCarloResult, StudyResult, StudySpec, SweepAxis, SweepResult, TornadoBar,
+                           load_demo_study, run_study)
+from convlib.units import display_unit, from_si, to_si
+
+from .case import (CaseSummary, LawCurve, RegimeMap, RegimeView, SweepCache, chosen_laws, current_value, law_keys,
+                   monte_carlo_settings, regime_map, regime_view, study_for_case, summarize_case, sweep_axes,
+                   sweep_only, sweep_study, uncertainty_study)
+from .insulation import InsulationView, Sizing, insulation_view
+from .operation import (OperationInputs, OperationView, demo_site_operation, design_air_temperature,
+                        operation_defaults, operation_layers, operation_options, operation_view, pipe_wall_thickness)
+from .vessels import VesselInputs, VesselView, vessel_defaults, vessel_view
+
+#: What the other dashboard modules use of convlib, re-exported: this module is the only one importing convlib.
+REEXPORTED = (
+    "CaseSpec", "StudySpec", "StudyResult", "SweepAxis", "SweepResult", "MonteCarloResult", "TornadoBar",
+    "InputError", "SHAPES", "SCHEDULES", "nominal_pipe", "nominal_sizes", "load_demo_study", "run_study", "snapshot",
+    "read_capped", "write_atomic", "display_name", "display_unit", "from_si", "to_si", "flow_names", "mode_names",
+    "CAUTION_FREEZE", "CAUTION_TRACING", "TRACING_MARGIN", "TOUCH_LIMITS", "law_keys",
+)
+#: Touch limits offered for a jacket: (label, surface temperature [K]) (values of convlib.design).
+TOUCH_LIMITS = (("metal jacket", design.TOUCH_LIMIT_METAL_JACKET),
+                ("non-metal finish", design.TOUCH_LIMIT_NONMETAL_JACKET))
+
+__all__ = [
+    *REEXPORTED, "CaseSummary", "summarize_case", "study_for_case", "sweep_axes", "chosen_laws", "current_value",
+    "SweepCache", "sweep_study", "sweep_only", "LawCurve",
+    "RegimeView",
+    "regime_view", "RegimeMap", "regime_map", "uncertainty_study", "monte_carlo_settings", "Sizing",
+    "InsulationView", "insulation_view", "OperationInputs", "OperationView", "operation_view", "operation_layers",
+    "operation_options", "design_air_temperature", "pipe_wall_thickness", "VesselInputs", "VesselView",
+    "vessel_defaults", "vessel_view", "operation_defaults", "demo_site_operation",
+]
