@@ -32,7 +32,7 @@ import hypothesis
 import pytest
 from hypothesis import strategies as st
 
-from convlib import cli, files, linelist, snapshot
+from convlib import cli, cli_study, files, linelist, snapshot
 from convlib.errors import InputError
 from convlib.linelist import demo_lines_path, read_line_list, run_line_list, write_results_csv
 from convlib.lines import LineSpec
@@ -66,8 +66,8 @@ def valid(study, tmp_path_factory):
 LOADERS = {
     "snapshot": (snapshot.load, snapshot.MAX_BYTES),
     "line list": (read_line_list, linelist.MAX_BYTES),
-    "study": (lambda p: cli._load_spec(argparse.Namespace(demo=False, study=str(p))), cli.MAX_STUDY_BYTES),
-    "weather": (lambda p: cli._weather_bins(argparse.Namespace(bins=str(p), demo=False)), cli.MAX_BINS_BYTES),
+    "study": (lambda p: cli_study.load_spec(argparse.Namespace(demo=False, study=str(p))), cli_study.MAX_STUDY_BYTES),
+    "weather": (lambda p: cli_study.weather_bins(argparse.Namespace(bins=str(p), demo=False)), cli_study.MAX_BINS_BYTES),
 }
 JSON_KINDS = ("snapshot", "study", "weather")
 
@@ -242,7 +242,7 @@ def test_huge_file_that_is_not_json_is_refused_after_its_head(kind, tmp_path, mo
     if kind == "snapshot":
         monkeypatch.setattr(snapshot, "MAX_BYTES", 150 * MB)
     else:
-        monkeypatch.setattr(cli, "MAX_STUDY_BYTES" if kind == "study" else "MAX_BINS_BYTES", 150 * MB)
+        monkeypatch.setattr(cli_study, "MAX_STUDY_BYTES" if kind == "study" else "MAX_BINS_BYTES", 150 * MB)
     path = _sparse(tmp_path / "zeros.json", 100 * MB)
     refused(kind, path, "not valid JSON|must start", peak_below=1 * MB)
 

@@ -18,7 +18,7 @@ import pytest
 from hypothesis import example, given
 from hypothesis import strategies as st
 
-from convlib import cli, snapshot
+from convlib import cli_study, snapshot
 from convlib.linelist import COLUMNS, REQUIRED, read_line_list, run_line_list, write_results_csv
 from convlib.study import CaseSpec, StudySpec, evaluate_case, load_demo_study, run_study
 from fuzz_helpers import outcome
@@ -65,7 +65,7 @@ _STUDY_PATHS = list(_paths(_STUDY))
 def test_a_damaged_study_file_is_a_study_or_an_input_error(tmp_path_factory, where, value):
     path = tmp_path_factory.mktemp("study") / "study.json"
     path.write_text(json.dumps(_replace(_STUDY, where, value)), encoding="utf-8")
-    spec = outcome(cli._load_spec, argparse.Namespace(demo=False, study=str(path)))
+    spec = outcome(cli_study.load_spec, argparse.Namespace(demo=False, study=str(path)))
     if isinstance(spec, StudySpec):
         outcome(evaluate_case, spec.case)
 

@@ -12,7 +12,7 @@ import pytest
 
 import convlib as cl
 from cli_helpers import run_json, run_text
-from convlib import cli, cli_common, linelist
+from convlib import cli_common, cli_study, linelist
 from convlib.pipe import Layer
 from convlib.units import KIND_SI_UNIT
 
@@ -48,7 +48,7 @@ def test_every_json_unit_comes_from_one_table():
     for key, (_, kind, _) in cli_common.FIELDS.items():
         assert KIND_SI_UNIT[kind] in ("K", "m", "m/s", "Pa", "W/m", "W/m**2", "W", "W/m**2/K", "W/m/K", "J",
                                        "m**2", "s", "kg/s", "kg", "", "delta_degC"), key
-    for key, unit in {**cli._LINE_UNITS, **cli._TOTAL_UNITS}.items():
+    for key, unit in {**cli_study.LINE_UNITS, **cli_study.TOTAL_UNITS}.items():
         if key in cli_common.FIELDS:
             assert unit == KIND_SI_UNIT[cli_common.FIELDS[key][1]], key
 
