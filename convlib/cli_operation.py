@@ -326,10 +326,21 @@ def _emit_faces(args, title, r, air_temperature, sizing=()) -> None:
     emit(args, sections, [*surface_cautions(exposed), *checked], extra)
 
 
+#: Help of --layer on the line commands.
+_LAYER_HELP = ("THICKNESS,CONDUCTIVITY[,NAME] from the pipe outwards, e.g. --layer 25mm,0.04,mineral wool "
+               f"[{LAYER_UNITS}]")
+
+
 def add_commands(sub) -> None:
-    """Add the commands of lines in operation to the ``convlib`` subparsers ``sub``."""
-    layer_help = ("THICKNESS,CONDUCTIVITY[,NAME] from the pipe outwards, e.g. --layer 25mm,0.04,mineral wool "
-                  f"[{LAYER_UNITS}]")
+    """Add the commands of lines in operation and of vessels to the ``convlib`` subparsers ``sub``."""
+    _add_line_commands(sub)
+    _add_tank(sub)
+    _add_duct(sub)
+
+
+def _add_line_commands(sub) -> None:
+    """``outlet``, ``trace``, ``steam``, ``freeze``."""
+    layer_help = _LAYER_HELP
     outlet = sub.add_parser("outlet", help="temperature along a line with flow: outlet temperature and loss, "
                             "where water reaches 0 degC, the minimum flow for an outlet limit")
     pipe_size_options(outlet)
@@ -387,6 +398,8 @@ def add_commands(sub) -> None:
     output_options(freeze)
     freeze.set_defaults(func=_cmd_freeze)
 
+
+def _add_tank(sub) -> None:
     tank = sub.add_parser("tank", help="a vertical tank face by face (wall, roof, floor), a horizontal tank (shell, "
                           "heads) or a sphere (shell)")
     tank.add_argument("--shape", choices=("vertical", "horizontal", "sphere"), default="vertical",
@@ -424,6 +437,8 @@ def add_commands(sub) -> None:
     output_options(tank)
     tank.set_defaults(func=_cmd_tank)
 
+
+def _add_duct(sub) -> None:
     duct = sub.add_parser("duct", help="a horizontal rectangular duct face by face (sides, top, bottom)")
     add_quantity(duct, "width", "duct_size", "duct width (sheet metal; layers add outside), e.g. 600mm",
                  required=True)
