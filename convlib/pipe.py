@@ -175,29 +175,8 @@ def insulated_pipe(
         mixing_exponent=mixing_exponent, exact_properties=exact_properties, convection_factor=convection_factor,
         convection_coefficient=convection_coefficient, **around.surface_keywords())
 
-    # ---- fixed resistances [K m/W] inside the layers: inner film and pipe wall
-    r_fixed = np.zeros(())
-    names = []
-    if inner_coefficient is not None:
-        h_in = as_array("inner_coefficient", inner_coefficient, unit="W/m2/K", low=0.0, low_inclusive=False)
-        wall = 0.0 if pipe_wall_thickness is None else as_array("pipe_wall_thickness", pipe_wall_thickness,
-                                                               unit="m", low=0.0)
-        r_fixed = r_fixed + 1.0 / (np.pi * (d_pipe - 2.0 * wall) * h_in)
-    if (pipe_wall_thickness is None) != (pipe_conductivity is None):
-        raise InputError("give both pipe_wall_thickness [m] and pipe_conductivity [W/m/K], or neither",
-                         field="pipe_wall_thickness, pipe_conductivity", rule="both or neither",
-                         value=(pipe_wall_thickness, pipe_conductivity))
-    r_film = r_fixed
-    r_wall = np.zeros(())
-    if pipe_wall_thickness is not None:
-        wall = as_array("pipe_wall_thickness", pipe_wall_thickness, unit="m", low=0.0)
-        k_wall = as_array("pipe_conductivity", pipe_conductivity, unit="W/m/K", low=0.0, low_inclusive=False)
-        if np.any(2.0 * wall >= d_pipe):
-            raise InputError(f"pipe_wall_thickness must be less than half the pipe_outer_diameter; got "
-                             f"{np.max(wall):g} m for a {np.min(d_pipe):g} m pipe", field="pipe_wall_thickness",
-                             rule="less than half the pipe_outer_diameter", value=float(np.max(wall)))
-        r_wall = _drops(0.5 * d_pipe - wall, 0.5 * d_pipe) / k_wall
-        r_fixed = r_fixed + r_wall
+    r_film, r_wall = _inside_resistances(d_pipe, inner_coefficient, pipe_wall_thickness, pipe_conductivity)
+    r_fixed = r_film + r_wall
     with property_range_named("fluid_temperature, air_temperature"):
         solved = solve_face(outer, tf, layers, kind="cylinder", inner_diameter=d_pipe, fixed_resistance=r_fixed,
                             tolerance=tolerance)
@@ -208,21 +187,61 @@ def insulated_pipe(
     surface = outer.result(exchange)
     q_line = surface.q_per_length  # per metre of pipe (run length = length)
 
-    # ---- interface temperatures from the inside out
+    temps, names, flags = _interfaces(tf, q_line, shape, layers, drops, ts, surface.warnings,
+                                      r_film if inner_coefficient is not None else None,
+                                      r_wall if pipe_wall_thickness is not None else None)
+    flags |= np.where(converged, 0, Flag.NOT_CONVERGED).astype(np.int16)
+    base = {f.name: getattr(surface, f.name) for f in fields(SurfaceResult)}
+    base["warnings"] = np.broadcast_to(flags, shape).copy()
+    return PipeResult(**base, fluid_temperature=np.broadcast_to(tf, shape).copy(),
+                      outer_diameter=np.broadcast_to(d_out, shape).copy(),
+                      interface_temperatures=np.stack([np.broadcast_to(x, shape) for x in temps]),
+                      interface_names=tuple(names), converged=np.broadcast_to(converged, shape).copy())
+
+
+def _inside_resistances(d_pipe, inner_coefficient, pipe_wall_thickness, pipe_conductivity):
+    """Resistances per metre [K m/W] inside the layers: the inner film and the pipe wall (0 where not given)."""
+    r_film = np.zeros(())
+    if inner_coefficient is not None:
+        h_in = as_array("inner_coefficient", inner_coefficient, unit="W/m2/K", low=0.0, low_inclusive=False)
+        wall = 0.0 if pipe_wall_thickness is None else as_array("pipe_wall_thickness", pipe_wall_thickness,
+                                                               unit="m", low=0.0)
+        r_film = r_film + 1.0 / (np.pi * (d_pipe - 2.0 * wall) * h_in)
+    if (pipe_wall_thickness is None) != (pipe_conductivity is None):
+        raise InputError("give both pipe_wall_thickness [m] and pipe_conductivity [W/m/K], or neither",
+                         field="pipe_wall_thickness, pipe_conductivity", rule="both or neither",
+                         value=(pipe_wall_thickness, pipe_conductivity))
+    r_wall = np.zeros(())
+    if pipe_wall_thickness is not None:
+        wall = as_array("pipe_wall_thickness", pipe_wall_thickness, unit="m", low=0.0)
+        k_wall = as_array("pipe_conductivity", pipe_conductivity, unit="W/m/K", low=0.0, low_inclusive=False)
+        if np.any(2.0 * wall >= d_pipe):
+            raise InputError(f"pipe_wall_thickness must be less than half the pipe_outer_diameter; got "
+                             f"{np.max(wall):g} m for a {np.min(d_pipe):g} m pipe", field="pipe_wall_thickness",
+                             rule="less than half the pipe_outer_diameter", value=float(np.max(wall)))
+        r_wall = _drops(0.5 * d_pipe - wall, 0.5 * d_pipe) / k_wall
+    return r_film, r_wall
+
+
+def _interfaces(tf, q_line, shape, layers, drops, ts, warnings, r_film=None, r_wall=None):
+    """Interface temperatures from the inside out, their names, and the warnings with k(T) extrapolation flagged.
+
+    ``r_film`` / ``r_wall`` [K m/W]: None where the pipe has no inner film / wall given.
+    """
     temps, names = [], []
     t = np.broadcast_to(tf, shape).astype(float)
-    if inner_coefficient is not None:
+    if r_film is not None:
         t = t - q_line * r_film
         temps.append(t)
         names.append("pipe inner surface")
-    if pipe_wall_thickness is not None:
+    if r_wall is not None:
         t = t - q_line * r_wall
         temps.append(t)
         names.append("pipe outer surface")
-    elif inner_coefficient is None:
+    elif r_film is None:
         temps.append(t)
         names.append("pipe outer surface")
-    flags = surface.warnings.copy()
+    flags = warnings.copy()
     for j, layer in enumerate(layers):
         t_next = layer.conductivity.temperature_after(t, q_line * drops[j])
         flags |= np.where(layer.conductivity.outside_range(t, t_next) & (layer.thickness > 0),
@@ -232,10 +251,4 @@ def insulated_pipe(
         names.append(f"{layer.name} outer surface")
     if layers:
         temps[-1] = np.broadcast_to(ts, shape)  # the solved surface, exact
-    flags |= np.where(converged, 0, Flag.NOT_CONVERGED).astype(np.int16)
-    base = {f.name: getattr(surface, f.name) for f in fields(SurfaceResult)}
-    base["warnings"] = np.broadcast_to(flags, shape).copy()
-    return PipeResult(**base, fluid_temperature=np.broadcast_to(tf, shape).copy(),
-                      outer_diameter=np.broadcast_to(d_out, shape).copy(),
-                      interface_temperatures=np.stack([np.broadcast_to(x, shape) for x in temps]),
-                      interface_names=tuple(names), converged=np.broadcast_to(converged, shape).copy())
+    return temps, names, flags
