@@ -370,6 +370,25 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
     q_line = line.coefficient(theta) * theta
     position = np.broadcast_to(grid.reshape((-1,) + (1,) * len(shape)) * run, temperature.shape).copy()
     t_out, q_total = temperature[-1].copy(), values[-1, 1] * capacity_in
+    (temperature, position, q_line, q_total, t_out, freezes, x_freeze, notes,
+     cautions) = _stop_at_freezing(line, flow, run, capacity_in, theta_in, t_eq, values, temperature, position,
+                                   q_line, q_total, t_out)
+    drop = flow * _integral_of_cp(line.cp, t_out, tin)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        balance = np.where(q_total != 0, (drop - q_total) / np.abs(q_total), drop - q_total)
+    return LineProfile(
+        outlet_temperature=t_out, q_total=q_total, enthalpy_drop=drop, energy_balance_error=balance,
+        fraction=grid, position=position, temperature=temperature, q_per_length=q_line,
+        inlet_loss_coefficient=line.coefficient_in.copy(), steps=accepted, rejected_steps=rejected,
+        evaluations=line.evaluations[0], equilibrium_temperature=t_eq.copy(), freezes=freezes,
+        freezing_position=x_freeze, notes=tuple(notes), cautions=tuple(cautions), warnings=line.flags.union(shape))
+
+
+def _stop_at_freezing(line, flow, run, capacity_in, theta_in, t_eq, values, temperature, position, q_line, q_total,
+                      t_out):
+    """Where the fluid reaches its freezing point before the outlet: the position (closed form in theta), the heat
+    up to it (cubic Hermite between the march points), and the profile cut there (NaN after it)."""
+    shape = line.shape
     tf = line.freezing
     freezes = ~np.isnan(tf) & (t_out < tf)
     x_freeze = np.full(shape, np.nan)
@@ -401,15 +420,7 @@ def line_temperature_profile(pipe_outer_diameter, inlet_temperature, layers=(), 
                      f"{float(np.nanmin(x_freeze)):.1f} m from the inlet" + (" (nearest)" if freezes.sum() > 1 else "")
                      + ", before the outlet; the profile stops there")
         cautions.append(CAUTION_LINE_FREEZE)
-    drop = flow * _integral_of_cp(line.cp, t_out, tin)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        balance = np.where(q_total != 0, (drop - q_total) / np.abs(q_total), drop - q_total)
-    return LineProfile(
-        outlet_temperature=t_out, q_total=q_total, enthalpy_drop=drop, energy_balance_error=balance,
-        fraction=grid, position=position, temperature=temperature, q_per_length=q_line,
-        inlet_loss_coefficient=line.coefficient_in.copy(), steps=accepted, rejected_steps=rejected,
-        evaluations=line.evaluations[0], equilibrium_temperature=t_eq.copy(), freezes=freezes,
-        freezing_position=x_freeze, notes=tuple(notes), cautions=tuple(cautions), warnings=line.flags.union(shape))
+    return temperature, position, q_line, q_total, t_out, freezes, x_freeze, notes, cautions
 
 
 @dataclass(frozen=True)
