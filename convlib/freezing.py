@@ -151,19 +151,8 @@ def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, l
     >>> round(float(f.time_to_freezing_point) / 3600, 2), round(float(f.time_to_freeze_solid) / 3600, 1)
     (4.08, 33.3)
     """
-    d = positive("pipe_outer_diameter", pipe_outer_diameter, "m")
-    wall = positive("pipe_wall_thickness", pipe_wall_thickness, "m")
-    if np.any(2.0 * wall >= d):
-        raise InputError(f"pipe_wall_thickness must be less than half the pipe_outer_diameter; got "
-                         f"{np.max(wall):g} m for a {np.min(d):g} m pipe", field="pipe_wall_thickness",
-                         rule="less than half the pipe_outer_diameter", value=float(np.max(wall)))
-    tf = positive("freezing_temperature", freezing_temperature, "K")
-    t0 = as_array("initial_temperature", initial_temperature, unit="K", low=0.0, low_inclusive=False,
-                  high=_WATER_PROPERTY_CEILING)
-    if np.any(t0 < tf):
-        raise InputError(f"initial_temperature must be at least the freezing_temperature "
-                         f"({float(np.max(tf)):g} K); got {float(np.min(t0)):g} K", field="initial_temperature",
-                         rule="at least the freezing_temperature", value=float(np.min(t0)))
+    d, wall, tf, t0 = _pipe_and_temperatures(pipe_outer_diameter, pipe_wall_thickness, freezing_temperature,
+                                             initial_temperature)
     around = resolve(surroundings, air_temperature=air_temperature, wind_speed=wind_speed,
                      surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction,
                      sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure)
@@ -227,3 +216,21 @@ def freeze_time(pipe_outer_diameter, pipe_wall_thickness, initial_temperature, l
         curve_time=np.where(never[None], np.nan, curve_s), curve_temperature=np.where(never[None], np.nan, curve_t),
         inlet_loss_coefficient=np.broadcast_to(coefficient, shape).copy(), steps=accepted, notes=tuple(notes),
         cautions=(CAUTION_FREEZE,), warnings=flags.union(shape))
+
+
+def _pipe_and_temperatures(pipe_outer_diameter, pipe_wall_thickness, freezing_temperature, initial_temperature):
+    """The checked pipe (outer diameter, wall [m]) and temperatures (freezing point, initial [K])."""
+    d = positive("pipe_outer_diameter", pipe_outer_diameter, "m")
+    wall = positive("pipe_wall_thickness", pipe_wall_thickness, "m")
+    if np.any(2.0 * wall >= d):
+        raise InputError(f"pipe_wall_thickness must be less than half the pipe_outer_diameter; got "
+                         f"{np.max(wall):g} m for a {np.min(d):g} m pipe", field="pipe_wall_thickness",
+                         rule="less than half the pipe_outer_diameter", value=float(np.max(wall)))
+    tf = positive("freezing_temperature", freezing_temperature, "K")
+    t0 = as_array("initial_temperature", initial_temperature, unit="K", low=0.0, low_inclusive=False,
+                  high=_WATER_PROPERTY_CEILING)
+    if np.any(t0 < tf):
+        raise InputError(f"initial_temperature must be at least the freezing_temperature "
+                         f"({float(np.max(tf)):g} K); got {float(np.min(t0)):g} K", field="initial_temperature",
+                         rule="at least the freezing_temperature", value=float(np.min(t0)))
+    return d, wall, tf, t0
