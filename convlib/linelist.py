@@ -58,7 +58,9 @@ error with a hint unless ``allow_unusual=True``.
 (:mod:`convlib.layer_text`; conductivity in W/m/K or with its unit), separated by ``;``, from the pipe
 outwards, the cell quoted (it holds commas); empty, ``bare`` or ``none``: a bare pipe. With ``layers[mm]``:
 ``"80,0.045,mineral wool; 0.7,200,aluminium jacket"``; without it ``"80mm,0.045,..."``. The form of 0.2.0,
-``80@0.045 mineral wool``, is still read, with a ``DeprecationWarning``.
+``80@0.045 mineral wool``, is still read, with a ``DeprecationWarning``. The conductivity may be a material name of
+:mod:`convlib.materials` instead (``"50,calcium_silicate_c533_type1"``): the layer takes its k(T), and a layer
+beyond the material's service temperature gets a note.
 
 **Rows.** Row numbers are those of the file (header = row 1; blank lines count, and are skipped).
 A row that fails validation becomes a :class:`RowError` naming the column and the problem; the
@@ -442,7 +444,8 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
                   progress: Callable[[float, str], None] | None = None, touch_limit=None) -> LineListResult:
     """Compute every line of a line list: surface temperature, heat flow, annual energy, flags.
 
-    Lines with the same number of layers are solved together, ``chunk_size`` at a time, in one
+    Lines with the same number of layers (and the same material in each, for layers given by material) are solved
+    together, ``chunk_size`` at a time, in one
     :func:`convlib.pipe.insulated_pipe` call (design condition and weather bins on a second axis);
     each line's numbers equal those of a call for that line alone. A chunk the solver rejects
     (:class:`~convlib.errors.InputError`) is re-solved line by line, so that only the offending rows
