@@ -38,6 +38,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import math
 import os
 import re
 import sys
@@ -87,9 +88,10 @@ def _cmd_surface(args) -> int:
 
 
 def _cmd_line(args) -> int:
-    r = insulated_pipe(pipe_diameter(args), value(args, "fluid_temperature"), layers(args),
+    given = layers(args)
+    r = insulated_pipe(pipe_diameter(args), value(args, "fluid_temperature"), given,
                        length=value(args, "length"), **conditions(args))
-    rows = [surface_row(args.tag, r, ("fluid_temperature", "outer_diameter"))]
+    rows = [surface_row(args.tag, r, ("fluid_temperature", "outer_diameter"), layers=given)]
     checked = condensation_check(args, rows, value(args, "air_temperature"))
     sections, extra = [("line", rows)], _bare_items(args, float(r.q_total))
     if extra:
@@ -327,6 +329,54 @@ def _cmd_correlations(args) -> int:
     return 0
 
 
+def _cmd_materials(args) -> int:
+    from . import materials as library
+
+    if args.file:
+        library.load_materials(args.file)
+    unit = display_unit("temperature", args.units)
+    records = []
+    for m in library.materials():
+        k = m.conductivity
+        low, high = k.valid_range
+        record = {"name": m.name, "display_name": m.display_name, "kind": m.kind, "source": m.source, "note": m.note,
+                  "max_temperature": m.max_temperature, "min_temperature": m.min_temperature}
+        if k.is_constant:
+            record["conductivity"] = float(k.constant_value)
+        else:
+            record.update(data_range=[low, high], conductivity_at_data_range=[float(k.at(max(low, 200.0))),
+                                                                              float(k.at(high))],
+                          one_point=k.kind == "polynomial" and len(k.coefficients) == 1)
+        records.append(record)
+    surfaces = {name: {"emissivity": e, "display_name": d, "source": src}
+                for name, (e, d, src) in library.jacket_emissivities().items()}
+    if args.json:
+        json.dump({"materials": records, "jacket_emissivity": surfaces, "units": {"temperature": "K",
+                   "conductivity": "W/m/K"}}, sys.stdout, indent=2)
+        print()
+        return 0
+
+    def temp(t):
+        return "-" if t is None or not math.isfinite(t) else f"{from_si(t, 'temperature', unit):.0f}"
+
+    shown = pretty_unit(unit)
+    print(f"materials (k in W/m/K; temperatures in {shown}; standards' values are specification maxima)")
+    for r in records:
+        if "conductivity" in r:
+            k_text = f"k {r['conductivity']:g}"
+        elif r["one_point"]:
+            k_text = f"k {r['conductivity_at_data_range'][1]:.4f} at {temp(r['data_range'][1])} (one point)"
+        else:
+            k_text = (f"k {r['conductivity_at_data_range'][0]:.4f}..{r['conductivity_at_data_range'][1]:.4f} over "
+                      f"{temp(r['data_range'][0])}..{temp(r['data_range'][1])} mean")
+        print(f"{r['name']:<30} {k_text}; service {temp(r['min_temperature'])}..{temp(r['max_temperature'])}\n"
+              f"{'':<30} {r['display_name']}: {r['source']}")
+    print("\njacket surfaces (for --jacket-emissivity)")
+    for name, r in surfaces.items():
+        print(f"{name:<30} {r['emissivity']:.2f}  {r['display_name']}: {r['source']}")
+    return 0
+
+
 # ----------------------------------------------------------------------------- parser
 # (option, input of convlib.units.INPUTS, help) for the surface command; the input drives unit parsing.
 _SURFACE_OPTIONS = (
@@ -405,6 +455,12 @@ def build_parser() -> argparse.ArgumentParser:
     add_operation_commands(sub)
     add_survey_commands(sub)
     add_transient_commands(sub)
+
+    mat = sub.add_parser("materials", help="list the insulation and jacket materials (names for --layer and line "
+                         "lists), their ranges and sources, and jacket emissivities")
+    mat.add_argument("--file", help="also a user's material file (JSON or CSV, see convlib.materials)")
+    output_options(mat, quantities=False)
+    mat.set_defaults(func=_cmd_materials)
 
     cat = sub.add_parser("correlations", help="list the correlation registry")
     cat.add_argument("--geometry", help="only this geometry")

@@ -12,7 +12,7 @@ import sys
 from . import __version__
 from .design import CAUTION_CONDENSATION, CONDENSATION_MARGIN, TOUCH_LIMIT_METAL_JACKET
 from .errors import InputError
-from .layer_text import split_layer
+from .layer_text import layer_conductivity, split_layer
 from .pipe import Layer
 from .pipe_sizes import SCHEDULES, nominal_pipe, pipe_size
 from .properties import dew_point
@@ -77,13 +77,19 @@ FIELDS = {
 }
 
 
-def surface_row(tag: str, r, extra_fields=()) -> dict:
+def surface_row(tag: str, r, extra_fields=(), layers=()) -> dict:
+    """One output row of a solved surface; with ``layers``, a warning for each library material used beyond its
+    service temperatures (:func:`convlib.materials.service_warnings`)."""
     row = {"tag": tag}
     for name in ("surface_temperature", *extra_fields, "air_temperature", "q_per_length", "q_total",
                  "h_convection", "h_radiation", "rayleigh", "reynolds"):
         row[name] = float(getattr(r, name))
     row["regime"] = f"{r.regime_names().item()}, {r.flow_regime_names().item()}"
     row["warnings"] = r.warning_messages()
+    if layers:
+        from .materials import service_warnings
+
+        row["warnings"] += [text for _, text in service_warnings(layers, r)]
     return row
 
 
@@ -234,10 +240,16 @@ def value(args, dest: str, text=None, name: str | None = None, field: str | None
 
 def parse_layer(text: str, index: int, args=None, option: str = "--layer") -> Layer:
     """``THICKNESS,CONDUCTIVITY[,NAME]``: plain thickness in mm (US in), conductivity W/m/K (US
-    Btu·in/(h·ft²·°F))."""
+    Btu·in/(h·ft²·°F)) or a material name of :mod:`convlib.materials` (its k(T))."""
     thickness_text, conductivity_text, name = split_layer(text, option)
     thickness = value(args, "", thickness_text, "thickness", f"{option} {index} thickness")
-    conductivity = value(args, "", conductivity_text, "conductivity", f"{option} {index} conductivity")
+    field = f"{option} {index} conductivity"
+    known, conductivity = layer_conductivity(conductivity_text, lambda t: value(args, "", t, "conductivity", field),
+                                             field)
+    if known is not None:
+        from .materials import layer as material_layer
+
+        return material_layer(thickness, known, layer_name=name or known)
     return Layer(thickness, conductivity, name=name or f"layer {index}")
 
 
@@ -323,6 +335,24 @@ def add_line_options(p) -> None:
     pipe_size_options(p)
 
 
+def emissivity(text: str) -> float:
+    """An emissivity option: a number, or a jacket surface of :func:`convlib.materials.jacket_emissivity`."""
+    try:
+        return float(text)
+    except ValueError:
+        import argparse
+
+        from .materials import jacket_emissivity
+
+        try:
+            return jacket_emissivity(text)
+        except InputError as exc:  # argparse shows the text of this error only
+            raise argparse.ArgumentTypeError(str(exc)) from None
+
+
+emissivity.__name__ = "emissivity"
+
+
 def pipe_size_options(p) -> None:
     p.add_argument("--nps", help="nominal pipe size, e.g. 4, 0.75, 3/4 or 1-1/2")
     p.add_argument("--schedule", default="40", choices=SCHEDULES, help="pipe schedule (default 40)")
@@ -330,9 +360,9 @@ def pipe_size_options(p) -> None:
                    "(copper, EN 1057), B88-3/4-L (copper, ASTM B88 type K/L/M), NPS4/80")
     add_quantity(p, "pipe-outer-diameter", "pipe_diameter", "pipe outer diameter instead of --nps, e.g. 114.3mm")
     add_quantity(p, "wind-speed", "wind_speed", "wind speed (default 0: still air)", default="0")
-    p.add_argument("--jacket-emissivity", "--emissivity", dest="jacket_emissivity", type=float, default=0.9,
-                   help="emissivity of the outer surface (jacket, or the bare pipe); both names accepted, as on "
-                        "tank and duct")
+    p.add_argument("--jacket-emissivity", "--emissivity", dest="jacket_emissivity", type=emissivity, default=0.9,
+                   help="emissivity of the outer surface (jacket, or the bare pipe), a number or a jacket surface of "
+                        "'convlib materials' (e.g. aluminium_oxidised); both names accepted, as on tank and duct")
     p.add_argument("--sky-view-fraction", type=float, default=0.0, help="part of the view that is sky (0 indoors)")
     add_quantity(p, "solar-irradiance", "heat_flux", "sun on the line's projected area, e.g. 600W/m2 (default none; "
                  "absorbed by the jacket at its emissivity unless --solar-absorptivity)")

@@ -2,7 +2,8 @@
 
 A layer is ``THICKNESS,CONDUCTIVITY[,NAME]`` (``50mm,0.045,mineral wool``; a number with or without its unit,
 plain numbers per the entry point: mm / W/m/K in SI, in / Btu·in/(h·ft²·°F) in US units, or the CSV column's
-unit); several layers, from the pipe outwards, are separated by ``;`` in a line-list cell (a CSV cell holding
+unit). The conductivity may instead be the name of a material of :mod:`convlib.materials`
+(``50mm,glass_fiber_pipe_alley_k``): the layer then takes that material's k(T). Several layers, from the pipe outwards, are separated by ``;`` in a line-list cell (a CSV cell holding
 commas is quoted, as spreadsheets do) and given as repeated ``--layer`` options on the command line.
 
 The line list's form of version 0.2.0, ``THICKNESS@CONDUCTIVITY NAME``, is still read for one version, with a
@@ -16,7 +17,8 @@ import warnings
 from .errors import InputError
 from .units import is_unit
 
-__all__ = ["LAYER_SYNTAX", "LAYER_EXAMPLE", "split_layer", "split_layers", "conductivity_and_name"]
+__all__ = ["LAYER_SYNTAX", "LAYER_EXAMPLE", "split_layer", "split_layers", "conductivity_and_name",
+           "layer_conductivity"]
 
 LAYER_SYNTAX = "THICKNESS,CONDUCTIVITY[,NAME]"
 LAYER_EXAMPLE = "50mm,0.045,mineral wool"
@@ -90,3 +92,28 @@ def conductivity_and_name(text: str) -> tuple[str, str]:
     if glued and words:  # a unit glued to the number that is not a conductivity: reported by the reader
         return number + words[0], " ".join(words[1:])
     return number, " ".join(words)
+
+
+def layer_conductivity(text: str, read_number, field: str):
+    """A layer's conductivity text: ``(material name, None)`` when it names a material of :mod:`convlib.materials`,
+    else ``(None, read_number(text))``. A word that is neither a conductivity nor a material raises the reader's
+    :class:`~convlib.errors.InputError` with the material names added.
+
+    >>> layer_conductivity("Calcium_Silicate_C533_Type1", float, "layer")
+    ('calcium_silicate_c533_type1', None)
+    >>> layer_conductivity("0.045", float, "layer")
+    (None, 0.045)
+    """
+    from .materials import find, material_names  # the library is built on first use
+
+    found = find(text)
+    if found is not None:
+        return found.name, None
+    try:
+        return None, read_number(text)
+    except InputError as exc:
+        if _LEADING_NUMBER.match(str(text)) is not None:
+            raise
+        names = ", ".join(material_names())
+        raise InputError(f"{exc}; or a material name: {names}", field=exc.field or field,
+                         rule=f"{exc.rule}, or one of: {names}", value=exc.value) from None

@@ -58,7 +58,9 @@ error with a hint unless ``allow_unusual=True``.
 (:mod:`convlib.layer_text`; conductivity in W/m/K or with its unit), separated by ``;``, from the pipe
 outwards, the cell quoted (it holds commas); empty, ``bare`` or ``none``: a bare pipe. With ``layers[mm]``:
 ``"80,0.045,mineral wool; 0.7,200,aluminium jacket"``; without it ``"80mm,0.045,..."``. The form of 0.2.0,
-``80@0.045 mineral wool``, is still read, with a ``DeprecationWarning``.
+``80@0.045 mineral wool``, is still read, with a ``DeprecationWarning``. The conductivity may be a material name of
+:mod:`convlib.materials` instead (``"50,calcium_silicate_c533_type1"``): the layer takes its k(T), and a layer
+beyond the material's service temperature gets a note.
 
 **Rows.** Row numbers are those of the file (header = row 1; blank lines count, and are skipped).
 A row that fails validation becomes a :class:`RowError` naming the column and the problem; the
@@ -111,6 +113,7 @@ from .linelist_read import (COLUMNS, FORMULA_PREFIXES, HOURS_PER_YEAR, MAX_BYTES
                             ParsedLine, RowError, demo_lines_path, read_line_list)
 from .operation import (CAUTION_LINE_FREEZE, condensate_rate, line_temperature_profile, saturation_temperature,
                         tracing_duty)
+from .materials import layer as material_layer, service_warnings
 from .pipe import Layer, insulated_pipe
 from .properties import dew_point
 from .radiation import sky_temperature
@@ -277,6 +280,10 @@ class _Columns:
         given = self.col(p.operating_hours for p in lines)
         self.hours = np.where(np.isnan(given), HOURS_PER_YEAR if bins is None else bins.hours.sum(), given)
         self.count = np.array([len(s.layers) for s in specs], dtype=int)
+        # lines solved together share their number of layers and the material of each (one k(T) per layer)
+        kinds = [(len(s.layers), tuple(layer.material for layer in s.layers)) for s in specs]
+        codes = {kind: i for i, kind in enumerate(dict.fromkeys(kinds))}
+        self.group = np.array([codes[kind] for kind in kinds], dtype=int).reshape(self.n)
         self.length = self.col(s.length for s in specs)
         self.leq, self.rh = self.col(s.equivalent_length() for s in specs), self.col(s.relative_humidity for s in specs)
         self.operation = [p.operation or {} for p in lines]
@@ -293,13 +300,17 @@ class _Columns:
         return self.col(g.get(name) for g in self.operation)
 
     def layers(self, idx, extra_axis=True) -> list[Layer]:
-        """The layers of lines ``idx`` (all with the same number of layers) as arrays over the lines."""
+        """The layers of lines ``idx`` (all of one :attr:`group`: the same number of layers and materials) as
+        arrays over the lines; a layer of a library material takes its k(T)."""
         k = self.count[idx[0]]
         thick, cond = (np.array([[getattr(ly, a) for ly in self.specs[i].layers] for i in idx], dtype=float)
-                       .reshape(idx.size, k) for a in ("thickness", "conductivity"))
+                       .reshape(idx.size, k) for a in ("thickness", "conductivity"))  # a material's: NaN
         if extra_axis:
             thick, cond = thick[:, :, None], cond[:, :, None]
-        return [Layer(thick[:, j], cond[:, j], name=f"layer {j + 1}") for j in range(k)]
+        first = np.atleast_1d(idx)[0]
+        return [Layer(thick[:, j], cond[:, j], name=f"layer {j + 1}") if spec.material is None
+                else material_layer(thick[:, j], spec.material, layer_name=f"layer {j + 1}")
+                for j, spec in enumerate(self.specs[first].layers)]
 
     def sky_of(self, air, idx):
         """The sky temperature a one-line call takes, so that a line's numbers do not depend on its group."""
@@ -315,7 +326,7 @@ def _design_and_year(c: _Columns, bins, chunk_size, report, errors) -> dict:
     n = c.n
     out = {"q": np.full(n, np.nan), "ts": np.full(n, np.nan), "energy": np.full(n, np.nan),
            "flags": np.zeros(n, dtype=np.int64), "ok": np.ones(n, dtype=bool), "extra": np.zeros(n),
-           "extra_energy": np.zeros(n)}
+           "extra_energy": np.zeros(n), "service": {}}
 
     def year(idx, per_condition):
         """Energy [Wh (per metre for a per-metre figure)] from the design column, or the weather bins."""
@@ -327,11 +338,15 @@ def _design_and_year(c: _Columns, bins, chunk_size, report, errors) -> dict:
         if bins is not None:
             air = np.concatenate([air, np.where(c.outdoor[idx, None], bins.air_temperature, air)], axis=1)
             wnd = np.concatenate([wnd, np.where(c.outdoor[idx, None], bins.wind_speed, wnd)], axis=1)
-        r = insulated_pipe(c.d[idx, None], c.tf[idx, None], c.layers(idx), air_temperature=air, wind_speed=wnd,
+        layers = c.layers(idx)
+        r = insulated_pipe(c.d[idx, None], c.tf[idx, None], layers, air_temperature=air, wind_speed=wnd,
                            jacket_emissivity=c.eps[idx, None], sky_view_fraction=c.sky[idx, None],
                            sky_temperature=c.sky_of(air, (idx, None)), length=1.0)
         out["q"][idx], out["ts"][idx] = r.q_per_length[:, 0], r.surface_temperature[:, 0]
         out["flags"][idx] = np.bitwise_or.reduce(r.warnings.astype(np.int64), axis=1)
+        for mask, text in service_warnings(layers, r):  # a library material beyond its service temperatures
+            for i in idx[mask.any(axis=1)]:
+                out["service"].setdefault(int(i), []).append(text)
         out["energy"][idx] = year(idx, r.q_per_length)
         bare = (c.bare_valves[idx] + c.bare_pairs[idx]) > 0
         if bare.any():  # bare valves and flange pairs: their extra heat in every condition
@@ -352,8 +367,9 @@ def _design_and_year(c: _Columns, bins, chunk_size, report, errors) -> dict:
         errors.append(RowError(c.lines[i].row, c.specs[i].tag, f"could not be computed: {exc}"))
 
     done = 0
-    for k in np.unique(c.count):
-        members = np.flatnonzero(c.count == k)
+    for g in np.unique(c.group):
+        members = np.flatnonzero(c.group == g)
+        k = c.count[members[0]]
         for start in range(0, members.size, chunk_size):
             idx = members[start:start + chunk_size]
             _one_by_one_on_input_error(idx, solve, fail)
@@ -377,8 +393,8 @@ def _in_operation(c: _Columns, ok, q_total, notes) -> dict:
     fluid = [(g.get("fluid", "Water"), g.get("fluid_phase", "liquid")) for g in c.operation]
 
     def per_layer_count(idx, label, compute):
-        for k in np.unique(c.count[idx]):
-            _one_by_one_on_input_error(idx[c.count[idx] == k], compute,
+        for g in np.unique(c.group[idx]):
+            _one_by_one_on_input_error(idx[c.group[idx] == g], compute,
                                        lambda i, exc: notes[i].append(f"{label} not computed: {exc}"))
 
     def outlet(i, name, phase):
@@ -428,7 +444,8 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
                   progress: Callable[[float, str], None] | None = None, touch_limit=None) -> LineListResult:
     """Compute every line of a line list: surface temperature, heat flow, annual energy, flags.
 
-    Lines with the same number of layers are solved together, ``chunk_size`` at a time, in one
+    Lines with the same number of layers (and the same material in each, for layers given by material) are solved
+    together, ``chunk_size`` at a time, in one
     :func:`convlib.pipe.insulated_pipe` call (design condition and weather bins on a second axis);
     each line's numbers equal those of a call for that line alone. A chunk the solver rejects
     (:class:`~convlib.errors.InputError`) is re-solved line by line, so that only the offending rows
@@ -490,7 +507,7 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
         freezing_position=run["frozen_at"][keep], tracing_duty_per_length=run["duty"][keep],
         tracing_duty=(run["duty"] * c.leq)[keep], condensate=run["condensate"][keep],
         bare_fittings_heat=solved["extra"][keep],
-        notes=tuple("; ".join(texts[solved["flags"][i]] + notes[i]) for i in keep),
+        notes=tuple("; ".join(texts[solved["flags"][i]] + solved["service"].get(int(i), []) + notes[i]) for i in keep),
         errors=tuple(sorted(errors, key=lambda e: e.row)), settings=settings)
 
 

@@ -19,7 +19,7 @@ from .errors import InputError
 from .fittings import PRESSURE_CLASSES
 from .files import read_capped
 from .lines import LineSpec
-from .layer_text import split_layer, split_layers
+from .layer_text import layer_conductivity, split_layer, split_layers
 from .pipe_sizes import nominal_pipe, parse_nps
 from .units import KIND_SI_UNIT, read, split, unit_affine
 
@@ -169,9 +169,11 @@ def _layers(cell, unit: str | None, allow_unusual: bool = False) -> list[dict]:
         thickness_text, written, name = split_layer(part, f"layers: layer {i}")
         thickness = _number(thickness_text, f"layers: layer {i} thickness", "length", unit, "thickness",
                             allow_unusual)
-        conductivity = _number(written, f"layers: layer {i} conductivity", "conductivity", None,
-                               "conductivity", allow_unusual)
-        layers.append({"thickness": thickness, "conductivity": conductivity, "name": name or f"layer {i}"})
+        field = f"layers: layer {i} conductivity"
+        known, conductivity = layer_conductivity(
+            written, lambda text: _number(text, field, "conductivity", None, "conductivity", allow_unusual), field)
+        given = {"material": known} if known is not None else {"conductivity": conductivity}
+        layers.append({"thickness": thickness, **given, "name": name or known or f"layer {i}"})
     return layers
 
 

@@ -18,15 +18,34 @@ __all__ = ["LayerSpec", "LineSpec"]
 
 
 class LayerSpec(BaseModel):
-    """One layer: thickness [m], constant conductivity [W/m/K], name."""
+    """One layer: thickness [m], a constant conductivity [W/m/K] or a material of :mod:`convlib.materials`
+    (its k(T)), name."""
 
     model_config = ConfigDict(extra="forbid", frozen=True)
 
     thickness: float = Field(ge=0.0, le=2.0, description="radial thickness [m]")
-    conductivity: float = Field(gt=0.0, le=500.0, description="thermal conductivity [W/m/K]")
+    conductivity: float | None = Field(default=None, gt=0.0, le=500.0, description="thermal conductivity [W/m/K]")
+    material: str | None = Field(default=None, description="a material name of convlib.materials, instead of "
+                                                           "conductivity")
     name: str = "insulation"
 
+    @model_validator(mode="after")
+    def _conductivity_or_material(self):
+        if (self.conductivity is None) == (self.material is None):
+            raise InputError("give a layer's conductivity [W/m/K] or a material name, one of them",
+                             field="conductivity, material", rule="exactly one of them",
+                             value=(self.conductivity, self.material))
+        if self.material is not None:
+            from .materials import material
+
+            object.__setattr__(self, "material", material(self.material).name)  # raises listing the names
+        return self
+
     def layer(self) -> Layer:
+        if self.material is not None:
+            from .materials import layer
+
+            return layer(self.thickness, self.material, layer_name=self.name)
         return Layer(self.thickness, self.conductivity, name=self.name)
 
 
