@@ -16,12 +16,11 @@ from .layer_text import layer_conductivity, split_layer
 from .pipe import Layer
 from .pipe_sizes import SCHEDULES, nominal_pipe, pipe_size
 from .properties import dew_point
+from .cautions import CAUTION_COLD_SURFACE, CAUTION_HOT_SURFACE
 from .units import INPUTS, KIND_SI_UNIT, display_unit, from_si, help_units, read
 
-CAUTION_HOT = ("Caution: surfaces above about 60 degC can burn on contact (ISO 13732-1 gives limits by material "
-               "and contact time); local codes and licensed practice govern guarding and insulation.")
-CAUTION_COLD = ("Caution: a surface colder than the air gathers condensation where it is below the air's dew "
-                "point (and ice below 0 degC); check it against the site's design humidity and local practice.")
+#: The general cautions of :mod:`convlib.cautions` as the command line prints them.
+CAUTION_HOT, CAUTION_COLD = CAUTION_HOT_SURFACE, CAUTION_COLD_SURFACE
 
 #: Output fields: name -> (column label, quantity kind, format). JSON carries SI values of these.
 FIELDS = {
@@ -185,8 +184,8 @@ def emit(args, sections: list[tuple[str, list[dict]]], cautions: list[str], extr
         print(line)
     if cautions:
         print()
-    for c in cautions:
-        print(c)
+    for c in cautions:  # every caution is labelled as one on the terminal
+        print(c if c.startswith("Caution") else f"Caution -- {c}")
 
 
 # ----------------------------------------------------------------------------- typed quantities

@@ -26,6 +26,7 @@ import numpy as np
 
 from . import __version__
 from . import correlations as corr
+from .cautions import CAUTION_BELOW_DEW_POINT, CAUTION_FREEZE_RISK, CAUTION_HOT_SURFACE
 from .geometry import SHAPES
 from .pipe import Layer, insulated_pipe
 from .properties import dew_point
@@ -387,12 +388,8 @@ def _monte_carlo(spec: StudySpec, progress: Callable[[float, str], None] | None)
         surface_temperature_p95=float(np.percentile(ts, 95)), clipped=clipped)
 
 
-CAUTION_HOT = ("Hot surface: above about 60 degC a touch can burn (ISO 13732-1 and ASTM C1055 set limits by "
-               "material and contact time); local codes and licensed practice govern guarding and insulation.")
-CAUTION_DEW = ("Cold surface below the dew point of the air: condensation (ice below 0 degC) will form; a cold line "
-               "needs insulation with a continuous vapour retarder. Local codes and licensed practice govern.")
-CAUTION_FREEZE = ("Fluid at or below 0 degC or air below freezing: water lines can freeze when flow stops; this "
-                  "estimate is no substitute for draining or heat tracing.")
+#: The general cautions (:mod:`convlib.cautions`) under the names this module has always used.
+CAUTION_HOT, CAUTION_DEW, CAUTION_FREEZE = CAUTION_HOT_SURFACE, CAUTION_BELOW_DEW_POINT, CAUTION_FREEZE_RISK
 
 
 def cautions_for(surface_temperature: float, air_temperature: float, dew: float,
