@@ -10,6 +10,9 @@ column                 default   meaning [default unit]
 ``description``        ""        free text
 ``nps``                --        nominal pipe size: ``4``, ``1.5``, ``1-1/2``, ``3/4`` (ASME B36.10M)
 ``schedule``           ``40``    pipe schedule with ``nps``: 40, 80, STD, XS, 10S, ...
+``size``               --        the pipe or tube by name, instead of ``nps``: ``DN100`` (EN 10220),
+                                 ``CU22x1.0`` (EN 1057), ``B88-3/4-L`` (ASTM B88), ``NPS4/80``
+                                 (:func:`convlib.pipe_sizes.pipe_size`)
 ``outer_diameter``     --        outer diameter of the pipe itself [m], instead of ``nps``
 ``length``             required  run length [m]
 ``fluid_temperature``  required  temperature of the fluid [K]
@@ -43,7 +46,7 @@ column                 default   meaning [default unit]
                                  fluid temperature should be the saturation temperature (else a note)
 =====================  ========  ======================================================================
 
-Give each line ``nps`` or ``outer_diameter``, not both. Columns with an empty header are ignored; an
+Give each line one of ``nps``, ``size`` or ``outer_diameter``. Columns with an empty header are ignored; an
 unknown column is an error for the whole file (a misspelt column must not go unnoticed).
 
 **Units.** Plain numbers are SI, kelvin for temperatures. A unit in brackets after the column name

@@ -20,7 +20,7 @@ from .fittings import PRESSURE_CLASSES
 from .files import read_capped
 from .lines import LineSpec
 from .layer_text import layer_conductivity, split_layer, split_layers
-from .pipe_sizes import nominal_pipe, parse_nps
+from .pipe_sizes import nominal_pipe, parse_nps, pipe_size
 from .units import KIND_SI_UNIT, read, split, unit_affine
 
 __all__ = ["COLUMNS", "OPERATION_COLUMNS", "OUTDOOR_SKY_VIEW_FRACTION", "RowError", "ParsedLine", "read_line_list",
@@ -28,7 +28,8 @@ __all__ = ["COLUMNS", "OPERATION_COLUMNS", "OUTDOOR_SKY_VIEW_FRACTION", "RowErro
 
 #: Input columns and the kind of quantity of their unit suffix ("text" and "count" take none).
 COLUMNS = {
-    "tag": "text", "description": "text", "nps": "count", "schedule": "text", "outer_diameter": "length",
+    "tag": "text", "description": "text", "nps": "count", "schedule": "text", "size": "text",
+    "outer_diameter": "length",
     "length": "length", "fluid_temperature": "temperature", "air_temperature": "temperature",
     "relative_humidity": "dimensionless", "layers": "length", "location": "text",
     "sky_view_fraction": "dimensionless", "wind_speed": "speed", "jacket_emissivity": "dimensionless",
@@ -110,8 +111,9 @@ def _columns(header) -> list[tuple[str, str | None] | None]:
     missing = [c for c in REQUIRED if c not in seen]
     if missing:
         problems.append(f"missing required column(s): {', '.join(missing)}")
-    if not {"nps", "outer_diameter"} & seen:
-        problems.append("give the pipe size in a column 'nps' (with 'schedule') or 'outer_diameter'")
+    if not {"nps", "outer_diameter", "size"} & seen:
+        problems.append("give the pipe size in a column 'nps' (with 'schedule'), 'size' (DN100, CU22x1.0, ...) or "
+                        "'outer_diameter'")
     if problems:
         raise InputError(f"line list header: {'; '.join(problems)}; the columns are: {', '.join(COLUMNS)}",
                          field="header", rule=f"columns among: {', '.join(COLUMNS)}", value=list(header))
@@ -219,8 +221,15 @@ def _parse_row(row: int, cells: dict, units: dict, allow_unusual: bool = False) 
                             f"got {cells[name]!r}")
     if hours is not None and hours > 8784.0:
         problems.append(f"operating_hours: {hours:g} h is more than a (leap) year of 8784 h")
-    if _blank(cells.get("nps")) == _blank(cells.get("outer_diameter")):  # (a bad cell is reported above)
-        problems.append("nps / outer_diameter: give the pipe as nps (with schedule) or as outer_diameter, not both")
+    sizes = [name for name in ("nps", "size", "outer_diameter") if not _blank(cells.get(name))]
+    if len(sizes) != 1:  # (a bad cell is reported above)
+        problems.append("nps / size / outer_diameter: give the pipe as nps (with schedule), as size (e.g. DN100, "
+                        "CU22x1.0, B88-3/4-L) or as outer_diameter, one of them")
+    elif "size" in values:
+        try:
+            values["outer_diameter"] = pipe_size(values.pop("size")).outer_diameter
+        except InputError as exc:
+            problems.append(f"size: {exc}")
     elif "nps" in values:
         if "schedule" in values:  # 40.0 from a numeric spreadsheet column, std, 10s
             values["schedule"] = re.sub(r"^(\d+)\.0*$", r"\1", values["schedule"]).upper()

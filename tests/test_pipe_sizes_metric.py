@@ -60,3 +60,26 @@ def test_size_on_the_command_line_equals_the_outside_diameter(capsys):
     freeze = run_json(capsys, "freeze", "--size", "CU22x1.0", "--initial-temperature", "10degC",
                       "--air-temperature=-10degC", "--layer", "20mm,0.035")
     assert freeze["freeze time (stagnant water)"]["results"][0]["freezes"] == "yes"
+
+
+# ----------------------------------------------------------------------------- the line list's size column
+def test_line_list_size_column_gives_the_tables_outside_diameter():
+    """A line-list ``size`` cell (DN, copper EN 1057 / ASTM B88, NPS) gives the line the same outside diameter and
+    heat flow as ``outer_diameter`` typed from the table; two ways of giving the size is a row error."""
+    import io
+
+    from convlib.linelist import run_line_list
+    from convlib.pipe_sizes import pipe_size
+
+    head = "tag,size,outer_diameter[mm],length[m],fluid_temperature[degC],air_temperature[degC],layers[mm]\n"
+    # EN 10220 series 1: DN100 is 114.3 mm (from memory); EN 1057: 22 mm copper tube
+    rows = ("A,DN100,,10,80,20,\"40,0.04\"\n" "B,,114.3,10,80,20,\"40,0.04\"\n"
+            "C,CU22x1.0,,5,60,20,\n" "D,,22,5,60,20,\n" "E,DN100,114.3,5,60,20,\n" "F,DN95,,5,60,20,\n")
+    result = run_line_list(io.StringIO(head + rows))
+    got = dict(zip(result.tag, result.outer_diameter))
+    assert got["A"] == pytest.approx(0.1143) and got["A"] == pytest.approx(pipe_size("DN100").outer_diameter)
+    q = dict(zip(result.tag, result.q_per_length))
+    assert q["A"] == pytest.approx(q["B"], rel=1e-12) and q["C"] == pytest.approx(q["D"], rel=1e-12)
+    errors = {e.tag: e.reason for e in result.errors}
+    assert "one of them" in errors["E"]
+    assert errors["F"].startswith("size: ") and "DN95" in errors["F"]
