@@ -25,10 +25,28 @@ def _cmd_trace(args) -> int:
                      length=value(args, "length"), **outside(args))
     row = {"tag": args.tag, "maintain_temperature": maintain, "air_temperature": ambient,
            "surface_temperature": float(r.surface_temperature), "heat_loss_per_length": float(r.heat_loss_per_length),
-           "margin": float(r.margin), "duty_per_length": float(r.duty_per_length), "duty_total": float(r.duty_total),
+           "tracing_margin": float(r.margin), "duty_per_length": float(r.duty_per_length), "duty_total": float(r.duty_total),
            "warnings": r.pipe.warning_messages()}
-    emit(args, [("heat tracing", [row])], [*r.notes, *r.cautions])
+    sections = [("heat tracing", [row])]
+    if args.weather:  # a year of hourly weather: the energy the controlled tracer supplies
+        from .weather import demo_weather_path, read_epw, tracing_energy
+
+        weather = read_epw(demo_weather_path() if args.weather == "demo" else args.weather)
+        year = tracing_energy(pipe_diameter(args), maintain, layers(args), weather, length=value(args, "length"),
+                              switch_on_below=value(args, "switch_on_below"), **_weather_exposure(args))
+        sections.append((f"a year of weather ({len(weather)} h, air < switch-on temperature: tracer on)",
+                         [{"tag": args.tag, "tracing_energy": float(year.energy[0]), "time_on": float(year.time_on[0]),
+                           "duty_per_length": float(year.peak_per_length[0]), "warnings": year.warning_messages()}]))
+    emit(args, sections, [*r.notes, *r.cautions])
     return 0
+
+
+def _weather_exposure(args) -> dict:
+    """The options of :func:`outside` that a year of weather does not replace (emissivity, sky view, a given
+    coefficient); the file gives air, wind and pressure hour by hour, and no sun."""
+    given = outside(args)
+    return {k: v for k, v in given.items() if v is not None and k in ("jacket_emissivity", "sky_view_fraction",
+                                                                      "convection_coefficient")}
 
 
 def _cmd_outlet(args) -> int:
@@ -374,6 +392,10 @@ def _add_line_commands(sub) -> None:
                        help=f"design margin on the loss (default {TRACING_MARGIN:g})")
     add_quantity(trace, "length", "length", "traced length (default 1 m)", default="1m")
     output_options(trace)
+    trace.add_argument("--weather", help="EPW hourly weather file (or 'demo'): also the energy a controlled tracer "
+                       "supplies in that year")
+    add_quantity(trace, "switch-on-below", "air_temperature", "with --weather: air temperature below which the "
+                 "control switches the tracer on (default the maintain temperature)")
     trace.set_defaults(func=_cmd_trace)
 
     steam = sub.add_parser("steam", help="a saturated steam line: heat loss and the condensate it forms")

@@ -39,7 +39,8 @@ from .errors import InputError
 from .radiation import STEFAN_BOLTZMANN
 
 __all__ = ["HourlyWeather", "read_epw", "demo_weather_path", "to_bins", "hours_below", "condensation_hours",
-           "synthetic_epw_text", "EPW_FIELDS", "jacket_condensation_hours"]
+           "synthetic_epw_text", "EPW_FIELDS", "jacket_condensation_hours",
+           "TracingEnergy", "tracing_energy"]
 
 #: 0-based column of each field read, and the value at or above which the manual marks it missing.
 EPW_FIELDS = {
@@ -263,6 +264,78 @@ def jacket_condensation_hours(pipe_outer_diameter, fluid_temperature, layers, we
                        pressure=weather.pressure, sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature,
                        solar_absorptivity=solar_absorptivity, convection_coefficient=convection_coefficient)
     return condensation_hours(weather, r.surface_temperature, margin)
+
+
+@dataclass(frozen=True)
+class TracingEnergy:
+    """A year of heat tracing from hourly weather (arrays over the lines)."""
+
+    energy_per_length: np.ndarray   # heat the tracer supplies over the year per metre [J/m]
+    energy: np.ndarray              # over the traced length [J]
+    time_on: np.ndarray             # time the control calls for heat and the line needs it [s]
+    peak_per_length: np.ndarray     # largest hourly duty [W/m]
+    warnings: np.ndarray            # union over the hours of the flags of every solve
+
+    def warning_messages(self) -> list[str]:
+        from .regimes import summarize_flags
+
+        return summarize_flags(self.warnings)
+
+
+def tracing_energy(pipe_outer_diameter, maintain_temperature, layers, weather: HourlyWeather, *, length=1.0,
+                   switch_on_below=None, jacket_emissivity=0.9, sky_view_fraction=None, solar_absorptivity=None,
+                   convection_coefficient=None) -> TracingEnergy:
+    r"""Heat a controlled tracer supplies in a year of hourly weather: :math:`E' = \sum_h \max(q'_h, 0)\,\Delta t`.
+
+    Each hour in which the air is below ``switch_on_below`` (default the maintain temperature: an ambient-sensing
+    thermostat), the tracer replaces what the line loses at its maintain temperature in that hour's air, wind and
+    pressure (:func:`convlib.pipe.insulated_pipe`, lines x hours); other hours it is off. A line-sensing control
+    gives the same figure; a tracer left on all year, or one without control, uses more. No design margin is
+    added: this is the energy, not the rating (:func:`convlib.tracing.tracing_duty` sizes the tracer).
+
+    Parameters
+    ----------
+    pipe_outer_diameter, maintain_temperature, jacket_emissivity : numeric
+        Per line [m], [K], [-] (1-D or scalars).
+    layers : sequence of Layer
+        Layer arrays per line need a trailing axis of 1 (the hours).
+    length : numeric
+        Traced length per line [m].
+    switch_on_below : numeric, optional
+        Air temperature below which the control calls for heat [K]; default the maintain temperature.
+    sky_view_fraction, solar_absorptivity, convection_coefficient
+        As in :func:`convlib.pipe.insulated_pipe`; the sky temperature is the file's where it gives the infrared.
+
+    Examples
+    --------
+    >>> from convlib.pipe import Layer
+    >>> w = read_epw(demo_weather_path())
+    >>> e = tracing_energy(0.0603, 278.15, [Layer(0.025, 0.04)], w)
+    >>> bool(0 < e.time_on[0] / 3600 < len(w)), bool(e.energy_per_length[0] > 0)
+    (True, True)
+    """
+    from .pipe import insulated_pipe
+    from .validation import as_array
+
+    d = np.atleast_1d(as_array("pipe_outer_diameter", pipe_outer_diameter, unit="m", low=0.0, low_inclusive=False))
+    tm = np.atleast_1d(as_array("maintain_temperature", maintain_temperature, unit="K", low=0.0, low_inclusive=False))
+    eps = np.atleast_1d(as_array("jacket_emissivity", jacket_emissivity, low=0.0, high=1.0))
+    run = np.atleast_1d(as_array("length", length, unit="m", low=0.0))
+    on_below = tm if switch_on_below is None else np.atleast_1d(
+        as_array("switch_on_below", switch_on_below, unit="K", low=0.0, low_inclusive=False))
+    sky = weather.sky_temperature
+    sky = np.where(np.isnan(sky), weather.air_temperature, sky) if sky_view_fraction else None
+    r = insulated_pipe(d[:, None], tm[:, None], layers, air_temperature=weather.air_temperature,
+                       wind_speed=weather.wind_speed, pressure=weather.pressure, jacket_emissivity=eps[:, None],
+                       sky_view_fraction=sky_view_fraction, sky_temperature=sky, solar_absorptivity=solar_absorptivity,
+                       convection_coefficient=convection_coefficient)
+    on = weather.air_temperature < np.broadcast_to(on_below, r.q_per_length.shape[:-1])[..., None]
+    duty = np.where(on, np.maximum(r.q_per_length, 0.0), 0.0)   # [W/m] hour by hour
+    per_length = duty.sum(axis=-1) * 3600.0                      # one hour per row [J/m]
+    return TracingEnergy(energy_per_length=per_length, energy=per_length * run,
+                         time_on=3600.0 * np.count_nonzero(on & (duty > 0), axis=-1),
+                         peak_per_length=duty.max(axis=-1),
+                         warnings=np.bitwise_or.reduce(np.where(on, r.warnings, 0), axis=-1).astype(np.int16))
 
 
 # ----------------------------------------------------------------------------- invented demo file
