@@ -15,6 +15,7 @@ from __future__ import annotations
 
 from convlib import design, snapshot
 from convlib.correlations.registry import display_name
+from convlib.demo import fill_template
 from convlib.errors import InputError
 from convlib.files import read_capped, write_atomic
 from convlib.geometry import SHAPES
@@ -38,7 +39,7 @@ REEXPORTED = (
     "CaseSpec", "StudySpec", "StudyResult", "SweepAxis", "SweepResult", "MonteCarloResult", "TornadoBar",
     "InputError", "SHAPES", "SCHEDULES", "nominal_pipe", "nominal_sizes", "load_demo_study", "run_study", "snapshot",
     "read_capped", "write_atomic", "display_name", "display_unit", "from_si", "to_si", "flow_names", "mode_names",
-    "CAUTION_FREEZE", "CAUTION_TRACING", "TRACING_MARGIN", "TOUCH_LIMITS", "law_keys",
+    "CAUTION_FREEZE", "CAUTION_TRACING", "TRACING_MARGIN", "TOUCH_LIMITS", "law_keys", "fill_template",
 )
 #: Touch limits offered for a jacket: (label, surface temperature [K]) (values of convlib.design).
 TOUCH_LIMITS = (("metal jacket", design.TOUCH_LIMIT_METAL_JACKET),

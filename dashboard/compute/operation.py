@@ -62,15 +62,17 @@ class OperationView:
     current_design: float            # the value the tracing and freeze rows use
     notes: tuple[str, ...]
     cautions: tuple[str, ...]
-    site_rows: tuple[dict, ...] = ()  # the demo site's lines in operation (convlib.demo), text in SI
+    site_rows: tuple[dict, ...] = ()  # the demo site's lines in operation (convlib.demo): SI text, templates, numbers
 
 
 @functools.lru_cache(maxsize=1)
 def demo_site_operation() -> tuple[dict, ...]:
-    """The demo site's long line, traced line, outdoor water line and tank (:func:`convlib.demo.operation_rows`)."""
+    """The demo site's long line, steam main, traced line, outdoor water line and tank
+    (:func:`convlib.demo.operation_rows` with its numbers: SI text, and templates with SI values and their kinds
+    for the other unit system)."""
     from convlib.demo import load_demo_site, operation_rows
 
-    rows, _ = operation_rows(load_demo_site()["operation"])
+    rows, _ = operation_rows(load_demo_site()["operation"], numbers=True)
     return tuple(rows)
 
 

@@ -8,6 +8,7 @@ import plotly.graph_objects as go
 import traitlets
 from .. import settings
 from ..compute import CAUTION_FREEZE, CAUTION_TRACING, TRACING_MARGIN, OperationInputs, OperationView
+from ..display import Display
 from ..figures import TEMPLATE, operation_profile_figure, operation_sweep_figure
 from .base import InputsPanel, figure_widget, message_html, sync_figure, card_html, card_value_text
 from .controls import DESCRIPTION_STYLE, QuantityControl
@@ -198,14 +199,22 @@ class OperationPanel(InputsPanel):
         self._show_sweep_figure(operation_sweep_figure(v, d))
         self.notes.value = message_html(v.notes, "warning", d) + message_html(
             v.cautions or (CAUTION_FREEZE, CAUTION_TRACING), "caution", d)
-        self.site.value = _site_table(v.site_rows)
+        self.site.value = _site_table(v.site_rows, d)
         self.set_message()
 
 
-def _site_table(rows) -> str:
-    """The demo site's lines in operation as short lines (numbers from convlib.demo, SI units)."""
+def _site_table(rows, display: Display | None = None) -> str:
+    """The demo site's lines in operation as short lines (numbers from convlib.demo) in the unit system of
+    ``display`` (SI: the texts of convlib.demo, as the command line prints them)."""
     if not rows:
         return ""
-    body = "".join(f"<div><b>{html.escape(r['tag'])}</b> &middot; {html.escape(r['what'])}: "
-                   f"{html.escape(r['result'])}</div>" for r in rows)
-    return f'<div class="cl-section">Demo site in operation (SI units)</div><div class="cl-hint">{body}</div>'
+    display = display or Display("SI")
+
+    def texts(r):
+        if display.system == "SI" or "values" not in r:
+            return r["what"], r["result"]
+        return display.fill(r["what_template"], r["values"]), display.fill(r["result_template"], r["values"])
+
+    body = "".join(f"<div><b>{html.escape(r['tag'])}</b> &middot; {html.escape(what)}: {html.escape(result)}</div>"
+                   for r in rows for what, result in (texts(r),))
+    return f'<div class="cl-section">Demo site in operation</div><div class="cl-hint">{body}</div>'

@@ -180,10 +180,37 @@ def test_demo_site_lines_in_operation_are_listed_with_convlib_numbers():
 
     from dashboard import compute
 
-    rows, _ = operation_rows(load_demo_site()["operation"])
+    rows, _ = operation_rows(load_demo_site()["operation"], numbers=True)
     assert compute.demo_site_operation() == tuple(rows)
+    plain, _ = operation_rows(load_demo_site()["operation"])
+    assert [{k: r[k] for k in ("tag", "what", "result")} for r in rows] == plain  # what the command line prints
     from dashboard.panels.operation import _site_table
 
-    table = _site_table(compute.demo_site_operation())
-    for row in rows:  # long line, traced line, outdoor water line, tank
+    table = _site_table(compute.demo_site_operation(), Display("SI"))
+    assert "(SI units)" not in table
+    for row in rows:  # long line, steam main, traced line, outdoor water line, tank
         assert row["tag"] in table and html.escape(row["result"]) in table
+
+
+def test_demo_site_lines_in_operation_read_in_us_units(app, panel):
+    import html
+
+    app.units_switch.value = "US"
+    table = html.unescape(panel.site.value)
+    rows = {r["tag"]: r for r in panel.view.site_rows}
+    # conversions by the exact factors of NIST SP 811 (2008), appendix B: 1 ft = 0.3048 m, 1 lb = 0.45359237 kg,
+    # 1 mph = 0.44704 m/s, t[°F] = 1.8 t[°C] + 32, 1 Btu_IT/h = 0.29307107 W
+    long_line = rows["FH-150"]["values"]
+    assert long_line["length"]["value"] == 1400.0 and "outlet after 4,593 ft" in table      # 1400 / 0.3048 = 4593.2
+    assert long_line["mass_flow"]["value"] == 12.0 and "at 95,240 lb/h" in table             # 12*3600/0.45359237
+    assert "239.0 °F ->" in table                                                              # 115 °C
+    assert "26.8 mph" in table and "-7.6 °F" in table                                          # 12 m/s; -22 °C
+    loss = long_line["loss"]["value"]
+    assert f"loss {round(loss / 0.29307107):,} Btu/h" in table
+    tank = rows["FH-T2"]["values"]
+    assert f"tank {tank['diameter']['value'] / 0.3048:.2f} ft x {tank['height']['value'] / 0.3048:.2f} ft" in table
+    assert "psi(a)" in table and "Btu/h·ft" in table and " h," in table
+    for si in ("°C", " kW", "kg/", " m ", "m/s", "W/m", "bar"):
+        assert si not in table, si
+    app.units_switch.value = "SI"
+    assert "1400 m at 12 kg/s" in html.unescape(panel.site.value)
