@@ -40,7 +40,7 @@ VIEWS = {
                     {"study": "spec", "opened": "opened", "tornado": "tornado", "monte_carlo": "monte_carlo",
                      "monte_carlo_stale": "monte_carlo_stale"}),
     "insulation": (lambda app: InsulationPanel(settings.HEAT_LOSS_LIMIT), {"view": "insulation"}),
-    "operation": (lambda app: OperationPanel(), {"view": "operation"}),
+    "operation": (lambda app: OperationPanel(), {"view": "operation", "transients": "transients"}),
     "vessels": (lambda app: VesselPanel(), {"view": "vessels"}),
     "snapshots": (lambda app: SnapshotPanel(app.snapshot_dir), {"entries": "snapshot_entries"}),
 }

@@ -78,7 +78,8 @@ def _operation_jobs(store: Store, panel, cache) -> list[Job]:
     case, inputs, axis = store.case, panel.inputs(), panel.sweep_input
     if case.kind != "insulated":
         return []
-    return [Job("operation", lambda: compute.operation_view(case, inputs, axis), settings.EXPENSIVE_DELAY / 2)]
+    return [Job("operation", lambda: compute.operation_view(case, inputs, axis), settings.EXPENSIVE_DELAY / 2),
+            Job("transients", lambda: compute.transient_view(case, inputs), settings.EXPENSIVE_DELAY / 2)]
 
 
 def _vessel_jobs(store: Store, panel, cache) -> list[Job]:

@@ -1,6 +1,8 @@
 """Headless tests of the "In operation" panel: cards and figures equal convlib.operation called directly."""
 from __future__ import annotations
 
+import html
+
 import numpy as np
 import pytest
 from convlib import operation as op
@@ -214,3 +216,48 @@ def test_demo_site_lines_in_operation_read_in_us_units(app, panel):
         assert si not in table, si
     app.units_switch.value = "SI"
     assert "1400 m at 12 kg/s" in html.unescape(panel.site.value)
+
+
+def _transient_options(case):
+    return dict(jacket_emissivity=case.emissivity, air_temperature=case.air_temperature, wind_speed=case.wind_speed,
+                sky_view_fraction=case.sky_view_fraction, pressure=case.pressure)
+
+
+def test_cool_down_and_warm_up_cards_equal_convlib_transients(app, panel, study):
+    from convlib.transients import CAUTION_COOL_DOWN, CAUTION_WARM_UP, cool_down_time, warm_up_condensate
+
+    case = study.case
+    wall = nominal_pipe(6, "40").wall_thickness
+    # defaults that follow the line: halfway from 160 to 8 degC, steam saturated at the fluid temperature
+    assert panel.cool_to_temperature == pytest.approx(273.15 + 84.0)
+    # IAPWS-IF97 (Wagner et al. 2000, saturation table): 160 degC saturates at 6.18 bar; default to 0.1 bar
+    assert panel.warm_up_pressure == pytest.approx(6.2e5)
+    panel.controls["cool_to_temperature"].widget.value = 100.0  # °C
+    panel.controls["warm_up_pressure"].widget.value = 8.0       # bar(a)
+    panel.controls["warm_up_time"].widget.value = 45.0          # min
+    assert panel.warm_up_time == pytest.approx(2700.0) and panel.warm_up_pressure == pytest.approx(8e5)
+    cool = cool_down_time(case.diameter, wall, case.fluid_temperature, 373.15, _layers(case),
+                          fluid_pressure=panel.fluid_pressure, **_transient_options(case))
+    warm = warm_up_condensate(case.diameter, wall, 8e5, case.air_temperature, 2700.0, _layers(case),
+                              length=case.length, **_transient_options(case))
+    for system in ("SI", "US"):
+        app.units_switch.value = system
+        d = Display(system)
+        assert panel.card_text("cool_down") == d.text(float(cool.time), "cool_down_time")
+        assert panel.card_text("warm_up") == d.text(float(warm.warm_up_condensate), "warm_up_condensate")
+        assert d.text(float(warm.mean_condensate_rate), "condensate_rate") in panel.cards["warm_up"].value
+        assert d.text(373.15, "cool_to_temperature") in panel.cards["cool_down"].value
+    assert panel.card_text("warm_up").endswith(" lb") and panel.card_text("cool_down").endswith(" h")
+    notes = html.unescape(panel.notes.value)
+    for caution in (CAUTION_COOL_DOWN, CAUTION_WARM_UP):
+        assert caution in notes
+
+
+def test_cool_down_past_the_air_says_why_and_steam_has_none(app, panel, study):
+    panel.controls["cool_to_temperature"].widget.value = 0.0  # °C: below the 8 °C air, a line never gets there
+    assert panel.card_text("cool_down") == "–"
+    assert "same side of the air" in html.unescape(panel.notes.value)
+    assert panel.card_text("warm_up").endswith(" kg")  # the warm-up still shows
+    panel.controls["fluid_pressure"].widget.value = "3.5"
+    panel.service_box.value = "steam"
+    assert "liquid-filled lines only" in panel.cards["cool_down"].value
