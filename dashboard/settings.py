@@ -162,6 +162,8 @@ QUANTITIES: dict[str, tuple[str, dict | None, int]] = {
     "warm_up_time": ("time", {"SI": "minute", "US": "minute"}, 3),
     "cool_down_time": ("time", None, 3),
     "warm_up_condensate": ("mass", None, 3),
+    "fitting_heat": ("power", {"SI": "W", "US": "Btu/hour"}, 3),
+    "equivalent_length": ("length", _METRES, 3),
     # "Tanks & ducts" panel
     "vessel_diameter": ("length", _METRES, 3),
     "vessel_height": ("length", _METRES, 3),

@@ -19,6 +19,7 @@ from convlib.demo import fill_template
 from convlib.errors import InputError
 from convlib.files import read_capped, write_atomic
 from convlib.geometry import SHAPES
+from convlib.fittings import PRESSURE_CLASSES
 from convlib.operation import CAUTION_FREEZE, CAUTION_TRACING, TRACING_MARGIN
 from convlib.transients import CAUTION_COOL_DOWN, CAUTION_WARM_UP
 from convlib.pipe_sizes import SCHEDULES, nominal_pipe, nominal_sizes
@@ -30,7 +31,7 @@ from convlib.units import display_unit, from_si, to_si
 from .case import (CaseSummary, LawCurve, RegimeMap, RegimeView, SweepCache, chosen_laws, current_value, law_keys,
                    monte_carlo_settings, regime_map, regime_view, study_for_case, summarize_case, sweep_axes,
                    sweep_only, sweep_study, uncertainty_study)
-from .insulation import InsulationView, Sizing, insulation_view
+from .insulation import FITTINGS_NEED_NPS, FittingsView, InsulationView, Sizing, fittings_view, insulation_view
 from .operation import (COOL_DOWN_STEAM, OperationInputs, OperationView, TransientView, cool_to_default, demo_site_operation,
                         design_air_temperature, operation_defaults, operation_layers, operation_options,
                         operation_view, pipe_wall_thickness, transient_options, transient_view,
@@ -43,7 +44,7 @@ REEXPORTED = (
     "InputError", "SHAPES", "SCHEDULES", "nominal_pipe", "nominal_sizes", "load_demo_study", "run_study", "snapshot",
     "read_capped", "write_atomic", "display_name", "display_unit", "from_si", "to_si", "flow_names", "mode_names",
     "CAUTION_FREEZE", "CAUTION_TRACING", "TRACING_MARGIN", "TOUCH_LIMITS", "law_keys", "fill_template",
-    "CAUTION_COOL_DOWN", "CAUTION_WARM_UP",
+    "CAUTION_COOL_DOWN", "CAUTION_WARM_UP", "PRESSURE_CLASSES",
 )
 #: Touch limits offered for a jacket: (label, surface temperature [K]) (values of convlib.design).
 TOUCH_LIMITS = (("metal jacket", design.TOUCH_LIMIT_METAL_JACKET),
@@ -54,7 +55,7 @@ __all__ = [
     "SweepCache", "sweep_study", "sweep_only", "LawCurve",
     "RegimeView",
     "regime_view", "RegimeMap", "regime_map", "uncertainty_study", "monte_carlo_settings", "Sizing",
-    "InsulationView", "insulation_view", "OperationInputs", "OperationView", "operation_view", "operation_layers",
+    "InsulationView", "insulation_view", "FittingsView", "fittings_view", "FITTINGS_NEED_NPS", "OperationInputs", "OperationView", "operation_view", "operation_layers",
     "operation_options", "design_air_temperature", "pipe_wall_thickness", "VesselInputs", "VesselView",
     "vessel_defaults", "vessel_view", "operation_defaults", "demo_site_operation", "TransientView", "transient_view", "COOL_DOWN_STEAM",
     "transient_options", "cool_to_default", "warm_up_pressure_default",
