@@ -8,7 +8,7 @@ sizing functions of :mod:`convlib.design`, :mod:`convlib.operation` and
 :mod:`convlib.vessels`.
 
 The layer is a package: :mod:`.case` (base case, sweeps, regimes, uncertainty), :mod:`.insulation`,
-:mod:`.operation` and :mod:`.vessels`; this module re-exports their names and the few convlib names the other
+:mod:`.operation`, :mod:`.vessels` and :mod:`.sizes`; this module re-exports their names and the few convlib names the other
 dashboard modules use (it is the only part of the dashboard that imports convlib).
 """
 from __future__ import annotations
@@ -36,6 +36,7 @@ from .operation import (COOL_DOWN_STEAM, OperationInputs, OperationView, Transie
                         design_air_temperature, operation_defaults, operation_layers, operation_options,
                         operation_view, pipe_wall_thickness, transient_options, transient_view,
                         warm_up_pressure_default)
+from .sizes import SIZE_SYSTEMS, StandardSize, size_grades, standard_sizes
 from .vessels import VesselInputs, VesselView, vessel_defaults, vessel_view
 
 #: What the other dashboard modules use of convlib, re-exported: this module is the only one importing convlib.
@@ -58,5 +59,6 @@ __all__ = [
     "InsulationView", "insulation_view", "FittingsView", "fittings_view", "FITTINGS_NEED_NPS", "OperationInputs", "OperationView", "operation_view", "operation_layers",
     "operation_options", "design_air_temperature", "pipe_wall_thickness", "VesselInputs", "VesselView",
     "vessel_defaults", "vessel_view", "operation_defaults", "demo_site_operation", "TransientView", "transient_view", "COOL_DOWN_STEAM",
-    "transient_options", "cool_to_default", "warm_up_pressure_default",
+    "transient_options", "cool_to_default", "warm_up_pressure_default", "SIZE_SYSTEMS", "StandardSize",
+    "size_grades", "standard_sizes",
 ]

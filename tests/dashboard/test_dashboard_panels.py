@@ -325,3 +325,30 @@ def test_bare_valves_off_for_a_size_the_tables_lack(app):
     app.insulation.valve_box.value = 1
     app.line.nps.value = 3.5  # ASME B16.10 gate valves: no NPS 3 1/2 in convlib's table
     assert app.insulation.valve_box.disabled and "3.5" in app.insulation.fittings_hint.value
+
+
+# ----------------------------------------------------------------------------- size systems beside NPS
+def test_dn_and_copper_sizes_set_the_diameter(app, study):
+    line = app.line
+    assert line.size_system.value == "nps" and line.pipe_size == (6.0, "40")  # NPS unchanged by default
+    line.size_system.value = "dn"
+    assert line.schedule.layout.display == "none"  # EN 10220 implies no wall: no schedule
+    assert line.nps.value == 150 and line.case.diameter == pytest.approx(0.1683)  # nearest: DN 150
+    line.nps.value = 100
+    assert line.case.diameter == pytest.approx(0.1143)  # EN 10220 series 1: DN 100 is 114.3 mm
+    assert line.pipe_size == (None, "40")  # the bare items and the wall need an NPS
+    case = study.case.model_copy(update={"diameter": 0.1143})
+    assert line.card_text("q_per_length") == _q_text("SI", evaluate_case(case).q_per_length)
+    line.size_system.value = "copper_astm"
+    assert line.schedule.description == "Type" and list(line.schedule.options) == ["K", "L", "M"]
+    line.nps.value = 0.75
+    assert line.case.diameter == pytest.approx(0.875 * 0.0254)  # ASTM B88: 3/4 tube is 0.875 in outside
+    line.size_system.value = "copper_en"
+    line.nps.value = 22.0
+    assert line.case.diameter == pytest.approx(0.022)  # EN 1057: 22 mm outside
+    app.units_switch.value = "US"
+    assert ("Cu 22 mm · 0.8661 in", 22.0) in line.nps.options  # 22 / 25.4 = 0.86614 in
+    line.size_system.value = "nps"
+    line.nps.value = 4.0
+    assert line.case.diameter == nominal_pipe(4, "40").outer_diameter and line.pipe_size == (4.0, "40")
+    assert ("NPS 4 · 4.500 in", 4.0) in line.nps.options  # ASME B36.10M: NPS 4 is 4.500 in
