@@ -41,7 +41,7 @@ def size_label(system: str, key: float, outer_diameter: float, display) -> str:
     >>> size_label("dn", 100, 0.1143, Display("SI")), size_label("copper_en", 22.0, 0.022, Display("US"))
     ('DN 100 · 114.3 mm', 'Cu 22 mm · 0.8661 in')
     >>> size_label("copper_astm", 0.75, 0.022225, Display("US"))
-    'Cu 3/4 · 0.875 in'
+    'Cu 3/4 · 0.8750 in'
     """
     od = display.text(outer_diameter, "diameter")
     if system == "nps":
