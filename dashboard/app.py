@@ -39,8 +39,9 @@ VIEWS = {
     "uncertainty": (lambda app: UncertaintyPanel(app.store.study),
                     {"study": "spec", "opened": "opened", "tornado": "tornado", "monte_carlo": "monte_carlo",
                      "monte_carlo_stale": "monte_carlo_stale"}),
-    "insulation": (lambda app: InsulationPanel(settings.HEAT_LOSS_LIMIT), {"view": "insulation"}),
-    "operation": (lambda app: OperationPanel(), {"view": "operation"}),
+    "insulation": (lambda app: InsulationPanel(settings.HEAT_LOSS_LIMIT), {"view": "insulation",
+                                                                            "fittings": "fittings"}),
+    "operation": (lambda app: OperationPanel(), {"view": "operation", "transients": "transients"}),
     "vessels": (lambda app: VesselPanel(), {"view": "vessels"}),
     "snapshots": (lambda app: SnapshotPanel(app.snapshot_dir), {"entries": "snapshot_entries"}),
 }
@@ -48,6 +49,7 @@ VIEWS = {
 DERIVED = (
     ("uncertainty", "base_q", "summary", lambda s: 0.0 if s is None else s.q_per_length),
     ("insulation", "applicable", "case", lambda c: c.kind == "insulated"),
+    ("insulation", "pipe_nps", "pipe_size", lambda size: size[0]),
     ("operation", "applicable", "case", lambda c: c.kind == "insulated"),
 )
 

@@ -12,7 +12,7 @@ import re
 import numpy as np
 from . import settings
 from .compute import display_name as law_name
-from .compute import display_unit, from_si, to_si
+from .compute import display_unit, fill_template, from_si, to_si
 
 __all__ = ["Display", "format_number", "quantity_kind", "pretty_unit", "input_label", "law_name", "geometry_name",
            "shape_name", "regime_text", "scientific", "NPS_OUTSIDE_INCH"]
@@ -52,6 +52,14 @@ _INPUT_KINDS = {
     "emissivity": "emissivity", "sky_view_fraction": "sky_view_fraction", "solar_irradiance": "solar_irradiance",
     "pressure": "pressure", "insulation_thickness": "insulation_thickness",
     "insulation_conductivity": "insulation_conductivity", "convection_factor": "convection_factor",
+}
+
+#: Quantity shown for a value known only by its kind (rows of the demo site): site lengths in m or ft, flows in
+#: lb/h, powers in kW or Btu/h, times in hours.
+_KIND_QUANTITY = {
+    "temperature": "fluid_temperature", "length": "length", "speed": "wind_speed", "power": "line_loss",
+    "heat_per_length": "tracing_per_length", "time": "freeze_time", "pressure": "fluid_pressure",
+    "mass_flow": "mass_flow", "dimensionless": "tracing_margin",
 }
 
 _INPUT_LABELS = {
@@ -232,6 +240,20 @@ class Display:
         unit = self.label(name)
         number = self.number(si, name, digits)
         return number if unit == "–" else f"{number} {unit}"
+
+    def fill(self, template: str, values: dict) -> str:
+        """``template`` with each ``{name}`` replaced by the text of ``values[name]`` (``{"value": SI value,
+        "kind": kind of quantity}``) in this unit system (:func:`convlib.demo.fill_template`).
+
+        >>> Display("US").fill("{run} at {wind}", {"run": {"value": 1400.0, "kind": "length"},
+        ...                                        "wind": {"value": 5.0, "kind": "speed"}})
+        '4,593 ft at 11.2 mph'
+        """
+        def text(name, entry):
+            shown = self.text(entry["value"], _KIND_QUANTITY[entry["kind"]])
+            return shown + "(a)" if entry["kind"] == "pressure" else shown  # convlib's pressures are absolute
+
+        return fill_template(template, values, text)
 
     def localize(self, text: str) -> str:
         """``text`` (a message of convlib, written in °C and K and plain-text formulas) with its

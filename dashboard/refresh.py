@@ -70,15 +70,18 @@ def _insulation_jobs(store: Store, panel, cache) -> list[Job]:
         return []
     touch, limit, still, hottest = (panel.surface_limit, panel.heat_loss_limit, panel.still_air,
                                     panel.hottest_air_temperature)
+    nps, items = store.pipe_size[0], (panel.pressure_class, panel.valves, panel.flange_pairs)
     return [Job("insulation", lambda: compute.insulation_view(case, touch, limit, still, hottest),
-                settings.EXPENSIVE_DELAY / 2)]
+                settings.EXPENSIVE_DELAY / 2),
+            Job("fittings", lambda: compute.fittings_view(case, nps, *items))]
 
 
 def _operation_jobs(store: Store, panel, cache) -> list[Job]:
     case, inputs, axis = store.case, panel.inputs(), panel.sweep_input
     if case.kind != "insulated":
         return []
-    return [Job("operation", lambda: compute.operation_view(case, inputs, axis), settings.EXPENSIVE_DELAY / 2)]
+    return [Job("operation", lambda: compute.operation_view(case, inputs, axis), settings.EXPENSIVE_DELAY / 2),
+            Job("transients", lambda: compute.transient_view(case, inputs), settings.EXPENSIVE_DELAY / 2)]
 
 
 def _vessel_jobs(store: Store, panel, cache) -> list[Job]:
@@ -176,6 +179,10 @@ class Refresher:
     @_guarded
     def _on_pipe_size(self, change) -> None:
         self._case_defaults()
+        if "insulation" in self.panels:  # the bare valves and flanges follow the NPS
+            self.store.mark_stale("insulation")
+            if self.store.visible == "insulation":
+                self.request("insulation")
 
     @_guarded
     def _on_visible(self, change) -> None:

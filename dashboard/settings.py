@@ -93,6 +93,11 @@ CONTROLS: dict[str, ControlSetting] = {
                                           {"SI": 0.5, "US": 1.0}),
     "pipe_wall_thickness": ControlSetting("Pipe wall", "length", 0.0005, 0.05, {"SI": 0.01, "US": 0.001},
                                           widget="text"),
+    "cool_to_temperature": ControlSetting("Cool-down to", "temperature", 223.15, 873.15, {"SI": 1.0, "US": 2.0}),
+    "warm_up_pressure": ControlSetting("Warm-up steam, abs.", "pressure", 1.1e5, 4.0e6, {"SI": 0.1, "US": 1.0},
+                                       {"SI": "bar", "US": "psi"}, "text"),
+    "warm_up_time": ControlSetting("Warm-up time", "time", 60.0, 86400.0, {"SI": 1.0, "US": 1.0},
+                                   {"SI": "minute", "US": "minute"}, "text"),
     # "Tanks & ducts" panel
     "vessel_diameter": ControlSetting("Diameter", "length", 0.3, 80.0, {"SI": 0.1, "US": 0.5}, _METRES, "text"),
     "vessel_height": ControlSetting("Wall height", "length", 0.3, 40.0, {"SI": 0.1, "US": 0.5}, _METRES, "text"),
@@ -152,6 +157,13 @@ QUANTITIES: dict[str, tuple[str, dict | None, int]] = {
     "tracing_per_length": ("heat_per_length", None, 3),
     "tracing_total": ("power", {"SI": "kW", "US": "Btu/hour"}, 3),
     "freeze_time": ("time", None, 3),
+    "cool_to_temperature": ("temperature", None, 1),
+    "warm_up_pressure": ("pressure", {"SI": "bar", "US": "psi"}, 3),
+    "warm_up_time": ("time", {"SI": "minute", "US": "minute"}, 3),
+    "cool_down_time": ("time", None, 3),
+    "warm_up_condensate": ("mass", None, 3),
+    "fitting_heat": ("power", {"SI": "W", "US": "Btu/hour"}, 3),
+    "equivalent_length": ("length", _METRES, 3),
     # "Tanks & ducts" panel
     "vessel_diameter": ("length", _METRES, 3),
     "vessel_height": ("length", _METRES, 3),
@@ -173,7 +185,7 @@ PRETTY_UNITS = {
     "W/m**2": "W/m²", "Btu/hour/foot": "Btu/h·ft", "Btu/hour/foot**2": "Btu/h·ft²", "Btu/hour": "Btu/h",
     "W/m**2/K": "W/(m²·K)", "Btu/hour/foot**2/delta_degF": "Btu/h·ft²·°F", "W/m/K": "W/(m·K)",
     "Btu*inch/hour/foot**2/delta_degF": "Btu·in/h·ft²·°F", "percent": "%", "": "–", "ft/s": "ft/s", "mph": "mph",
-    "hour": "h", "lb/hour": "lb/h", "kg/s": "kg/s", "kg/hour": "kg/h", "m**2": "m²", "foot**2": "ft²",
+    "hour": "h", "minute": "min", "lb/hour": "lb/h", "kg/s": "kg/s", "kg/hour": "kg/h", "m**2": "m²", "foot**2": "ft²",
 }
 
 #: Sweeps offered in addition to the study's own (used when the study has none of that input).
@@ -213,6 +225,8 @@ OPERATION = {
     "initial_temperature": 278.15,     # [K] water when the flow stops
     "pipe_wall_thickness": 0.005,      # [m]
     "sweep_points": 21,
+    "warm_up_time": 1800.0,            # [s] half an hour (common practice, no source)
+    "warm_up_pressure_range": (1.1e5, 4.0e6),  # [Pa] absolute: the warm-up's default follows the line within it
 }
 
 #: The "Tanks & ducts" panel: what it shows, its defaults [SI] and the inputs its sweep offers

@@ -41,8 +41,8 @@ class Store(traitlets.HasTraits):
         The case's natural and forced laws (keys); derived.
     visible : str
         The view on screen.
-    summary, sweep, spread, regimes, regime_map, tornado, monte_carlo, insulation, operation, vessels,
-    snapshot_entries
+    summary, sweep, spread, regimes, regime_map, tornado, monte_carlo, insulation, fittings, operation, transients,
+    vessels, snapshot_entries
         The latest result of each view (``summary`` is the base case).
     stale : set of str
         Views whose result is older than the case or their settings.
@@ -78,7 +78,9 @@ class Store(traitlets.HasTraits):
     tornado = traitlets.List(traitlets.Instance(compute.TornadoBar))
     monte_carlo = traitlets.Instance(compute.MonteCarloResult, allow_none=True)
     insulation = traitlets.Instance(compute.InsulationView, allow_none=True)
+    fittings = traitlets.Instance(compute.FittingsView, allow_none=True)
     operation = traitlets.Instance(compute.OperationView, allow_none=True)
+    transients = traitlets.Instance(compute.TransientView, allow_none=True)
     vessels = traitlets.Instance(compute.VesselView, allow_none=True)
     snapshot_entries = traitlets.List()
 

@@ -1,10 +1,11 @@
-"""Insulation sizing on the insulation tab: touch, heat-loss and condensation limits."""
+"""Insulation sizing on the insulation tab: touch, heat-loss and condensation limits; bare valves and flanges."""
 from __future__ import annotations
 
 from dataclasses import dataclass, field
 
 import numpy as np
-from convlib import design
+from convlib import design, fittings
+from convlib.errors import InputError
 from convlib.pipe import Layer
 from convlib.properties import dew_point
 from convlib.study import (CaseSpec, evaluate_case)
@@ -92,3 +93,60 @@ def insulation_view(case: CaseSpec, surface_limit: float, heat_loss_limit: float
         max_thickness=settings.SIZING_MAX_THICKNESS)).ravel()[0])
     return InsulationView(grid, np.asarray(r.surface_temperature, float), np.asarray(r.q_per_length, float),
                           case.insulation_thickness, wind, hot, dew, critical, tuple(sizings))
+
+
+# ----------------------------------------------------------------------------- bare valves and flange pairs
+@dataclass(frozen=True)
+class FittingsView:
+    """Bare valves and flange pairs on the line (:mod:`convlib.fittings`), SI; ``off`` says why there are no
+    numbers ("" when there are)."""
+
+    nps: float | None
+    pressure_class: int
+    valves: int
+    flange_pairs: int
+    valve_extra_heat: float          # one valve [W]
+    valve_equivalent_length: float   # one valve [m of the line]
+    flange_extra_heat: float         # one flange pair [W]
+    flange_equivalent_length: float  # [m]
+    extra_heat: float                # all of them [W]
+    equivalent_length: float         # all of them [m]
+    off: str = ""
+    notes: tuple[str, ...] = ()
+
+
+#: Why the bare items are off on a line without an NPS.
+FITTINGS_NEED_NPS = "choose the pipe by NPS + schedule on the line panel (the flange and valve tables are by NPS)"
+
+
+def fittings_view(case: CaseSpec, nps: float | None, pressure_class: int = 150, valves: int = 0,
+                  flange_pairs: int = 0) -> FittingsView:
+    """Extra heat and equivalent length of ``valves`` bare valves and ``flange_pairs`` bare flange pairs on the
+    insulated line (:func:`convlib.fittings.bare_valve`, :func:`convlib.fittings.bare_flange_pair`: at the
+    line's fluid temperature, insulation, jacket and surroundings; bare metal emissivity 0.9, convlib's
+    default). Without an NPS, or for a size or class the tables lack, the view says why (``off``)."""
+    nan = float("nan")
+    if case.kind != "insulated":
+        return FittingsView(nps, pressure_class, valves, flange_pairs, nan, nan, nan, nan, nan, nan,
+                            off="for an insulated line")
+    if nps is None:
+        return FittingsView(nps, pressure_class, valves, flange_pairs, nan, nan, nan, nan, nan, nan,
+                            off=FITTINGS_NEED_NPS)
+    from .operation import operation_layers
+
+    options = dict(pressure_class=pressure_class, layers=operation_layers(case), jacket_emissivity=case.emissivity,
+                   air_temperature=case.air_temperature, wind_speed=case.wind_speed,
+                   surroundings_temperature=case.surroundings_temperature,
+                   sky_view_fraction=case.sky_view_fraction, solar_irradiance=case.solar_irradiance,
+                   pressure=case.pressure)
+    try:
+        valve = fittings.bare_valve(nps, case.fluid_temperature, **options)
+        flange = fittings.bare_flange_pair(nps, case.fluid_temperature, **options)
+    except InputError as exc:
+        return FittingsView(nps, pressure_class, valves, flange_pairs, nan, nan, nan, nan, nan, nan, off=str(exc))
+    first = lambda a: float(np.asarray(a, dtype=float).ravel()[0])  # noqa: E731
+    v_heat, v_length = first(valve.extra_heat), first(valve.equivalent_length)
+    f_heat, f_length = first(flange.extra_heat), first(flange.equivalent_length)
+    return FittingsView(nps, pressure_class, valves, flange_pairs, v_heat, v_length, f_heat, f_length,
+                        valves * v_heat + flange_pairs * f_heat, valves * v_length + flange_pairs * f_length,
+                        notes=tuple(dict.fromkeys((*valve.notes, *flange.notes))))

@@ -9,6 +9,7 @@ from convlib import operation as op
 from convlib.geometry import SHAPES
 from convlib.pipe import Layer
 from convlib.pipe_sizes import nominal_pipe, nominal_sizes
+from convlib.steam import saturation_temperature
 from convlib.study import CaseSpec
 
 from .. import settings
@@ -29,6 +30,9 @@ class OperationInputs:
     initial_temperature: float       # water when the flow stops [K]
     pipe_wall_thickness: float       # [m]
     service: str = "water"           # what flows: "water" (liquid, at fluid_pressure) or "steam" (saturated)
+    cool_to_temperature: float = float("nan")  # stopped line: cool-down until the fluid is at [K]; NaN: halfway
+    warm_up_time: float = 1800.0     # steam line brought to saturation in [s]
+    warm_up_pressure: float = 1.0e6  # steam admitted at [Pa] absolute
 
 
 @dataclass(frozen=True)
@@ -62,15 +66,17 @@ class OperationView:
     current_design: float            # the value the tracing and freeze rows use
     notes: tuple[str, ...]
     cautions: tuple[str, ...]
-    site_rows: tuple[dict, ...] = ()  # the demo site's lines in operation (convlib.demo), text in SI
+    site_rows: tuple[dict, ...] = ()  # the demo site's lines in operation (convlib.demo): SI text, templates, numbers
 
 
 @functools.lru_cache(maxsize=1)
 def demo_site_operation() -> tuple[dict, ...]:
-    """The demo site's long line, traced line, outdoor water line and tank (:func:`convlib.demo.operation_rows`)."""
+    """The demo site's long line, steam main, traced line, outdoor water line and tank
+    (:func:`convlib.demo.operation_rows` with its numbers: SI text, and templates with SI values and their kinds
+    for the other unit system)."""
     from convlib.demo import load_demo_site, operation_rows
 
-    rows, _ = operation_rows(load_demo_site()["operation"])
+    rows, _ = operation_rows(load_demo_site()["operation"], numbers=True)
     return tuple(rows)
 
 
@@ -82,11 +88,30 @@ def design_air_temperature(case: CaseSpec) -> float:
 
 def operation_defaults(case: CaseSpec, nps: float | None = None, schedule: str | None = None) -> dict:
     """Defaults of the operation view that follow the line: coldest air and pipe wall (NPS/schedule when
-    chosen); none for a bare surface."""
+    chosen), the cool-down's final temperature and the warm-up's steam pressure; none for a bare surface."""
     if case.kind != "insulated":
         return {}
     return {"design_air_temperature": design_air_temperature(case),
-            "pipe_wall_thickness": pipe_wall_thickness(case.diameter, nps, schedule)}
+            "pipe_wall_thickness": pipe_wall_thickness(case.diameter, nps, schedule),
+            "cool_to_temperature": cool_to_default(case), "warm_up_pressure": warm_up_pressure_default(case)}
+
+
+def cool_to_default(case: CaseSpec) -> float:
+    """Default final temperature of the cool-down: halfway from the fluid to the air, to the whole kelvin [K]."""
+    return float(round(0.5 * (case.fluid_temperature + case.air_temperature) - 273.15) + 273.15)
+
+
+def warm_up_pressure_default(case: CaseSpec) -> float:
+    """Default steam pressure of the warm-up [Pa] absolute: saturated at the line's fluid temperature
+    (:func:`convlib.steam.saturation_temperature` inverted on a grid), to 0.1 bar; the setting's pressure when
+    the fluid is outside saturated steam at 1.1 to 40 bar."""
+    lo, hi = settings.OPERATION["warm_up_pressure_range"]
+    grid = np.geomspace(lo, hi, 400)
+    t_sat = np.asarray(saturation_temperature(grid), float)
+    if not t_sat[0] <= case.fluid_temperature <= t_sat[-1]:
+        return float(settings.OPERATION["fluid_pressure"])
+    pressure = float(np.exp(np.interp(case.fluid_temperature, t_sat, np.log(grid))))
+    return round(pressure / 1e4) * 1e4
 
 
 def pipe_wall_thickness(diameter: float, nps: float | None = None, schedule: str | None = None) -> float:
@@ -210,3 +235,85 @@ def operation_view(case: CaseSpec, inputs: OperationInputs, sweep_input: str = "
         sweep_tracing=np.asarray(st.duty_per_length, float),
         sweep_freezing_point=seconds(sf.time_to_freezing_point), sweep_frozen=seconds(sf.time_total),
         current_operating=float(current[0]), current_design=float(current[1]), notes=notes, cautions=cautions)
+
+
+# ----------------------------------------------------------------------------- starting and stopping
+#: Why a steam line has no cool-down time.
+COOL_DOWN_STEAM = "for a line full of liquid (a stopped steam line condenses and drains)"
+
+@dataclass(frozen=True)
+class TransientView:
+    """Cool-down of the stopped line and warm-up condensate of it as a steam line (SI); ``None`` or NaN where
+    it does not apply, with the reason in ``cool_down_note`` / ``warm_up_note``."""
+
+    initial_temperature: float       # the line's fluid when it stops [K]
+    cool_to_temperature: float       # [K]
+    air_temperature: float           # [K]
+    cool_down_time: float            # [s]; inf: settles before it; NaN: not computed (see cool_down_note)
+    cool_down_note: str              # why there is no time ("" when there is one)
+    steam_pressure: float            # [Pa] absolute
+    saturation_temperature: float    # [K]
+    start_temperature: float         # the cold line [K]
+    warm_up_time: float              # [s]
+    warm_up_condensate: float        # heating the wall [kg]; NaN: not computed
+    mean_condensate_rate: float      # over the warm-up time, wall + share of running loss [kg/s]
+    running_condensate_rate: float   # [kg/s]
+    warm_up_note: str
+    notes: tuple[str, ...]
+    cautions: tuple[str, ...]
+
+
+def transient_options(case: CaseSpec) -> dict:
+    """Options of :mod:`convlib.transients` for the case: its air, wind, sky, sun and jacket (the transients use
+    the shape's default laws and no convection factor)."""
+    return dict(jacket_emissivity=case.emissivity, air_temperature=case.air_temperature, wind_speed=case.wind_speed,
+                surroundings_temperature=case.surroundings_temperature, sky_view_fraction=case.sky_view_fraction,
+                solar_irradiance=case.solar_irradiance, pressure=case.pressure)
+
+
+def transient_view(case: CaseSpec, inputs: OperationInputs) -> TransientView:
+    """Time for the stopped line (water at the panel's pressure, from the case's fluid temperature, at the
+    case's air and wind) to reach ``inputs.cool_to_temperature`` (:func:`convlib.transients.cool_down_time`),
+    and the condensate of warming the line from the case's air with steam at ``inputs.warm_up_pressure`` in
+    ``inputs.warm_up_time`` (:func:`convlib.transients.warm_up_condensate`); both over the case's run length
+    with the panel's pipe wall. A value convlib refuses (an :class:`~convlib.errors.InputError`) is shown as
+    the reason instead of a number."""
+    from convlib.errors import InputError
+    from convlib.transients import cool_down_time, warm_up_condensate
+
+    if case.kind != "insulated":
+        raise ValueError("for insulated lines with a known fluid temperature")
+    i, layers = inputs, operation_layers(case)
+    final = cool_to_default(case) if np.isnan(i.cool_to_temperature) else i.cool_to_temperature
+    nan = float("nan")
+    cool, cool_note, notes, cautions = nan, "", [], []
+    if i.service == "steam":
+        cool_note = COOL_DOWN_STEAM
+    else:
+        try:
+            r = cool_down_time(case.diameter, i.pipe_wall_thickness, case.fluid_temperature, final, layers,
+                               fluid_pressure=i.fluid_pressure, **transient_options(case))
+            cool = scalar(r.time)
+            notes += [*r.notes, *r.warning_messages()]
+            cautions += r.cautions
+        except InputError as exc:
+            cool_note = str(exc)
+    start = case.air_temperature
+    sat = scalar(saturation_temperature(i.warm_up_pressure))
+    condensate = mean = running = nan
+    warm_note = ""
+    try:
+        w = warm_up_condensate(case.diameter, i.pipe_wall_thickness, i.warm_up_pressure, start, i.warm_up_time,
+                               layers, length=case.length, **transient_options(case))
+        condensate, mean = scalar(w.warm_up_condensate), scalar(w.mean_condensate_rate)
+        running = scalar(w.running_condensate_rate)
+        notes += w.warning_messages()
+        cautions += w.cautions
+    except InputError as exc:
+        warm_note = str(exc)
+    return TransientView(
+        initial_temperature=case.fluid_temperature, cool_to_temperature=final, air_temperature=case.air_temperature,
+        cool_down_time=cool, cool_down_note=cool_note, steam_pressure=i.warm_up_pressure,
+        saturation_temperature=sat, start_temperature=start, warm_up_time=i.warm_up_time,
+        warm_up_condensate=condensate, mean_condensate_rate=mean, running_condensate_rate=running,
+        warm_up_note=warm_note, notes=tuple(dict.fromkeys(notes)), cautions=tuple(dict.fromkeys(cautions)))

@@ -1,13 +1,14 @@
-"""Insulation thickness: surface temperature and heat flow against thickness, with the sizings of convlib.design."""
+"""Insulation thickness: surface temperature and heat flow against thickness, with the sizings of convlib.design;
+bare valves and flange pairs on the line (convlib.fittings)."""
 from __future__ import annotations
 
 import html
 
 import ipywidgets as widgets
 import traitlets
-from ..compute import TOUCH_LIMITS, InsulationView
+from ..compute import FITTINGS_NEED_NPS, PRESSURE_CLASSES, TOUCH_LIMITS, FittingsView, InsulationView
 from ..figures import insulation_figure
-from .base import Panel, message_html
+from .base import Panel, card_html, card_value_text, message_html
 from .controls import DESCRIPTION_STYLE, QuantityControl
 
 __all__ = ["InsulationPanel"]
@@ -32,6 +33,14 @@ class InsulationPanel(Panel):
         Size in still air (worst case) instead of the case's wind (heat loss; touch is always in still air).
     hottest_air_temperature : float or None
         Design hottest ambient of the touch sizing [K]; ``None`` until set: it follows the case's air.
+    fittings : FittingsView or None
+        Bare valves and flange pairs on the line (set by the app).
+    pipe_nps : float or None
+        NPS of the line when the line panel sizes it by NPS (set by the app); the bare items need it.
+    valves, flange_pairs : int
+        Bare valves and bare flange pairs on the line.
+    pressure_class : int
+        ASME B16.5 class of the flanges and valves (150 or 300).
     """
 
     view = traitlets.Instance(InsulationView, allow_none=True)
@@ -40,9 +49,15 @@ class InsulationPanel(Panel):
     heat_loss_limit = traitlets.Float(60.0)
     still_air = traitlets.Bool(True)
     hottest_air_temperature = traitlets.Float(None, allow_none=True)
+    fittings = traitlets.Instance(FittingsView, allow_none=True)
+    pipe_nps = traitlets.Float(None, allow_none=True)
+    valves = traitlets.Int(0)
+    flange_pairs = traitlets.Int(0)
+    pressure_class = traitlets.Int(PRESSURE_CLASSES[0])
 
-    #: Every setting the sizing depends on besides the case.
-    SETTINGS = ("surface_limit", "heat_loss_limit", "still_air", "hottest_air_temperature")
+    #: Every setting the sizing and the bare items depend on besides the case.
+    SETTINGS = ("surface_limit", "heat_loss_limit", "still_air", "hottest_air_temperature", "valves", "flange_pairs",
+                "pressure_class")
 
     def __init__(self, heat_loss_limit: float = 60.0, **kwargs):
         super().__init__(**kwargs)
@@ -62,18 +77,82 @@ class InsulationPanel(Panel):
         self.summary = widgets.HTML()
         self.summary.add_class("cl-table")
         self._fill_touch()
+        count = dict(min=0, max=999, step=1, style=DESCRIPTION_STYLE, layout=widgets.Layout(width="260px"))
+        self.valve_box = widgets.BoundedIntText(value=0, description="Bare valves", **count)
+        self.flange_box = widgets.BoundedIntText(value=0, description="Bare flange pairs", **count)
+        self.class_box = widgets.Dropdown(options=[(f"Class {c}", c) for c in PRESSURE_CLASSES],
+                                          value=PRESSURE_CLASSES[0], description="Pressure class",
+                                          style=DESCRIPTION_STYLE, layout=widgets.Layout(width="290px"))
+        for box, name in ((self.valve_box, "valves"), (self.flange_box, "flange_pairs"),
+                          (self.class_box, "pressure_class")):
+            box.add_class(f"cl-control-{name.replace('_', '-')}")
+            traitlets.link((box, "value"), (self, name))
+        self.fittings_hint = widgets.HTML()
+        self.fittings_hint.add_class("cl-hint")
+        self.fittings_card, self.equivalent_card = widgets.HTML(), widgets.HTML()
+        for card, key in ((self.fittings_card, "fittings"), (self.equivalent_card, "equivalent-length")):
+            card.add_class("cl-card")
+            card.add_class(f"cl-card-{key}")
+        self.fittings_cards = widgets.HBox([self.fittings_card, self.equivalent_card],
+                                           layout=widgets.Layout(flex_flow="row wrap", width="100%"))
+        self.fittings_notes = widgets.HTML()
+        self.fittings_section = widgets.VBox([
+            widgets.HTML('<div class="cl-section">Bare valves and flanges</div>'),
+            widgets.HBox([self.valve_box, self.flange_box, self.class_box],
+                         layout=widgets.Layout(flex_flow="row wrap")),
+            self.fittings_hint, self.fittings_cards, self.fittings_notes],
+            layout=widgets.Layout(width="100%"))
         self.children = [widgets.HBox([self.touch_box, self.hottest_control.box, self.limit_control.box],
                                       layout=widgets.Layout(flex_flow="row wrap")),
-                         self.conditions, self.message, self.plot_box, self.summary]
+                         self.conditions, self.message, self.plot_box, self.summary, self.fittings_section]
+        self._render_fittings()
 
     def interactive(self):
-        return [self.touch_box, self.hottest_control, self.limit_control, self.conditions]
+        return [self.touch_box, self.hottest_control, self.limit_control, self.conditions, self.valve_box,
+                self.flange_box, self.class_box]
+
+    def fittings_text(self) -> tuple[str, str]:
+        """Plain texts of the bare items' cards, extra heat and equivalent length (what the browser shows)."""
+        return card_value_text(self.fittings_card.value), card_value_text(self.equivalent_card.value)
+
+    @traitlets.observe("fittings", "pipe_nps", "applicable")
+    def _render_fittings(self, change=None):
+        if not hasattr(self, "fittings_card"):
+            return
+        off = "" if self.pipe_nps is not None else FITTINGS_NEED_NPS
+        f = self.fittings
+        if not off and f is not None and f.off and f.nps == self.pipe_nps:
+            off = f.off
+        if not self.busy:  # freeze()/unfreeze() own the controls during long work
+            for box in (self.valve_box, self.flange_box, self.class_box):
+                box.disabled = bool(off)
+        self.fittings_hint.value = html.escape(f"Off: {off}.") if off else html.escape(
+            "Each item at the fluid temperature, bare steel (ε 0.9); flange and valve sizes of ASME B16.5 and "
+            "B16.10 (convlib.fittings).")
+        self.fittings_cards.layout.display = "none" if off or f is None else None
+        self.fittings_notes.value = ""
+        if off or f is None:
+            return
+        d = self.display
+        self.fittings_card.value = card_html(
+            "Extra heat, bare items", d.number(f.extra_heat, "fitting_heat"), d.label("fitting_heat"),
+            f"valve {d.text(f.valve_extra_heat, 'fitting_heat')} · flange pair "
+            f"{d.text(f.flange_extra_heat, 'fitting_heat')}")
+        self.equivalent_card.value = card_html(
+            "Equivalent line", d.number(f.equivalent_length, "equivalent_length"), d.label("equivalent_length"),
+            f"valve {d.text(f.valve_equivalent_length, 'equivalent_length')} · flange pair "
+            f"{d.text(f.flange_equivalent_length, 'equivalent_length')}")
+        cautions = [n for n in f.notes if n.startswith("Caution")]
+        self.fittings_notes.value = message_html([n for n in f.notes if n not in cautions], "info", d) + \
+            message_html(cautions, "caution", d)
 
     def reset(self):
         super().reset()
         self.surface_limit = TOUCH_LIMITS[0][1]
         self.heat_loss_limit = self._default_limit
         self.still_air = True
+        self.valves = self.flange_pairs = 0
+        self.pressure_class = PRESSURE_CLASSES[0]
         self._hottest_set = False
         self.hottest_air_temperature = None
         self.limit_control.set_si(self._default_limit)
@@ -111,6 +190,7 @@ class InsulationPanel(Panel):
             self.limit_control.set_system(change["new"])
             self.hottest_control.set_system(change["new"])
             self._fill_touch()
+            self._render_fittings()
 
     @traitlets.observe("view", "units", "applicable")
     def _render(self, change=None):

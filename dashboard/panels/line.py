@@ -9,11 +9,11 @@ from pydantic import ValidationError
 
 from .. import settings
 from ..display import law_name, regime_text, scientific, shape_name
-from ..compute import SCHEDULES, SHAPES, CaseSpec, CaseSummary, law_keys, nominal_pipe, nominal_sizes
+from ..compute import SHAPES, SIZE_SYSTEMS, CaseSpec, CaseSummary, law_keys, size_grades, standard_sizes
 from .base import Panel, message_html, card_html, card_value_text
 from .controls import DESCRIPTION_STYLE, QuantityControl
 
-__all__ = ["LinePanel", "nps_label", "validation_text"]
+__all__ = ["LinePanel", "nps_label", "size_label", "validation_text"]
 
 _NUMERIC = ("diameter", "length", "height", "width", "surface_temperature", "fluid_temperature",
             "insulation_thickness", "insulation_conductivity", "air_temperature", "surroundings_temperature",
@@ -32,6 +32,29 @@ def nps_label(nps: float) -> str:
     whole, part = int(nps), Fraction(nps - int(nps)).limit_denominator(16)
     text = " ".join(p for p in (str(whole) if whole else "", str(part) if part else "") if p)
     return f"NPS {text or '0'}"
+
+
+def size_label(system: str, key: float, outer_diameter: float, display) -> str:
+    """Name of a standard size in the size list, with its outside diameter in the unit system of ``display``.
+
+    >>> from dashboard.display import Display
+    >>> size_label("dn", 100, 0.1143, Display("SI")), size_label("copper_en", 22.0, 0.022, Display("US"))
+    ('DN 100 · 114.3 mm', 'Cu 22 mm · 0.8661 in')
+    >>> size_label("copper_astm", 0.75, 0.022225, Display("US"))
+    'Cu 3/4 · 0.8750 in'
+    """
+    od = display.text(outer_diameter, "diameter")
+    if system == "nps":
+        name = nps_label(key)
+    elif system == "dn":
+        name = f"DN {key:g}"
+    elif system == "copper_en":
+        name = f"Cu {key:g} mm"
+        if display.system == "SI":
+            return name
+    else:
+        name = "Cu " + nps_label(key).removeprefix("NPS ")
+    return f"{name} · {od}"
 
 
 def validation_text(exc: Exception) -> str:
@@ -93,9 +116,13 @@ class LinePanel(Panel):
                                          description="Kind", style=DESCRIPTION_STYLE, layout=_WIDE)
         self.shape = widgets.Dropdown(options=[(shape_name(s), s) for s in SHAPES], description="Shape",
                                       style=DESCRIPTION_STYLE, layout=_WIDE)
-        self.size_mode = widgets.ToggleButtons(options=[("by value", "value"), ("NPS + schedule", "nps")],
+        self.size_mode = widgets.ToggleButtons(options=[("by value", "value"), ("standard size", "nps")],
                                                style={"button_width": "140px"})
-        self.schedule = widgets.Dropdown(options=list(SCHEDULES), value=settings.DEFAULT_SCHEDULE,
+        self.size_system = widgets.Dropdown(options=[(name, key) for key, (name, _) in SIZE_SYSTEMS.items()],
+                                            value="nps", description="Size system", style=DESCRIPTION_STYLE,
+                                            layout=_WIDE)
+        self.size_system.add_class("cl-control-size-system")
+        self.schedule = widgets.Dropdown(options=list(size_grades("nps")), value=settings.DEFAULT_SCHEDULE,
                                          description="Schedule", style=DESCRIPTION_STYLE, layout=_WIDE)
         self.nps = widgets.Dropdown(description="Pipe size", style=DESCRIPTION_STYLE, layout=_WIDE)
         self.same_surroundings = widgets.Checkbox(description="surroundings at the air temperature",
@@ -104,13 +131,14 @@ class LinePanel(Panel):
                                          style={"button_width": "140px"})
         self.natural = widgets.Dropdown(description="Natural law", style=DESCRIPTION_STYLE, layout=_WIDE)
         self.forced = widgets.Dropdown(description="Forced law", style=DESCRIPTION_STYLE, layout=_WIDE)
-        for w in (self.kind, self.shape, self.size_mode, self.schedule, self.nps, self.same_surroundings, self.sky,
-                  self.natural, self.forced):
+        for w in (self.kind, self.shape, self.size_mode, self.size_system, self.schedule, self.nps,
+                  self.same_surroundings, self.sky, self.natural, self.forced):
             w.observe(self._choice_changed, "value")
         self.kind.add_class("cl-control-kind")
         head = lambda text: widgets.HTML(f'<div class="cl-section">{text}</div>')  # noqa: E731
         self.inputs = widgets.VBox([
-            head("Line"), self.kind, self.shape, self.size_mode, self.nps, self.schedule, c["diameter"].box,
+            head("Line"), self.kind, self.shape, self.size_mode, self.size_system, self.nps, self.schedule,
+            c["diameter"].box,
             c["length"].box, c["height"].box, c["width"].box, c["surface_temperature"].box,
             c["fluid_temperature"].box, c["insulation_thickness"].box, c["insulation_conductivity"].box,
             head("Surroundings"), c["air_temperature"].box, self.same_surroundings,
@@ -134,8 +162,8 @@ class LinePanel(Panel):
 
     # ------------------------------------------------------------------ interface
     def interactive(self):
-        return [self.kind, self.shape, self.size_mode, self.schedule, self.nps, self.same_surroundings, self.sky,
-                self.natural, self.forced, *self.controls.values()]
+        return [self.kind, self.shape, self.size_mode, self.size_system, self.schedule, self.nps,
+                self.same_surroundings, self.sky, self.natural, self.forced, *self.controls.values()]
 
     def reset(self) -> None:
         """Back to the case the panel was built with."""
@@ -192,11 +220,14 @@ class LinePanel(Panel):
                 self.shape.value = "horizontal_cylinder"
             if owner in (self.kind, self.shape):
                 self._fill_laws(None, None)
+            if owner is self.size_system:
+                self._fill_grades()
+                self._fill_nps(None, diameter=self.controls["diameter"].si)
             if owner is self.schedule:
                 self._fill_nps(self.nps.value)
             if owner is self.sky and self.sky.value == "outdoors" and self.controls["sky_view_fraction"].si == 0:
                 self.controls["sky_view_fraction"].set_si(SHAPES[self._shape()].sky_view_fraction)
-            if self.size_mode.value == "nps" and owner in (self.nps, self.schedule, self.size_mode):
+            if self.size_mode.value == "nps" and owner in (self.nps, self.schedule, self.size_mode, self.size_system):
                 self._apply_nps()
             self._arrange()
         finally:
@@ -219,14 +250,30 @@ class LinePanel(Panel):
                                                                                  if k != default]
             widget.value = value if value in keys and value != default else DEFAULT_LAW
 
-    def _fill_nps(self, keep: float | None) -> None:
-        sizes = nominal_sizes(self.schedule.value)
-        display = self.display
-        options = [(f"{nps_label(n)} · {display.text(nominal_pipe(n, self.schedule.value).outer_diameter, 'diameter')}",
-                    n) for n in sizes]
-        self.nps.options = options
-        if keep is not None and sizes:
-            self.nps.value = min(sizes, key=lambda n: abs(n - keep))
+    def _sizes(self) -> list:
+        grades = size_grades(self.size_system.value)
+        return standard_sizes(self.size_system.value, self.schedule.value if grades else None)
+
+    def _fill_grades(self) -> None:
+        """The schedules (NPS) or types (ASTM B88) of the size system; hidden when it has none."""
+        system = self.size_system.value
+        grades, title = size_grades(system), SIZE_SYSTEMS[system][1]
+        if grades:
+            keep = self.schedule.value
+            self.schedule.options = list(grades)
+            self.schedule.value = keep if keep in grades else (settings.DEFAULT_SCHEDULE if system == "nps"
+                                                                else grades[1 if len(grades) > 1 else 0])
+            self.schedule.description = title
+
+    def _fill_nps(self, keep: float | None, diameter: float | None = None) -> None:
+        """The size list of the size system (values: NPS, DN, outside diameter [mm] or nominal size [in]),
+        keeping the size nearest ``keep`` (a key) or ``diameter`` [m]."""
+        sizes, system, display = self._sizes(), self.size_system.value, self.display
+        self.nps.options = [(size_label(system, s.key, s.outer_diameter, display), s.key) for s in sizes]
+        if sizes and keep is not None:
+            self.nps.value = min(sizes, key=lambda s: abs(s.key - keep)).key
+        elif sizes and diameter is not None:
+            self.nps.value = min(sizes, key=lambda s: abs(s.outer_diameter - diameter)).key
 
     def _refresh_nps_labels(self) -> None:
         quiet, self._quiet = self._quiet, True
@@ -237,16 +284,17 @@ class LinePanel(Panel):
 
     def _match_nps(self, diameter: float) -> bool:
         self._fill_nps(None)
-        for n in nominal_sizes(self.schedule.value):
-            if abs(nominal_pipe(n, self.schedule.value).outer_diameter - diameter) < 1e-6:
-                self.nps.value = n
+        for size in self._sizes():
+            if abs(size.outer_diameter - diameter) < 1e-6:
+                self.nps.value = size.key
                 return True
         return False
 
     def _apply_nps(self) -> None:
         if self.nps.value is None:
             return
-        self.controls["diameter"].set_si(nominal_pipe(self.nps.value, self.schedule.value).outer_diameter)
+        size = next(s for s in self._sizes() if s.key == self.nps.value)
+        self.controls["diameter"].set_si(size.outer_diameter)
 
     def _arrange(self) -> None:
         """Show only the controls that apply to the kind and shape."""
@@ -256,7 +304,9 @@ class LinePanel(Panel):
         self.shape.disabled = kind == "insulated"
         pipe = self._pipe_shape()
         nps = pipe and self.size_mode.value == "nps"
-        for w, visible in ((self.size_mode, pipe), (self.nps, nps), (self.schedule, nps)):
+        graded = bool(size_grades(self.size_system.value))
+        for w, visible in ((self.size_mode, pipe), (self.size_system, nps), (self.nps, nps),
+                           (self.schedule, nps and graded)):
             w.layout.display = None if visible else "none"
         c["diameter"].show("diameter" in sizes)
         c["diameter"].disabled = nps
@@ -306,7 +356,9 @@ class LinePanel(Panel):
             return
         self.error = ""
         self.set_message()
-        self.pipe_size = (self.nps.value if self.size_mode.value == "nps" else None, self.schedule.value)
+        by_nps = self.size_mode.value == "nps" and self.size_system.value == "nps"
+        self.pipe_size = (self.nps.value if by_nps else None,
+                          self.schedule.value if self.size_system.value == "nps" else settings.DEFAULT_SCHEDULE)
         self.case = case
 
     @traitlets.observe("opened")

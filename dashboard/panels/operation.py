@@ -1,13 +1,17 @@
-"""A line in operation: temperature along the flowing line, tracing duty and freeze time (convlib.operation)."""
+"""A line in operation: temperature along the flowing line, tracing duty and freeze time (convlib.operation),
+cool-down of the stopped line and warm-up condensate (convlib.transients)."""
 from __future__ import annotations
 
 import html
 
 import ipywidgets as widgets
+import numpy as np
 import plotly.graph_objects as go
 import traitlets
 from .. import settings
-from ..compute import CAUTION_FREEZE, CAUTION_TRACING, TRACING_MARGIN, OperationInputs, OperationView
+from ..compute import (CAUTION_COOL_DOWN, CAUTION_FREEZE, CAUTION_TRACING, CAUTION_WARM_UP, TRACING_MARGIN,
+                       COOL_DOWN_STEAM, OperationInputs, OperationView, TransientView)
+from ..display import Display
 from ..figures import TEMPLATE, operation_profile_figure, operation_sweep_figure
 from .base import InputsPanel, figure_widget, message_html, sync_figure, card_html, card_value_text
 from .controls import DESCRIPTION_STYLE, QuantityControl
@@ -22,11 +26,18 @@ _GROUPS = (
     ("Flow", ("mass_flow", "fluid_pressure")),
     ("Tracing", ("maintain_temperature", "design_air_temperature", "design_wind_speed", "tracing_margin")),
     ("Flow stopped", ("initial_temperature", "pipe_wall_thickness")),
+    ("Cool-down and warm-up", ("cool_to_temperature", "warm_up_pressure", "warm_up_time")),
 )
 #: Controls whose default follows the case until the user changes them.
-_FOLLOW_CASE = ("design_air_temperature", "pipe_wall_thickness")
+_FOLLOW_CASE = ("design_air_temperature", "pipe_wall_thickness", "cool_to_temperature", "warm_up_pressure")
 _CARDS = ("outlet_temperature", "condensate", "line_loss", "tracing_per_length", "time_to_freezing_point",
-          "time_to_frozen")
+          "time_to_frozen", "cool_down", "warm_up")
+
+
+#: Why a steam line has no cool-down time (:func:`dashboard.compute.transient_view`).
+_COOL_DOWN_STEAM = COOL_DOWN_STEAM
+#: Cool-down's final temperature before the line gives its own (halfway from the fluid to the air) [K].
+_COOL_TO = 333.15
 
 
 def _defaults() -> dict:
@@ -34,7 +45,9 @@ def _defaults() -> dict:
     return {"mass_flow": o["mass_flow"], "fluid_pressure": o["fluid_pressure"],
             "maintain_temperature": o["maintain_temperature"], "design_air_temperature": 253.15,
             "design_wind_speed": o["design_wind_speed"], "tracing_margin": TRACING_MARGIN,
-            "initial_temperature": o["initial_temperature"], "pipe_wall_thickness": o["pipe_wall_thickness"]}
+            "initial_temperature": o["initial_temperature"], "pipe_wall_thickness": o["pipe_wall_thickness"],
+            "cool_to_temperature": _COOL_TO, "warm_up_pressure": o["fluid_pressure"],
+            "warm_up_time": o["warm_up_time"]}
 
 
 class OperationPanel(InputsPanel):
@@ -44,18 +57,22 @@ class OperationPanel(InputsPanel):
     ------
     view : OperationView or None
         Results (set by the app).
+    transients : TransientView or None
+        Cool-down and warm-up of the line (set by the app).
     applicable : bool
         False for a bare surface (the panel says so instead of results).
     sweep_input : str
         Input of the sweeps (key of :data:`dashboard.settings.OPERATION_SWEEPS`).
     mass_flow, fluid_pressure, maintain_temperature, design_air_temperature, design_wind_speed,
-    tracing_margin, initial_temperature, pipe_wall_thickness : float
+    tracing_margin, initial_temperature, pipe_wall_thickness, cool_to_temperature, warm_up_pressure,
+    warm_up_time : float
         Inputs [SI], as in :class:`dashboard.compute.OperationInputs`.
     service : str
         What the line carries, a key of :data:`dashboard.settings.OPERATION_SERVICES`.
     """
 
     view = traitlets.Instance(OperationView, allow_none=True)
+    transients = traitlets.Instance(TransientView, allow_none=True)
     applicable = traitlets.Bool(True)
     sweep_input = traitlets.Unicode("wind_speed")
     mass_flow = traitlets.Float(settings.OPERATION["mass_flow"])
@@ -66,6 +83,9 @@ class OperationPanel(InputsPanel):
     tracing_margin = traitlets.Float(TRACING_MARGIN)
     initial_temperature = traitlets.Float(settings.OPERATION["initial_temperature"])
     pipe_wall_thickness = traitlets.Float(settings.OPERATION["pipe_wall_thickness"])
+    cool_to_temperature = traitlets.Float(_COOL_TO)
+    warm_up_pressure = traitlets.Float(settings.OPERATION["fluid_pressure"])
+    warm_up_time = traitlets.Float(settings.OPERATION["warm_up_time"])
     service = traitlets.Unicode("water")
 
     INPUTS = tuple(name for _, names in _GROUPS for name in names)
@@ -163,6 +183,54 @@ class OperationPanel(InputsPanel):
                        d.label("freeze_time"),
                        "after the flow stops")
 
+    def _render_transients(self, t: TransientView) -> None:
+        d = self.display
+        if np.isfinite(t.cool_down_time):
+            value, unit, sub = (d.number(t.cool_down_time, "cool_down_time"), d.label("cool_down_time"),
+                                f"from {d.text(t.initial_temperature, 'fluid_temperature')}, no flow")
+        elif np.isinf(t.cool_down_time):
+            value, unit, sub = "never", "", "settles before it (surroundings)"
+        else:
+            value, unit, sub = "–", "", ("liquid-filled lines only" if t.cool_down_note == _COOL_DOWN_STEAM
+                                         else "see the note below")
+        self._card("cool_down", f"Stopped: to {d.text(t.cool_to_temperature, 'cool_to_temperature')}", value, unit,
+                   sub)
+        if np.isfinite(t.warm_up_condensate):
+            self._card("warm_up", "Warm-up condensate", d.number(t.warm_up_condensate, "warm_up_condensate"),
+                       d.label("warm_up_condensate"),
+                       f"mean {d.text(t.mean_condensate_rate, 'condensate_rate')} over "
+                       f"{d.text(t.warm_up_time, 'warm_up_time')}")
+        else:
+            self._card("warm_up", "Warm-up condensate", "–", "", "see the note below")
+
+    def _transient_notes(self) -> str:
+        t, d = self.transients, self.display
+        if t is None:
+            return ""
+        reasons = [f"{what}: {note}" for what, note in (("Cool-down", t.cool_down_note), ("Warm-up", t.warm_up_note))
+                   if note and note != _COOL_DOWN_STEAM]
+        assumptions = (f"Cool-down and warm-up: the line stops at {d.text(t.initial_temperature, 'fluid_temperature')} in "
+                       f"the case's air and wind; warm-up from {d.text(t.start_temperature, 'air_temperature')} with "
+                       f"steam at {d.text(t.steam_pressure, 'warm_up_pressure')} abs. "
+                       f"({d.text(t.saturation_temperature, 'fluid_temperature')}), half the running loss counted.")
+        return (f'<div class="cl-hint">{html.escape(assumptions)}</div>' + message_html(reasons, "warning", d)
+                + message_html([*t.notes], "warning", d))
+
+    @traitlets.observe("transients")
+    def _transients_changed(self, change=None):
+        if hasattr(self, "results") and self.applicable and self.transients is not None:
+            self._render_transients(self.transients)
+            if self.view is not None:
+                self._render_notes(self.view)
+
+    def _render_notes(self, v: OperationView) -> None:
+        d = self.display
+        cautions = (*(v.cautions or (CAUTION_FREEZE, CAUTION_TRACING)),
+                    *(self.transients.cautions if self.transients is not None else (CAUTION_COOL_DOWN,
+                                                                                    CAUTION_WARM_UP)))
+        self.notes.value = (message_html(v.notes, "warning", d) + self._transient_notes()
+                            + message_html(tuple(dict.fromkeys(cautions)), "caution", d))
+
     # ------------------------------------------------------------------ rendering
     def _show_sweep_figure(self, fig: go.Figure) -> None:
         if fig.layout.width is None:
@@ -196,16 +264,25 @@ class OperationPanel(InputsPanel):
                                   f"{html.escape(carries)}. Tracing and freeze: coldest air, strongest wind, no sun.")
         self.show_figure(operation_profile_figure(v, d))
         self._show_sweep_figure(operation_sweep_figure(v, d))
-        self.notes.value = message_html(v.notes, "warning", d) + message_html(
-            v.cautions or (CAUTION_FREEZE, CAUTION_TRACING), "caution", d)
-        self.site.value = _site_table(v.site_rows)
+        if self.transients is not None:
+            self._render_transients(self.transients)
+        self._render_notes(v)
+        self.site.value = _site_table(v.site_rows, d)
         self.set_message()
 
 
-def _site_table(rows) -> str:
-    """The demo site's lines in operation as short lines (numbers from convlib.demo, SI units)."""
+def _site_table(rows, display: Display | None = None) -> str:
+    """The demo site's lines in operation as short lines (numbers from convlib.demo) in the unit system of
+    ``display`` (SI: the texts of convlib.demo, as the command line prints them)."""
     if not rows:
         return ""
-    body = "".join(f"<div><b>{html.escape(r['tag'])}</b> &middot; {html.escape(r['what'])}: "
-                   f"{html.escape(r['result'])}</div>" for r in rows)
-    return f'<div class="cl-section">Demo site in operation (SI units)</div><div class="cl-hint">{body}</div>'
+    display = display or Display("SI")
+
+    def texts(r):
+        if display.system == "SI" or "values" not in r:
+            return r["what"], r["result"]
+        return display.fill(r["what_template"], r["values"]), display.fill(r["result_template"], r["values"])
+
+    body = "".join(f"<div><b>{html.escape(r['tag'])}</b> &middot; {html.escape(what)}: {html.escape(result)}</div>"
+                   for r in rows for what, result in (texts(r),))
+    return f'<div class="cl-section">Demo site in operation</div><div class="cl-hint">{body}</div>'

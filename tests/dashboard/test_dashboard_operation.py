@@ -1,6 +1,8 @@
 """Headless tests of the "In operation" panel: cards and figures equal convlib.operation called directly."""
 from __future__ import annotations
 
+import html
+
 import numpy as np
 import pytest
 from convlib import operation as op
@@ -180,10 +182,82 @@ def test_demo_site_lines_in_operation_are_listed_with_convlib_numbers():
 
     from dashboard import compute
 
-    rows, _ = operation_rows(load_demo_site()["operation"])
+    rows, _ = operation_rows(load_demo_site()["operation"], numbers=True)
     assert compute.demo_site_operation() == tuple(rows)
+    plain, _ = operation_rows(load_demo_site()["operation"])
+    assert [{k: r[k] for k in ("tag", "what", "result")} for r in rows] == plain  # what the command line prints
     from dashboard.panels.operation import _site_table
 
-    table = _site_table(compute.demo_site_operation())
-    for row in rows:  # long line, traced line, outdoor water line, tank
+    table = _site_table(compute.demo_site_operation(), Display("SI"))
+    assert "(SI units)" not in table
+    for row in rows:  # long line, steam main, traced line, outdoor water line, tank
         assert row["tag"] in table and html.escape(row["result"]) in table
+
+
+def test_demo_site_lines_in_operation_read_in_us_units(app, panel):
+    import html
+
+    app.units_switch.value = "US"
+    table = html.unescape(panel.site.value)
+    rows = {r["tag"]: r for r in panel.view.site_rows}
+    # conversions by the exact factors of NIST SP 811 (2008), appendix B: 1 ft = 0.3048 m, 1 lb = 0.45359237 kg,
+    # 1 mph = 0.44704 m/s, t[°F] = 1.8 t[°C] + 32, 1 Btu_IT/h = 0.29307107 W
+    long_line = rows["FH-150"]["values"]
+    assert long_line["length"]["value"] == 1400.0 and "outlet after 4,593 ft" in table      # 1400 / 0.3048 = 4593.2
+    assert long_line["mass_flow"]["value"] == 12.0 and "at 95,240 lb/h" in table             # 12*3600/0.45359237
+    assert "239.0 °F ->" in table                                                              # 115 °C
+    assert "26.8 mph" in table and "-7.6 °F" in table                                          # 12 m/s; -22 °C
+    loss = long_line["loss"]["value"]
+    assert f"loss {round(loss / 0.29307107):,} Btu/h" in table
+    tank = rows["FH-T2"]["values"]
+    assert f"tank {tank['diameter']['value'] / 0.3048:.2f} ft x {tank['height']['value'] / 0.3048:.2f} ft" in table
+    assert "psi(a)" in table and "Btu/h·ft" in table and " h," in table
+    for si in ("°C", " kW", "kg/", " m ", "m/s", "W/m", "bar"):
+        assert si not in table, si
+    app.units_switch.value = "SI"
+    assert "1400 m at 12 kg/s" in html.unescape(panel.site.value)
+
+
+def _transient_options(case):
+    return dict(jacket_emissivity=case.emissivity, air_temperature=case.air_temperature, wind_speed=case.wind_speed,
+                sky_view_fraction=case.sky_view_fraction, pressure=case.pressure)
+
+
+def test_cool_down_and_warm_up_cards_equal_convlib_transients(app, panel, study):
+    from convlib.transients import CAUTION_COOL_DOWN, CAUTION_WARM_UP, cool_down_time, warm_up_condensate
+
+    case = study.case
+    wall = nominal_pipe(6, "40").wall_thickness
+    # defaults that follow the line: halfway from 160 to 8 degC, steam saturated at the fluid temperature
+    assert panel.cool_to_temperature == pytest.approx(273.15 + 84.0)
+    # IAPWS-IF97 (Wagner et al. 2000, saturation table): 160 degC saturates at 6.18 bar; default to 0.1 bar
+    assert panel.warm_up_pressure == pytest.approx(6.2e5)
+    panel.controls["cool_to_temperature"].widget.value = 100.0  # °C
+    panel.controls["warm_up_pressure"].widget.value = 8.0       # bar(a)
+    panel.controls["warm_up_time"].widget.value = 45.0          # min
+    assert panel.warm_up_time == pytest.approx(2700.0) and panel.warm_up_pressure == pytest.approx(8e5)
+    cool = cool_down_time(case.diameter, wall, case.fluid_temperature, 373.15, _layers(case),
+                          fluid_pressure=panel.fluid_pressure, **_transient_options(case))
+    warm = warm_up_condensate(case.diameter, wall, 8e5, case.air_temperature, 2700.0, _layers(case),
+                              length=case.length, **_transient_options(case))
+    for system in ("SI", "US"):
+        app.units_switch.value = system
+        d = Display(system)
+        assert panel.card_text("cool_down") == d.text(float(cool.time), "cool_down_time")
+        assert panel.card_text("warm_up") == d.text(float(warm.warm_up_condensate), "warm_up_condensate")
+        assert d.text(float(warm.mean_condensate_rate), "condensate_rate") in panel.cards["warm_up"].value
+        assert d.text(373.15, "cool_to_temperature") in panel.cards["cool_down"].value
+    assert panel.card_text("warm_up").endswith(" lb") and panel.card_text("cool_down").endswith(" h")
+    notes = html.unescape(panel.notes.value)
+    for caution in (CAUTION_COOL_DOWN, CAUTION_WARM_UP):
+        assert caution in notes
+
+
+def test_cool_down_past_the_air_says_why_and_steam_has_none(app, panel, study):
+    panel.controls["cool_to_temperature"].widget.value = 0.0  # °C: below the 8 °C air, a line never gets there
+    assert panel.card_text("cool_down") == "–"
+    assert "same side of the air" in html.unescape(panel.notes.value)
+    assert panel.card_text("warm_up").endswith(" kg")  # the warm-up still shows
+    panel.controls["fluid_pressure"].widget.value = "3.5"
+    panel.service_box.value = "steam"
+    assert "liquid-filled lines only" in panel.cards["cool_down"].value

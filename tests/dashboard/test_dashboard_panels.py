@@ -281,3 +281,74 @@ def test_every_shape_renders_every_panel(app, shape):
     assert ("diameter" in names) == (shape in ("horizontal_cylinder", "vertical_cylinder", "sphere"))
     assert app.line.card_text("q_per_length") == Display().text(
         abs(float(evaluate_case(app.line.case).q_per_length)), "q_per_length")
+
+
+# ----------------------------------------------------------------------------- bare valves and flange pairs
+def test_bare_valves_and_flanges_equal_convlib_fittings(app):
+    from convlib.fittings import bare_flange_pair, bare_valve
+    from convlib.pipe import Layer
+
+    from dashboard.display import Display
+
+    show(app, "insulation")
+    panel, case = app.insulation, app.line.case
+    assert app.store.pipe_size[0] == 6.0 and not panel.valve_box.disabled  # the demo line is NPS 6
+    panel.valve_box.value, panel.flange_box.value, panel.class_box.value = 2, 3, 300
+    layers = [Layer(case.insulation_thickness, case.insulation_conductivity),
+              Layer(case.jacket_thickness, case.jacket_conductivity)]
+    around = dict(pressure_class=300, layers=layers, jacket_emissivity=case.emissivity,
+                  air_temperature=case.air_temperature, wind_speed=case.wind_speed,
+                  sky_view_fraction=case.sky_view_fraction, pressure=case.pressure)
+    valve = bare_valve(6, case.fluid_temperature, **around)
+    flange = bare_flange_pair(6, case.fluid_temperature, **around)
+    heat = 2 * float(valve.extra_heat) + 3 * float(flange.extra_heat)
+    length = 2 * float(valve.equivalent_length) + 3 * float(flange.equivalent_length)
+    for system in ("SI", "US"):
+        app.units_switch.value = system
+        d = Display(system)
+        assert panel.fittings_text() == (d.text(heat, "fitting_heat"), d.text(length, "equivalent_length"))
+        assert d.text(float(valve.extra_heat), "fitting_heat") in panel.fittings_card.value
+    assert panel.fittings_text()[0].endswith("Btu/h") and panel.fittings_text()[1].endswith("ft")
+    # 1 ft = 0.3048 m exactly (NIST SP 811, appendix B)
+    assert float(panel.fittings_text()[1].split()[0].replace(",", "")) == pytest.approx(length / 0.3048, rel=2e-3)
+    assert "burn hazard" in panel.fittings_notes.value
+    # sized by value: no NPS, the controls are off and say why
+    app.line.size_mode.value = "value"
+    assert panel.valve_box.disabled and panel.class_box.disabled and "NPS" in panel.fittings_hint.value
+    assert panel.fittings_cards.layout.display == "none"
+    app.line.size_mode.value = "nps"
+    assert not panel.valve_box.disabled and panel.fittings_cards.layout.display is None
+
+
+def test_bare_valves_off_for_a_size_the_tables_lack(app):
+    show(app, "insulation")
+    app.insulation.valve_box.value = 1
+    app.line.nps.value = 3.5  # ASME B16.10 gate valves: no NPS 3 1/2 in convlib's table
+    assert app.insulation.valve_box.disabled and "3.5" in app.insulation.fittings_hint.value
+
+
+# ----------------------------------------------------------------------------- size systems beside NPS
+def test_dn_and_copper_sizes_set_the_diameter(app, study):
+    line = app.line
+    assert line.size_system.value == "nps" and line.pipe_size == (6.0, "40")  # NPS unchanged by default
+    line.size_system.value = "dn"
+    assert line.schedule.layout.display == "none"  # EN 10220 implies no wall: no schedule
+    assert line.nps.value == 150 and line.case.diameter == pytest.approx(0.1683)  # nearest: DN 150
+    line.nps.value = 100
+    assert line.case.diameter == pytest.approx(0.1143)  # EN 10220 series 1: DN 100 is 114.3 mm
+    assert line.pipe_size == (None, "40")  # the bare items and the wall need an NPS
+    case = study.case.model_copy(update={"diameter": 0.1143})
+    assert line.card_text("q_per_length") == _q_text("SI", evaluate_case(case).q_per_length)
+    line.size_system.value = "copper_astm"
+    assert line.schedule.description == "Type" and list(line.schedule.options) == ["K", "L", "M"]
+    line.nps.value = 0.75
+    assert line.case.diameter == pytest.approx(0.875 * 0.0254)  # ASTM B88: 3/4 tube is 0.875 in outside
+    line.size_system.value = "copper_en"
+    line.nps.value = 22.0
+    assert line.case.diameter == pytest.approx(0.022)  # EN 1057: 22 mm outside
+    app.units_switch.value = "US"
+    assert ("Cu 22 mm · 0.8661 in", 22.0) in line.nps.options  # 22 / 25.4 = 0.86614 in
+    line.size_system.value = "nps"
+    line.nps.value = 4.0
+    assert line.case.diameter == nominal_pipe(4, "40").outer_diameter and line.pipe_size == (4.0, "40")
+    assert ("NPS 4 · 4.500 in", 4.0) in line.nps.options  # ASME B36.10M: NPS 4 is 4.500 in
