@@ -179,6 +179,29 @@ def _layers(cell, unit: str | None, allow_unusual: bool = False) -> list[dict]:
     return layers
 
 
+def _size_problems(cells: dict, values: dict) -> list[str]:
+    """Problems of the pipe's size: exactly one of nps (with schedule), size and outer_diameter; a ``size`` becomes
+    the outer diameter (``values`` updated in place)."""
+    problems = []
+    sizes = [name for name in ("nps", "size", "outer_diameter") if not _blank(cells.get(name))]
+    if len(sizes) != 1:  # (a bad cell is reported above)
+        problems.append("nps / size / outer_diameter: give the pipe as nps (with schedule), as size (e.g. DN100, "
+                        "CU22x1.0, B88-3/4-L) or as outer_diameter, one of them")
+    elif "size" in values:
+        try:
+            values["outer_diameter"] = pipe_size(values.pop("size")).outer_diameter
+        except InputError as exc:
+            problems.append(f"size: {exc}")
+    elif "nps" in values:
+        if "schedule" in values:  # 40.0 from a numeric spreadsheet column, std, 10s
+            values["schedule"] = re.sub(r"^(\d+)\.0*$", r"\1", values["schedule"]).upper()
+        try:
+            nominal_pipe(values["nps"], values.get("schedule", "40"))
+        except InputError as exc:
+            problems.append(f"{'nps' if 'NPS' in str(exc) else 'schedule'}: {exc}")
+    return problems
+
+
 def _parse_row(row: int, cells: dict, units: dict, allow_unusual: bool = False) -> ParsedLine | RowError:
     """One row (column -> raw cell) to a :class:`ParsedLine`, or a :class:`RowError` listing every problem."""
     problems, values = [], {}
@@ -221,22 +244,7 @@ def _parse_row(row: int, cells: dict, units: dict, allow_unusual: bool = False) 
                             f"got {cells[name]!r}")
     if hours is not None and hours > 8784.0:
         problems.append(f"operating_hours: {hours:g} h is more than a (leap) year of 8784 h")
-    sizes = [name for name in ("nps", "size", "outer_diameter") if not _blank(cells.get(name))]
-    if len(sizes) != 1:  # (a bad cell is reported above)
-        problems.append("nps / size / outer_diameter: give the pipe as nps (with schedule), as size (e.g. DN100, "
-                        "CU22x1.0, B88-3/4-L) or as outer_diameter, one of them")
-    elif "size" in values:
-        try:
-            values["outer_diameter"] = pipe_size(values.pop("size")).outer_diameter
-        except InputError as exc:
-            problems.append(f"size: {exc}")
-    elif "nps" in values:
-        if "schedule" in values:  # 40.0 from a numeric spreadsheet column, std, 10s
-            values["schedule"] = re.sub(r"^(\d+)\.0*$", r"\1", values["schedule"]).upper()
-        try:
-            nominal_pipe(values["nps"], values.get("schedule", "40"))
-        except InputError as exc:
-            problems.append(f"{'nps' if 'NPS' in str(exc) else 'schedule'}: {exc}")
+    problems += _size_problems(cells, values)
     if problems:
         return RowError(row, tag, "; ".join(problems))
     fittings = {name: values.pop(name) for name in FITTING_EQUIVALENT_LENGTH if name in values}
