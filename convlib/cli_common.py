@@ -14,7 +14,7 @@ from .design import CAUTION_CONDENSATION, CONDENSATION_MARGIN, TOUCH_LIMIT_METAL
 from .errors import InputError
 from .layer_text import layer_conductivity, split_layer
 from .pipe import Layer
-from .pipe_sizes import SCHEDULES, nominal_pipe, pipe_size
+from .pipe_sizes import COPPER_WALL, SCHEDULES, is_copper, nominal_pipe, pipe_size
 from .properties import dew_point
 from .cautions import CAUTION_COLD_SURFACE, CAUTION_HOT_SURFACE
 from .units import INPUTS, KIND_SI_UNIT, display_unit, from_si, help_units, read
@@ -273,15 +273,12 @@ def pipe_diameter(args) -> float:
     return value(args, "pipe_outer_diameter")
 
 
-#: Pure copper at 300 K: density [kg/m3] and specific heat [J/kg/K] (Incropera et al., Fundamentals of Heat and
-#: Mass Transfer, 6th ed., Table A.1, from memory), for the heat capacity of a copper tube's wall.
-COPPER_WALL = {"pipe_density": 8933.0, "pipe_specific_heat": 385.0}
 
 
 def wall_material(args) -> dict:
     """Density and specific heat of the pipe wall for a copper --size (else the steel defaults of the library)."""
     size = getattr(args, "size", None)
-    if size is not None and pipe_size(size).schedule.startswith(("EN 1057", "ASTM B88")):
+    if size is not None and is_copper(pipe_size(size)):
         return dict(COPPER_WALL)
     return {}
 

@@ -177,7 +177,8 @@ def weather_bins(args):
 
 
 #: SI units of the per-line and total fields of `lines --json` (one table with cli_common.FIELDS).
-LINE_UNITS = {"length": "m", "equivalent_length": "m", "outer_diameter": "m", "fluid_temperature": "K",
+LINE_UNITS = {"cool_down_time": "s", "warm_up_condensate": "kg", "length": "m", "equivalent_length": "m",
+              "outer_diameter": "m", "fluid_temperature": "K",
                "air_temperature": "K", "surface_temperature": "K", "dew_point": "K", "q_per_length": "W/m",
                "q_total": "W", "operating_hours": "h", "heat_kwh": "kWh", "purchased_kwh": "kWh", "co2_kg": "kg",
                "outlet_temperature": "K", "freezing_position": "m", "tracing_duty_per_length": "W/m",

@@ -44,6 +44,12 @@ column                 default   meaning [default unit]
 ``steam_pressure``     none      absolute pressure of a saturated steam line [Pa]: condensate formed by
                                  the line's loss (:func:`convlib.operation.condensate_rate`); the
                                  fluid temperature should be the saturation temperature (else a note)
+``pipe_wall_thickness`` table    the pipe wall [m] for cool-down and warm-up (default: the NPS schedule's or the
+                                 named size's wall; a DN size names none)
+``cool_down_to``       none      temperature a stopped line cools to [K]: ``cool_down_time`` [s]
+                                 (:func:`convlib.transients.cool_down_time`, the wall steel or copper by size)
+``warm_up_time``       none      with ``steam_pressure``: time to bring the line to saturation [s] from the design
+                                 air: ``warm_up_condensate`` [kg] (:func:`convlib.transients.warm_up_condensate`)
 =====================  ========  ======================================================================
 
 Give each line one of ``nps``, ``size`` or ``outer_diameter``. Columns with an empty header are ignored; an
@@ -114,6 +120,8 @@ from .files import write_atomic
 from .linelist_read import (COLUMNS, FORMULA_PREFIXES, HOURS_PER_YEAR, MAX_BYTES, MAX_CELLS, MAX_ROWS,
                             OPERATION_COLUMNS, OUTDOOR_SKY_VIEW_FRACTION, REQUIRED,
                             ParsedLine, RowError, demo_lines_path, read_line_list)
+from .pipe_sizes import COPPER_WALL, nominal_pipe
+from .transients import cool_down_time, warm_up_condensate
 from .operation import (CAUTION_LINE_FREEZE, condensate_rate, line_temperature_profile, saturation_temperature,
                         tracing_duty)
 from .materials import layer as material_layer, service_warnings
@@ -173,6 +181,8 @@ class LineListResult:
     tracing_duty: np.ndarray               # over the equivalent length [W]
     bare_fittings_heat: np.ndarray         # extra heat of bare valves and flange pairs, in q_total [W]
     condensate: np.ndarray                 # NaN without steam_pressure [kg/s]
+    cool_down_time: np.ndarray             # NaN without cool_down_to: stopped line to that temperature [s]
+    warm_up_condensate: np.ndarray         # NaN without warm_up_time: condensed heating the wall [kg]
     notes: tuple[str, ...]
     errors: tuple[RowError, ...] = ()
     settings: dict = field(default_factory=dict)
@@ -193,7 +203,7 @@ class LineListResult:
         positive [W], [kWh/yr]; ``lines_losing`` and ``lines_gaining`` count them (at the design conditions).
         Purchased energy, cost and CO2 are sums of per-line figures, each already on the right side.
         ``annual_basis`` says what the annual figures assume (see :attr:`warnings`)."""
-        sums = {name: float(np.nansum(getattr(self, name))) for name in _SUMMED}
+        sums = {name: float(np.nansum(getattr(self, name))) for name in SUMMED}
         return {"lines": len(self), "rows_with_errors": len(self.errors), **sums,
                 "lines_losing": int(np.sum(self.q_total > 0)), "lines_gaining": int(np.sum(self.q_total < 0)),
                 "annual_basis": "weather bins" if self.settings.get("weather_bins") else ANNUAL_BASIS_DESIGN,
@@ -221,7 +231,8 @@ class LineListResult:
                 for row in zip(*values)]
 
 
-_SUMMED = ("length", "equivalent_length", "q_lost", "q_gained", "heat_lost_kwh", "heat_gained_kwh", "purchased_kwh",
+#: Fields of LineListResult summed in its totals (heat lost and gained apart).
+SUMMED = ("length", "equivalent_length", "q_lost", "q_gained", "heat_lost_kwh", "heat_gained_kwh", "purchased_kwh",
            "cost", "co2_kg", "tracing_duty", "condensate", "bare_fittings_heat")
 
 ANNUAL_BASIS_DESIGN = "design air for all operating hours"
@@ -441,6 +452,62 @@ def _in_operation(c: _Columns, ok, q_total, notes) -> dict:
     return out
 
 
+def _pipe_walls(c: _Columns) -> np.ndarray:
+    """Each line's pipe wall [m]: the ``pipe_wall_thickness`` column (or a named size's wall), else its NPS and
+    schedule's, else NaN."""
+    wall = c.given("pipe_wall_thickness")
+    for i in np.flatnonzero(np.isnan(wall)):
+        spec = c.specs[i]
+        if spec.nps is not None:
+            wall[i] = nominal_pipe(spec.nps, spec.schedule).wall_thickness
+    return wall
+
+
+def _stops_and_starts(c: _Columns, ok, notes) -> dict:
+    """Cool-down time of a stopped line to ``cool_down_to`` and the warm-up condensate of a steam line over
+    ``warm_up_time`` from the design air (:mod:`convlib.transients`); a line without a known pipe wall, or one
+    the physics refuses, gets a note instead."""
+    n = c.n
+    out = {"cool": np.full(n, np.nan), "warm": np.full(n, np.nan)}
+    cool_to, warm_time, steam = c.given("cool_down_to"), c.given("warm_up_time"), c.given("steam_pressure")
+    wanted = ok & (~np.isnan(cool_to) | ~np.isnan(warm_time))
+    wall = _pipe_walls(c) if wanted.any() else np.full(n, np.nan)
+    fluid_pressure = c.col(g.get("fluid_pressure", 101325.0) for g in c.operation)
+    for i in np.flatnonzero(wanted & np.isnan(wall)):
+        notes[int(i)].append("cool-down / warm-up not computed: give the pipe wall (nps, a size with a wall, or "
+                             "pipe_wall_thickness)")
+    exposure = lambda i: dict(air_temperature=c.ta[i], wind_speed=c.wind[i], jacket_emissivity=c.eps[i],  # noqa: E731
+                              sky_view_fraction=c.sky[i], sky_temperature=c.sky_of(c.ta[i], i))
+
+    def cool(i):
+        given = c.operation[int(i[0])]
+        r = cool_down_time(c.d[i], wall[i], c.tf[i], cool_to[i], c.layers(i, extra_axis=False),
+                           fluid=given.get("fluid", "Water"), fluid_pressure=fluid_pressure[i], **exposure(i),
+                           **(COPPER_WALL if given.get("wall_material") == "copper" else {}))
+        out["cool"][i] = np.where(r.never_reaches, np.nan, r.time)
+        for j in np.asarray(i)[np.atleast_1d(r.never_reaches)]:
+            notes[int(j)].append(f"a stopped line settles before {cool_to[j] - 273.15:.1f} degC: no cool-down time")
+
+    def warm(i):
+        copper = c.operation[int(i[0])].get("wall_material") == "copper"
+        r = warm_up_condensate(c.d[i], wall[i], steam[i], c.ta[i], warm_time[i], c.layers(i, extra_axis=False),
+                               length=c.leq[i], **exposure(i), **(COPPER_WALL if copper else {}))
+        out["warm"][i] = r.warm_up_condensate
+
+    known = ok & ~np.isnan(wall)
+    for label, compute, todo in (("cool-down time", cool, np.flatnonzero(known & ~np.isnan(cool_to))),
+                                 ("warm-up condensate", warm, np.flatnonzero(known & ~np.isnan(warm_time)
+                                                                             & ~np.isnan(steam)))):
+        key = {int(i): (int(c.group[i]), c.operation[i].get("fluid", "Water"), c.operation[i].get("wall_material", ""))
+               for i in todo}
+        for group in sorted(set(key.values())):  # lines of one layer group and fluid at once
+            _one_by_one_on_input_error(np.array([i for i in todo if key[int(i)] == group]), compute,
+                                       lambda j, exc, label=label: notes[j].append(f"{label} not computed: {exc}"))
+    for i in np.flatnonzero(ok & ~np.isnan(warm_time) & np.isnan(steam)):
+        notes[int(i)].append("warm-up condensate not computed: warm_up_time needs steam_pressure")
+    return out
+
+
 def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
                   heating_efficiency=DEFAULT_HEATING_EFFICIENCY, cooling_cop=DEFAULT_COOLING_COP, co2_per_kwh=0.0,
                   surface_limit=TOUCH_LIMIT_METAL_JACKET, chunk_size: int = 5000, allow_unusual: bool = False,
@@ -493,6 +560,7 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
     notes = {i: [] for i in keep}
     q_total = q * c.leq + solved["extra"]
     run = _in_operation(c, ok, q_total, notes)
+    stops = _stops_and_starts(c, ok, notes)
     texts = {m: describe_flags(m) for m in np.unique(solved["flags"][keep])}
     heat = (solved["energy"] * c.leq + solved["extra_energy"]) / 1000.0
     # hot service (fluid above the design air): net loss / efficiency; cold service: net gain / COP
@@ -509,86 +577,11 @@ def run_line_list(source, bins: WeatherBins | None = None, *, energy_price=0.0,
         condensation_flag=(ts < run["dew"])[keep], outlet_temperature=run["outlet"][keep],
         freezing_position=run["frozen_at"][keep], tracing_duty_per_length=run["duty"][keep],
         tracing_duty=(run["duty"] * c.leq)[keep], condensate=run["condensate"][keep],
-        bare_fittings_heat=solved["extra"][keep],
+        bare_fittings_heat=solved["extra"][keep], cool_down_time=stops["cool"][keep],
+        warm_up_condensate=stops["warm"][keep],
         notes=tuple("; ".join(texts[solved["flags"][i]] + solved["service"].get(int(i), []) + notes[i]) for i in keep),
         errors=tuple(sorted(errors, key=lambda e: e.row)), settings=settings)
 
 
-# ----------------------------------------------------------------------------- writing
-#: Output columns after ``row, tag, status``: header (unit in brackets), attribute, display unit.
-OUTPUT_COLUMNS = (
-    ("location", "location", None), ("layers", "layer_count", None), ("length[m]", "length", None),
-    ("equivalent_length[m]", "equivalent_length", None), ("outer_diameter[mm]", "outer_diameter", ("length", "mm")),
-    *((f"{name}[degC]", name, ("temperature", "degC"))
-      for name in ("fluid_temperature", "air_temperature", "surface_temperature", "dew_point")),
-    ("q_per_length[W/m]", "q_per_length", None), ("q_total[W]", "q_total", None),
-    ("bare_fittings_heat[W]", "bare_fittings_heat", None),
-    ("heat_lost[W]", "q_lost", None), ("heat_gained[W]", "q_gained", None),
-    ("operating_hours[h]", "operating_hours", None), ("annual_heat[kWh]", "heat_kwh", None),
-    ("annual_heat_lost[kWh]", "heat_lost_kwh", None), ("annual_heat_gained[kWh]", "heat_gained_kwh", None),
-    ("purchased_energy[kWh]", "purchased_kwh", None), ("cost", "cost", None), ("co2[kg]", "co2_kg", None),
-    ("touch_flag", "touch_flag", None), ("condensation_flag", "condensation_flag", None),
-    ("outlet_temperature[degC]", "outlet_temperature", ("temperature", "degC")),
-    ("freezing_position[m]", "freezing_position", None),
-    ("tracing_duty[W/m]", "tracing_duty_per_length", None), ("tracing_duty_total[W]", "tracing_duty", None),
-    ("condensate[kg/h]", "condensate", ("mass_flow", "kg/h")),
-)
-
-
-def _cell(value) -> str:
-    if isinstance(value, (bool, np.bool_)):
-        return "yes" if value else "no"
-    if isinstance(value, str):
-        return value
-    value = float(value)
-    if math.isnan(value):
-        return ""
-    return str(int(value)) if value.is_integer() and abs(value) < 1e15 else f"{value:.7g}"
-
-
-_NUMBER = re.compile(r"-?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?")
-
-
-def _inert(cells: list[str], numeric: list[bool]) -> list[str]:
-    """Cells a spreadsheet will not run as formulas: text starting with one of :data:`FORMULA_PREFIXES`
-    gets a leading apostrophe; a plain number in a numeric column (``-12.5``) is left a number."""
-    return [cell if not cell.startswith(FORMULA_PREFIXES) or number and _NUMBER.fullmatch(cell) else "'" + cell
-            for cell, number in zip(cells, numeric)]
-
-
-def write_results_csv(result: LineListResult, path) -> None:
-    """Write per-line results, failed rows and a totals row to CSV atomically (:func:`convlib.files.write_atomic`).
-
-    Text cells starting with ``=``, ``+``, ``-``, ``@``, tab or CR (tags, notes, reasons quoting a cell)
-    are written with a leading ``'`` so that a spreadsheet shows them instead of running them as formulas;
-    numbers in the numeric columns stay numbers (``-12.5``).
-
-    Columns: ``row, tag, status`` (``ok`` or ``error``), :data:`OUTPUT_COLUMNS` (units in brackets
-    as in the input; temperatures in degC; ``annual_heat`` is ``heat_kwh``, ``co2`` is ``co2_kg``)
-    and ``notes`` (warnings, or why a row failed). Rows in file order; the last row has ``row`` =
-    ``TOTAL``, the sums of the summed columns and the number of flagged lines in the flag columns.
-    Heat is never netted across lines: the TOTAL row leaves the signed ``q_total`` and ``annual_heat``
-    empty and sums ``heat_lost`` (hot lines) and ``heat_gained`` (cold lines) separately; its notes carry
-    :attr:`LineListResult.warnings`.
-    """
-    columns = [getattr(result, a) if conv is None else from_si(np.asarray(getattr(result, a), dtype=float), *conv)
-               for _, a, conv in OUTPUT_COLUMNS]  # whole columns converted at once
-    body = [(int(r), [str(r), t, "ok", *(_cell(c[i]) for c in columns), result.notes[i]])
-            for i, (r, t) in enumerate(zip(result.row, result.tag))]
-    body += [(e.row, [str(e.row), e.tag, "error", *[""] * len(OUTPUT_COLUMNS), e.reason]) for e in result.errors]
-    totals = result.totals
-    total = ["TOTAL", f"{len(result)} lines", "totals"]
-    for _, attribute, _ in OUTPUT_COLUMNS:
-        total.append(_cell(totals[attribute]) if attribute in _SUMMED else
-                     str(totals[attribute + "s"]) if attribute.endswith("_flag") else "")
-    total.append(" ".join([f"sums over the {len(result)} computed lines; {len(result.errors)} row(s) with errors not "
-                           f"included; heat lost by hot lines and gained by cold lines summed apart, never netted; "
-                           f"flag columns count flagged lines (flags for review, not verdicts).", *result.warnings]))
-    text = io.StringIO(newline="")
-    writer = csv.writer(text)
-    writer.writerow(["row", "tag", "status", *(c[0] for c in OUTPUT_COLUMNS), "notes"])
-    numeric = [False, False, False, *(True for _ in OUTPUT_COLUMNS), False]
-    for _, cells in sorted(body, key=lambda b: b[0]):
-        writer.writerow(_inert(cells, numeric))
-    writer.writerow(_inert(total, numeric))
-    write_atomic(path, text.getvalue().encode("utf-8"))
+# writing the results: convlib.linelist_write (its names are importable from here)
+from .linelist_write import OUTPUT_COLUMNS, write_results_csv  # noqa: E402

@@ -20,7 +20,7 @@ from .fittings import PRESSURE_CLASSES
 from .files import read_capped
 from .lines import LineSpec
 from .layer_text import layer_conductivity, split_layer, split_layers
-from .pipe_sizes import nominal_pipe, parse_nps, pipe_size
+from .pipe_sizes import is_copper, nominal_pipe, parse_nps, pipe_size
 from .units import KIND_SI_UNIT, read, split, unit_affine
 
 __all__ = ["COLUMNS", "OPERATION_COLUMNS", "OUTDOOR_SKY_VIEW_FRACTION", "RowError", "ParsedLine", "read_line_list",
@@ -37,10 +37,11 @@ COLUMNS = {
     "bare_valve": "count", "bare_flange_pair": "count", "pressure_class": "count",
     "mass_flow": "mass_flow", "fluid": "text", "fluid_pressure": "pressure", "fluid_phase": "text",
     "maintain_temperature": "temperature", "minimum_ambient": "temperature", "steam_pressure": "pressure",
+    "pipe_wall_thickness": "length", "cool_down_to": "temperature", "warm_up_time": "time",
 }
 #: Optional columns of lines in operation (not part of a LineSpec): outlet temperature and tracing duty.
 OPERATION_COLUMNS = ("mass_flow", "fluid", "fluid_pressure", "fluid_phase", "maintain_temperature",
-                     "minimum_ambient", "steam_pressure")
+                     "minimum_ambient", "steam_pressure", "pipe_wall_thickness", "cool_down_to", "warm_up_time")
 FLUID_PHASES = ("liquid", "gas")
 REQUIRED = ("tag", "length", "fluid_temperature", "air_temperature")
 LOCATIONS = ("indoor", "outdoor")
@@ -129,7 +130,8 @@ def _blank(cell) -> bool:
 _INPUTS = {"outer_diameter": "pipe_diameter", "length": "length", "fluid_temperature": "temperature",
            "air_temperature": "air_temperature", "wind_speed": "wind_speed", "mass_flow": "mass_flow",
            "fluid_pressure": "fluid_pressure", "steam_pressure": "fluid_pressure", "maintain_temperature": "temperature",
-           "minimum_ambient": "air_temperature"}
+           "minimum_ambient": "air_temperature", "pipe_wall_thickness": "wall_thickness",
+           "cool_down_to": "temperature", "warm_up_time": "duration"}
 #: How a user lets an unusual value through, in both of their words.
 _OVERRIDE = "--allow-unusual (Python: allow_unusual=True)"
 
@@ -189,7 +191,12 @@ def _size_problems(cells: dict, values: dict) -> list[str]:
                         "CU22x1.0, B88-3/4-L) or as outer_diameter, one of them")
     elif "size" in values:
         try:
-            values["outer_diameter"] = pipe_size(values.pop("size")).outer_diameter
+            named = pipe_size(values.pop("size"))
+            values["outer_diameter"] = named.outer_diameter
+            if math.isfinite(named.wall_thickness):  # a copper tube or NPS names its wall; a DN does not
+                values["_size_wall"] = named.wall_thickness
+            if is_copper(named):
+                values["_size_copper"] = True
         except InputError as exc:
             problems.append(f"size: {exc}")
     elif "nps" in values:
@@ -245,6 +252,11 @@ def _parse_row(row: int, cells: dict, units: dict, allow_unusual: bool = False) 
     if hours is not None and hours > 8784.0:
         problems.append(f"operating_hours: {hours:g} h is more than a (leap) year of 8784 h")
     problems += _size_problems(cells, values)
+    if "_size_wall" in values and "pipe_wall_thickness" not in operation:
+        operation["pipe_wall_thickness"] = values["_size_wall"]
+    values.pop("_size_wall", None)
+    if values.pop("_size_copper", False):
+        operation["wall_material"] = "copper"  # derived from the size: the wall's heat capacity (COPPER_WALL)
     if problems:
         return RowError(row, tag, "; ".join(problems))
     fittings = {name: values.pop(name) for name in FITTING_EQUIVALENT_LENGTH if name in values}

@@ -16,7 +16,7 @@ from fractions import Fraction
 from .errors import InputError
 
 __all__ = ["PipeSize", "nominal_pipe", "parse_nps", "SCHEDULES", "nominal_sizes", "pipe_size",
-           "EN10220_OUTSIDE_DIAMETER_MM", "EN1057_OUTSIDE_DIAMETER_MM", "ASTM_B88"]
+           "EN10220_OUTSIDE_DIAMETER_MM", "EN1057_OUTSIDE_DIAMETER_MM", "ASTM_B88", "COPPER_WALL", "is_copper"]
 
 #: Schedules of ASME B36.10M and B36.19M offered here.
 SCHEDULES = ("5", "10", "20", "30", "40", "60", "80", "100", "120", "140", "160", "STD", "XS", "XXS",
@@ -106,6 +106,10 @@ def nominal_pipe(nps: float | str, schedule: str = "40") -> PipeSize:
 
 
 # ----------------------------------------------------------------------------- metric steel and copper tube
+#: Pure copper at 300 K: density [kg/m3] and specific heat [J/kg/K] (Incropera et al., Fundamentals of Heat and
+#: Mass Transfer, 6th ed., Table A.1, from memory), for the heat capacity of a copper tube's wall.
+COPPER_WALL = {"pipe_density": 8933.0, "pipe_specific_heat": 385.0}
+
 #: Outside diameters of steel tube by DN [mm]: EN 10220:2002, series 1 (the ISO 4200 main series; from memory). No
 #: wall is implied: EN 10220 lists several walls per diameter, so give the wall where it matters.
 EN10220_OUTSIDE_DIAMETER_MM = {6: 10.2, 8: 13.5, 10: 17.2, 15: 21.3, 20: 26.9, 25: 33.7, 32: 42.4, 40: 48.3,
@@ -193,3 +197,8 @@ def pipe_size(text: str) -> PipeSize:
         od, wall = od_in * _INCH, walls[kind] * _INCH
         return PipeSize(size, f"ASTM B88 type {kind}", od, wall, od - 2 * wall)
     raise _size_error(raw, "unknown kind of size")
+
+
+def is_copper(size: PipeSize) -> bool:
+    """Whether a :func:`pipe_size` is a copper tube (EN 1057, ASTM B88): its wall takes :data:`COPPER_WALL`."""
+    return size.schedule.startswith(("EN 1057", "ASTM B88"))
