@@ -39,7 +39,7 @@ from .surface import bare_surface
 __all__ = [
     "SCHEMA_VERSION", "INPUTS", "CaseSpec", "SweepAxis", "MapSpec", "TornadoInput", "Distribution",
     "UncertaintySpec", "StudySpec", "StudyResult", "evaluate_case", "run_study", "run_sweep", "sweep_key", "axis_values",
-    "load_demo_study", "cautions_for", "check_plausible",
+    "load_demo_study", "cautions_for", "check_plausible", "case_layers", "insulation_conductivity_of",
 ]
 
 
@@ -78,11 +78,30 @@ def evaluate_case(case: CaseSpec, natural: str | None = None, forced: str | None
                 sizes[size] = getattr(case, size)
         return bare_surface(case.shape, surface_temperature=values["surface_temperature"],
                             emissivity=values["emissivity"], **sizes, **common)
-    layers = [Layer(values["insulation_thickness"], values["insulation_conductivity"], name="insulation")]
-    if case.jacket_thickness > 0:
-        layers.append(Layer(case.jacket_thickness, case.jacket_conductivity, name="jacket"))
+    layers = case_layers(case, values["insulation_thickness"], overrides.get("insulation_conductivity"))
     return insulated_pipe(values["diameter"], values["fluid_temperature"], layers, length=case.length,
                           jacket_emissivity=values["emissivity"], **common)
+
+
+def insulation_conductivity_of(case: CaseSpec):
+    """The insulation's conductivity: the material's k(T) (a :class:`convlib.conductivity.Conductivity`) when the
+    case names ``insulation_material``, else the constant ``insulation_conductivity`` [W/m/K]."""
+    if case.insulation_material is not None:
+        from .materials import material
+
+        return material(case.insulation_material).conductivity
+    return case.insulation_conductivity
+
+
+def case_layers(case: CaseSpec, insulation_thickness=None, insulation_conductivity=None) -> list[Layer]:
+    """The case's insulation and jacket as layers (thickness and a constant conductivity may be arrays; a given
+    ``insulation_conductivity`` replaces the material's k(T), as a sweep of it does)."""
+    thickness = case.insulation_thickness if insulation_thickness is None else insulation_thickness
+    k = insulation_conductivity_of(case) if insulation_conductivity is None else insulation_conductivity
+    layers = [Layer(thickness, k, name="insulation")]
+    if case.jacket_thickness > 0:
+        layers.append(Layer(case.jacket_thickness, case.jacket_conductivity, name="jacket"))
+    return layers
 
 
 # ----------------------------------------------------------------------------- results

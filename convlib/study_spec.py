@@ -138,7 +138,8 @@ class CaseSpec(StrictModel):
     ``kind="bare"``: a surface of ``shape`` at ``surface_temperature``.
     ``kind="insulated"``: a horizontal pipe of outer ``diameter`` carrying fluid at
     ``fluid_temperature`` under ``insulation_thickness`` of ``insulation_conductivity``
-    (thickness 0: bare pipe) and an optional thin jacket.
+    (thickness 0: bare pipe) -- or of ``insulation_material``'s k(T) (:mod:`convlib.materials`) -- and an optional
+    thin jacket.
     """
 
     kind: Literal["bare", "insulated"] = "insulated"
@@ -159,6 +160,8 @@ class CaseSpec(StrictModel):
     relative_humidity: float = Field(0.6, gt=0.0, le=1.0, description="for the dew-point check [-]")
     insulation_thickness: float = Field(0.05, ge=0.0, le=1.0, description="[m]")
     insulation_conductivity: float = Field(0.04, gt=0.0, le=5.0, description="[W/m/K]")
+    insulation_material: str | None = Field(None, description="a material of convlib.materials: its k(T) instead of "
+                                                              "insulation_conductivity")
     jacket_thickness: float = Field(0.0, ge=0.0, le=0.05, description="[m], 0 for none")
     jacket_conductivity: float = Field(50.0, gt=0.0, description="[W/m/K]")
     convection_factor: float = Field(1.0, ge=0.1, le=5.0, description="multiplier on h_convection [-]")
@@ -186,6 +189,16 @@ class CaseSpec(StrictModel):
             if self.shape != "horizontal_cylinder":
                 raise InputError("insulated cases are horizontal pipes: shape must be 'horizontal_cylinder'",
                                  field="shape", rule="'horizontal_cylinder' for an insulated case", value=self.shape)
+        if self.insulation_material is not None:
+            from .materials import material  # raises listing the names
+
+            if self.kind != "insulated":
+                raise InputError("insulation_material applies to an insulated case", field="insulation_material",
+                                 rule="only for an insulated case", value=self.insulation_material)
+            try:
+                material(self.insulation_material)
+            except InputError as exc:
+                raise exc.within("insulation_material") from None
         info = SHAPES[self.shape]
         for field_name, geometry, key in (("natural", info.natural_geometry, self.natural),
                                           ("forced", info.forced_geometry, self.forced)):

@@ -28,8 +28,8 @@ from convlib.study import (CaseSpec, MonteCarloResult, StudyResult, StudySpec, S
                            load_demo_study, run_study)
 from convlib.units import display_unit, from_si, to_si
 
-from .case import (CaseSummary, LawCurve, RegimeMap, RegimeView, SweepCache, chosen_laws, current_value, law_keys,
-                   monte_carlo_settings, regime_map, regime_view, study_for_case, summarize_case, sweep_axes,
+from .case import (CaseSummary, LawCurve, RegimeMap, RegimeView, SweepCache, chosen_laws, current_value,
+                   insulation_materials, law_keys, material_source, monte_carlo_settings, regime_map, regime_view, study_for_case, summarize_case, sweep_axes,
                    sweep_only, sweep_study, uncertainty_study)
 from .insulation import FITTINGS_NEED_NPS, FittingsView, InsulationView, Sizing, fittings_view, insulation_view
 from .operation import (COOL_DOWN_STEAM, OperationInputs, OperationView, TransientView, cool_to_default, demo_site_operation,
@@ -58,7 +58,8 @@ __all__ = [
     "regime_view", "RegimeMap", "regime_map", "uncertainty_study", "monte_carlo_settings", "Sizing",
     "InsulationView", "insulation_view", "FittingsView", "fittings_view", "FITTINGS_NEED_NPS", "OperationInputs", "OperationView", "operation_view", "operation_layers",
     "operation_options", "design_air_temperature", "pipe_wall_thickness", "VesselInputs", "VesselView",
-    "vessel_defaults", "vessel_view", "operation_defaults", "demo_site_operation", "TransientView", "transient_view", "COOL_DOWN_STEAM",
+    "vessel_defaults", "vessel_view", "operation_defaults", "demo_site_operation", "insulation_materials",
+    "material_source", "TransientView", "transient_view", "COOL_DOWN_STEAM",
     "transient_options", "cool_to_default", "warm_up_pressure_default", "SIZE_SYSTEMS", "StandardSize",
     "size_grades", "standard_sizes",
 ]

@@ -109,6 +109,23 @@ def sweep_axes(study: StudySpec, case: CaseSpec) -> list[SweepAxis]:
     return axes
 
 
+def insulation_materials() -> list[tuple[str, str]]:
+    """(display name, key) of the insulation materials of :mod:`convlib.materials`, for a menu."""
+    from convlib.materials import materials
+
+    return [(m.display_name, m.name) for m in materials("insulation")]
+
+
+def material_source(key: str | None) -> str:
+    """Where a material's k(T) comes from and what it means, for a hint under the menu ("" for none)."""
+    if key is None:
+        return ""
+    from convlib.materials import material
+
+    m = material(key)
+    return f"k(T) of {m.display_name}: {m.source}. {m.note}".strip()
+
+
 def law_keys(geometry: str) -> list[str]:
     """Keys of the registered correlations of ``geometry`` (:func:`convlib.correlations.methods`)."""
     return corr.methods(geometry)

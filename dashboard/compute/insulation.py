@@ -8,7 +8,7 @@ from convlib import design, fittings
 from convlib.errors import InputError
 from convlib.pipe import Layer
 from convlib.properties import dew_point
-from convlib.study import (CaseSpec, evaluate_case)
+from convlib.study import CaseSpec, evaluate_case, insulation_conductivity_of
 
 from .. import settings
 
@@ -69,7 +69,8 @@ def insulation_view(case: CaseSpec, surface_limit: float, heat_loss_limit: float
     grid = np.linspace(0.0, top, 61)
     r = evaluate_case(case, insulation_thickness=grid, wind_speed=wind)  # the wind stays a scalar
     outer = [Layer(case.jacket_thickness, case.jacket_conductivity, name="jacket")] if case.jacket_thickness else []
-    common = dict(air_temperature=case.air_temperature, insulation_conductivity=case.insulation_conductivity,
+    k = insulation_conductivity_of(case)  # the material's k(T), or the constant k
+    common = dict(air_temperature=case.air_temperature, insulation_conductivity=k,
                   outer_layers=outer, jacket_emissivity=case.emissivity, pressure=case.pressure,
                   max_thickness=settings.SIZING_MAX_THICKNESS, natural=case.natural, forced=case.forced)
     outdoor = dict(wind_speed=wind, sky_view_fraction=case.sky_view_fraction, solar_irradiance=case.solar_irradiance)
@@ -87,7 +88,7 @@ def insulation_view(case: CaseSpec, surface_limit: float, heat_loss_limit: float
         sizings.append(_sizing("condensation", design.thickness_against_condensation(
             d, tf, relative_humidity=case.relative_humidity, **common)))
     critical = float(np.asarray(design.critical_thickness(
-        d, tf, air_temperature=case.air_temperature, insulation_conductivity=case.insulation_conductivity,
+        d, tf, air_temperature=case.air_temperature, insulation_conductivity=k,
         outer_layers=outer, jacket_emissivity=case.emissivity, wind_speed=wind,
         sky_view_fraction=case.sky_view_fraction, pressure=case.pressure,
         max_thickness=settings.SIZING_MAX_THICKNESS)).ravel()[0])

@@ -10,7 +10,7 @@ from convlib.geometry import SHAPES
 from convlib.pipe import Layer
 from convlib.pipe_sizes import nominal_pipe, nominal_sizes
 from convlib.steam import saturation_temperature
-from convlib.study import CaseSpec
+from convlib.study import CaseSpec, case_layers
 
 from .. import settings
 from .case import scalar
@@ -129,11 +129,7 @@ def pipe_wall_thickness(diameter: float, nps: float | None = None, schedule: str
 
 def operation_layers(case: CaseSpec, insulation_thickness=None) -> list[Layer]:
     """The case's insulation (``insulation_thickness`` may be an array) and jacket, as in evaluate_case."""
-    thickness = case.insulation_thickness if insulation_thickness is None else insulation_thickness
-    layers = [Layer(thickness, case.insulation_conductivity, name="insulation")]
-    if case.jacket_thickness > 0:
-        layers.append(Layer(case.jacket_thickness, case.jacket_conductivity, name="jacket"))
-    return layers
+    return case_layers(case, insulation_thickness)
 
 
 def operation_options(case: CaseSpec, design: bool = False) -> dict:

@@ -1,6 +1,7 @@
 """The line under study: every input of the base case, and the result cards."""
 from __future__ import annotations
 
+import html
 from fractions import Fraction
 
 import ipywidgets as widgets
@@ -9,7 +10,8 @@ from pydantic import ValidationError
 
 from .. import settings
 from ..display import law_name, regime_text, scientific, shape_name
-from ..compute import SHAPES, SIZE_SYSTEMS, CaseSpec, CaseSummary, law_keys, size_grades, standard_sizes
+from ..compute import (SHAPES, SIZE_SYSTEMS, CaseSpec, CaseSummary, insulation_materials, law_keys,
+                       material_source, size_grades, standard_sizes)
 from .base import Panel, message_html, card_html, card_value_text
 from .controls import DESCRIPTION_STYLE, QuantityControl
 
@@ -18,7 +20,12 @@ __all__ = ["LinePanel", "nps_label", "size_label", "validation_text"]
 _NUMERIC = ("diameter", "length", "height", "width", "surface_temperature", "fluid_temperature",
             "insulation_thickness", "insulation_conductivity", "air_temperature", "surroundings_temperature",
             "wind_speed", "emissivity", "sky_view_fraction", "solar_irradiance", "relative_humidity", "pressure")
-_WIDE = widgets.Layout(width="100%")
+
+
+def _wide() -> widgets.Layout:
+    """A full-width layout of its own: widgets must not share a Layout (hiding one would hide them all)."""
+    return widgets.Layout(width="100%")
+
 #: Dropdown value meaning "the shape's default law" (CaseSpec ``None``).
 DEFAULT_LAW = "(default)"
 
@@ -113,26 +120,31 @@ class LinePanel(Panel):
         self.controls = c
         self.kind = widgets.RadioButtons(options=[("bare surface at a known temperature", "bare"),
                                                   ("insulated line with a known fluid temperature", "insulated")],
-                                         description="Kind", style=DESCRIPTION_STYLE, layout=_WIDE)
+                                         description="Kind", style=DESCRIPTION_STYLE, layout=_wide())
         self.shape = widgets.Dropdown(options=[(shape_name(s), s) for s in SHAPES], description="Shape",
-                                      style=DESCRIPTION_STYLE, layout=_WIDE)
+                                      style=DESCRIPTION_STYLE, layout=_wide())
         self.size_mode = widgets.ToggleButtons(options=[("by value", "value"), ("standard size", "nps")],
                                                style={"button_width": "140px"})
         self.size_system = widgets.Dropdown(options=[(name, key) for key, (name, _) in SIZE_SYSTEMS.items()],
                                             value="nps", description="Size system", style=DESCRIPTION_STYLE,
-                                            layout=_WIDE)
+                                            layout=_wide())
         self.size_system.add_class("cl-control-size-system")
         self.schedule = widgets.Dropdown(options=list(size_grades("nps")), value=settings.DEFAULT_SCHEDULE,
-                                         description="Schedule", style=DESCRIPTION_STYLE, layout=_WIDE)
-        self.nps = widgets.Dropdown(description="Pipe size", style=DESCRIPTION_STYLE, layout=_WIDE)
+                                         description="Schedule", style=DESCRIPTION_STYLE, layout=_wide())
+        self.nps = widgets.Dropdown(description="Pipe size", style=DESCRIPTION_STYLE, layout=_wide())
         self.same_surroundings = widgets.Checkbox(description="surroundings at the air temperature",
-                                                  indent=False, layout=_WIDE)
+                                                  indent=False, layout=_wide())
         self.sky = widgets.ToggleButtons(options=[("indoors", "indoors"), ("outdoors", "outdoors")],
                                          style={"button_width": "140px"})
-        self.natural = widgets.Dropdown(description="Natural law", style=DESCRIPTION_STYLE, layout=_WIDE)
-        self.forced = widgets.Dropdown(description="Forced law", style=DESCRIPTION_STYLE, layout=_WIDE)
+        self.material = widgets.Dropdown(options=[("constant k (typed below)", None), *insulation_materials()],
+                                         value=None, description="Insulation", style=DESCRIPTION_STYLE, layout=_wide())
+        self.material.add_class("cl-control-material")
+        self.material_hint = widgets.HTML()
+        self.material_hint.add_class("cl-hint")
+        self.natural = widgets.Dropdown(description="Natural law", style=DESCRIPTION_STYLE, layout=_wide())
+        self.forced = widgets.Dropdown(description="Forced law", style=DESCRIPTION_STYLE, layout=_wide())
         for w in (self.kind, self.shape, self.size_mode, self.size_system, self.schedule, self.nps,
-                  self.same_surroundings, self.sky, self.natural, self.forced):
+                  self.same_surroundings, self.sky, self.natural, self.forced, self.material):
             w.observe(self._choice_changed, "value")
         self.kind.add_class("cl-control-kind")
         head = lambda text: widgets.HTML(f'<div class="cl-section">{text}</div>')  # noqa: E731
@@ -140,8 +152,8 @@ class LinePanel(Panel):
             head("Line"), self.kind, self.shape, self.size_mode, self.size_system, self.nps, self.schedule,
             c["diameter"].box,
             c["length"].box, c["height"].box, c["width"].box, c["surface_temperature"].box,
-            c["fluid_temperature"].box, c["insulation_thickness"].box, c["insulation_conductivity"].box,
-            head("Surroundings"), c["air_temperature"].box, self.same_surroundings,
+            c["fluid_temperature"].box, c["insulation_thickness"].box, self.material, self.material_hint,
+            c["insulation_conductivity"].box, head("Surroundings"), c["air_temperature"].box, self.same_surroundings,
             c["surroundings_temperature"].box, c["wind_speed"].box, c["emissivity"].box, self.sky,
             c["sky_view_fraction"].box, c["solar_irradiance"].box, c["relative_humidity"].box, c["pressure"].box,
             head("Correlations"), self.natural, self.forced,
@@ -163,7 +175,7 @@ class LinePanel(Panel):
     # ------------------------------------------------------------------ interface
     def interactive(self):
         return [self.kind, self.shape, self.size_mode, self.size_system, self.schedule, self.nps,
-                self.same_surroundings, self.sky, self.natural, self.forced, *self.controls.values()]
+                self.same_surroundings, self.sky, self.natural, self.forced, self.material, *self.controls.values()]
 
     def reset(self) -> None:
         """Back to the case the panel was built with."""
@@ -179,6 +191,7 @@ class LinePanel(Panel):
                 control.set_si(_default_value(case, name))
             self.kind.value = case.kind
             self.shape.value = case.shape
+            self.material.value = case.insulation_material
             self.same_surroundings.value = case.surroundings_temperature is None
             self.sky.value = "outdoors" if case.sky_view_fraction > 0 else "indoors"
             self._fill_laws(case.natural, case.forced)
@@ -321,6 +334,11 @@ class LinePanel(Panel):
         c["surface_temperature"].show(kind == "bare")
         for name in ("fluid_temperature", "insulation_thickness", "insulation_conductivity"):
             c[name].show(kind == "insulated")
+        by_material = kind == "insulated" and self.material.value is not None
+        self.material.layout.display = None if kind == "insulated" else "none"
+        self.material_hint.layout.display = None if by_material else "none"
+        self.material_hint.value = html.escape(material_source(self.material.value)) if by_material else ""
+        c["insulation_conductivity"].show(kind == "insulated" and not by_material)
         c["surroundings_temperature"].show(not self.same_surroundings.value)
         c["sky_view_fraction"].show(self.sky.value == "outdoors")
         c["solar_irradiance"].show(self.sky.value == "outdoors" or c["solar_irradiance"].si > 0)
@@ -338,6 +356,7 @@ class LinePanel(Panel):
             surface_temperature=c["surface_temperature"] if kind == "bare" else None,
             fluid_temperature=c["fluid_temperature"] if kind == "insulated" else None,
             insulation_thickness=c["insulation_thickness"], insulation_conductivity=c["insulation_conductivity"],
+            insulation_material=self.material.value if kind == "insulated" else None,
             air_temperature=c["air_temperature"],
             surroundings_temperature=None if self.same_surroundings.value else c["surroundings_temperature"],
             wind_speed=c["wind_speed"], emissivity=c["emissivity"],

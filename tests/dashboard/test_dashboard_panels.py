@@ -333,6 +333,7 @@ def test_dn_and_copper_sizes_set_the_diameter(app, study):
     assert line.size_system.value == "nps" and line.pipe_size == (6.0, "40")  # NPS unchanged by default
     line.size_system.value = "dn"
     assert line.schedule.layout.display == "none"  # EN 10220 implies no wall: no schedule
+    assert line.nps.layout.display is None  # ... but the size menu stays (widgets do not share one Layout)
     assert line.nps.value == 150 and line.case.diameter == pytest.approx(0.1683)  # nearest: DN 150
     line.nps.value = 100
     assert line.case.diameter == pytest.approx(0.1143)  # EN 10220 series 1: DN 100 is 114.3 mm
@@ -352,3 +353,19 @@ def test_dn_and_copper_sizes_set_the_diameter(app, study):
     line.nps.value = 4.0
     assert line.case.diameter == nominal_pipe(4, "40").outer_diameter and line.pipe_size == (4.0, "40")
     assert ("NPS 4 · 4.500 in", 4.0) in line.nps.options  # ASME B36.10M: NPS 4 is 4.500 in
+
+
+def test_insulation_material_menu_reaches_the_case_and_the_cards(app, study):
+    """Materials by name on the dashboard (issue 15 point 1): the menu sets the case's insulation_material, hides
+    the constant k, shows the source, and the cards are evaluate_case's with the material's k(T)."""
+    name = "glass_fiber_pipe_alley_k"
+    assert name in [key for _, key in app.line.material.options]
+    app.line.material.value = name
+    assert app.line.case.insulation_material == name
+    assert app.line.controls["insulation_conductivity"].box.layout.display == "none"
+    assert app.line.material_hint.layout.display is None and "k(T)" in app.line.material_hint.value
+    r = evaluate_case(study.case.model_copy(update={"insulation_material": name}))
+    assert app.line.card_text("q_per_length") == _q_text("SI", r.q_per_length)
+    app.line.material.value = None  # back to the typed constant k
+    assert app.line.case.insulation_material is None
+    assert app.line.controls["insulation_conductivity"].box.layout.display is None
