@@ -99,7 +99,6 @@ from __future__ import annotations
 import csv
 import io
 import math
-import re
 import warnings
 from collections.abc import Callable
 from dataclasses import dataclass, field
@@ -113,7 +112,7 @@ from .fittings import CAUTION_BARE, bare_flange_pair, bare_valve
 from .files import write_atomic
 from .linelist_read import (COLUMNS, FORMULA_PREFIXES, HOURS_PER_YEAR, MAX_BYTES, MAX_CELLS, MAX_ROWS,
                             OPERATION_COLUMNS, OUTDOOR_SKY_VIEW_FRACTION, REQUIRED,
-                            ParsedLine, RowError, demo_lines_path, read_line_list)
+                            ParsedLine, RowError, csv_cell, demo_lines_path, inert_cells, read_line_list)
 from .operation import (CAUTION_LINE_FREEZE, condensate_rate, line_temperature_profile, saturation_temperature,
                         tracing_duty)
 from .materials import layer as material_layer, service_warnings
@@ -535,27 +534,6 @@ OUTPUT_COLUMNS = (
 )
 
 
-def _cell(value) -> str:
-    if isinstance(value, (bool, np.bool_)):
-        return "yes" if value else "no"
-    if isinstance(value, str):
-        return value
-    value = float(value)
-    if math.isnan(value):
-        return ""
-    return str(int(value)) if value.is_integer() and abs(value) < 1e15 else f"{value:.7g}"
-
-
-_NUMBER = re.compile(r"-?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?")
-
-
-def _inert(cells: list[str], numeric: list[bool]) -> list[str]:
-    """Cells a spreadsheet will not run as formulas: text starting with one of :data:`FORMULA_PREFIXES`
-    gets a leading apostrophe; a plain number in a numeric column (``-12.5``) is left a number."""
-    return [cell if not cell.startswith(FORMULA_PREFIXES) or number and _NUMBER.fullmatch(cell) else "'" + cell
-            for cell, number in zip(cells, numeric)]
-
-
 def write_results_csv(result: LineListResult, path) -> None:
     """Write per-line results, failed rows and a totals row to CSV atomically (:func:`convlib.files.write_atomic`).
 
@@ -573,13 +551,13 @@ def write_results_csv(result: LineListResult, path) -> None:
     """
     columns = [getattr(result, a) if conv is None else from_si(np.asarray(getattr(result, a), dtype=float), *conv)
                for _, a, conv in OUTPUT_COLUMNS]  # whole columns converted at once
-    body = [(int(r), [str(r), t, "ok", *(_cell(c[i]) for c in columns), result.notes[i]])
+    body = [(int(r), [str(r), t, "ok", *(csv_cell(c[i]) for c in columns), result.notes[i]])
             for i, (r, t) in enumerate(zip(result.row, result.tag))]
     body += [(e.row, [str(e.row), e.tag, "error", *[""] * len(OUTPUT_COLUMNS), e.reason]) for e in result.errors]
     totals = result.totals
     total = ["TOTAL", f"{len(result)} lines", "totals"]
     for _, attribute, _ in OUTPUT_COLUMNS:
-        total.append(_cell(totals[attribute]) if attribute in _SUMMED else
+        total.append(csv_cell(totals[attribute]) if attribute in _SUMMED else
                      str(totals[attribute + "s"]) if attribute.endswith("_flag") else "")
     total.append(" ".join([f"sums over the {len(result)} computed lines; {len(result.errors)} row(s) with errors not "
                            f"included; heat lost by hot lines and gained by cold lines summed apart, never netted; "
@@ -589,6 +567,6 @@ def write_results_csv(result: LineListResult, path) -> None:
     writer.writerow(["row", "tag", "status", *(c[0] for c in OUTPUT_COLUMNS), "notes"])
     numeric = [False, False, False, *(True for _ in OUTPUT_COLUMNS), False]
     for _, cells in sorted(body, key=lambda b: b[0]):
-        writer.writerow(_inert(cells, numeric))
-    writer.writerow(_inert(total, numeric))
+        writer.writerow(inert_cells(cells, numeric))
+    writer.writerow(inert_cells(total, numeric))
     write_atomic(path, text.getvalue().encode("utf-8"))
