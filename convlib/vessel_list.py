@@ -216,8 +216,9 @@ def _parse_row(row: int, cells: dict, units: dict, allow_unusual: bool) -> Parse
     if kind not in KINDS:
         return RowError(row, tag, f"kind: {'missing (required)' if not kind else f'unknown kind {kind!r}'}; "
                                   f"choose one of: {', '.join(KINDS)}")
-    values, problems = _cells(cells, units, kind, allow_unusual)
-    problems += [f"{name}: missing (required)" for name in REQUIRED if blank(cells.get(name))]
+    problems = [f"{name}: missing (required)" for name in REQUIRED if blank(cells.get(name))]
+    values, more = _cells(cells, units, kind, allow_unusual)
+    problems += more
     problems += _checked(values, cells, kind)
     if problems:
         return RowError(row, tag, "; ".join(problems))
