@@ -17,6 +17,7 @@ Commands
 ``freeze``        time for stagnant water in a line to reach 0 degC and to freeze solid
 ``tank``          a vertical or horizontal tank face by face (wall, roof, floor; shell, heads) or a sphere
 ``duct``          a rectangular duct face by face (sides, top, bottom), bare or insulated
+``vessels``       a CSV list of tanks, spheres and ducts: every item face by face, totals, results to CSV
 ``cooldown``      time for a stopped hot line to cool to a temperature
 ``warmup``        condensate while a steam line warms up
 ``survey``        a thermal survey: measured jackets -> heat flow now, effective k, condition, excess
@@ -24,7 +25,7 @@ Commands
 ``correlations``  the correlation registry
 
 The commands live in ``cli.py`` (demo, surface, line, size, correlations), ``cli_study.py`` (run, verify,
-compare, report, lines), ``cli_operation.py``, ``cli_transients.py`` and ``cli_survey.py``.
+compare, report, lines), ``cli_operation.py``, ``cli_transients.py``, ``cli_survey.py`` and ``cli_vessels.py`` (vessels).
 
 Values may carry units (``90degC``, ``4.5in``, ``50mm``, ``10mph``, ``80W/m``, ``0.045W/m/degC``, ``6barg``,
 ``80%``); a temperature inside a compound unit is an interval. Plain numbers follow ``--units``: SI reads
@@ -53,6 +54,7 @@ from .cli_operation import add_commands as add_operation_commands
 from .cli_study import add_commands as add_study_commands
 from .cli_survey import add_commands as add_survey_commands
 from .cli_transients import add_commands as add_transient_commands
+from .cli_vessels import add_commands as add_vessel_commands
 from .correlations import catalog
 from .demo import load_demo_site, operation_rows
 from .errors import InputError
@@ -455,6 +457,7 @@ def build_parser() -> argparse.ArgumentParser:
     add_operation_commands(sub)
     add_survey_commands(sub)
     add_transient_commands(sub)
+    add_vessel_commands(sub)
 
     mat = sub.add_parser("materials", help="list the insulation and jacket materials (names for --layer and line "
                          "lists), their ranges and sources, and jacket emissivities")

@@ -235,11 +235,11 @@ def _cmd_lines(args) -> int:
     table(rows, args.units)
     t = result.totals
     print(f"\n{t['lines']} lines computed, {t['rows_with_errors']} row(s) with errors")
-    print(f"heat lost by hot lines ({t['lines_losing']}): {_power_text(t['q_lost'], args.units)}, "
-          f"{_energy_text(t['heat_lost_kwh'], args.units)}")
-    print(f"heat gained by cold lines ({t['lines_gaining']}): {_power_text(t['q_gained'], args.units)}, "
-          f"{_energy_text(t['heat_gained_kwh'], args.units)}")
-    print(f"purchased energy {_energy_text(t['purchased_kwh'], args.units)}, cost {t['cost']:.0f}/yr, "
+    print(f"heat lost by hot lines ({t['lines_losing']}): {power_text(t['q_lost'], args.units)}, "
+          f"{energy_text(t['heat_lost_kwh'], args.units)}")
+    print(f"heat gained by cold lines ({t['lines_gaining']}): {power_text(t['q_gained'], args.units)}, "
+          f"{energy_text(t['heat_gained_kwh'], args.units)}")
+    print(f"purchased energy {energy_text(t['purchased_kwh'], args.units)}, cost {t['cost']:.0f}/yr, "
           f"CO2 {t['co2_kg'] / 1000:.1f} t/yr; {t['touch_flags']} touch and {t['condensation_flags']} "
           f"condensation flag(s) (flags, not verdicts)")
     shown = {"condensate": float(from_si(t["condensate"], "mass_flow", "kg/h")), "tracing_duty": t["tracing_duty"]}
@@ -256,12 +256,12 @@ def _cmd_lines(args) -> int:
     return 1 if result.errors else 0
 
 
-def _power_text(watts: float, units: str) -> str:
+def power_text(watts: float, units: str) -> str:
     """A design heat flow [W] in kW (SI) or Btu/h (US)."""
     return f"{watts / 1000:.1f} kW" if units == "SI" else f"{float(from_si(watts, 'power', 'Btu/hour')):,.0f} Btu/h"
 
 
-def _energy_text(kwh: float, units: str) -> str:
+def energy_text(kwh: float, units: str) -> str:
     """An annual energy [kWh/yr] in MWh/yr (SI) or MMBtu/yr (US)."""
     return (f"{kwh / 1000:.1f} MWh/yr" if units == "SI" else
             f"{float(from_si(kwh * 3.6e6, 'energy', 'MMBtu')):,.1f} MMBtu/yr")

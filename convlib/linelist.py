@@ -105,7 +105,6 @@ from __future__ import annotations
 import csv
 import io
 import math
-import re
 import warnings
 from collections.abc import Callable
 from dataclasses import dataclass, field

@@ -12,6 +12,7 @@ import re
 from importlib import resources
 from typing import NamedTuple
 
+import numpy as np
 from pydantic import ValidationError
 
 from .design import FITTING_EQUIVALENT_LENGTH
@@ -24,7 +25,8 @@ from .pipe_sizes import is_copper, nominal_pipe, parse_nps, pipe_size
 from .units import KIND_SI_UNIT, read, split, unit_affine
 
 __all__ = ["COLUMNS", "OPERATION_COLUMNS", "OUTDOOR_SKY_VIEW_FRACTION", "RowError", "ParsedLine", "read_line_list",
-           "demo_lines_path", "HOURS_PER_YEAR", "FORMULA_PREFIXES"]
+           "demo_lines_path", "HOURS_PER_YEAR", "FORMULA_PREFIXES", "blank", "cell_number", "cell_layers",
+           "header_columns", "read_records", "read_table", "csv_cell", "inert_cells"]
 
 #: Input columns and the kind of quantity of their unit suffix ("text" and "count" take none).
 COLUMNS = {
@@ -83,9 +85,42 @@ def demo_lines_path():
     return resources.files("convlib").joinpath("data/demo_lines.csv")
 
 
+# ----------------------------------------------------------------------------- cells of written lists
+def csv_cell(value) -> str:
+    """A result value as a CSV cell: yes/no, text, '' for NaN, a whole number or 7 significant digits."""
+    if isinstance(value, (bool, np.bool_)):
+        return "yes" if value else "no"
+    if isinstance(value, str):
+        return value
+    value = float(value)
+    if math.isnan(value):
+        return ""
+    return str(int(value)) if value.is_integer() and abs(value) < 1e15 else f"{value:.7g}"
+
+
+_NUMBER = re.compile(r"-?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?")
+
+
+def inert_cells(cells: list[str], numeric: list[bool]) -> list[str]:
+    """Cells a spreadsheet will not run as formulas: text starting with one of :data:`FORMULA_PREFIXES`
+    gets a leading apostrophe; a plain number in a numeric column (``-12.5``) is left a number."""
+    return [cell if not cell.startswith(FORMULA_PREFIXES) or number and _NUMBER.fullmatch(cell) else "'" + cell
+            for cell, number in zip(cells, numeric)]
+
+
+
 # ----------------------------------------------------------------------------- reading
-def _columns(header) -> list[tuple[str, str | None] | None]:
-    """(name, unit) per header cell, None for an empty header cell; InputError for the whole file."""
+def _pipe_size_column(seen: set) -> list[str]:
+    """The header problem of a line list without a column of the pipe's size."""
+    if not {"nps", "outer_diameter", "size"} & seen:
+        return ["give the pipe size in a column 'nps' (with 'schedule'), 'size' (DN100, CU22x1.0, ...) or "
+                "'outer_diameter'"]
+    return []
+
+
+def header_columns(header, columns: dict = COLUMNS, required=REQUIRED, what: str = "line list",
+                   more_problems=_pipe_size_column) -> list[tuple[str, str | None] | None]:
+    """(name, unit) per header cell of a list with ``columns`` (None for an empty cell); InputError for the file."""
     out, problems, seen = [], [], set()
     for text in ("" if h is None else str(h) for h in header):
         m = _HEADER.match(text)
@@ -95,7 +130,7 @@ def _columns(header) -> list[tuple[str, str | None] | None]:
         name = re.sub(r"[\s\-]+", "_", m["name"].strip().lower()) if m else text
         unit = (m["unit"] or "").strip() if m else ""
         unit = None if unit in ("", "-", "1") else unit
-        kind = COLUMNS.get(name)
+        kind = columns.get(name)
         if kind is None:
             problems.append(f"unknown column {text!r}")
         elif name in seen:
@@ -109,19 +144,18 @@ def _columns(header) -> list[tuple[str, str | None] | None]:
                 problems.append(f"column {text!r}: {unit!r} is not a unit of {kind}")
         seen.add(name)
         out.append((name, unit))
-    missing = [c for c in REQUIRED if c not in seen]
+    missing = [c for c in required if c not in seen]
     if missing:
         problems.append(f"missing required column(s): {', '.join(missing)}")
-    if not {"nps", "outer_diameter", "size"} & seen:
-        problems.append("give the pipe size in a column 'nps' (with 'schedule'), 'size' (DN100, CU22x1.0, ...) or "
-                        "'outer_diameter'")
+    problems += more_problems(seen) if more_problems is not None else []
     if problems:
-        raise InputError(f"line list header: {'; '.join(problems)}; the columns are: {', '.join(COLUMNS)}",
-                         field="header", rule=f"columns among: {', '.join(COLUMNS)}", value=list(header))
+        raise InputError(f"{what} header: {'; '.join(problems)}; the columns are: {', '.join(columns)}",
+                         field="header", rule=f"columns among: {', '.join(columns)}", value=list(header))
     return out
 
 
-def _blank(cell) -> bool:
+def blank(cell) -> bool:
+    """True for an empty cell: None, NaN, or only spaces."""
     return cell is None or (isinstance(cell, float) and math.isnan(cell)) or (isinstance(cell, str)
                                                                               and not cell.strip())
 
@@ -136,9 +170,9 @@ _INPUTS = {"outer_diameter": "pipe_diameter", "length": "length", "fluid_tempera
 _OVERRIDE = "--allow-unusual (Python: allow_unusual=True)"
 
 
-def _number(cell, column: str, kind: str, unit: str | None, input_name: str | None = None,
+def cell_number(cell, column: str, kind: str, unit: str | None, input_name: str | None = None,
             allow_unusual: bool = False) -> float:
-    """SI value of a non-blank cell: a plain number in ``unit`` (else SI), or a number with its own unit (which
+    """SI value of a non-blank cell of a list (line list, vessel list): a plain number in ``unit`` (else SI), or a number with its own unit (which
     wins), read by :func:`convlib.units.split` (the parser of the command line); with ``input_name``, refused
     outside the range engineers use unless ``allow_unusual``."""
     if kind == "count":
@@ -167,15 +201,16 @@ def _nps(cell) -> float:
     return parse_nps(cell)
 
 
-def _layers(cell, unit: str | None, allow_unusual: bool = False) -> list[dict]:
+def cell_layers(cell, unit: str | None, allow_unusual: bool = False, column: str = "layers") -> list[dict]:
+    """The layers of a ``layers`` cell (:mod:`convlib.layer_text`), dicts of LayerSpec fields (SI)."""
     layers = []
     for i, part in enumerate(split_layers(cell), start=1):
-        thickness_text, written, name = split_layer(part, f"layers: layer {i}")
-        thickness = _number(thickness_text, f"layers: layer {i} thickness", "length", unit, "thickness",
-                            allow_unusual)
-        field = f"layers: layer {i} conductivity"
+        thickness_text, written, name = split_layer(part, f"{column}: layer {i}")
+        thickness = cell_number(thickness_text, f"{column}: layer {i} thickness", "length", unit, "thickness",
+                                allow_unusual)
+        field = f"{column}: layer {i} conductivity"
         known, conductivity = layer_conductivity(
-            written, lambda text: _number(text, field, "conductivity", None, "conductivity", allow_unusual), field)
+            written, lambda text: cell_number(text, field, "conductivity", None, "conductivity", allow_unusual), field)
         given = {"material": known} if known is not None else {"conductivity": conductivity}
         layers.append({"thickness": thickness, **given, "name": name or known or f"layer {i}"})
     return layers
@@ -185,7 +220,7 @@ def _size_problems(cells: dict, values: dict) -> list[str]:
     """Problems of the pipe's size: exactly one of nps (with schedule), size and outer_diameter; a ``size`` becomes
     the outer diameter (``values`` updated in place)."""
     problems = []
-    sizes = [name for name in ("nps", "size", "outer_diameter") if not _blank(cells.get(name))]
+    sizes = [name for name in ("nps", "size", "outer_diameter") if not blank(cells.get(name))]
     if len(sizes) != 1:  # (a bad cell is reported above)
         problems.append("nps / size / outer_diameter: give the pipe as nps (with schedule), as size (e.g. DN100, "
                         "CU22x1.0, B88-3/4-L) or as outer_diameter, one of them")
@@ -212,19 +247,19 @@ def _size_problems(cells: dict, values: dict) -> list[str]:
 def _parse_row(row: int, cells: dict, units: dict, allow_unusual: bool = False) -> ParsedLine | RowError:
     """One row (column -> raw cell) to a :class:`ParsedLine`, or a :class:`RowError` listing every problem."""
     problems, values = [], {}
-    tag = "" if _blank(cells.get("tag")) else str(cells["tag"]).strip()
+    tag = "" if blank(cells.get("tag")) else str(cells["tag"]).strip()
     for name, kind in COLUMNS.items():
         cell = cells.get(name)
-        if _blank(cell):
+        if blank(cell):
             problems += [f"{name}: missing (required)"] if name in REQUIRED else []
             continue
         try:
             if kind == "text":
                 values[name] = str(cell).strip()
             elif name in ("nps", "layers"):
-                values[name] = _nps(cell) if name == "nps" else _layers(cell, units.get(name), allow_unusual)
+                values[name] = _nps(cell) if name == "nps" else cell_layers(cell, units.get(name), allow_unusual)
             else:
-                values[name] = _number(cell, name, kind, units.get(name), _INPUTS.get(name), allow_unusual)
+                values[name] = cell_number(cell, name, kind, units.get(name), _INPUTS.get(name), allow_unusual)
                 if kind == "count" and values[name] < 0:
                     raise InputError(f"{name}: must be at least 0; got {cell!r}", field=name, rule="at least 0",
                                      value=cell)
@@ -281,16 +316,16 @@ def _parse_row(row: int, cells: dict, units: dict, allow_unusual: bool = False) 
                       "bare_flange_pairs": "bare_flange_pair"}.get(loc[0], str(loc[0]))
             if loc[0] == "layers" and len(loc) >= 3:
                 column = f"layers: layer {loc[1] + 1} {loc[2]}"
-            shown = "" if _blank(cells.get(column)) else f"; cell {cells[column]!r}"
+            shown = "" if blank(cells.get(column)) else f"; cell {cells[column]!r}"
             problems.append(f"{column}: {e['msg'].removeprefix('Value error, ')}{shown}")
         return RowError(row, tag, "; ".join(problems))
 
 
-def _records(source) -> list[list[str]]:
+def read_records(source, what: str = "line list") -> list[list[str]]:
     """The CSV rows of a file, an open text file or a package resource, within :data:`MAX_BYTES`,
     :data:`MAX_ROWS` and :data:`MAX_CELLS` (checked before the file is parsed, and while it is)."""
     name = source if isinstance(source, (str, os.PathLike)) else getattr(source, "name", "")
-    label = f"line list {name}" if isinstance(name, (str, os.PathLike)) and str(name) else "line list"
+    label = f"{what} {name}" if isinstance(name, (str, os.PathLike)) and str(name) else what
     if isinstance(source, (str, os.PathLike)):
         data = read_capped(source, MAX_BYTES, label=label, field="source")
     elif hasattr(source, "read"):  # an open file: read at most the cap
@@ -304,7 +339,7 @@ def _records(source) -> list[list[str]]:
     elif hasattr(source, "read_bytes"):  # a package resource (importlib.resources): the package's own data
         data = source.read_bytes()
     else:
-        raise InputError(f"line list source must be a path, an open text file or a list of rows; got "
+        raise InputError(f"{what} source must be a path, an open text file or a list of rows; got "
                          f"{type(source).__name__}", field="source", rule="a path, file or rows",
                          value=type(source).__name__)
     if isinstance(data, bytes):
@@ -358,33 +393,41 @@ def read_line_list(source, *, allow_unusual: bool = False) -> tuple[list[ParsedL
     """
     if isinstance(source, (list, tuple)) and source and all(isinstance(s, LineSpec) for s in source):
         return [ParsedLine(i, s, LOCATIONS[s.sky_view_fraction > 0], None) for i, s in enumerate(source, 2)], []
+    units, rows = read_table(source, "line list", "tag, nps or outer_diameter, length, ...", "or all LineSpec objects")
+    lines, errors = [], []
+    for number, named in rows:
+        parsed = named if isinstance(named, RowError) else _parse_row(number, named, units, allow_unusual)
+        (errors if isinstance(parsed, RowError) else lines).append(parsed)
+    return lines, errors
+
+
+def read_table(source, what: str = "line list", header_hint: str = "tag, ...", alternative: str = "",
+               columns: dict = COLUMNS, required=REQUIRED, more_problems=_pipe_size_column):
+    """Column units and ``(row number, {column: cell})`` per non-blank row of a list (a RowError for extra cells)."""
     if isinstance(source, (list, tuple)):
         if not all(isinstance(s, dict) for s in source):
-            raise InputError("line list rows must all be dicts (column -> value) or all LineSpec objects",
-                             field="source", rule="all dicts or all LineSpec objects",
+            raise InputError(f"{what} rows must all be dicts (column -> value){' ' * bool(alternative)}{alternative}",
+                             field="source", rule=f"all dicts{' ' * bool(alternative)}{alternative}",
                              value=sorted({type(s).__name__ for s in source}))
         header = list(dict.fromkeys(k for row in source for k in row))
         records = [header, *([row.get(k) for k in header] for row in source)]
     else:
-        records = _records(source)
-    if not records or all(_blank(c) for c in records[0]):
-        raise InputError("line list: the first row must be the header (tag, nps or outer_diameter, length, ...)",
+        records = read_records(source, what)
+    if not records or all(blank(c) for c in records[0]):
+        raise InputError(f"{what}: the first row must be the header ({header_hint})",
                          field="header", rule="the first row", value=records[0] if records else None)
     if len(records[0]) == 1 and ";" in str(records[0][0]):
-        raise InputError("line list: the header is separated by ';'; save the sheet as comma-separated CSV "
+        raise InputError(f"{what}: the header is separated by ';'; save the sheet as comma-separated CSV "
                          "with '.' as the decimal mark", field="header", rule="comma-separated",
                          value=records[0][0])
-    columns = _columns(records[0])
-    units = {c[0]: c[1] for c in columns if c is not None}
-    lines, errors = [], []
+    header = header_columns(records[0], columns, required, what, more_problems)
+    rows = []
     for number, cells in enumerate(records[1:], start=2):
-        if all(_blank(c) for c in cells):
+        if all(blank(c) for c in cells):
             continue
-        named = {c[0]: cell for c, cell in zip(columns, cells) if c is not None}
-        if any(not _blank(c) for c in cells[len(columns):]):
-            parsed = RowError(number, str(named.get("tag") or "").strip(),
-                              f"row has {len(cells)} cells but the header has {len(columns)} columns")
-        else:
-            parsed = _parse_row(number, named, units, allow_unusual)
-        (errors if isinstance(parsed, RowError) else lines).append(parsed)
-    return lines, errors
+        named = {c[0]: cell for c, cell in zip(header, cells) if c is not None}
+        if any(not blank(c) for c in cells[len(header):]):
+            named = RowError(number, str(named.get("tag") or "").strip(),
+                             f"row has {len(cells)} cells but the header has {len(header)} columns")
+        rows.append((number, named))
+    return {c[0]: c[1] for c in header if c is not None}, rows

@@ -3,14 +3,12 @@ from __future__ import annotations
 
 import csv
 import io
-import math
-import re
 from typing import TYPE_CHECKING
 
 import numpy as np
 
 from .files import write_atomic
-from .linelist_read import FORMULA_PREFIXES
+from .linelist_read import csv_cell, inert_cells
 from .units import from_si
 
 if TYPE_CHECKING:
@@ -40,27 +38,6 @@ OUTPUT_COLUMNS = (
 )
 
 
-def _cell(value) -> str:
-    if isinstance(value, (bool, np.bool_)):
-        return "yes" if value else "no"
-    if isinstance(value, str):
-        return value
-    value = float(value)
-    if math.isnan(value):
-        return ""
-    return str(int(value)) if value.is_integer() and abs(value) < 1e15 else f"{value:.7g}"
-
-
-_NUMBER = re.compile(r"-?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?")
-
-
-def _inert(cells: list[str], numeric: list[bool]) -> list[str]:
-    """Cells a spreadsheet will not run as formulas: text starting with one of :data:`FORMULA_PREFIXES`
-    gets a leading apostrophe; a plain number in a numeric column (``-12.5``) is left a number."""
-    return [cell if not cell.startswith(FORMULA_PREFIXES) or number and _NUMBER.fullmatch(cell) else "'" + cell
-            for cell, number in zip(cells, numeric)]
-
-
 def write_results_csv(result: LineListResult, path) -> None:
     """Write per-line results, failed rows and a totals row to CSV atomically (:func:`convlib.files.write_atomic`).
 
@@ -78,7 +55,7 @@ def write_results_csv(result: LineListResult, path) -> None:
     """
     columns = [getattr(result, a) if conv is None else from_si(np.asarray(getattr(result, a), dtype=float), *conv)
                for _, a, conv in OUTPUT_COLUMNS]  # whole columns converted at once
-    body = [(int(r), [str(r), t, "ok", *(_cell(c[i]) for c in columns), result.notes[i]])
+    body = [(int(r), [str(r), t, "ok", *(csv_cell(c[i]) for c in columns), result.notes[i]])
             for i, (r, t) in enumerate(zip(result.row, result.tag))]
     body += [(e.row, [str(e.row), e.tag, "error", *[""] * len(OUTPUT_COLUMNS), e.reason]) for e in result.errors]
     from .linelist import SUMMED  # the result's own module (it imports this one)
@@ -86,7 +63,7 @@ def write_results_csv(result: LineListResult, path) -> None:
     totals = result.totals
     total = ["TOTAL", f"{len(result)} lines", "totals"]
     for _, attribute, _ in OUTPUT_COLUMNS:
-        total.append(_cell(totals[attribute]) if attribute in SUMMED else
+        total.append(csv_cell(totals[attribute]) if attribute in SUMMED else
                      str(totals[attribute + "s"]) if attribute.endswith("_flag") else "")
     total.append(" ".join([f"sums over the {len(result)} computed lines; {len(result.errors)} row(s) with errors not "
                            f"included; heat lost by hot lines and gained by cold lines summed apart, never netted; "
@@ -96,6 +73,6 @@ def write_results_csv(result: LineListResult, path) -> None:
     writer.writerow(["row", "tag", "status", *(c[0] for c in OUTPUT_COLUMNS), "notes"])
     numeric = [False, False, False, *(True for _ in OUTPUT_COLUMNS), False]
     for _, cells in sorted(body, key=lambda b: b[0]):
-        writer.writerow(_inert(cells, numeric))
-    writer.writerow(_inert(total, numeric))
+        writer.writerow(inert_cells(cells, numeric))
+    writer.writerow(inert_cells(total, numeric))
     write_atomic(path, text.getvalue().encode("utf-8"))

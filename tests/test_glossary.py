@@ -14,7 +14,7 @@ import convlib
 
 #: Modules whose public functions (their ``__all__``) make the engineering API, beside ``convlib.__all__``.
 MODULES = ["surface", "pipe", "surroundings", "design", "operation", "vessels", "survey", "upgrade", "economics", "ducts", "faces", "face_sizing", "annual", "study_spec",
-           "weather", "pipe_sizes", "materials", "fittings", "wall", "transients"]
+           "weather", "pipe_sizes", "materials", "fittings", "wall", "transients", "vessel_list"]
 #: Public classes built by users with keywords (their constructor parameters are public parameters too).
 CLASSES = {"Surroundings", "Layer", "WeatherBins", "Tariff", "Finance", "Conductivity"}
 
