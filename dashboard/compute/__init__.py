@@ -4,12 +4,12 @@ These functions touch no widget: the app runs them (in a worker thread when a
 kernel loop is running) and pushes what they return into the panels. All
 numbers come from :mod:`convlib`: :func:`convlib.study.evaluate_case`,
 :func:`convlib.study.run_study`, :func:`convlib.correlations.nusselt`, the
-sizing functions of :mod:`convlib.design`, :mod:`convlib.operation` and
-:mod:`convlib.vessels`.
+sizing functions of :mod:`convlib.design`, :mod:`convlib.operation`,
+:mod:`convlib.vessels` and the survey studies of :mod:`convlib.upgrade`.
 
 The layer is a package: :mod:`.case` (base case, sweeps, regimes, uncertainty), :mod:`.insulation`,
-:mod:`.operation` and :mod:`.vessels`; this module re-exports their names and the few convlib names the other
-dashboard modules use (it is the only part of the dashboard that imports convlib).
+:mod:`.operation`, :mod:`.vessels` and :mod:`.survey`; this module re-exports their names and the few convlib
+names the other dashboard modules use (it is the only part of the dashboard that imports convlib).
 """
 from __future__ import annotations
 
@@ -31,6 +31,7 @@ from .case import (CaseSummary, LawCurve, RegimeMap, RegimeView, SweepCache, cho
 from .insulation import InsulationView, Sizing, insulation_view
 from .operation import (OperationInputs, OperationView, demo_site_operation, design_air_temperature,
                         operation_defaults, operation_layers, operation_options, operation_view, pipe_wall_thickness)
+from .survey import DEMO_SURVEY, SURVEY_CAUTIONS, SURVEY_MAX_BYTES, SurveySource, SurveyView, survey_view
 from .vessels import VesselInputs, VesselView, vessel_defaults, vessel_view
 
 #: What the other dashboard modules use of convlib, re-exported: this module is the only one importing convlib.
@@ -51,5 +52,6 @@ __all__ = [
     "regime_view", "RegimeMap", "regime_map", "uncertainty_study", "monte_carlo_settings", "Sizing",
     "InsulationView", "insulation_view", "OperationInputs", "OperationView", "operation_view", "operation_layers",
     "operation_options", "design_air_temperature", "pipe_wall_thickness", "VesselInputs", "VesselView",
-    "vessel_defaults", "vessel_view", "operation_defaults", "demo_site_operation",
+    "vessel_defaults", "vessel_view", "operation_defaults", "demo_site_operation", "SurveySource", "SurveyView",
+    "survey_view", "DEMO_SURVEY", "SURVEY_CAUTIONS", "SURVEY_MAX_BYTES",
 ]
