@@ -80,7 +80,7 @@ class SurveyPanel(Panel):
             card.add_class("cl-card")
             card.add_class(f"cl-card-survey-{k}")
         self.card_row = widgets.HBox(self.cards, layout=widgets.Layout(flex_flow="row wrap", width="100%"))
-        self.table = widgets.HTML(layout=widgets.Layout(width="100%", overflow="auto"))
+        self.table = widgets.HTML(layout=widgets.Layout(width="100%", max_height="420px", overflow="auto"))
         self.table.add_class("cl-table")
         self.table.add_class("cl-survey-table")
         self.notes = widgets.HTML()

@@ -224,3 +224,21 @@ def test_a_new_case_does_not_recompute_the_survey(app, panel):
     app.line.controls["wind_speed"].widget.value = 5.0
     assert app.line.case.wind_speed == pytest.approx(5.0)
     assert panel.view is before and "survey" not in app.store.stale
+
+
+def test_the_survey_figure_is_valid_plotly(monkeypatch, panel):
+    """Built with plotly's property checks on (the app builds figures without them), in both unit systems,
+    with every line, a filter keeping a few, and none."""
+    import plotly.graph_objects as go
+
+    from dashboard import plotting
+    from dashboard.display import Display
+    from dashboard.figures_survey import survey_figure
+
+    monkeypatch.setattr(plotting, "VALIDATE", True)
+    v = panel.view
+    for system in ("SI", "US"):
+        for keep in (None, v.matching("yard"), v.matching("no such tag")):
+            fig = survey_figure(v, Display(system), keep)
+            go.Figure(fig.to_dict())
+            assert fig.layout.title.text
