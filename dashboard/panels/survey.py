@@ -60,6 +60,11 @@ class SurveyPanel(Panel):
         self.demo_button.on_click(lambda _: setattr(self, "source", DEMO_SURVEY))
         self.shown = widgets.HTML()
         self.shown.add_class("cl-hint")
+        self.upload_hint = widgets.HTML(html.escape(
+            f"Your own survey: a CSV with the columns of convlib's survey list (tag, pipe size, fluid temperature, "
+            f"insulation and its design conductivity, the jacket and air temperatures measured at the survey; see "
+            f"the README), up to {s['max_lines']} lines."))
+        self.upload_hint.add_class("cl-hint")
         self.years_box = widgets.BoundedFloatText(value=self.payback_years, min=s["payback_low"],
                                                   max=s["payback_high"], step=0.5,
                                                   description="Payback horizon N [years]", style=DESCRIPTION_STYLE,
@@ -89,7 +94,7 @@ class SurveyPanel(Panel):
                                   layout=widgets.Layout(flex_flow="row wrap", align_items="center", width="100%"))
         filter_row = widgets.HBox([self.filter_box, self.area_box, self.years_box],
                                   layout=widgets.Layout(flex_flow="row wrap", width="100%"))
-        self.children = [source_row, filter_row, self.message, self.card_row, self.table, self.plot_box, self.notes,
+        self.children = [source_row, self.upload_hint, filter_row, self.message, self.card_row, self.table, self.plot_box, self.notes,
                          self.cautions]
 
     # ------------------------------------------------------------------ interface
