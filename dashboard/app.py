@@ -18,7 +18,7 @@ import traitlets
 
 from . import compute, guard, settings
 from .panels import (InsulationPanel, LinePanel, OperationPanel, RegimePanel, SnapshotPanel, SpreadPanel,
-                     SweepPanel, UncertaintyPanel, VesselPanel)
+                     SurveyPanel, SweepPanel, UncertaintyPanel, VesselPanel)
 from .panels.base import message_html
 from .refresh import Refresher
 from .runner import Runner
@@ -43,6 +43,7 @@ VIEWS = {
                                                                             "fittings": "fittings"}),
     "operation": (lambda app: OperationPanel(), {"view": "operation", "transients": "transients"}),
     "vessels": (lambda app: VesselPanel(), {"view": "vessels"}),
+    "survey": (lambda app: SurveyPanel(), {"view": "survey"}),
     "snapshots": (lambda app: SnapshotPanel(app.snapshot_dir), {"entries": "snapshot_entries"}),
 }
 #: Links from the store to panel traits that need a transform: (view, panel trait, store trait, transform).

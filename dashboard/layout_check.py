@@ -3,7 +3,7 @@
 :data:`CLIPPED_JS` runs in the page and returns one record per visible text element
 of the app that is cut off (its content wider than its box, or an ellipsis shown)
 or that wraps onto more than two lines: tab titles, result cards, control labels,
-toggle buttons, the selected item of drop-down menus and the snapshot list.
+toggle buttons, upload buttons, the selected item of drop-down menus and the snapshot list.
 """
 from __future__ import annotations
 
@@ -53,7 +53,7 @@ CLIPPED_JS = r"""
   check('card value', '.cl-app .cl-card-body', {lines: 2});
   check('card line', '.cl-app .cl-card-sub', {lines: 2});
   check('control label', '.cl-app .widget-label, .cl-app .widget-label-basic', {lines: 2});
-  check('button', '.cl-app .widget-toggle-button, .cl-app .widget-button', {lines: 2});
+  check('button', '.cl-app .widget-toggle-button, .cl-app .widget-button, .cl-app .widget-upload', {lines: 2});
   check('check box', '.cl-app .widget-checkbox label', {lines: 2});
   for (const el of document.querySelectorAll('.cl-app select')) {
     if (!visible(el)) continue;

@@ -17,7 +17,7 @@ from typing import Any, Callable
 from . import compute, settings, storage
 from .store import Store
 
-__all__ = ["Job", "JOBS", "CASE_DEFAULTS", "Refresher"]
+__all__ = ["Job", "JOBS", "CASE_DEFAULTS", "CASE_FREE", "Refresher"]
 
 log = logging.getLogger(__name__)
 
@@ -41,6 +41,7 @@ class Job:
     target: str                      # trait of the store (and key of the runner); "": the result goes nowhere
     compute: Callable[[], Any]
     delay: float = 0.0               # seconds of quiet to wait for (debounce of the expensive parts)
+    on_error: Callable | None = None  # ``on_error(exception)`` instead of the panel's "Could not compute" line
 
 
 def _sweep_jobs(store: Store, panel, cache) -> list[Job]:
@@ -89,6 +90,14 @@ def _vessel_jobs(store: Store, panel, cache) -> list[Job]:
     return [Job("vessels", lambda: compute.vessel_view(case, inputs, axis, hottest), settings.EXPENSIVE_DELAY / 2)]
 
 
+def _survey_jobs(store: Store, panel, cache) -> list[Job]:
+    source, years, shown = panel.source, panel.payback_years, store.survey
+    if shown is not None and shown.source == source and shown.payback_years == years:
+        return [Job("survey", lambda: shown)]  # the survey shown already (a refused file was put back)
+    return [Job("survey", lambda: compute.survey_view(source, years), settings.EXPENSIVE_DELAY / 2,
+                on_error=panel.refused)]
+
+
 def _snapshot_jobs(store: Store, panel, cache) -> list[Job]:
     directory = panel.directory
     return [Job("snapshot_entries", lambda: storage.list_snapshots(directory))]
@@ -105,8 +114,10 @@ CASE_DEFAULTS: dict[str, Callable] = {
 JOBS: dict[str, Callable] = {
     "sweep": _sweep_jobs, "spread": _spread_jobs, "regimes": _regime_jobs, "uncertainty": _uncertainty_jobs,
     "insulation": _insulation_jobs, "operation": _operation_jobs, "vessels": _vessel_jobs,
-    "snapshots": _snapshot_jobs,
+    "survey": _survey_jobs, "snapshots": _snapshot_jobs,
 }
+#: Views whose numbers do not depend on the line panel's case (a change of the case leaves them fresh).
+CASE_FREE = ("line", "snapshots", "survey")
 
 
 class Refresher:
@@ -165,7 +176,7 @@ class Refresher:
                 self.panels["line"].set_message([f"This case cannot be evaluated: {exc}"], "error")
                 return
             store.mark_fresh("base")
-            store.mark_stale(*(k for k in self.panels if k not in ("line", "snapshots")))
+            store.mark_stale(*(k for k in self.panels if k not in CASE_FREE))
             store.monte_carlo_stale = store.monte_carlo is not None
             self._case_defaults()
             self.request(store.visible)
@@ -244,7 +255,9 @@ class Refresher:
         def failed(exc):
             if freeze and panel is not None:
                 panel.unfreeze()
-            if panel is not None:
+            if job.on_error is not None:
+                job.on_error(exc)
+            elif panel is not None:
                 panel.set_message([f"Could not compute: {exc}"], "error")
             self._status()
 

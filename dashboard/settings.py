@@ -16,7 +16,7 @@ __all__ = [
     "MONTE_CARLO_SAMPLES", "MODEL_FORMS", "HEAT_LOSS_LIMIT", "SIZING_MAX_THICKNESS", "snapshot_dir", "convlib_home", "MAX_SNAPSHOT_BYTES", "PALETTE",
     "MODE_COLOURS", "PRETTY_UNITS", "FIGURE_HEIGHT", "FIGURE_WIDTH", "SIDEBAR_WIDTH", "MAP_LOWEST_WIND",
     "ServeDefaults", "SERVE", "BUNDLE_ENV", "OPERATION", "OPERATION_SERVICES", "OPERATION_SWEEPS", "VESSEL",
-    "VESSEL_SHAPES", "VESSEL_FLOORS", "VESSEL_HEADS", "VESSEL_WIND", "VESSEL_SWEEPS",
+    "VESSEL_SHAPES", "VESSEL_FLOORS", "VESSEL_HEADS", "VESSEL_WIND", "VESSEL_SWEEPS", "SURVEY",
 ]
 
 #: Unit systems offered by the units switch (keys of :data:`convlib.units.DISPLAY_UNITS`).
@@ -177,6 +177,10 @@ QUANTITIES: dict[str, tuple[str, dict | None, int]] = {
     "face_loss": ("power", {"SI": "kW", "US": "Btu/hour"}, 3),
     "face_area": ("area", None, 3),
     "position": ("length", _METRES, 4),
+    # "Survey" panel: heat flow of a whole line, energy per year
+    "survey_heat": ("power", {"SI": "kW", "US": "Btu/hour"}, 3),
+    "survey_energy": ("energy", {"SI": "MWh", "US": "MMBtu"}, 3),
+    "survey_co2": ("mass", {"SI": "tonne", "US": "lb"}, 3),
 }
 
 #: Pretty text of the pint unit strings used by convlib's display units.
@@ -186,6 +190,7 @@ PRETTY_UNITS = {
     "W/m**2/K": "W/(m²·K)", "Btu/hour/foot**2/delta_degF": "Btu/h·ft²·°F", "W/m/K": "W/(m·K)",
     "Btu*inch/hour/foot**2/delta_degF": "Btu·in/h·ft²·°F", "percent": "%", "": "–", "ft/s": "ft/s", "mph": "mph",
     "hour": "h", "minute": "min", "lb/hour": "lb/h", "kg/s": "kg/s", "kg/hour": "kg/h", "m**2": "m²", "foot**2": "ft²",
+    "tonne": "t",
 }
 
 #: Sweeps offered in addition to the study's own (used when the study has none of that input).
@@ -209,6 +214,7 @@ PANELS = (
     ("insulation", "Insulation"),
     ("operation", "Operation"),
     ("vessels", "Tanks & ducts"),
+    ("survey", "Survey"),
     ("snapshots", "Snapshots"),
 )
 
@@ -247,6 +253,13 @@ VESSEL_SWEEPS = {
     "wind_speed": ("Wind speed", 0.0, 15.0),
     "air_temperature": ("Air temperature", 233.15, 313.15),
 }
+
+#: The "Survey" panel: samples per line of the measurement uncertainty (kept small so that the tab answers in
+#: about a second; the command line takes more), the seed (convlib.survey.Measurement's default), the payback
+#: horizon N [years] with its bounds, the largest survey it computes (longer lists: the command line on Dask),
+#: and the weather bins of the demo year as the command line makes them (bin width [K], wind edges [m/s]).
+SURVEY = {"samples": 200, "seed": 20261203, "payback_years": 3.0, "payback_low": 0.5, "payback_high": 30.0,
+          "max_lines": 2000, "temperature_step": 3.0, "wind_edges": (0.0, 1.0, 3.0, 6.0)}
 
 #: What the line of the "In operation" panel carries: value -> label.
 OPERATION_SERVICES = {"water": "water (liquid)", "steam": "saturated steam"}

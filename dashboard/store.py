@@ -13,7 +13,8 @@ from . import compute, settings
 __all__ = ["Store", "VIEWS"]
 
 #: The views whose latest result the store keeps, each with its staleness.
-VIEWS = ("base", "sweep", "spread", "regimes", "uncertainty", "insulation", "operation", "vessels", "snapshots")
+VIEWS = ("base", "sweep", "spread", "regimes", "uncertainty", "insulation", "operation", "vessels", "survey",
+         "snapshots")
 
 
 class Store(traitlets.HasTraits):
@@ -42,7 +43,7 @@ class Store(traitlets.HasTraits):
     visible : str
         The view on screen.
     summary, sweep, spread, regimes, regime_map, tornado, monte_carlo, insulation, fittings, operation, transients,
-    vessels, snapshot_entries
+    vessels, survey, snapshot_entries
         The latest result of each view (``summary`` is the base case).
     stale : set of str
         Views whose result is older than the case or their settings.
@@ -82,6 +83,7 @@ class Store(traitlets.HasTraits):
     operation = traitlets.Instance(compute.OperationView, allow_none=True)
     transients = traitlets.Instance(compute.TransientView, allow_none=True)
     vessels = traitlets.Instance(compute.VesselView, allow_none=True)
+    survey = traitlets.Instance(compute.SurveyView, allow_none=True)
     snapshot_entries = traitlets.List()
 
     stale = traitlets.Set(traitlets.Unicode(), default_value=set(VIEWS))

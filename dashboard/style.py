@@ -44,5 +44,9 @@ CSS = """
 .cl-busy { opacity: 0.85; }
 .cl-download { font-weight: 600; }
 .cl-panel { padding-top: 4px; }
+/* the survey's ranked table: one line per row, scrolled inside its box when wide or long */
+.cl-survey-table table { white-space: nowrap; margin: 0; }
+.cl-survey-table th, .cl-survey-table td { line-height: 1.35; padding: 2px 10px 2px 0; vertical-align: top; }
+.cl-survey-table th { position: sticky; top: 0; background: #ffffff; }
 </style>
 """

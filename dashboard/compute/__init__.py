@@ -4,12 +4,12 @@ These functions touch no widget: the app runs them (in a worker thread when a
 kernel loop is running) and pushes what they return into the panels. All
 numbers come from :mod:`convlib`: :func:`convlib.study.evaluate_case`,
 :func:`convlib.study.run_study`, :func:`convlib.correlations.nusselt`, the
-sizing functions of :mod:`convlib.design`, :mod:`convlib.operation` and
-:mod:`convlib.vessels`.
+sizing functions of :mod:`convlib.design`, :mod:`convlib.operation`,
+:mod:`convlib.vessels` and the survey studies of :mod:`convlib.upgrade`.
 
 The layer is a package: :mod:`.case` (base case, sweeps, regimes, uncertainty), :mod:`.insulation`,
-:mod:`.operation`, :mod:`.vessels` and :mod:`.sizes`; this module re-exports their names and the few convlib names the other
-dashboard modules use (it is the only part of the dashboard that imports convlib).
+:mod:`.operation`, :mod:`.vessels`, :mod:`.sizes` and :mod:`.survey`; this module re-exports their names and the
+few convlib names the other dashboard modules use (it is the only part of the dashboard that imports convlib).
 """
 from __future__ import annotations
 
@@ -32,11 +32,12 @@ from .case import (CaseSummary, LawCurve, RegimeMap, RegimeView, SweepCache, cho
                    insulation_materials, law_keys, material_source, monte_carlo_settings, regime_map, regime_view, study_for_case, summarize_case, sweep_axes,
                    sweep_only, sweep_study, uncertainty_study)
 from .insulation import FITTINGS_NEED_NPS, FittingsView, InsulationView, Sizing, fittings_view, insulation_view
-from .operation import (COOL_DOWN_STEAM, OperationInputs, OperationView, TransientView, cool_to_default, demo_site_operation,
-                        design_air_temperature, operation_defaults, operation_layers, operation_options,
-                        operation_view, pipe_wall_thickness, transient_options, transient_view,
+from .operation import (COOL_DOWN_STEAM, OperationInputs, OperationView, TransientView, cool_to_default,
+                        demo_site_operation, design_air_temperature, operation_defaults, operation_layers,
+                        operation_options, operation_view, pipe_wall_thickness, transient_options, transient_view,
                         warm_up_pressure_default)
 from .sizes import SIZE_SYSTEMS, StandardSize, size_grades, standard_sizes
+from .survey import DEMO_SURVEY, SURVEY_CAUTIONS, SURVEY_MAX_BYTES, SurveySource, SurveyView, survey_view
 from .vessels import VesselInputs, VesselView, vessel_defaults, vessel_view
 
 #: What the other dashboard modules use of convlib, re-exported: this module is the only one importing convlib.
@@ -61,5 +62,6 @@ __all__ = [
     "vessel_defaults", "vessel_view", "operation_defaults", "demo_site_operation", "insulation_materials",
     "material_source", "TransientView", "transient_view", "COOL_DOWN_STEAM",
     "transient_options", "cool_to_default", "warm_up_pressure_default", "SIZE_SYSTEMS", "StandardSize",
-    "size_grades", "standard_sizes",
+    "size_grades", "standard_sizes", "SurveySource", "SurveyView", "survey_view", "DEMO_SURVEY", "SURVEY_CAUTIONS",
+    "SURVEY_MAX_BYTES",
 ]

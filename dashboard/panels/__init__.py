@@ -6,9 +6,10 @@ from .operation import OperationPanel
 from .regimes import RegimePanel
 from .snapshots import SnapshotPanel
 from .spread import SpreadPanel
+from .survey import SurveyPanel
 from .sweep import SweepPanel
 from .uncertainty import UncertaintyPanel
 from .vessels import VesselPanel
 
 __all__ = ["Panel", "LinePanel", "SweepPanel", "RegimePanel", "SpreadPanel", "UncertaintyPanel", "InsulationPanel",
-           "OperationPanel", "VesselPanel", "SnapshotPanel"]
+           "OperationPanel", "VesselPanel", "SurveyPanel", "SnapshotPanel"]
