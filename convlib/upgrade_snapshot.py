@@ -208,8 +208,8 @@ def settings_from_document(data) -> tuple[StudySettings, str]:
                          rule="valid upgrade settings", value=None) from None
     w = s.weather
     if not len(w.air_temperature) == len(w.wind_speed) == len(w.hours):
-        raise InputError("settings.weather: one air_temperature, wind_speed and hours per bin", field="settings.weather",
-                         rule="lists of equal length", value=None)
+        raise InputError("settings.weather: one air_temperature, wind_speed and hours per bin",
+                         field="settings.weather", rule="lists of equal length", value=None)
     if s.measurement.thermometer < 0:  # Measurement accepts any bound >= 0
         raise InputError("settings.measurement.thermometer must be >= 0 K", field="settings.measurement.thermometer",
                          rule=">= 0 K", value=s.measurement.thermometer)

@@ -34,7 +34,7 @@ _SETTING_UNITS = (("weather.air_temperature", "K"), ("weather.wind_speed", "m/s"
                   ("_tariff.co2_per_kwh", "kg/kWh"), ("finance.years", "yr"), ("payback_years", "yr"),
                   ("thicknesses", "m"))
 _COST_CELL = re.compile(r"^costs\.(new|removal|over)\[(\d+)\]\[(\d+)\]$")
-_SHOWN = 12  # changes per section in the text of a diff
+_SHOWN = 40  # changes per section in the text of a diff (records() has them all)
 
 
 # ----------------------------------------------------------------------------- verify
@@ -139,8 +139,8 @@ def _change(key: str, before, after, unit: str) -> dict | None:
     """A change as a record (before, after, unit, change, relative_change); None when equal."""
     if _number(before) and _number(after):
         x, y = float(before), float(after)
-        if x == y or (math.isnan(x) and math.isnan(y)):
-            return None
+        if x == y or (math.isnan(x) and math.isnan(y)) or abs(y - x) <= DETERMINISTIC_TOLERANCE * max(abs(x), abs(y)):
+            return None  # equal, or round-off (a sum taken in another order)
         change = y - x if math.isfinite(x) and math.isfinite(y) else None
         rel = change / abs(x) if change is not None and x != 0 else None
         return {"key": key, "before": _encode_float(x), "after": _encode_float(y), "unit": unit,
@@ -237,7 +237,7 @@ class UpgradeDiff:
                 "versions": [{"component": k, "before": x, "after": y} for k, x, y in self.changed_provenance]}
 
     def text(self) -> str:
-        """Readable list of the changes (at most a dozen per section, with the count of the rest)."""
+        """Readable list of the changes (at most 40 per section, with the count of the rest)."""
         if self.identical:
             return "Settings, survey rows and results identical."
 
@@ -261,7 +261,8 @@ def diff(a, b) -> UpgradeDiff:
 
     Settings as (setting, before, after, unit): a cost-table cell is named by its pipe diameter and thickness; the
     survey's changed cells; per line of the ranked lists (matched by row number) each of :data:`LINE_QUANTITIES`
-    that changed and the totals, each before -> after with its unit, signed change and relative change.
+    that changed and the totals, each before -> after with its unit, signed change and relative change. Numbers
+    within round-off (relative 1e-9, e.g. a total summed in another order) are not listed.
     """
     a, b = as_upgrade_snapshot(a), as_upgrade_snapshot(b)
     sa, sb = settings_document(a.settings, a.weather_source), settings_document(b.settings, b.weather_source)
