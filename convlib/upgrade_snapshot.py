@@ -71,6 +71,18 @@ COLUMN_UNITS = {
 }
 
 
+#: Columns every stored row (and ranked line) has, with their type; the ranked list adds ``rank`` and ``worth_doing``.
+ROW_COLUMNS = {"index": "int", "tag": "text", "area": "text", "service": "text", "condition": "text",
+               "option": "text", **{k: "float" for k in ("k_effective", "ratio", "q_now", "q_design", "excess_kwh_p50",
+                                                         "thickness", "investment", "saving_p5", "saving_p50",
+                                                         "saving_p95", "payback_p50", "npv_p50",
+                                                         "probability_payback", "co2_saved_kg_p50")}}
+RANKED_COLUMNS = {**ROW_COLUMNS, "rank": "int", "worth_doing": "bool"}
+#: Numbers every non-empty total (hot, cold) has.
+TOTAL_KEYS = ("lines", "lines_worth_doing", "q_now", "q_design", "excess_kwh_p50", "investment", "saving_p50",
+              "npv_p50", "co2_saved_kg_p50")
+
+
 # ----------------------------------------------------------------------------- the document's models
 class _Model(BaseModel):
     model_config = ConfigDict(extra="forbid", frozen=True, strict=True)
@@ -251,10 +263,18 @@ _CHECKS = {"bool": lambda v: isinstance(v, bool), "int": lambda v: isinstance(v,
            and not isinstance(v, bool)}
 
 
-def decode_columns(data, where: str) -> dict:
-    """Typed JSON lists back to numpy arrays (equal lengths); ``InputError`` naming the column otherwise."""
+def decode_columns(data, where: str, required: dict | None = None) -> dict:
+    """Typed JSON lists back to numpy arrays (equal lengths); ``InputError`` naming the column otherwise.
+
+    ``required``: column -> type that a non-empty set of columns must hold.
+    """
     if not isinstance(data, dict):
         raise InputError(f"{where} must be an object of columns", field=where, rule="an object", value=None)
+    wrong = [k for k, kind in (required or {}).items() if data and (not isinstance(data.get(k), dict)
+                                                                     or data[k].get("type") != kind)]
+    if wrong:
+        raise InputError(f"{where} lacks the column(s) {', '.join(wrong)} (or they have another type)",
+                         field=f"{where}.{wrong[0]}", rule=f"a {required[wrong[0]]} column", value=None)
     out, length = {}, None
     for name, column in data.items():
         kind = column.get("type") if isinstance(column, dict) else None
@@ -467,6 +487,18 @@ def _errors(data) -> list:
     return [RowError(e["index"], e["tag"], e["reason"]) for e in data]
 
 
+def _check_totals(tot) -> dict:
+    def number(v):
+        return isinstance(v, (int, float)) and not isinstance(v, bool)
+    ok = isinstance(tot, dict) and set(tot) == {"hot", "cold"} and all(
+        isinstance(t, dict) and (not t or set(TOTAL_KEYS) <= set(t)) and all(number(v) for v in t.values())
+        for t in tot.values())
+    if not ok:
+        raise InputError(f"results.totals must be {{hot: {{...}}, cold: {{...}}}}, each empty or with the numbers "
+                         f"{', '.join(TOTAL_KEYS)}", field="results.totals", rule="hot and cold totals", value=None)
+    return tot
+
+
 def load(path) -> UpgradeSnapshot:
     """Read, validate and hash-check an upgrade snapshot (never writes).
 
@@ -494,13 +526,9 @@ def load(path) -> UpgradeSnapshot:
                              rule="rows, ranked, totals, errors", value=sorted(results))
         survey = _check_survey(envelope.survey)
         settings, source = settings_from_document(envelope.settings)
-        rows, best = decode_columns(results["rows"], "results.rows"), decode_columns(results["ranked"],
-                                                                                      "results.ranked")
-        tot, errors = results["totals"], _errors(results["errors"])
-        if not isinstance(tot, dict) or set(tot) != {"hot", "cold"} or not all(isinstance(v, dict)
-                                                                                for v in tot.values()):
-            raise InputError("results.totals must be {hot: {...}, cold: {...}}", field="results.totals",
-                             rule="hot and cold totals", value=None)
+        rows = decode_columns(results["rows"], "results.rows", ROW_COLUMNS)
+        best = decode_columns(results["ranked"], "results.ranked", RANKED_COLUMNS)
+        tot, errors = _check_totals(results["totals"]), _errors(results["errors"])
     except InputError as exc:
         raise fail(str(exc)) from None
     return UpgradeSnapshot(survey=survey, settings=settings, weather_source=source, rows=rows, ranked=best,

@@ -260,3 +260,35 @@ def test_settings_document_round_trips_and_rejects_bad_values(settings):
     document["costs"]["thicknesses"] = list(reversed(document["costs"]["thicknesses"]))
     with pytest.raises(InputError, match="increasing"):
         us.settings_from_document(document)
+
+
+# ----------------------------------------------------------------------------- damaged files (property-based)
+from hypothesis import given, strategies as st  # noqa: E402
+
+from fuzz_helpers import outcome  # noqa: E402
+from test_fuzz_files import _paths, _replace, json_values  # noqa: E402
+
+
+@pytest.fixture(scope="module")
+def document(saved):
+    return json.loads(saved.read_text(encoding="utf-8"))
+
+
+@pytest.mark.fuzz
+@given(data=st.data(), value=json_values, rehash=st.booleans())
+def test_a_damaged_upgrade_snapshot_loads_or_is_an_input_error(document, saved, tmp_path_factory, data, value, rehash):
+    """Any one value replaced (the hash recomputed or not): load gives a snapshot or an InputError, and a snapshot
+    that loads is reported, compared and re-run without any other exception."""
+    where = data.draw(st.sampled_from([p for p in _paths(document) if p and p[0] != "sha256"]))
+    damaged = _replace(document, where, value)
+    if rehash and isinstance(damaged, dict):
+        damaged["sha256"] = content_hash(damaged)
+    path = tmp_path_factory.mktemp("damaged") / "u.json"
+    path.write_text(json.dumps(damaged), encoding="utf-8")
+    snap = outcome(us.load, path)
+    if isinstance(snap, us.UpgradeSnapshot):
+        from dashboard.report import render_upgrade_report
+
+        render_upgrade_report(snap, "US")
+        us.diff(saved, snap).text()
+        outcome(us.verify, snap)
