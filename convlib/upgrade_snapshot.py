@@ -199,8 +199,10 @@ def _cost_table(c: _Costs) -> CostTable:
                              rule="> 0 and strictly increasing", value=axis.tolist())
     grids = {}
     for name in ("new", "removal", "over"):
-        g = np.asarray(getattr(c, name), dtype=float)
-        if any(len(row) != t.size for row in getattr(c, name)) or g.shape != (d.size, t.size) or np.any(g < 0):
+        rows = getattr(c, name)
+        full = len(rows) == d.size and all(len(row) == t.size for row in rows)
+        g = np.asarray(rows, dtype=float) if full else np.empty(0)
+        if not full or np.any(g < 0):
             raise InputError(f"costs.{name} must be {d.size} rows of {t.size} costs >= 0",
                              field=f"settings.costs.{name}", rule="a full grid of sizes x thicknesses, >= 0",
                              value=None)
@@ -279,7 +281,8 @@ def decode_columns(data, where: str, required: dict | None = None) -> dict:
     for name, column in data.items():
         kind = column.get("type") if isinstance(column, dict) else None
         values = column.get("values") if isinstance(column, dict) else None
-        if kind not in _CHECKS or not isinstance(values, list) or set(column) != {"type", "values"}:
+        if not isinstance(kind, str) or kind not in _CHECKS or not isinstance(values, list) \
+                or set(column) != {"type", "values"}:
             raise InputError(f"{where}.{name} must be {{'type': float|int|bool|text, 'values': [...]}}",
                              field=f"{where}.{name}", rule="a typed column", value=None)
         bad = next((i for i, v in enumerate(values) if not _CHECKS[kind](v)), None)
@@ -450,12 +453,17 @@ def save(path, source, settings: StudySettings, *, output: StudyOutput | None = 
     return path
 
 
-def file_kind(path) -> str:
-    """The ``kind`` of a JSON file (read with the snapshot size cap), ``""`` when it has none."""
+def _read(path):
+    """The parsed JSON of a snapshot file (capped, strict); a SnapshotError names the file and the problem."""
     try:
-        document = read_json(path, MAX_BYTES, label=str(path), field="snapshot")
+        return read_json(path, MAX_BYTES, label=str(path), field="snapshot")
     except InputError as exc:
         raise SnapshotError(str(exc), rule=exc.rule, value=exc.value) from None
+
+
+def file_kind(path) -> str:
+    """The ``kind`` of a JSON file (read with the snapshot size cap), ``""`` when it has none."""
+    document = _read(path)
     kind = document.get("kind") if isinstance(document, dict) else None
     return kind if isinstance(kind, str) else ""
 
@@ -514,11 +522,7 @@ def load(path) -> UpgradeSnapshot:
     def fail(problem):
         return SnapshotError(f"{path}: {problem}")
 
-    try:
-        document = read_json(path, MAX_BYTES, label=str(path), field="snapshot")
-    except InputError as exc:
-        raise SnapshotError(str(exc), rule=exc.rule, value=exc.value) from None
-    envelope = _envelope(document, fail)
+    envelope = _envelope(_read(path), fail)
     results = envelope.results
     try:
         if set(results) != {"rows", "ranked", "totals", "errors"}:
