@@ -20,7 +20,7 @@ from .report import _STYLE, _table
 __all__ = ["render_upgrade_report", "write_upgrade_report"]
 
 _EXTRA_STYLE = """
-td, th { white-space: nowrap; } .wide td { white-space: normal; }
+h3 { font-size: 15px; margin-bottom: 2px; } .scroll { overflow-x: auto; } .scroll td { white-space: nowrap; }
 details { margin: 6px 0 12px 0; } summary { cursor: pointer; color: #1b5e9a; }
 """
 
@@ -65,7 +65,7 @@ def _ranked(best: dict, horizon: float, d: Display) -> str:
                      " / ".join(_money(best[k][i]) for k in ("saving_p5", "saving_p50", "saving_p95")),
                      format_number(float(best["payback_p50"][i]), 2), _money(best["npv_p50"][i]),
                      f"{float(best['probability_payback'][i]):.0%}"))
-    return _table(rows, header)
+    return f"<div class='scroll'>{_table(rows, header)}</div>"
 
 
 def _totals(totals: dict, d: Display) -> str:
@@ -95,7 +95,8 @@ def _weather(settings, source: str, d: Display) -> list[tuple[str, str]]:
     b = settings.bins
     hours = float(np.sum(b.hours))
     mean = float(np.sum(b.air_temperature * b.hours) / hours) if hours > 0 else float("nan")
-    return [("Weather", source or "not recorded"), ("Bins", f"{b.hours.size} bins, {hours:,.0f} h"),
+    return [("Weather", d.localize(source) if source else "not recorded"),
+            ("Bins", f"{b.hours.size} bins, {hours:,.0f} h"),
             ("Air temperature of the bins", f"{d.text(float(b.air_temperature.min()), 'air_temperature')} to "
              f"{d.text(float(b.air_temperature.max()), 'air_temperature')} (mean over the hours "
              f"{d.text(mean, 'air_temperature')})"),
