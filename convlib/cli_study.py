@@ -116,10 +116,22 @@ def _cmd_run(args) -> int:
     return 0
 
 
+def _is_upgrade(path) -> bool:
+    """True for an upgrade-study snapshot (``kind`` "convlib-upgrade-snapshot"); study snapshots go on as before."""
+    from . import upgrade_snapshot
+
+    return upgrade_snapshot.file_kind(path) == upgrade_snapshot.KIND
+
+
 def _cmd_verify(args) -> int:
     from . import snapshot
 
-    report = snapshot.verify(args.snapshot, progress=progress_bar)
+    if _is_upgrade(args.snapshot):
+        from . import upgrade_snapshot
+
+        report = upgrade_snapshot.verify(args.snapshot)
+    else:
+        report = snapshot.verify(args.snapshot, progress=progress_bar)
     if args.json:
         json.dump({"agrees": report.agrees, "text": report.text()}, sys.stdout, indent=2)
         print()
@@ -131,7 +143,18 @@ def _cmd_verify(args) -> int:
 def _cmd_compare(args) -> int:
     from . import snapshot
 
-    d = snapshot.diff(args.first, args.second)
+    upgrade = [_is_upgrade(args.first), _is_upgrade(args.second)]
+    if upgrade[0] != upgrade[1]:
+        kinds = ["upgrade" if u else "study" for u in upgrade]
+        raise InputError(f"cannot compare an upgrade snapshot with a study snapshot ({args.first}: {kinds[0]}, "
+                         f"{args.second}: {kinds[1]})",
+                         field="first, second", rule="two snapshots of the same kind", value=(args.first, args.second))
+    if upgrade[0]:
+        from . import upgrade_snapshot
+
+        d = upgrade_snapshot.diff(args.first, args.second)
+    else:
+        d = snapshot.diff(args.first, args.second)
     if args.json:
         json.dump(d.records(), sys.stdout, indent=2)
         print()
@@ -269,14 +292,19 @@ def energy_text(kwh: float, units: str) -> str:
 
 def _cmd_report(args) -> int:
     try:  # the report shares the dashboard's figures (plotly): the one place the CLI reaches that layer
-        from dashboard.report import write_report
+        from dashboard.report import write_report, write_upgrade_report
     except ImportError as exc:
         raise ValueError(f"the HTML report needs the dashboard extra (pip install 'convlib[dashboard]'): {exc}") \
             from None
     out = args.output or str(args.snapshot).removesuffix(".json") + ".html"
     if os.path.exists(out) and not args.overwrite:
         raise FileExistsError(f"{out} already exists")
-    path = write_report(args.snapshot, out, units=args.units)
+    if _is_upgrade(args.snapshot):  # loaded here: the dashboard layer imports convlib only through compute
+        from . import upgrade_snapshot
+
+        path = write_upgrade_report(upgrade_snapshot.load(args.snapshot), out, units=args.units)
+    else:
+        path = write_report(args.snapshot, out, units=args.units)
     print(f"report written: {path}")
     return 0
 
@@ -294,13 +322,14 @@ def add_commands(sub) -> None:
     output_options(run, quantities=False)
     run.set_defaults(func=_cmd_run)
 
-    ver = sub.add_parser("verify", help="re-run a snapshot's study and say whether the numbers still agree "
-                         "(exit 1 if not)")
+    ver = sub.add_parser("verify", help="re-run a snapshot's study (or upgrade study) and say whether the numbers "
+                         "still agree (exit 1 if not)")
     ver.add_argument("snapshot", help="snapshot file (JSON)")
     ver.add_argument("--json", action="store_true")
     ver.set_defaults(func=_cmd_verify)
 
-    cmp_ = sub.add_parser("compare", help="changed inputs and results between two snapshots")
+    cmp_ = sub.add_parser("compare", help="changed inputs and results between two snapshots (or two upgrade "
+                          "snapshots)")
     cmp_.add_argument("first")
     cmp_.add_argument("second")
     cmp_.add_argument("--json", action="store_true")

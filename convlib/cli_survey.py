@@ -8,6 +8,7 @@ table with totals (hot losses and cold gains apart) and may write every row to `
 from __future__ import annotations
 
 import json
+import os
 import sys
 
 import numpy as np
@@ -175,8 +176,24 @@ def _cmd_survey(args) -> int:
     return 1 if out.errors else 0
 
 
+def _save(args, settings, out, weather, notes) -> None:
+    """``--save``: the study as an upgrade snapshot (convlib.upgrade_snapshot)."""
+    from .upgrade_snapshot import save
+
+    where = args.weather or "the invented demo year of the Fernhill site"
+    source = (f"{where}: {weather.location.get('city', '?')}, {len(weather)} h in {settings.bins.hours.size} bins "
+              f"(air temperature steps of {args.temperature_step:g} K, wind classes from 0, 1, 3, 6 m/s)")
+    path = save(args.save, _source(args), settings, output=out, weather_source=source, author=args.author,
+                note=args.note, overwrite=args.overwrite)
+    notes.append(f"snapshot saved: {path} (convlib verify / compare / report take it)")
+
+
 def _cmd_upgrade(args) -> int:
-    settings, notes, out, _ = _run(args)
+    if args.save and os.path.exists(args.save) and not args.overwrite:  # before the study runs
+        raise FileExistsError(f"{args.save} already exists; give --overwrite to replace it")
+    settings, notes, out, weather = _run(args)
+    if args.save:
+        _save(args, settings, out, weather, notes)
     if not out.rows:
         _footer(notes, out, {"hot": {"lines": 0}, "cold": {"lines": 0}}, lambda t: "")
         return 1
@@ -259,4 +276,9 @@ def add_commands(sub) -> None:
     upgrade.add_argument("--escalation", type=float, default=0.02, help="energy price growth per year (default 0.02)")
     upgrade.add_argument("--years", type=float, default=15.0, help="lifetime of the measure (default 15)")
     upgrade.add_argument("--payback-years", type=float, default=3.0, help="payback horizon N (default 3)")
+    upgrade.add_argument("--save", metavar="SNAPSHOT", help="save survey rows, settings, results and provenance "
+                         "to this JSON file (convlib verify / compare / report read it)")
+    upgrade.add_argument("--author", default="", help="author recorded in the snapshot")
+    upgrade.add_argument("--note", default="", help="note recorded in the snapshot")
+    upgrade.add_argument("--overwrite", action="store_true", help="replace an existing snapshot file")
     upgrade.set_defaults(func=_cmd_upgrade)

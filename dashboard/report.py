@@ -178,3 +178,9 @@ def render_report(snap, units: str = "SI") -> str:
 def write_report(snapshot_path, out_path, units: str = "SI") -> Path:
     """Write the report of a snapshot file to ``out_path`` (UTF-8), atomically (a link there is replaced)."""
     return write_atomic(Path(out_path), render_report(snapshot_path, units).encode("utf-8"))
+
+
+# the report of an upgrade-study snapshot lives in dashboard.report_upgrade; its names are importable from here
+from .report_upgrade import render_upgrade_report, write_upgrade_report  # noqa: E402
+
+__all__ += ["render_upgrade_report", "write_upgrade_report"]
