@@ -33,8 +33,11 @@ class WeatherBins:
     hours: np.ndarray            # [h]
 
     def __post_init__(self):
-        ta = as_array("bin air_temperature", self.air_temperature, unit="K", low=0.0, low_inclusive=False).ravel()
-        wind = np.broadcast_to(as_array("bin wind_speed", self.wind_speed, unit="m/s", low=0.0), ta.shape).ravel()
+        # upper bounds: the air and wind a study accepts (convlib.study.INPUTS); beyond them a typing error
+        ta = as_array("bin air_temperature", self.air_temperature, unit="K", low=0.0, low_inclusive=False,
+                      high=400.0).ravel()
+        wind = np.broadcast_to(as_array("bin wind_speed", self.wind_speed, unit="m/s", low=0.0, high=60.0),
+                               ta.shape).ravel()
         hours = np.broadcast_to(as_array("bin hours", self.hours, unit="h", low=0.0), ta.shape).ravel()
         if hours.sum() > 8784.0 + 1e-9:
             raise InputError(f"bin hours add up to {hours.sum():g} h, more than a (leap) year of 8784 h",

@@ -168,3 +168,19 @@ def test_location_must_be_indoor_or_outdoor():
             "surface_temperature[degC],air_temperature[degC]\nA,cellar,4,150,50,0.04,35,20\n")
     lines, errors = read_survey(text)
     assert len(lines) == 0 and "indoor or outdoor" in errors[0].reason
+
+
+def test_absurd_survey_values_are_row_errors_not_overflows():
+    """A length of 1e306 m or a jacket at 3e205 K is a typing error: a row error naming the field (the physics would
+    otherwise overflow). Found by the damaged-snapshot property test of the upgrade snapshots."""
+    from convlib.survey import read_survey
+
+    text = demo_survey_path().read_text(encoding="utf-8").splitlines()
+    header, good = text[1], text[2]
+    cells = good.split(",")
+    long_line = ",".join(cells[:5] + ["1e306"] + cells[6:]).replace("FS-101", "X-1", 1)
+    lines, errors = read_survey("\n".join([header, good, long_line]) + "\n")
+    assert len(lines.tag) == 1 and [e.tag for e in errors] == ["X-1"]
+    assert "length" in errors[0].reason
+    with pytest.raises(InputError, match="bin air_temperature"):
+        WeatherBins(np.array([3e205]), np.array([1.0]), np.array([10.0]))
