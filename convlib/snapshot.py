@@ -51,7 +51,8 @@ from .study import StudyResult, StudySpec
 
 __all__ = ["SCHEMA_VERSION", "KIND", "MAX_BYTES", "DETERMINISTIC_TOLERANCE", "STANDARD_ERRORS", "SnapshotError",
            "Provenance", "Snapshot", "QuantityCheck", "VerifyReport", "SnapshotDiff", "save", "load", "verify",
-           "diff", "canonical_json", "content_hash", "current_provenance", "quantile_standard_error", "as_snapshot"]
+           "diff", "canonical_json", "content_hash", "current_provenance", "quantile_standard_error", "as_snapshot",
+           "checked_envelope"]
 
 SCHEMA_VERSION = 1
 KIND = "convlib-snapshot"
@@ -311,21 +312,8 @@ def load(path) -> Snapshot:
         document = read_json(path, MAX_BYTES, label=str(path), field="snapshot")
     except InputError as exc:
         raise SnapshotError(str(exc), rule=exc.rule, value=exc.value) from None
-    if document.get("kind") != KIND:
-        hint = " (this looks like a study spec; read it with StudySpec.model_validate_json)" if "case" in document \
-            else ""
-        raise fail(f"not a convlib snapshot: kind is {document.get('kind', 'missing')!r}, expected {KIND!r}{hint}")
-    version = document.get("schema_version")
-    if isinstance(version, int) and not isinstance(version, bool) and version > SCHEMA_VERSION:
-        raise fail(f"written by a newer convlib (snapshot schema_version {version}; convlib {__version__} reads "
-                   f"up to {SCHEMA_VERSION}); upgrade convlib to open it")
-    try:
-        envelope = _Document.model_validate(document)
-    except ValidationError as exc:
-        raise fail(_flatten(exc)) from None
-    computed = content_hash(document)
-    if computed != envelope.sha256:
-        raise fail(f"tampered or corrupted: stored hash {envelope.sha256}, computed {computed}")
+    hint = " (this looks like a study spec; read it with StudySpec.model_validate_json)" if "case" in document else ""
+    envelope = checked_envelope(document, KIND, SCHEMA_VERSION, _Document, fail, "snapshot", hint)
     try:
         spec = StudySpec.model_validate(envelope.spec)
     except ValidationError as exc:
@@ -337,6 +325,27 @@ def load(path) -> Snapshot:
     return Snapshot(spec=spec, result=result, provenance=envelope.provenance, sha256=envelope.sha256,
                     created_utc=envelope.created_utc, author=envelope.author, note=envelope.note, path=path,
                     saved_by=envelope.saved_by)
+
+
+def checked_envelope(document, kind: str, schema_version: int, model, fail, what: str = "snapshot", hint: str = ""):
+    """The validated envelope (``model``) of a parsed snapshot-like ``document`` of ``kind``: the kind, a schema
+    no newer than ``schema_version``, every field, and the content hash checked, each failure raised as
+    ``fail(problem)``. Shared by study and upgrade snapshots."""
+    found = document.get("kind", "missing") if isinstance(document, dict) else "missing"
+    if found != kind:
+        raise fail(f"not a convlib {what}: kind is {found!r}, expected {kind!r}{hint}")
+    version = document.get("schema_version")
+    if isinstance(version, int) and not isinstance(version, bool) and version > schema_version:
+        raise fail(f"written by a newer convlib ({what} schema_version {version}; convlib {__version__} reads "
+                   f"up to {schema_version}); upgrade convlib to open it")
+    try:
+        envelope = model.model_validate(document)
+    except ValidationError as exc:
+        raise fail(_flatten(exc)) from None
+    computed = content_hash(document)
+    if computed != envelope.sha256:
+        raise fail(f"tampered or corrupted: stored hash {envelope.sha256}, computed {computed}")
+    return envelope
 
 
 def as_snapshot(source) -> Snapshot:

@@ -45,8 +45,8 @@ from .economics import Finance, Tariff
 from .errors import InputError
 from .files import read_json, write_atomic
 from .scale import StudyOutput, run_study
-from .snapshot import (MAX_BYTES, Provenance, SnapshotError, _flatten, _pretty, content_hash,  # noqa: F401
-                       current_provenance)
+from .snapshot import (MAX_BYTES, Provenance, SnapshotError, _flatten, _pretty, checked_envelope,  # noqa: F401
+                       content_hash, current_provenance)
 from .survey import CAUTIONS, Measurement, RowError, _columns_of, read_survey
 from .annual import WeatherBins
 from .upgrade import CostTable, StudySettings, ranked, totals
@@ -469,21 +469,7 @@ def file_kind(path) -> str:
 
 
 def _envelope(document, fail) -> _Document:
-    if not isinstance(document, dict) or document.get("kind") != KIND:
-        kind = document.get("kind", "missing") if isinstance(document, dict) else "missing"
-        raise fail(f"not a convlib upgrade snapshot: kind is {kind!r}, expected {KIND!r}")
-    version = document.get("schema_version")
-    if isinstance(version, int) and not isinstance(version, bool) and version > SCHEMA_VERSION:
-        raise fail(f"written by a newer convlib (upgrade snapshot schema_version {version}; this convlib reads up "
-                   f"to {SCHEMA_VERSION}); upgrade convlib to open it")
-    try:
-        envelope = _Document.model_validate(document)
-    except ValidationError as exc:
-        raise fail(_flatten(exc)) from None
-    computed = content_hash(document)
-    if computed != envelope.sha256:
-        raise fail(f"tampered or corrupted: stored hash {envelope.sha256}, computed {computed}")
-    return envelope
+    return checked_envelope(document, KIND, SCHEMA_VERSION, _Document, fail, "upgrade snapshot")
 
 
 def _errors(data) -> list:
