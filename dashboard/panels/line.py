@@ -28,6 +28,8 @@ def _wide() -> widgets.Layout:
 
 #: Dropdown value meaning "the shape's default law" (CaseSpec ``None``).
 DEFAULT_LAW = "(default)"
+#: Insulation menu value meaning "the typed constant k" (CaseSpec ``insulation_material`` None).
+CONSTANT_K = ""
 
 
 def nps_label(nps: float) -> str:
@@ -136,8 +138,10 @@ class LinePanel(Panel):
                                                   indent=False, layout=_wide())
         self.sky = widgets.ToggleButtons(options=[("indoors", "indoors"), ("outdoors", "outdoors")],
                                          style={"button_width": "140px"})
-        self.material = widgets.Dropdown(options=[("constant k (typed below)", None), *insulation_materials()],
-                                         value=None, description="Insulation", style=DESCRIPTION_STYLE, layout=_wide())
+        # "" stands for the typed constant k: a Dropdown shows nothing for a None value
+        self.material = widgets.Dropdown(options=[("constant k (typed below)", CONSTANT_K), *insulation_materials()],
+                                         value=CONSTANT_K, description="Insulation", style=DESCRIPTION_STYLE,
+                                         layout=_wide())
         self.material.add_class("cl-control-material")
         self.material_hint = widgets.HTML()
         self.material_hint.add_class("cl-hint")
@@ -191,7 +195,7 @@ class LinePanel(Panel):
                 control.set_si(_default_value(case, name))
             self.kind.value = case.kind
             self.shape.value = case.shape
-            self.material.value = case.insulation_material
+            self.material.value = case.insulation_material or CONSTANT_K
             self.same_surroundings.value = case.surroundings_temperature is None
             self.sky.value = "outdoors" if case.sky_view_fraction > 0 else "indoors"
             self._fill_laws(case.natural, case.forced)
@@ -334,7 +338,7 @@ class LinePanel(Panel):
         c["surface_temperature"].show(kind == "bare")
         for name in ("fluid_temperature", "insulation_thickness", "insulation_conductivity"):
             c[name].show(kind == "insulated")
-        by_material = kind == "insulated" and self.material.value is not None
+        by_material = kind == "insulated" and self.material.value != CONSTANT_K
         self.material.layout.display = None if kind == "insulated" else "none"
         self.material_hint.layout.display = None if by_material else "none"
         self.material_hint.value = html.escape(material_source(self.material.value)) if by_material else ""
@@ -356,7 +360,7 @@ class LinePanel(Panel):
             surface_temperature=c["surface_temperature"] if kind == "bare" else None,
             fluid_temperature=c["fluid_temperature"] if kind == "insulated" else None,
             insulation_thickness=c["insulation_thickness"], insulation_conductivity=c["insulation_conductivity"],
-            insulation_material=self.material.value if kind == "insulated" else None,
+            insulation_material=self.material.value if kind == "insulated" and self.material.value else None,
             air_temperature=c["air_temperature"],
             surroundings_temperature=None if self.same_surroundings.value else c["surroundings_temperature"],
             wind_speed=c["wind_speed"], emissivity=c["emissivity"],

@@ -359,6 +359,7 @@ def test_insulation_material_menu_reaches_the_case_and_the_cards(app, study):
     """Materials by name on the dashboard (issue 15 point 1): the menu sets the case's insulation_material, hides
     the constant k, shows the source, and the cards are evaluate_case's with the material's k(T)."""
     name = "glass_fiber_pipe_alley_k"
+    assert app.line.material.label == "constant k (typed below)"  # the demo case types its k
     assert name in [key for _, key in app.line.material.options]
     app.line.material.value = name
     assert app.line.case.insulation_material == name
@@ -366,6 +367,7 @@ def test_insulation_material_menu_reaches_the_case_and_the_cards(app, study):
     assert app.line.material_hint.layout.display is None and "k(T)" in app.line.material_hint.value
     r = evaluate_case(study.case.model_copy(update={"insulation_material": name}))
     assert app.line.card_text("q_per_length") == _q_text("SI", r.q_per_length)
-    app.line.material.value = None  # back to the typed constant k
+    app.line.material.value = ""  # back to the typed constant k, shown by name (not an empty menu)
+    assert app.line.material.label == "constant k (typed below)"
     assert app.line.case.insulation_material is None
     assert app.line.controls["insulation_conductivity"].box.layout.display is None
