@@ -4,7 +4,7 @@ VENV   ?= .venv
 PY     := $(VENV)/bin/python
 STAMP  := $(VENV)/.installed
 
-.PHONY: demo serve screenshots test bench loadtest fuzz clean
+.PHONY: demo serve screenshots test bench bench-scale loadtest fuzz clean
 
 # Dashboard server options: make demo PORT=8866; make serve HOST=0.0.0.0 PORT=8866 POOL=2 VOILA_TOKEN=...
 PORT   ?= 8866
@@ -50,6 +50,10 @@ bench: $(STAMP)
 	$(PY) benchmarks/dashboard_latency.py
 	$(PY) benchmarks/scale.py
 	$(PY) benchmarks/memory.py
+
+# the scale figure at 10^5 line-cases x 100 samples, 1 and 2 workers (about 45 minutes on 2 cores)
+bench-scale: $(STAMP)
+	$(PY) benchmarks/scale.py --lines 100000 --baseline-lines 2000 --repeat 1
 
 clean:
 	rm -rf $(VENV) build *.egg-info .pytest_cache
