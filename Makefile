@@ -48,8 +48,8 @@ bench: $(STAMP)
 	$(PY) benchmarks/run.py
 	$(PY) benchmarks/kernel_ratio.py
 	$(PY) benchmarks/dashboard_latency.py
-	$(PY) benchmarks/scale.py
 	$(PY) benchmarks/memory.py
+	$(MAKE) bench-scale
 
 # the scale figure at 10^5 line-cases x 100 samples, 1 and 2 workers (about 45 minutes on 2 cores)
 bench-scale: $(STAMP)
