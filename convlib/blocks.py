@@ -125,12 +125,54 @@ class _Filler:
         return dataclasses.replace(self.first, **shaped)
 
 
+def _points_at_most(value) -> int | None:
+    """An upper bound of the points ``value`` brings to a call (the product of its arrays' sizes), or None
+    where only binding the arguments tells (an iterator, an unknown object holding arrays)."""
+    from .pipe import Layer
+    from .surroundings import Surroundings
+
+    if value is None or isinstance(value, (int, float, str, bytes, np.number, np.bool_)):
+        return 1
+    if isinstance(value, np.ndarray):
+        return value.size
+    if isinstance(value, Layer):
+        c = value.conductivity
+        return np.size(value.thickness) * (np.size(c.constant_value) if c.is_constant else 1)
+    if isinstance(value, Surroundings):
+        return int(np.prod([np.size(getattr(value, f.name)) for f in dataclasses.fields(value)
+                            if not isinstance(getattr(value, f.name), str)]))
+    if isinstance(value, (list, tuple)):
+        total = 1
+        for item in value:
+            part = _points_at_most(item)
+            if part is None:
+                return None
+            total *= part
+        return total
+    return None
+
+
+def _small(args, kwargs) -> bool:
+    """True when the call surely has at most :data:`BLOCK_POINTS` points (then it runs as it is, unbound)."""
+    total = 1
+    for value in (*args, *kwargs.values()):
+        part = _points_at_most(value)
+        if part is None:
+            return False
+        total *= part
+        if total > BLOCK_POINTS:
+            return False
+    return True
+
+
 def blocked(function):
     """Decorate a public function so that calls above :data:`BLOCK_POINTS` points run block by block."""
     signature = inspect.signature(function)
 
     @functools.wraps(function)
     def wrapper(*args, **kwargs):
+        if _small(args, kwargs):
+            return function(*args, **kwargs)
         try:
             bound = signature.bind(*args, **kwargs)
         except TypeError:

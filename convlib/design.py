@@ -157,8 +157,9 @@ def _cases(pipe_outer_diameter, fluid_temperature, around: Surroundings, insulat
     return _Cases(shape=shape, arrays=arrays, choices=choices, outer=tuple(outer))
 
 
-def _evaluate(thickness, cases: _Cases, insulation_conductivity):
-    """insulated_pipe with the sized layer at ``thickness`` for the per-point inputs ``cases``."""
+def _evaluate(thickness, cases: _Cases, insulation_conductivity, tolerance=1e-6):
+    """insulated_pipe with the sized layer at ``thickness`` for the per-point inputs ``cases`` (surface
+    temperature to ``tolerance`` kelvin)."""
     a = cases.arrays
     k = a["insulation_conductivity"] if a["insulation_conductivity"] is not None else insulation_conductivity
     layers = [Layer(thickness, k, name="insulation")]
@@ -166,7 +167,8 @@ def _evaluate(thickness, cases: _Cases, insulation_conductivity):
         layers.append(Layer(a[f"outer {j} thickness"], conductivity if conductivity is not None
                             else a[f"outer {j} conductivity"], name=name))
     keywords = {name: a[name] for name in (*_AROUND, *PIPE_NUMERIC) if a[name] is not None}
-    return insulated_pipe(a["pipe_outer_diameter"], a["fluid_temperature"], layers, **keywords, **cases.choices)
+    return insulated_pipe(a["pipe_outer_diameter"], a["fluid_temperature"], layers, **keywords, **cases.choices,
+                          tolerance=tolerance)
 
 
 def _around(surroundings, **keywords) -> Surroundings:
@@ -523,8 +525,8 @@ def _critical(cases: _Cases, insulation_conductivity, max_thickness) -> np.ndarr
     n = cases.size
     every = np.arange(n)
 
-    def flow(t, index):
-        return np.abs(_evaluate(t, cases.subset(index), insulation_conductivity).q_per_length)
+    def flow(t, index):  # solved far below the tolerance: its slope is taken by differences
+        return np.abs(_evaluate(t, cases.subset(index), insulation_conductivity, tolerance=1e-10).q_per_length)
 
     def slope(t, index):
         step = np.maximum(1e-6, 1e-4 * t)

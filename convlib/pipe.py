@@ -4,8 +4,8 @@ The heat flow per metre through the wall and layers (a series of cylindrical
 conduction resistances, with an optional inner film) must equal what the outer
 surface gives to the air, the surroundings and the sky
 (:class:`convlib.surface.OuterSurface`). The unknown outer surface temperature
-is found for all points at once with a bracketed root finder
-(Chandrupatla's method, :func:`convlib.roots.find_root`) to
+is found for all points at once by :func:`convlib.wall.solve_face` (safeguarded
+Newton steps inside a bracket, Chandrupatla's method for the points they leave) to
 ``tolerance`` kelvin; points that converge leave the active set.
 
 .. math::

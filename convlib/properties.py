@@ -54,7 +54,7 @@ from convlib._lazy import LazyModule
 from convlib.errors import InputError
 from convlib.validation import as_array, check_choice
 
-__all__ = ["FluidProperties", "PropertyTable", "air", "dew_point", "fluid_properties"]
+__all__ = ["FluidProperties", "PropertyTable", "air", "dew_point", "fluid_properties", "solver_properties"]
 
 GRID_STEP = 1.0  # [K] nominal table spacing
 SATURATION_MARGIN = 0.5  # [K] tables stop this far from the saturation line
@@ -269,6 +269,26 @@ class PropertyTable:
         lower = self.values[i]
         return lower + (x - i)[..., None] * (self.values[i + 1] - lower)
 
+    @functools.cached_property
+    def by_column(self) -> np.ndarray:
+        """``values`` column by column, shape (5, n), each column contiguous in memory."""
+        return np.ascontiguousarray(self.values.T)
+
+    def interpolate(self, T: np.ndarray) -> list[np.ndarray]:
+        """``rho, mu, k, cp, beta`` at temperatures ``T`` [K] inside the table's range, column by column.
+
+        The numbers of :meth:`lookup`, without its range check (a solver checks its range once per
+        evaluation, see :func:`solver_properties`); each column is read from contiguous memory.
+        """
+        x = (T - self.T_low) / self.T_step
+        i = np.minimum(x.astype(np.intp), self.values.shape[0] - 2)
+        weight = x - i
+        out = []
+        for column in self.by_column:
+            lower = column[i]
+            out.append(lower + weight * (column[i + 1] - lower))
+        return out
+
 
 @functools.lru_cache(maxsize=128)
 def _table(name: str, pressure: float, phase: str) -> PropertyTable:
@@ -326,13 +346,13 @@ def _pressure_nodes(p_low: float, p_high: float) -> np.ndarray:
 
 
 def _evaluate(info: _Fluid, T: np.ndarray, pressure: np.ndarray, groups, exact: bool):
-    """Columns (n, 5) and a liquid mask (n,) for flat ``T`` and ``pressure``.
+    """Columns (5, n), each contiguous, and a liquid mask (n,) for flat ``T`` and ``pressure``.
 
     ``groups`` is a list of (selection, pressure value) for the few-pressures
     path, or None for the pressure-node path. Loops run over pressure groups
     or node intervals (a handful), never over points.
     """
-    values = np.empty((T.size, 5))
+    values = np.empty((5, T.size))
     liquid = np.zeros(T.size, dtype=bool)
     if groups is not None:
         for sel, p in groups:
@@ -340,9 +360,10 @@ def _evaluate(info: _Fluid, T: np.ndarray, pressure: np.ndarray, groups, exact: 
             phase = _phase(info, p, T_group.min(), T_group.max())
             if exact:
                 _check_range(info.name, p, phase, T_group)
-                values[sel] = _exact(info.name, T_group, pressure[sel])
+                values[:, sel] = _exact(info.name, T_group, pressure[sel]).T
             else:
-                values[sel] = _table(info.name, p, phase).lookup(T_group)
+                _check_range(info.name, p, phase, T_group)
+                values[:, sel] = _table(info.name, p, phase).interpolate(T_group)
             liquid[sel] = phase == "liquid"
         return values, liquid
     nodes = _pressure_nodes(pressure.min(), pressure.max())
@@ -357,12 +378,12 @@ def _evaluate(info: _Fluid, T: np.ndarray, pressure: np.ndarray, groups, exact: 
             for p, phase in zip((p_lo, p_hi), phases):
                 _check_range(info.name, p, phase, T_group)
         else:
-            weight = ((pressure[sel] - p_lo) / (p_hi - p_lo))[:, None]
-            lower = _table(info.name, p_lo, phases[0]).lookup(T_group)
-            upper = _table(info.name, p_hi, phases[1]).lookup(T_group)
-            values[sel] = lower + weight * (upper - lower)
+            weight = (pressure[sel] - p_lo) / (p_hi - p_lo)
+            lower = np.array(_table(info.name, p_lo, phases[0]).lookup(T_group).T)
+            upper = np.array(_table(info.name, p_hi, phases[1]).lookup(T_group).T)
+            values[:, sel] = lower + weight * (upper - lower)
     if exact:
-        values = _exact(info.name, T, pressure)
+        values = np.ascontiguousarray(_exact(info.name, T, pressure).T)
     return values, liquid
 
 
@@ -420,7 +441,7 @@ def fluid_properties(fluid: str, T, pressure=101325.0, exact: bool = False,
     T_full, p_full = (np.array(a) for a in np.broadcast_arrays(T, p_in))
     t, p = T_full.ravel(), p_full.ravel()
     if t.size == 0:
-        values, liquid = np.empty((0, 5)), np.zeros(0, dtype=bool)
+        values, liquid = np.empty((5, 0)), np.zeros(0, dtype=bool)
     else:
         if p_in.size == 1:
             groups = [(slice(None), float(p_in.flat[0]))]
@@ -431,7 +452,7 @@ def fluid_properties(fluid: str, T, pressure=101325.0, exact: bool = False,
                 groups = ([(slice(None), float(unique[0]))] if unique.size == 1 else
                           [(inverse.ravel() == g, float(u)) for g, u in enumerate(unique)])
         values, liquid = _evaluate(info, t, p, groups, exact)
-    rho, mu, k, cp, beta_eos = (values[:, c].reshape(T_full.shape) for c in range(5))
+    rho, mu, k, cp, beta_eos = (values[c].reshape(T_full.shape) for c in range(5))
     if beta == "ideal_gas":
         beta_out = 1.0 / T_full
     elif beta == "coolprop":
@@ -441,6 +462,38 @@ def fluid_properties(fluid: str, T, pressure=101325.0, exact: bool = False,
         beta_out = np.where(ideal, 1.0 / T_full, beta_eos)
     return FluidProperties(T=T_full, pressure=p_full, rho=rho, mu=mu, nu=mu / rho, k=k, cp=cp,
                            pr=cp * mu / k, alpha=k / (rho * cp), beta=beta_out)
+
+
+def solver_properties(fluid: str, pressure, exact: bool = False):
+    """A lean property evaluator for the inner loop of a solver, or None where only :func:`fluid_properties` serves.
+
+    For one fluid at one pressure from its table (``exact`` False): returns ``evaluate(T)`` giving
+    ``(k, nu, pr, beta, mu)`` at temperatures ``T`` [K] -- the numbers :func:`fluid_properties` gives, bit for
+    bit, with the fluid, the pressure, the table and the expansion coefficient's rule settled once -- or None
+    when a ``T`` lies outside the table's range (the caller then asks :func:`fluid_properties`, which raises
+    or serves the other phase). The inputs are trusted: validate them before (an ``OuterSurface`` has).
+
+    >>> evaluate = solver_properties("Air", 101325.0)
+    >>> k, nu, pr, beta, mu = evaluate(np.array([300.0]))
+    >>> bool(k[0] == air(300.0).k and beta[0] == 1 / 300.0)
+    True
+    """
+    p = np.asarray(pressure, dtype=float)
+    if exact or p.size == 0 or not np.all(p == p.flat[0]):
+        return None
+    info, p0 = _fluid(fluid), float(p.flat[0])
+    phase = "supercritical" if p0 >= info.p_critical else "gas"
+    table = _table(info.name, p0, phase)
+    low, high = _temperature_range(info.name, p0, phase)
+    ideal = phase == "gas"
+
+    def evaluate(T):
+        if T.size and (T.min() < low or T.max() > high):
+            return None
+        rho, mu, k, cp, beta = table.interpolate(T)
+        return k, mu / rho, cp * mu / k, 1.0 / T if ideal else beta, mu
+
+    return evaluate
 
 
 def air(T, pressure=101325.0, exact: bool = False, beta: str | None = None) -> FluidProperties:

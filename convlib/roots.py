@@ -14,7 +14,12 @@ the zero of a nonlinear function without using derivatives", *Advances in Engine
 It stops when the bracket is narrower than the tolerance, so the returned point (the end with the
 smaller :math:`|f|`) lies within ``xatol + xrtol |x|`` of the root.
 
-It replaces, for the small arrays of interactive use, a general-purpose implementation whose fixed
+:func:`newton_decreasing` is a safeguarded Newton iteration for functions known to fall through their
+root inside the bracket (a surface-temperature balance does): it needs the slope too, and does not
+evaluate the bracket ends unless a step leads there; the wall solver tries it first and hands the points
+it cannot settle to :func:`find_root`.
+
+:func:`find_root` replaces, for the small arrays of interactive use, a general-purpose implementation whose fixed
 cost per call dominated there (``benchmarks/run.py`` measures both).
 """
 from __future__ import annotations
@@ -23,7 +28,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-__all__ = ["RootResult", "find_root"]
+__all__ = ["RootResult", "find_root", "newton_decreasing"]
 
 
 @dataclass(frozen=True)
@@ -111,3 +116,75 @@ def find_root(f, lo, hi, args=(), *, xatol=0.0, xrtol=4.0 * np.finfo(float).eps,
             t = np.clip(np.where(quadratic, t_iqi, 0.5), tlim, 1.0 - tlim)
         x[idx] = xm  # out of iterations: the best estimate, not converged
     return RootResult(x=x.reshape(shape), success=success.reshape(shape), iterations=iterations.reshape(shape))
+
+
+def newton_decreasing(f, lo, hi, x0, args=(), *, xatol, maxiter=60) -> RootResult:
+    """Roots of a function that falls through zero in ``[lo, hi]``, element by element, by Newton steps kept
+    inside a bracket.
+
+    ``f(x, *args)`` returns ``(value, slope)``; the value is taken to be positive below the root and negative
+    above it (the ends are not evaluated unless a step leads to them). Each evaluation narrows the bracket
+    by the sign of the value; the next point is the Newton step ``x - value / slope`` when the slope is
+    negative, the step stays strictly inside the bracket and the value at least halved since the previous
+    evaluation, else the bracket end the step passed (if it was never evaluated), else the bracket's
+    midpoint. From the second evaluation on, the slope is the secant through the previous point where that
+    falls (it corrects a slope that is off, e.g. one with the fluid properties held, and converges
+    superlinearly); the given slope serves the first step and wherever the secant does not fall. An element has converged when its Newton step is at most ``xatol`` (the root is then that
+    step away; with a slope within a factor of two of the true one the error after it is below the step)
+    or its evaluated bracket is narrower than ``2 xatol``.
+
+    Fails (``success`` False) where the value is not finite, where an end, once evaluated, shows the root
+    lies beyond it, or after ``maxiter`` evaluations: a caller hands those to :func:`find_root`.
+
+    >>> r = newton_decreasing(lambda x: (2.0 - x ** 2, -2.0 * x), 0.0, 3.0, 1.0, xatol=1e-12)
+    >>> round(float(r.x), 12), bool(r.success), int(r.iterations)
+    (1.414213562373, True, 7)
+    """
+    arrays = np.broadcast_arrays(np.asarray(lo, dtype=float), np.asarray(hi, dtype=float),
+                                 np.asarray(x0, dtype=float), *(np.asarray(a) for a in args))
+    shape = arrays[0].shape
+    lo, hi = (np.minimum(arrays[0], arrays[1]).ravel(), np.maximum(arrays[0], arrays[1]).ravel())
+    x = np.clip(arrays[2].ravel(), lo, hi)
+    active = tuple(np.ascontiguousarray(v).ravel() for v in arrays[3:])
+    n = x.size
+    out, success, iterations = np.full(n, np.nan), np.zeros(n, dtype=bool), np.zeros(n, dtype=int)
+    idx = np.arange(n)
+    lo_known, hi_known = np.zeros(n, dtype=bool), np.zeros(n, dtype=bool)
+    previous, x_previous = np.full(n, np.inf), np.full(n, np.nan)
+    tol = float(xatol)
+    with np.errstate(all="ignore"):
+        for it in range(1, maxiter + 1):
+            if idx.size == 0:
+                break
+            value, slope = f(x, *active)
+            value, slope = np.asarray(value, dtype=float), np.asarray(slope, dtype=float)
+            iterations[idx] = it
+            above, below = value < 0, value > 0
+            failed = ~np.isfinite(value) | (below & (x >= hi)) | (above & (x <= lo))
+            lo, lo_known = np.where(below, x, lo), lo_known | below
+            hi, hi_known = np.where(above, x, hi), hi_known | above
+            # the secant through the previous point where it is a falling one: it corrects a slope that is off
+            secant = (value - previous) / (x - x_previous)
+            slope = np.where(np.isfinite(secant) & (secant < 0), secant, slope)
+            step = -value / slope
+            target = x + step
+            newton = np.isfinite(step) & (slope < 0) & (np.abs(value) <= 0.5 * np.abs(previous))
+            inside = newton & (target > lo) & (target < hi)
+            narrow = lo_known & hi_known & (hi - lo <= 2.0 * tol)
+            root = value == 0
+            done = ~failed & (root | (inside & (np.abs(step) <= tol)) | narrow)
+            result = np.where(root, x, np.where(inside & (np.abs(step) <= tol), target, 0.5 * (lo + hi)))
+            out[idx[done]], success[idx[done]] = result[done], True
+            out[idx[failed]] = x[failed]
+            nxt = np.where(inside, target, 0.5 * (lo + hi))
+            nxt = np.where(newton & (target >= hi) & ~hi_known, hi, nxt)
+            nxt = np.where(newton & (target <= lo) & ~lo_known, lo, nxt)
+            keep = ~done & ~failed
+            previous, x_previous = value, x
+            if not keep.all():
+                idx, lo, hi, lo_known, hi_known, previous, x_previous, nxt = (
+                    v[keep] for v in (idx, lo, hi, lo_known, hi_known, previous, x_previous, nxt))
+                active = tuple(a[keep] for a in active)
+            x = nxt
+        out[idx] = x  # out of iterations: the last point, not converged
+    return RootResult(x=out.reshape(shape), success=success.reshape(shape), iterations=iterations.reshape(shape))

@@ -8,6 +8,8 @@ the same for programs.
 """
 from __future__ import annotations
 
+import math
+
 import numpy as np
 
 from .errors import InputError
@@ -106,6 +108,8 @@ def as_array(
     except (TypeError, ValueError):
         raise InputError(f"{name} must be a number or an array of numbers; got {value!r}",
                          field=name, rule="a number or an array of numbers", value=value) from None
+    if _within(arr, low, high, low_inclusive, high_inclusive):
+        return arr
     unit_text = f" {unit}" if unit else ""
     bad = ~np.isfinite(arr)
     if bad.any():
@@ -129,6 +133,20 @@ def as_array(
         raise InputError(f"{name} must be {rule}; got {_show(wrong)}{unit_text}", field=name, rule=rule,
                          value=_values(wrong))
     return arr
+
+
+def _within(arr: np.ndarray, low, high, low_inclusive: bool, high_inclusive: bool) -> bool:
+    """True when every value is finite and inside the bounds (two reductions; NaN fails through min/max)."""
+    if arr.size == 0:
+        return True
+    if arr.dtype.kind not in "fiu":
+        return False
+    smallest, largest = float(arr.min()), float(arr.max())
+    if not (math.isfinite(smallest) and math.isfinite(largest)):
+        return False
+    if low is not None and (smallest < low if low_inclusive else smallest <= low):
+        return False
+    return high is None or (largest <= high if high_inclusive else largest < high)
 
 
 def check_choice(name: str, value, choices) -> str:

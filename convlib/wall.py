@@ -12,9 +12,10 @@ with the conduction factors :math:`\delta_j` of :func:`shell_drop` (per metre of
 shell of a sphere, per m2 of a flat face; Incropera et al., *Fundamentals of Heat and Mass Transfer*, 6th ed.,
 eqs. 3.6, 3.28 and 3.36) and :math:`A'` the outer area on the same basis (:math:`\pi D` per metre, :math:`\pi
 D^2`, 1). Layers with k(T) are marched through their Kirchhoff potentials (:func:`layered_flow`). The root is
-bracketed between the fluid's and the surroundings' temperatures and found by Chandrupatla's method
-(:func:`convlib.roots.find_root`); the per-point inputs travel by name (:class:`FacePoints`), subset by the
-index of the points still searching.
+bracketed between the fluid's and the surroundings' temperatures and found by safeguarded Newton steps
+(:func:`convlib.roots.newton_decreasing`, the outer flux and its slope from :class:`convlib.flux.FluxSlope`),
+then by Chandrupatla's method (:func:`convlib.roots.find_root`) for any point those leave; the per-point inputs
+travel by name (:class:`FacePoints`), subset by the index of the points still searching.
 """
 from __future__ import annotations
 
@@ -23,7 +24,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from .errors import InputError
-from .roots import find_root
+from .flux import FluxSlope
+from .roots import find_root, newton_decreasing
 
 __all__ = ["FACE_KINDS", "FacePoints", "FaceSolution", "shell_drop", "layer_drops", "layered_flow", "solve_face"]
 
@@ -109,8 +111,10 @@ class FacePoints:
     outer: dict
 
     def take(self, index) -> "FacePoints":
-        return FacePoints(self.fluid_temperature[index], self.area_factor[index], self.resistance[index],
-                          tuple(d[index] for d in self.drops), {k: v[index] for k, v in self.outer.items()})
+        """The points ``index``; an input equal for every point is kept as it is (a 0-d array)."""
+        pick = lambda a: a if a.ndim == 0 else a[index]  # noqa: E731
+        return FacePoints(pick(self.fluid_temperature), pick(self.area_factor), pick(self.resistance),
+                          tuple(pick(d) for d in self.drops), {k: pick(v) for k, v in self.outer.items()})
 
 
 @dataclass(frozen=True)
@@ -167,7 +171,9 @@ def solve_face(outer, fluid_temperature, layers=(), *, kind="cylinder", inner_di
                                 *(np.shape(d) for d in drops), *(np.shape(v) for v in named.values()),
                                 *(np.shape(layer.conductivity.constant_value) for layer in layers
                                   if layer.conductivity.is_constant))
-    flat = lambda a: np.broadcast_to(np.asarray(a, dtype=float), shape).ravel()  # noqa: E731
+    # per-point inputs as flat arrays; an input with one value for every point stays a 0-d array
+    flat = lambda a: (np.asarray(a, dtype=float).reshape(()) if np.size(a) == 1  # noqa: E731
+                      else np.broadcast_to(np.asarray(a, dtype=float), shape).ravel())
     if constant:
         resistance = sum((d / layer.conductivity.constant_value for d, layer in zip(drops, layers)), fixed)
         layer_drops_flat = ()
@@ -177,33 +183,58 @@ def solve_face(outer, fluid_temperature, layers=(), *, kind="cylinder", inner_di
     points = FacePoints(flat(fluid_temperature), flat(area_factor), flat(resistance), layer_drops_flat,
                         {name: flat(v) for name, v in named.items()})
 
+    flux = FluxSlope(outer, points.outer)
+
     def residual(ts, index):
+        """Inner flow minus outer flow per basis, and its slope in ts (outer properties held; for k(T)
+        layers the inner slope is the secant from the fluid)."""
         p = points.take(index)
-        q_out = outer.exchange(ts, p.outer, flux_only=True) * p.area_factor
-        if constant:
-            with np.errstate(divide="ignore", invalid="ignore"):
+        q_out, slope_out = flux(ts, p.outer)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            if constant:
                 q_in = (p.fluid_temperature - ts) / p.resistance
-        else:
-            q_in = layered_flow(ts, p.fluid_temperature, p.resistance, p.drops, layers)
-        return q_in - q_out
+                slope_in = -1.0 / p.resistance
+            else:
+                q_in = layered_flow(ts, p.fluid_temperature, p.resistance, p.drops, layers)
+                slope_in = -q_in / (p.fluid_temperature - ts)
+        return q_in - q_out * p.area_factor, slope_in - slope_out * p.area_factor
 
     # A point with no resistance at all (no film, no wall, no layer) sits at the fluid temperature.
     direct = np.broadcast_to(fixed <= 0, shape)
     for layer in layers:
         direct = direct & (layer.thickness <= 0)
-    ts, converged = _solve(residual, points, np.broadcast_to(direct, shape).ravel(), tolerance)
+    guess = _first_guess(points, layers, constant)
+    ts, converged = _solve(residual, points, np.broadcast_to(direct, shape).ravel(), tolerance, guess)
     full = lambda a: np.broadcast_to(a, shape).copy()  # noqa: E731
     return FaceSolution(surface_temperature=ts.reshape(shape), outer_diameter=full(outer_diameter),
                         converged=converged.reshape(shape), drops=tuple(drops))
 
 
-def _solve(residual, points: FacePoints, direct, tolerance):
+def _first_guess(points: FacePoints, layers, constant):
+    """Where the Newton iteration starts: the surface of a film of 10 W/m2/K in series with the wall."""
+    tf, ta = points.fluid_temperature, points.outer["air_temperature"]
+    resistance = points.resistance
+    if not constant:
+        middle = 0.5 * (tf + ta)
+        resistance = resistance + sum(d / layer.conductivity.at(middle) for d, layer in zip(points.drops, layers))
+    r_surface = 1.0 / (10.0 * points.area_factor)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return ta + (tf - ta) * r_surface / (resistance + r_surface)
+
+
+def _solve(residual, points: FacePoints, direct, tolerance, guess):
     """Bracket and solve residual(ts, index) = 0 for every (flat) point; returns (ts, converged).
 
-    A point the solver cannot settle (including one whose residual is NaN because an inner solve failed)
-    raises ``InputError``: what is returned has converged everywhere.
+    Newton steps first (:func:`convlib.roots.newton_decreasing`, from ``guess``); the points they do not
+    settle go to Chandrupatla's method (:func:`convlib.roots.find_root`), which evaluates the bracket's ends
+    and widens brackets without a sign change. A point neither settles (including one whose residual is NaN
+    because an inner solve failed) raises ``InputError``: what is returned has converged everywhere.
     """
-    tf, o = points.fluid_temperature, points.outer
+    n = direct.size
+    full = lambda a: np.broadcast_to(a, (n,))  # noqa: E731
+    tf = full(points.fluid_temperature)
+    o = {k: full(points.outer[k]) for k in ("air_temperature", "surroundings_temperature", "sky_temperature",
+                                           "solar_per_area")}
     lo = np.minimum.reduce([tf, o["air_temperature"], o["surroundings_temperature"], o["sky_temperature"]])
     hi = np.maximum.reduce([tf, o["air_temperature"], o["surroundings_temperature"], o["sky_temperature"]])
     if np.any(direct):
@@ -212,11 +243,18 @@ def _solve(residual, points: FacePoints, direct, tolerance):
     solar = o["solar_per_area"]
     hi = hi + np.where(solar > 0, solar / 2.0, 0.0) + 0.5
     lo = np.maximum(lo - 0.5, 0.5 * lo)
-    every = np.arange(tf.size)
+    every = np.arange(n)
+    value = lambda ts, index: residual(ts, index)[0]  # noqa: E731
     with np.errstate(all="ignore"):
-        res = find_root(residual, lo, hi, args=(every,), xatol=tolerance, xrtol=0.0)
+        start = np.clip(full(guess), lo + 0.01 * (hi - lo), hi - 0.01 * (hi - lo))
+        start = np.where(np.isfinite(start), start, 0.5 * (lo + hi))
+        res = newton_decreasing(residual, lo, hi, start, args=(every,), xatol=tolerance)
         x, success = np.array(res.x, dtype=float), np.array(res.success, dtype=bool)
         lo, hi = np.array(lo, dtype=float), np.array(hi, dtype=float)
+        left = np.flatnonzero(~success & ~direct)
+        if left.size:
+            again = find_root(value, lo[left], hi[left], args=(every[left],), xatol=tolerance, xrtol=0.0)
+            x[left], success[left] = again.x, again.success
         # Widen the few brackets that held no sign change (strong sun, odd surroundings) and retry them;
         # a point whose residual is not finite at its bracket (an inner solve failed) is not widened but reported.
         stuck = np.zeros_like(success)
@@ -224,7 +262,7 @@ def _solve(residual, points: FacePoints, direct, tolerance):
             bad = ~success & ~direct & ~stuck
             if not bad.any():
                 break
-            finite = np.isfinite(residual(lo[bad], every[bad])) & np.isfinite(residual(hi[bad], every[bad]))
+            finite = np.isfinite(value(lo[bad], every[bad])) & np.isfinite(value(hi[bad], every[bad]))
             stuck[bad] = ~finite
             bad = ~success & ~direct & ~stuck
             if not bad.any():
@@ -232,7 +270,7 @@ def _solve(residual, points: FacePoints, direct, tolerance):
             width = hi[bad] - lo[bad]
             lo_b, hi_b = np.maximum(lo[bad] - width, 0.5 * lo[bad]), hi[bad] + width
             lo[bad], hi[bad] = lo_b, hi_b
-            retry = find_root(residual, lo_b, hi_b, args=(every[bad],), xatol=tolerance, xrtol=0.0)
+            retry = find_root(value, lo_b, hi_b, args=(every[bad],), xatol=tolerance, xrtol=0.0)
             x[bad], success[bad] = retry.x, retry.success
     ts = np.where(direct, tf, x)
     converged = direct | success
