@@ -170,10 +170,12 @@ def newton_decreasing(f, lo, hi, x0, args=(), *, xatol, maxiter=60) -> RootResul
             target = x + step
             newton = np.isfinite(step) & (slope < 0) & (np.abs(value) <= 0.5 * np.abs(previous))
             inside = newton & (target > lo) & (target < hi)
+            # a step below the tolerance ends it (also one lost in rounding: x + step == x, at a bracket end)
+            close = newton & (np.abs(step) <= tol) & (target >= lo) & (target <= hi)
             narrow = lo_known & hi_known & (hi - lo <= 2.0 * tol)
             root = value == 0
-            done = ~failed & (root | (inside & (np.abs(step) <= tol)) | narrow)
-            result = np.where(root, x, np.where(inside & (np.abs(step) <= tol), target, 0.5 * (lo + hi)))
+            done = ~failed & (root | close | narrow)
+            result = np.where(root, x, np.where(close, target, 0.5 * (lo + hi)))
             out[idx[done]], success[idx[done]] = result[done], True
             out[idx[failed]] = x[failed]
             nxt = np.where(inside, target, 0.5 * (lo + hi))

@@ -149,3 +149,25 @@ def test_newton_solve_agrees_with_brentq_on_insulated_lines():
                                                                                            flux_only=True))
         lo, hi = min(tf[i], ta[i], float(outer.sky_temperature)) - 1, max(tf[i], ta[i]) + 1
         assert float(r.surface_temperature[i]) == pytest.approx(brentq(balance, lo, hi, xtol=1e-11), abs=1e-8)
+
+
+def test_a_linear_balance_is_solved_in_two_evaluations_to_rounding(monkeypatch):
+    # Given outer coefficient, no radiation: the balance is linear in Ts, the first Newton step lands on the
+    # root and the second evaluation confirms it (a step lost in rounding at the bracket's end once sent the
+    # iteration to bisection). Hand value: series resistance of layer and film, Incropera et al., 6th ed.,
+    # eq. 3.32.
+    d, t, k, h, tm = 0.0603, 0.025, 0.04, 12.0, 278.15
+    r1, r2 = d / 2, d / 2 + t
+    resistance = math.log(r2 / r1) / (2 * math.pi * k) + 1.0 / (h * 2 * math.pi * r2)
+    ta = np.array([260.0, 270.0, 275.0, 278.0])
+    counted = []
+
+    def counting(f, *args, **kwargs):
+        result = newton_decreasing(f, *args, **kwargs)
+        counted.append(result.iterations)
+        return result
+
+    monkeypatch.setattr("convlib.wall.newton_decreasing", counting)
+    r = insulated_pipe(d, tm, [Layer(t, k)], air_temperature=ta, jacket_emissivity=0.0, convection_coefficient=h)
+    np.testing.assert_allclose(r.q_per_length, (tm - ta) / resistance, rtol=1e-12)
+    assert counted and np.all(counted[0] <= 2)
