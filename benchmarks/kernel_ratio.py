@@ -182,15 +182,22 @@ def record_worst(kind: str, measured: list[tuple[int, float, float, float]], rto
     if not counted:
         return
     n, ratio, median, _ = min(counted, key=lambda m: m[1])
-    sizes = ", ".join(f"{m[0]:.0e} 1/{1 / m[1]:.3g}" + ("" if m in counted else " (not counted)") for m in measured)
-    note = f"best against best: {sizes}; worst at {n:.0e} (ratio of medians there 1/{1 / median:.3g})"
+    sizes = ", ".join(f"{_power(m[0])} 1/{1 / m[1]:.3g}" + ("" if m in counted else " (not counted)")
+                      for m in measured)
+    note = f"best against best: {sizes}; worst at {_power(n)} (ratio of medians there 1/{1 / median:.3g})"
     missing = [size for size in SIZES if low <= size <= high and int(size) not in {m[0] for m in measured}]
     if missing:
-        note += "; not measured in this run: " + ", ".join(f"{size:.0e}" for size in missing)
+        note += "; not measured in this run: " + ", ".join(_power(size) for size in missing)
     if any(not m[3] <= rtol for m in measured):
         note += f"; DISAGREES with the kernel by more than {rtol:g} in q"
     record(key, value=ratio, baseline=1.0, baseline_label="fused numba kernel = 1", best=ratio, median=median,
            note=note)
+
+
+def _power(n: float) -> str:
+    """1e4 for 10000; other sizes as 2.5e+04."""
+    exponent = round(math.log10(n)) if n > 0 else 0
+    return f"1e{exponent}" if n == 10 ** exponent else f"{n:.2g}"
 
 
 def main(argv=None) -> int:
