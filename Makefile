@@ -42,14 +42,20 @@ loadtest: $(STAMP)
 fuzz: $(STAMP)
 	HYPOTHESIS_PROFILE=long $(PY) -m pytest -q -m fuzz -p no:cacheprovider --hypothesis-show-statistics --durations=0
 
+# every benchmark records the figures of the speed table in BENCH_RECORD; the summary prints that table last
+BENCH_RECORD := $(CURDIR)/benchmarks/results/latest.json
+bench: export CONVLIB_BENCH_RECORD = $(BENCH_RECORD)
 bench: $(STAMP)
 	$(PY) -m pip install --quiet -e '.[bench]'
+	rm -f $(BENCH_RECORD)
 	$(PY) benchmarks/startup.py
 	$(PY) benchmarks/run.py
+	$(PY) benchmarks/small_calls.py
 	$(PY) benchmarks/kernel_ratio.py
 	$(PY) benchmarks/dashboard_latency.py
 	$(PY) benchmarks/memory.py
 	$(MAKE) bench-scale
+	$(PY) benchmarks/summary.py --record $(BENCH_RECORD)
 
 # the scale figure at 10^5 line-cases x 100 samples, 1 and 2 workers (about 45 minutes on 2 cores)
 bench-scale: $(STAMP)

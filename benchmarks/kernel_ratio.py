@@ -16,6 +16,9 @@ insulated pipe is compared with both sides solved to 1e-9 K (at 1e-6 K, points w
 hundredths of a kelvin of the air differ by more than 1e-5 in q only because the two root finders stop at
 different points inside the tolerance).
 
+For the speed table of ``make bench`` (``record.py``, ``summary.py``) it records the worst ratio of the bare
+surface over the sizes 10^4-10^7 and of the insulated pipe over every size, each size's ratio in the note.
+
 Options: ``--sizes 1e2 1e4`` (any sizes), ``--rounds N`` (default 5; 3 at 10^7, 2 for the insulated pipe at
 10^7), ``--kinds bare``, ``--seed N``, ``--quick`` (sizes 1e2 1e4 1e5, 3 rounds). Not a test: nothing here asserts
 a timing; the ratio, measured in the same run, is the figure to compare between runs.
@@ -24,6 +27,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import math
 import os
 import statistics
 import subprocess
@@ -35,12 +39,16 @@ import numpy as np
 HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, HERE)
 from peak_rss import peak, reset_peak  # noqa: E402
+from record import record  # noqa: E402
+
 SIZES = (1e2, 1e4, 1e6, 1e7)
 #: The issue's targets: convlib's throughput as a fraction of the kernel's, and the figures before.
 TARGETS = {"bare": (1 / 3, "1/7.5 - 1/18 at 1e4-1e7, 1/25 - 1/90 below 1e3"),
            "insulated": (1 / 5, "1/13 - 1/33")}
 CHECK_POINTS = 10_000
 ROUND_SECONDS = 0.1
+#: rows of the speed table (benchmarks/record.py) and the sizes whose worst ratio each reports
+RECORDED = {"bare": ("kernel_bare", 1e4, 1e7), "insulated": ("kernel_pipe", 0.0, math.inf)}
 
 
 def draw(kind: str, n: int, seed: int) -> dict[str, np.ndarray]:
@@ -166,6 +174,32 @@ def header() -> list[str]:
     return lines
 
 
+def record_worst(kind: str, measured: list[tuple[int, float, float, float]], rtol: float) -> None:
+    """Record the worst throughput ratio (best against best) over the sizes the table's row covers, with every
+    size's ratio in the note; ``measured`` holds (points, ratio, ratio of medians, largest difference in q)."""
+    key, low, high = RECORDED[kind]
+    counted = [m for m in measured if low <= m[0] <= high]
+    if not counted:
+        return
+    n, ratio, median, _ = min(counted, key=lambda m: m[1])
+    sizes = ", ".join(f"{_power(m[0])} 1/{1 / m[1]:.3g}" + ("" if m in counted else " (not counted)")
+                      for m in measured)
+    note = f"best against best: {sizes}; worst at {_power(n)} (ratio of medians there 1/{1 / median:.3g})"
+    missing = [size for size in SIZES if low <= size <= high and int(size) not in {m[0] for m in measured}]
+    if missing:
+        note += "; not measured in this run: " + ", ".join(_power(size) for size in missing)
+    if any(not m[3] <= rtol for m in measured):
+        note += f"; DISAGREES with the kernel by more than {rtol:g} in q"
+    record(key, value=ratio, baseline=1.0, baseline_label="fused numba kernel = 1", best=ratio, median=median,
+           note=note)
+
+
+def _power(n: float) -> str:
+    """1e4 for 10000; other sizes as 2.5e+04."""
+    exponent = round(math.log10(n)) if n > 0 else 0
+    return f"1e{exponent}" if n == 10 ** exponent else f"{n:.2g}"
+
+
 def main(argv=None) -> int:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--sizes", nargs="+", type=float, default=list(SIZES))
@@ -198,6 +232,7 @@ def main(argv=None) -> int:
         print(f"{'points':>8} {'rounds':>6}  {'convlib [us/pt]':>17}  {'kernel [us/pt]':>17}  {'ratio':>7}  "
               f"{'RSS above inputs convlib / kernel [MiB]':>40}  {'inputs [MiB]':>12}  {'evals/pt':>8}  "
               f"{'max rel diff q':>14}")
+        measured = []
         for size in sizes:
             n = int(size)
             r = rounds_for(kind, n, rounds)
@@ -209,10 +244,12 @@ def main(argv=None) -> int:
             diff = ours["max_rel_diff_q"]
             if not diff <= args.rtol:
                 failed.append(f"{kind} at {n} points: q differs by {diff:.3g} (allowed {args.rtol:g})")
+            measured.append((n, ratio, med_k / med_c, diff))
             print(f"{n:8.0e} {r:6d}  {best_c:8.3g} / {med_c:<6.3g}  {best_k:8.3g} / {med_k:<6.3g}  "
                   f"1/{1 / ratio:<5.3g}  "
                   f"{theirs['peak_above_mib']:19.0f} / {ours['peak_above_mib']:<18.0f}  {theirs['inputs_mib']:12.1f}  "
                   f"{ours['evaluations']:8.2f}  {diff:14.2g}")
+        record_worst(kind, measured, args.rtol)
     if failed:
         print("\nDISAGREEMENT between convlib and the reference kernel:\n  " + "\n  ".join(failed))
         return 1

@@ -2,7 +2,8 @@
 
 Run ``python benchmarks/memory.py`` (part of ``make bench``; ``--sizes 1e5 1e6`` to choose). Each figure comes from
 a fresh process (peak RSS is per process), best of ``--rounds`` for time; the baseline is the same call with
-blocking switched off (``BLOCK_POINTS`` above the size), measured in the same run. Not a test: nothing here
+blocking switched off (``BLOCK_POINTS`` above the size), measured in the same run. The bare call at 10^7
+points goes to the run's record (``record.py``, the speed table of ``summary.py``). Not a test: nothing here
 asserts a figure.
 """
 from __future__ import annotations
@@ -11,6 +12,8 @@ import argparse
 import os
 import subprocess
 import sys
+
+from record import record
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 
@@ -51,6 +54,16 @@ def measure(n: float, mode: str, kind: str, rounds: int):
     return best
 
 
+def record_bare_1e7(rows: dict, rounds: int) -> None:
+    """The speed table's memory row: peak RSS above the inputs (outputs included) of the blocked bare call at
+    10^7 points, beside the same call in one piece."""
+    (elapsed, _, above, outputs), whole = rows["blocked"], rows["whole"]
+    record("memory_bare_1e7", value=above, baseline=whole[2], baseline_label="same call in one piece",
+           note=f"results {outputs:.0f} MiB, so {above - outputs:.0f} MiB of temporaries (one piece: "
+                f"{whole[2] - whole[3]:.0f}); {elapsed / 1e7 * 1e6:.2f} us per point (one piece "
+                f"{whole[0] / 1e7 * 1e6:.2f}); the round of the best time of {rounds}")
+
+
 def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--sizes", nargs="+", type=float, default=[1e5, 1e6, 1e7])
@@ -69,6 +82,8 @@ def main() -> None:
                 ratio = rows["blocked"][0] / rows["whole"][0]
                 print(f"{kind:9s} {n:8.0e}  {mode:7s}  {elapsed / n * 1e6:15.3f}  {inputs:12.1f}  {above:23.0f}  "
                       f"{outputs:13.0f}  {above - outputs:10.0f}  {ratio:.2f}")
+            if kind == "bare" and n == 1e7:
+                record_bare_1e7(rows, args.rounds)
 
 
 if __name__ == "__main__":

@@ -10,8 +10,10 @@ an installed wheel has them; without them every start compiles convlib's sources
 starts every command once as a fresh process, in turn (baseline, help, surface, ...), so a
 change of load on a shared machine touches all of them alike. Printed per command: best and median
 wall time, the baseline's best and median, the ratios (best / best and median / median), the guide
-and the heavy packages the command imported (from one extra, untimed run per command). This is not a
-test: nothing asserts a timing (``tests/test_startup.py`` checks what is imported).
+and the heavy packages the command imported (from one extra, untimed run per command). The median wall
+times of ``surface`` (with units) and ``--help`` and the baseline's go to the run's record (``record.py``,
+for ``summary.py``). This is not a test: nothing asserts a timing (``tests/test_startup.py`` checks what
+is imported).
 """
 from __future__ import annotations
 
@@ -25,6 +27,8 @@ import sys
 import time
 from pathlib import Path
 
+from record import record
+
 try:
     import resource  # POSIX only
 except ImportError:  # pragma: no cover
@@ -35,16 +39,19 @@ ROOT = Path(__file__).resolve().parents[1]
 HEAVY = ("CoolProp", "scipy", "pydantic", "plotly", "ipywidgets", "dashboard", "pint", "fluids")
 SURFACE_ARGS = ["surface", "--surface-temperature", "90degC", "--air-temperature", "20degC", "--diameter", "4.5in",
                 "--wind-speed", "2"]
-SURFACE_SI_ARGS = ["surface", "--surface-temperature", "363.15", "--air-temperature", "293.15", "--diameter",
-                   "0.1143", "--wind-speed", "2"]
+# the same case in plain numbers (degC, mm, m/s: the command line's default units) with JSON out: no pint needed
+SURFACE_PLAIN_ARGS = ["surface", "--surface-temperature", "90", "--air-temperature", "20", "--diameter", "114.3",
+                      "--wind-speed", "2", "--json"]
 
 # (label, argv after the interpreter, guide [s] or None)
 CASES = [
     ("python -c pass (baseline)", ["-c", "pass"], None),
     ("convlib --help", ["-m", "convlib", "--help"], 0.4),
     ("convlib surface (with units)", ["-m", "convlib", *SURFACE_ARGS], 0.8),
-    ("convlib surface (plain SI numbers)", ["-m", "convlib", *SURFACE_SI_ARGS], 0.8),
+    ("convlib surface (plain numbers, --json)", ["-m", "convlib", *SURFACE_PLAIN_ARGS], 0.8),
 ]
+#: rows of the speed table (benchmarks/record.py) and the command each records
+RECORDED = {"convlib surface (with units)": "startup_surface", "convlib --help": "startup_help"}
 
 # run a command in-process and print the heavy top-level packages it imported
 _PROBE = ("import runpy, sys\n"
@@ -116,14 +123,18 @@ def main(argv=None) -> int:
     base_wall, base_cpu = zip(*times[CASES[0][0]])
     b_best, b_med, b_cpu = min(base_wall), statistics.median(base_wall), statistics.median(base_cpu)
     env = _env()
-    print(f"  {'command':<36} {'wall best':>9} {'median':>7} {'CPU med':>7} | {'baseline best':>13} {'median':>7} "
+    print(f"  {'command':<39} {'wall best':>9} {'median':>7} {'CPU med':>7} | {'baseline best':>13} {'median':>7} "
           f"{'CPU med':>7} | {'ratio best':>10} {'median':>7} | {'guide':>13}  heavy imports")
     for label, argv, guide in CASES:
         wall, cpu = zip(*times[label])
         best, med, cpu_med = min(wall), statistics.median(wall), statistics.median(cpu)
         guide_text = "-" if guide is None else f"{guide:.1f} s {'ok' if med <= guide else 'MISSED'}"
-        print(f"  {label:<36} {best:9.3f} {med:7.3f} {cpu_med:7.3f} | {b_best:13.3f} {b_med:7.3f} {b_cpu:7.3f} | "
+        print(f"  {label:<39} {best:9.3f} {med:7.3f} {cpu_med:7.3f} | {b_best:13.3f} {b_med:7.3f} {b_cpu:7.3f} | "
               f"{best / b_best:10.1f} {med / b_med:7.1f} | {guide_text:>13}  {heavy_imports(argv, env)}")
+        if label in RECORDED:
+            record(RECORDED[label], value=med, baseline=b_med, baseline_label="python -c pass, median wall",
+                   best=best, median=med, note=f"median CPU {cpu_med:.2f} s (python -c pass {b_cpu:.2f} s), "
+                   f"{rounds} rounds" + (f", load average {load[0]:.1f} at start" if load else ""))
     print("  seconds; the guide is checked against the median wall time. On a loaded machine the wall time grows "
           "with the load;\n  the CPU time (user + system of the process) much less: compare ratios and CPU "
           "times between runs.")
