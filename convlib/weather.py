@@ -262,10 +262,10 @@ def jacket_condensation_hours(pipe_outer_diameter, fluid_temperature, layers, we
 
 
 def insulated_pipe_by_hour(pipe_outer_diameter, fluid_temperature, layers, weather: HourlyWeather, *,
-                           jacket_emissivity=0.9, **outside):
+                           jacket_emissivity=0.9, sky_view_fraction=None, sky_temperature=None,
+                           solar_absorptivity=None, convection_coefficient=None):
     """:func:`convlib.pipe.insulated_pipe` over lines x hours: per line (1-D or scalars) in each hour's air, wind
-    and pressure; ``outside`` the rest of its keywords (sky, sun, coefficient). Layer arrays per line need a
-    trailing axis of 1 (the hours).
+    and pressure; the other keywords as there. Layer arrays per line need a trailing axis of 1 (the hours).
 
     Examples
     --------
@@ -282,7 +282,9 @@ def insulated_pipe_by_hour(pipe_outer_diameter, fluid_temperature, layers, weath
 
     return insulated_pipe(per_line(pipe_outer_diameter), per_line(fluid_temperature), layers,
                           air_temperature=weather.air_temperature, wind_speed=weather.wind_speed,
-                          pressure=weather.pressure, jacket_emissivity=per_line(jacket_emissivity), **outside)
+                          pressure=weather.pressure, jacket_emissivity=per_line(jacket_emissivity),
+                          sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature,
+                          solar_absorptivity=solar_absorptivity, convection_coefficient=convection_coefficient)
 
 
 @dataclass(frozen=True)
