@@ -15,7 +15,7 @@ from .pipe import Layer, insulated_pipe
 from .regimes import summarize_flags
 from .validation import as_array
 
-__all__ = ["WeatherBins", "AnnualEnergy", "annual_energy", "DEFAULT_HEATING_EFFICIENCY", "DEFAULT_COOLING_COP"]
+__all__ = ["WeatherBins", "check_bins", "AnnualEnergy", "annual_energy", "DEFAULT_HEATING_EFFICIENCY", "DEFAULT_COOLING_COP"]
 
 
 @dataclass(frozen=True)
@@ -49,6 +49,16 @@ class WeatherBins:
     @classmethod
     def single(cls, air_temperature, wind_speed=0.0, hours=8760.0) -> "WeatherBins":
         return cls(np.atleast_1d(air_temperature), np.atleast_1d(wind_speed), np.atleast_1d(hours))
+
+
+def check_bins(bins) -> None:
+    """Refuse ``bins`` (InputError) unless it is None or :class:`WeatherBins` whose hours add up to more than 0."""
+    if bins is not None and not isinstance(bins, WeatherBins):
+        raise InputError(f"bins must be a convlib.design.WeatherBins or None; got {type(bins).__name__}",
+                         field="bins", rule="a convlib.design.WeatherBins or None", value=bins)
+    if bins is not None and bins.hours.sum() <= 0:
+        raise InputError("bins: the hours add up to 0", field="bins", rule="hours adding up to more than 0",
+                         value=bins)
 
 
 @dataclass(frozen=True)

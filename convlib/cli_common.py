@@ -1,6 +1,6 @@
 """Shared parts of the command line: output tables and JSON, cautions, pipe and layer options.
 
-Used by :mod:`convlib.cli` and :mod:`convlib.cli_operation`; nothing here is physics (units are
+Used by :mod:`convlib.cli`, :mod:`convlib.cli_operation` and the list commands; nothing here is physics (units are
 parsed here, at the edge, by :mod:`convlib.units`).
 """
 from __future__ import annotations
@@ -369,3 +369,58 @@ def pipe_size_options(p) -> None:
                    "(default its emissivity)")
     add_quantity(p, "convection-coefficient", "coefficient", GIVEN_COEFFICIENT_HELP)
     p.add_argument("--tag", default="line", help="label for the output")
+
+
+# ----------------------------------------------------------------------------- computed lists (lines, vessels)
+def list_arguments(p, list_name: str, module: str, demo: str, each: str) -> None:
+    """The input, ``--demo``, ``-o`` and ``--bins`` of a list command (``each``: what a row is, "line" or "item")."""
+    p.add_argument("input", nargs="?", help=f"{list_name} CSV (see {module} for the columns)")
+    p.add_argument("--demo", action="store_true", help=demo)
+    p.add_argument("-o", "--output", help=f"write per-{each} results, errors and totals to this CSV")
+    p.add_argument("--bins", help=f"weather bins JSON: air_temperature, wind_speed, hours (outdoor {each}s)")
+
+
+def power_text(watts: float, units: str) -> str:
+    """A design heat flow [W] in kW (SI) or Btu/h (US)."""
+    return f"{watts / 1000:.1f} kW" if units == "SI" else f"{float(from_si(watts, 'power', 'Btu/hour')):,.0f} Btu/h"
+
+
+def energy_text(kwh: float, units: str) -> str:
+    """An annual energy [kWh/yr] in MWh/yr (SI) or MMBtu/yr (US)."""
+    return (f"{kwh / 1000:.1f} MWh/yr" if units == "SI" else
+            f"{float(from_si(kwh * 3.6e6, 'energy', 'MMBtu')):,.1f} MMBtu/yr")
+
+
+def list_errors_and_json(args, result, name: str, units: dict, totals_units: dict, reason=None) -> bool:
+    """A computed list's row errors on stderr (each through ``reason`` if given), then with ``--json`` the whole
+    list under ``name``; True when the JSON was printed."""
+    for e in result.errors:
+        print(f"convlib: row {e.row} ({e.tag or 'no tag'}): {e.reason if reason is None else reason(e.reason)}",
+              file=sys.stderr)
+    if not args.json:
+        return False
+    json.dump({name: {"results": result.rows(), "units": units},
+               "errors": [e._asdict() for e in result.errors], "totals": result.totals,
+               "totals_units": totals_units, "warnings": list(result.warnings), "settings": result.settings,
+               "output": args.output, "cautions": list(result.cautions), "convlib_version": __version__},
+              sys.stdout, indent=2)
+    print()
+    return True
+
+
+def list_table(args, result, rows: list[dict], each: str, head: str, tail=()) -> None:
+    """A computed list's table, then ``head``, its heat lost and gained (``each``: "line", "item"), ``tail``, the
+    output file and the warnings and cautions."""
+    table(rows, args.units)
+    t = result.totals
+    print(f"\n{head}")
+    print(f"heat lost by hot {each}s ({t[f'{each}s_losing']}): {power_text(t['q_lost'], args.units)}, "
+          f"{energy_text(t['heat_lost_kwh'], args.units)}")
+    print(f"heat gained by cold {each}s ({t[f'{each}s_gaining']}): {power_text(t['q_gained'], args.units)}, "
+          f"{energy_text(t['heat_gained_kwh'], args.units)}")
+    for line in tail:
+        print(line)
+    if args.output:
+        print(f"results written to {args.output}")
+    for c in (*result.warnings, *result.cautions):
+        print(c)

@@ -7,8 +7,9 @@ import sys
 
 import numpy as np
 
-from . import __version__
-from .cli_common import ALLOW_HELP, display_unit, from_si, output_options, pretty_unit, table
+from .cli_common import (ALLOW_HELP, display_unit, energy_text, from_si, list_arguments, list_errors_and_json,
+                         list_table, output_options, pretty_unit)
+from .cli_common import power_text  # noqa: F401  (moved to cli_common; importable from here too)
 from .demo import load_demo_site
 from .errors import InputError
 from .files import read_json
@@ -232,20 +233,8 @@ def _cmd_lines(args) -> int:
                          rule="a readable file", value=args.input) from None
     if args.output:
         write_results_csv(result, args.output)
-    for e in result.errors:
-        reason = e.reason
-        if "K for " in reason:  # the property data's kelvin, also in the reader's unit
-            from .units import kelvin_for_reader
-
-            reason = kelvin_for_reader(reason, args.units)
-        print(f"convlib: row {e.row} ({e.tag or 'no tag'}): {reason}", file=sys.stderr)
-    if args.json:
-        json.dump({"lines": {"results": result.rows(), "units": LINE_UNITS},
-                   "errors": [e._asdict() for e in result.errors], "totals": result.totals,
-                   "totals_units": TOTAL_UNITS, "warnings": list(result.warnings),
-                   "settings": result.settings, "output": args.output, "cautions": list(result.cautions),
-                   "convlib_version": __version__}, sys.stdout, indent=2)
-        print()
+    if list_errors_and_json(args, result, "lines", LINE_UNITS, TOTAL_UNITS,
+                            reason=lambda text: _reader_kelvin(text, args.units)):
         return 1 if result.errors else 0
     rows = []
     for row in result.rows():
@@ -255,39 +244,29 @@ def _cmd_lines(args) -> int:
                      "q_total": row["q_total"], "heat [MWh/yr]": f"{row['heat_kwh'] / 1000:.2f}",
                      "cost/yr": f"{row['cost']:.0f}", "flags": ", ".join(flags) or "-",
                      "warnings": [row["notes"]] if row["notes"] else []})
-    table(rows, args.units)
     t = result.totals
-    print(f"\n{t['lines']} lines computed, {t['rows_with_errors']} row(s) with errors")
-    print(f"heat lost by hot lines ({t['lines_losing']}): {power_text(t['q_lost'], args.units)}, "
-          f"{energy_text(t['heat_lost_kwh'], args.units)}")
-    print(f"heat gained by cold lines ({t['lines_gaining']}): {power_text(t['q_gained'], args.units)}, "
-          f"{energy_text(t['heat_gained_kwh'], args.units)}")
-    print(f"purchased energy {energy_text(t['purchased_kwh'], args.units)}, cost {t['cost']:.0f}/yr, "
-          f"CO2 {t['co2_kg'] / 1000:.1f} t/yr; {t['touch_flags']} touch and {t['condensation_flags']} "
-          f"condensation flag(s) (flags, not verdicts)")
+    tail = [f"purchased energy {energy_text(t['purchased_kwh'], args.units)}, cost {t['cost']:.0f}/yr, "
+            f"CO2 {t['co2_kg'] / 1000:.1f} t/yr; {t['touch_flags']} touch and {t['condensation_flags']} "
+            f"condensation flag(s) (flags, not verdicts)"]
     shown = {"condensate": float(from_si(t["condensate"], "mass_flow", "kg/h")), "tracing_duty": t["tracing_duty"]}
     extras = [f"{label} {shown[name]:.{digits}f} {unit} on {int(np.sum(~np.isnan(getattr(result, name))))} line(s)"
               for name, label, unit, digits in (("condensate", "steam condensate", "kg/h", 1),
                                                 ("tracing_duty", "tracing duty", "W", 0))
               if np.any(~np.isnan(getattr(result, name)))]
     if extras:
-        print("; ".join(extras))
-    if args.output:
-        print(f"results written to {args.output}")
-    for c in (*result.warnings, *result.cautions):
-        print(c)
+        tail.append("; ".join(extras))
+    list_table(args, result, rows, "line", f"{t['lines']} lines computed, {t['rows_with_errors']} row(s) with errors",
+               tail)
     return 1 if result.errors else 0
 
 
-def power_text(watts: float, units: str) -> str:
-    """A design heat flow [W] in kW (SI) or Btu/h (US)."""
-    return f"{watts / 1000:.1f} kW" if units == "SI" else f"{float(from_si(watts, 'power', 'Btu/hour')):,.0f} Btu/h"
+def _reader_kelvin(reason: str, units: str) -> str:
+    """A row error's kelvin (the property data's) also in the reader's unit."""
+    if "K for " not in reason:
+        return reason
+    from .units import kelvin_for_reader
 
-
-def energy_text(kwh: float, units: str) -> str:
-    """An annual energy [kWh/yr] in MWh/yr (SI) or MMBtu/yr (US)."""
-    return (f"{kwh / 1000:.1f} MWh/yr" if units == "SI" else
-            f"{float(from_si(kwh * 3.6e6, 'energy', 'MMBtu')):,.1f} MMBtu/yr")
+    return kelvin_for_reader(reason, units)
 
 
 def _cmd_report(args) -> int:
@@ -344,10 +323,8 @@ def add_commands(sub) -> None:
 
     lines = sub.add_parser("lines", help="compute a CSV line list (every line at once); write results as CSV "
                            "(exit 1 if rows failed)")
-    lines.add_argument("input", nargs="?", help="line-list CSV (see convlib.linelist for the columns)")
-    lines.add_argument("--demo", action="store_true", help="the invented Fernhill line list, weather and prices")
-    lines.add_argument("-o", "--output", help="write per-line results, errors and totals to this CSV")
-    lines.add_argument("--bins", help="weather bins JSON: air_temperature, wind_speed, hours (outdoor lines)")
+    list_arguments(lines, "line-list", "convlib.linelist", "the invented Fernhill line list, weather and prices",
+                   "line")
     lines.add_argument("--energy-price", type=float, help="price per purchased kWh (default 0)")
     lines.add_argument("--heating-efficiency", type=float, help="efficiency of the heat source (default 0.85)")
     lines.add_argument("--cooling-cop", type=float, help="COP of the chiller (default 3)")

@@ -6,12 +6,9 @@ Registered on the ``convlib`` parser by :func:`add_commands` (see :mod:`convlib.
 """
 from __future__ import annotations
 
-import json
-import sys
-
-from . import __version__
-from .cli_common import ALLOW_HELP, add_quantity, from_si, output_options, table, value
-from .cli_study import energy_text, power_text, weather_bins
+from .cli_common import (ALLOW_HELP, add_quantity, from_si, list_arguments, list_errors_and_json, list_table,
+                         output_options, value)
+from .cli_study import weather_bins
 from .design import TOUCH_LIMIT_METAL_JACKET
 from .errors import InputError
 
@@ -40,15 +37,7 @@ def _cmd_vessels(args) -> int:
                              allow_unusual=args.allow_unusual)
     if args.output:
         write_vessel_results_csv(result, args.output)
-    for e in result.errors:
-        print(f"convlib: row {e.row} ({e.tag or 'no tag'}): {e.reason}", file=sys.stderr)
-    if args.json:
-        json.dump({"vessels": {"results": result.rows(), "units": VESSEL_UNITS},
-                   "errors": [e._asdict() for e in result.errors], "totals": result.totals,
-                   "totals_units": VESSEL_TOTAL_UNITS, "warnings": list(result.warnings), "settings": result.settings,
-                   "output": args.output, "cautions": list(result.cautions), "convlib_version": __version__},
-                  sys.stdout, indent=2)
-        print()
+    if list_errors_and_json(args, result, "vessels", VESSEL_UNITS, VESSEL_TOTAL_UNITS):
         return 1 if result.errors else 0
     heat = "heat [MWh/yr]" if args.units == "SI" else "heat [MMBtu/yr]"
     rows = [{"tag": row["tag"], "kind": row["kind"], "location": row["location"], "area": row["area"],
@@ -56,19 +45,10 @@ def _cmd_vessels(args) -> int:
              "surface_temperature": row["surface_temperature"], heat: _annual(row["heat_kwh"], args.units),
              "flags": "touch" if row["touch_flag"] else "-", "warnings": [row["notes"]] if row["notes"] else []}
             for row in result.rows()]
-    table(rows, args.units)
     t = result.totals
-    print(f"\n{t['items']} items computed, {t['rows_with_errors']} row(s) with errors; T_surface: the hottest "
-          f"exposed face")
-    print(f"heat lost by hot items ({t['items_losing']}): {power_text(t['q_lost'], args.units)}, "
-          f"{energy_text(t['heat_lost_kwh'], args.units)}")
-    print(f"heat gained by cold items ({t['items_gaining']}): {power_text(t['q_gained'], args.units)}, "
-          f"{energy_text(t['heat_gained_kwh'], args.units)}")
-    print(f"{t['touch_flags']} touch flag(s) (flags, not verdicts)")
-    if args.output:
-        print(f"results written to {args.output}")
-    for c in (*result.warnings, *result.cautions):
-        print(c)
+    list_table(args, result, rows, "item", f"{t['items']} items computed, {t['rows_with_errors']} row(s) with "
+               f"errors; T_surface: the hottest exposed face",
+               [f"{t['touch_flags']} touch flag(s) (flags, not verdicts)"])
     return 1 if result.errors else 0
 
 
@@ -76,10 +56,7 @@ def add_commands(sub) -> None:
     """Add ``vessels`` to the ``convlib`` subparsers ``sub``."""
     p = sub.add_parser("vessels", help="compute a CSV list of tanks, spheres and ducts face by face; totals, "
                        "results as CSV (exit 1 if rows failed)")
-    p.add_argument("input", nargs="?", help="vessel-list CSV (see convlib.vessel_list for the columns)")
-    p.add_argument("--demo", action="store_true", help="the invented Fernhill vessel list and weather")
-    p.add_argument("-o", "--output", help="write per-item results, errors and totals to this CSV")
-    p.add_argument("--bins", help="weather bins JSON: air_temperature, wind_speed, hours (outdoor items)")
+    list_arguments(p, "vessel-list", "convlib.vessel_list", "the invented Fernhill vessel list and weather", "item")
     add_quantity(p, "surface-limit", "temperature", "touch flag above this surface temperature (default "
                  f"{TOUCH_LIMIT_METAL_JACKET - 273.15:g} degC, a design default)")
     output_options(p, quantities=False)

@@ -14,7 +14,8 @@ import numpy as np
 from . import correlations as corr
 from .correlations.forced import nusselt_square_cylinder_crossflow_jakob
 from .correlations.mixed import combine, default_mixing_exponent
-from .faces import FacesResult, face_from, faces_total, film_resistance, known_temperature, sky_view, solve_layers
+from .faces import (FacesResult, face_from, faces_total, film_resistance, known_temperature, outer_keywords, sky_view,
+                    solve_layers)
 from .properties import fluid_properties
 from .regimes import Flag, convection_mode
 from .surface import GRAVITY, OuterSurface, SurfaceResult
@@ -112,11 +113,9 @@ def rectangular_duct(width, height, length, *, surface_temperature=None, fluid_t
     w_out, h_out = w + grow, h + grow
     across = wind_direction == "across" and convection_coefficient is None
     wind = around.wind_speed
-    common = dict(air_temperature=around.air_temperature, wind_speed=0.0 * wind if across else wind,
-                  emissivity=emissivity, surroundings_temperature=around.surroundings_temperature,
-                  sky_temperature=around.sky_temperature, solar_irradiance=around.solar_irradiance,
-                  pressure=around.pressure, exact_properties=exact_properties, convection_factor=convection_factor,
-                  convection_coefficient=convection_coefficient)
+    common = outer_keywords(around, wind_speed=0.0 * wind if across else wind, emissivity=emissivity,
+                            exact_properties=exact_properties, convection_factor=convection_factor,
+                            convection_coefficient=convection_coefficient)
     outers = [("sides", OuterSurface.build("vertical_plate", height=h_out, width=run,
                                            sky_view_fraction=sky_view(outdoor, "vertical_plate", around), **common),
                2.0 * h_out * run),

@@ -93,6 +93,21 @@ def sky_view(outdoor, shape, around=None):
     return 0.0 if around is None else around.sky_view_fraction
 
 
+def outer_keywords(around, *, emissivity, exact_properties, convection_factor, convection_coefficient,
+                   wind_speed=None):
+    """Keywords of :meth:`convlib.surface.OuterSurface.build` every face shares: the surroundings and the settings.
+
+    ``around`` is a resolved :class:`convlib.surroundings.Surroundings`; ``wind_speed`` replaces its wind when given.
+    The sky view is per face (:func:`sky_view`), so it is left to the caller.
+    """
+    return dict(air_temperature=around.air_temperature,
+                wind_speed=around.wind_speed if wind_speed is None else wind_speed, emissivity=emissivity,
+                surroundings_temperature=around.surroundings_temperature, sky_temperature=around.sky_temperature,
+                solar_irradiance=around.solar_irradiance, pressure=around.pressure,
+                exact_properties=exact_properties, convection_factor=convection_factor,
+                convection_coefficient=convection_coefficient)
+
+
 def solve_layers(outer, fluid_temperature, layers, kind, inner_diameter, tolerance, fixed_resistance=0.0):
     """Outer surface temperature [K] and outer diameter of a face with layers: :func:`convlib.wall.solve_face`."""
     solved = solve_face(outer, fluid_temperature, layers, kind=kind, inner_diameter=inner_diameter,

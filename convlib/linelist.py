@@ -111,6 +111,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from .annual import check_bins
 from .design import (CAUTION_CONDENSATION, CAUTION_TOUCH, DEFAULT_COOLING_COP, DEFAULT_HEATING_EFFICIENCY,
                      TOUCH_LIMIT_METAL_JACKET, WeatherBins)
 from .errors import InputError
@@ -247,12 +248,7 @@ def _settings(energy_price, heating_efficiency, cooling_cop, co2_per_kwh, surfac
     if isinstance(chunk_size, bool) or not isinstance(chunk_size, (int, np.integer)) or chunk_size < 1:
         raise InputError(f"chunk_size must be a whole number of at least 1; got {chunk_size!r}", field="chunk_size",
                          rule="a whole number of at least 1", value=chunk_size)
-    if bins is not None and not isinstance(bins, WeatherBins):
-        raise InputError(f"bins must be a convlib.design.WeatherBins or None; got {type(bins).__name__}",
-                         field="bins", rule="a convlib.design.WeatherBins or None", value=bins)
-    if bins is not None and bins.hours.sum() <= 0:
-        raise InputError("bins: the hours add up to 0", field="bins", rule="hours adding up to more than 0",
-                         value=bins)
+    check_bins(bins)
     return {"energy_price": float(as_array("energy_price", energy_price, low=0.0)),
             "heating_efficiency": float(as_array("heating_efficiency", heating_efficiency, low=0.0, high=1.0,
                                                  low_inclusive=False)),

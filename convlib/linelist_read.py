@@ -26,7 +26,7 @@ from .units import KIND_SI_UNIT, read, split, unit_affine
 
 __all__ = ["COLUMNS", "OPERATION_COLUMNS", "OUTDOOR_SKY_VIEW_FRACTION", "RowError", "ParsedLine", "read_line_list",
            "demo_lines_path", "HOURS_PER_YEAR", "FORMULA_PREFIXES", "blank", "cell_number", "cell_layers",
-           "header_columns", "read_records", "read_table", "csv_cell", "inert_cells"]
+           "header_columns", "read_records", "read_table", "parse_rows", "csv_cell", "inert_cells"]
 
 #: Input columns and the kind of quantity of their unit suffix ("text" and "count" take none).
 COLUMNS = {
@@ -394,11 +394,16 @@ def read_line_list(source, *, allow_unusual: bool = False) -> tuple[list[ParsedL
     if isinstance(source, (list, tuple)) and source and all(isinstance(s, LineSpec) for s in source):
         return [ParsedLine(i, s, LOCATIONS[s.sky_view_fraction > 0], None) for i, s in enumerate(source, 2)], []
     units, rows = read_table(source, "line list", "tag, nps or outer_diameter, length, ...", "or all LineSpec objects")
-    lines, errors = [], []
+    return parse_rows(rows, _parse_row, units, allow_unusual)
+
+
+def parse_rows(rows, parse, *args) -> tuple[list, list[RowError]]:
+    """The ``(number, cells)`` rows of :func:`read_table` through ``parse(number, cells, *args)``: parsed, RowErrors."""
+    parsed_rows, errors = [], []
     for number, named in rows:
-        parsed = named if isinstance(named, RowError) else _parse_row(number, named, units, allow_unusual)
-        (errors if isinstance(parsed, RowError) else lines).append(parsed)
-    return lines, errors
+        parsed = named if isinstance(named, RowError) else parse(number, named, *args)
+        (errors if isinstance(parsed, RowError) else parsed_rows).append(parsed)
+    return parsed_rows, errors
 
 
 def read_table(source, what: str = "line list", header_hint: str = "tag, ...", alternative: str = "",

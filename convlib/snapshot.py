@@ -52,7 +52,7 @@ from .study import StudyResult, StudySpec
 __all__ = ["SCHEMA_VERSION", "KIND", "MAX_BYTES", "DETERMINISTIC_TOLERANCE", "STANDARD_ERRORS", "SnapshotError",
            "Provenance", "Snapshot", "QuantityCheck", "VerifyReport", "SnapshotDiff", "save", "load", "verify",
            "diff", "canonical_json", "content_hash", "current_provenance", "quantile_standard_error", "as_snapshot",
-           "checked_envelope"]
+           "checked_envelope", "save_target"]
 
 SCHEMA_VERSION = 1
 KIND = "convlib-snapshot"
@@ -242,16 +242,7 @@ def save(path, spec: StudySpec, result: StudyResult, author: str = "", note: str
                              f"of length {len(value) if isinstance(value, str) else '-'}", field=name,
                              rule=f"text of at most {limit} characters", value=value)
     _check_pair(spec, result)
-    if not isinstance(path, (str, os.PathLike)) or not os.fspath(path) or "\0" in os.fspath(path):
-        raise InputError(f"cannot save to {path!r}: not a usable file name", field="path",
-                         rule="a file name without NUL characters", value=path)
-    path = Path(path)
-    if path.is_dir():
-        raise IsADirectoryError(f"{path} is a directory; give a file name such as {path / 'study.snapshot.json'}")
-    if not path.parent.is_dir():
-        raise FileNotFoundError(f"cannot save {path}: directory {path.parent} does not exist")
-    if path.exists() and not overwrite:
-        raise _exists(path)
+    path = save_target(path, overwrite, "study.snapshot.json")
     document = {"schema_version": SCHEMA_VERSION, "kind": KIND,
                 "created_utc": _dt.datetime.now(_dt.timezone.utc).strftime("%Y-%m-%dT%H:%M:%SZ"),
                 "author": author, "note": note, "provenance": current_provenance().model_dump(),
@@ -277,6 +268,22 @@ def _mb(size: int) -> str:
 
 def _exists(path: Path) -> FileExistsError:
     return FileExistsError(f"{path} already exists; pass overwrite=True to replace it")
+
+
+def save_target(path, overwrite: bool, example: str) -> Path:
+    """The checked file a snapshot is saved to: a usable name in an existing directory, not a directory, and
+    new unless ``overwrite`` (``example``: a file name suggested when ``path`` is a directory)."""
+    if not isinstance(path, (str, os.PathLike)) or not os.fspath(path) or "\0" in os.fspath(path):
+        raise InputError(f"cannot save to {path!r}: not a usable file name", field="path",
+                         rule="a file name without NUL characters", value=path)
+    path = Path(path)
+    if path.is_dir():
+        raise IsADirectoryError(f"{path} is a directory; give a file name such as {path / example}")
+    if not path.parent.is_dir():
+        raise FileNotFoundError(f"cannot save {path}: directory {path.parent} does not exist")
+    if path.exists() and not overwrite:
+        raise _exists(path)
+    return path
 
 
 def _flatten(exc: ValidationError, prefix: str = "") -> str:

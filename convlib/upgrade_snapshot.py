@@ -33,7 +33,6 @@ from __future__ import annotations
 
 import datetime as _dt
 import math
-import os
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any, Literal
@@ -46,7 +45,7 @@ from .errors import InputError
 from .files import read_json, write_atomic
 from .scale import StudyOutput, run_study
 from .snapshot import (MAX_BYTES, Provenance, SnapshotError, _flatten, _pretty, checked_envelope,  # noqa: F401
-                       content_hash, current_provenance)
+                       content_hash, current_provenance, save_target)
 from .survey import CAUTIONS, Measurement, RowError, _columns_of, read_survey
 from .annual import WeatherBins
 from .upgrade import CostTable, StudySettings, ranked, totals
@@ -376,20 +375,6 @@ def _text(name: str, value: str, limit: int) -> None:
                          rule=f"text of at most {limit} characters", value=value)
 
 
-def _target(path, overwrite: bool) -> Path:
-    if not isinstance(path, (str, os.PathLike)) or not os.fspath(path) or "\0" in os.fspath(path):
-        raise InputError(f"cannot save to {path!r}: not a usable file name", field="path",
-                         rule="a file name without NUL characters", value=path)
-    path = Path(path)
-    if path.is_dir():
-        raise IsADirectoryError(f"{path} is a directory; give a file name such as {path / 'upgrade.snapshot.json'}")
-    if not path.parent.is_dir():
-        raise FileNotFoundError(f"cannot save {path}: directory {path.parent} does not exist")
-    if path.exists() and not overwrite:
-        raise FileExistsError(f"{path} already exists; pass overwrite=True to replace it")
-    return path
-
-
 def save(path, source, settings: StudySettings, *, output: StudyOutput | None = None, weather_source: str = "",
          author: str = "", note: str = "", overwrite: bool = False) -> Path:
     """Write an upgrade study's snapshot atomically.
@@ -427,7 +412,7 @@ def save(path, source, settings: StudySettings, *, output: StudyOutput | None = 
     for name, value, limit in (("author", author, 200), ("note", note, 20_000), ("weather_source", weather_source,
                                                                                  2000)):
         _text(name, value, limit)
-    path = _target(path, overwrite)
+    path = save_target(path, overwrite, "upgrade.snapshot.json")
     columns = survey_columns(source)
     if output is None:
         output = run_study(columns, settings)

@@ -71,6 +71,7 @@ from typing import NamedTuple
 import numpy as np
 from pydantic import ValidationError
 
+from .annual import check_bins
 from .design import CAUTION_TOUCH, TOUCH_LIMIT_METAL_JACKET, WeatherBins
 from .ducts import WIND_DIRECTIONS, rectangular_duct
 from .errors import InputError
@@ -78,7 +79,7 @@ from .faces import FacesResult
 from .files import write_atomic
 from .linelist import WARNING_DESIGN_AIR_ALL_YEAR
 from .linelist_read import (HOURS_PER_YEAR, LOCATIONS, RowError, blank, cell_layers, cell_number, csv_cell,
-                            inert_cells, read_table)
+                            inert_cells, parse_rows, read_table)
 from .lines import LayerSpec
 from .regimes import describe_flags
 from .units import from_si
@@ -253,11 +254,7 @@ def read_vessel_list(source, *, allow_unusual: bool = False) -> tuple[list[Parse
     if len(rows) > MAX_ITEMS:
         raise InputError(f"vessel list: {len(rows)} items, more than {MAX_ITEMS}; split the list", field="source",
                          rule=f"at most {MAX_ITEMS} items", value=len(rows))
-    items, errors = [], []
-    for number, named in rows:
-        parsed = named if isinstance(named, RowError) else _parse_row(number, named, units, allow_unusual)
-        (errors if isinstance(parsed, RowError) else items).append(parsed)
-    return items, errors
+    return parse_rows(rows, _parse_row, units, allow_unusual)
 
 
 # ----------------------------------------------------------------------------- computing
@@ -332,12 +329,7 @@ _SUMMED = ("area", "q_lost", "q_gained", "heat_lost_kwh", "heat_gained_kwh")
 
 
 def _settings(surface_limit, bins) -> dict:
-    if bins is not None and not isinstance(bins, WeatherBins):
-        raise InputError(f"bins must be a convlib.design.WeatherBins or None; got {type(bins).__name__}",
-                         field="bins", rule="a convlib.design.WeatherBins or None", value=bins)
-    if bins is not None and bins.hours.sum() <= 0:
-        raise InputError("bins: the hours add up to 0", field="bins", rule="hours adding up to more than 0",
-                         value=bins)
+    check_bins(bins)
     return {"surface_limit": float(as_array("surface_limit", surface_limit, unit="K", low=0.0, low_inclusive=False)),
             "weather_bins": bins is not None}
 

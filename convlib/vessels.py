@@ -39,7 +39,7 @@ from .ducts import SQUARE_CYLINDER_RE_RANGE, WIND_DIRECTIONS, nusselt_square_cyl
 from .errors import InputError
 from .face_sizing import FaceThickness, insulation_per_face
 from .faces import (Face, FacesResult, disc_as_plate, face_from, faces_total, film_resistance, known_temperature,
-                    sky_view, solve_layers)
+                    outer_keywords, sky_view, solve_layers)
 from .pipe import Layer
 from .surface import OuterSurface, check_cross_flow
 from .validation import as_array, as_size, check_choice
@@ -144,11 +144,8 @@ def vertical_tank(diameter, height, *, surface_temperature=None, fluid_temperatu
         raise InputError("floor_layers need floor='ground' or 'open'; the floor is left out", field="floor_layers",
                          rule="only with floor='ground' or 'open'", value=floor_layers)
     around = resolve(surroundings, air_temperature=air_temperature, wind_speed=wind_speed, surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure, ground_temperature=ground_temperature)
-    common = dict(air_temperature=around.air_temperature, wind_speed=around.wind_speed, emissivity=emissivity,
-                  surroundings_temperature=around.surroundings_temperature, sky_temperature=around.sky_temperature,
-                  solar_irradiance=around.solar_irradiance,
-                  pressure=around.pressure, exact_properties=exact_properties, convection_factor=convection_factor,
-                  convection_coefficient=convection_coefficient)
+    common = outer_keywords(around, emissivity=emissivity, exact_properties=exact_properties,
+                            convection_factor=convection_factor, convection_coefficient=convection_coefficient)
     notes = []
 
     def solve(outer, layers, kind, inner_diameter, fixed):
@@ -258,13 +255,10 @@ def spherical_tank(diameter, *, surface_temperature=None, fluid_temperature=None
                                wall_thickness=wall_thickness, inner_coefficient=inner_coefficient)
     _, d_out = layer_drops(layers, "sphere", d)
     around = resolve(surroundings, air_temperature=air_temperature, wind_speed=wind_speed, surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure)
-    outer = OuterSurface.build("sphere", diameter=d_out, air_temperature=around.air_temperature,
-                               wind_speed=around.wind_speed, emissivity=emissivity,
-                               surroundings_temperature=around.surroundings_temperature,
-                               sky_view_fraction=sky_view(outdoor, "sphere", around), sky_temperature=around.sky_temperature,
-                               solar_irradiance=around.solar_irradiance,
-                               pressure=around.pressure, exact_properties=exact_properties,
-                               convection_factor=convection_factor, convection_coefficient=convection_coefficient)
+    outer = OuterSurface.build("sphere", diameter=d_out, sky_view_fraction=sky_view(outdoor, "sphere", around),
+                               **outer_keywords(around, emissivity=emissivity, exact_properties=exact_properties,
+                                                convection_factor=convection_factor,
+                                                convection_coefficient=convection_coefficient))
     if layers or np.any(fixed > 0):
         ts, _ = solve_layers(outer, inner, layers, "sphere", d, tolerance, fixed)
     else:
@@ -434,11 +428,8 @@ def horizontal_tank(diameter, length, *, heads="ellipsoidal_2to1", surface_tempe
                      surroundings_temperature=surroundings_temperature, sky_view_fraction=sky_view_fraction,
                      sky_temperature=sky_temperature, solar_irradiance=solar_irradiance, pressure=pressure)
     check_cross_flow("horizontal_cylinder", around)
-    common = dict(air_temperature=around.air_temperature, wind_speed=around.wind_speed, emissivity=emissivity,
-                  surroundings_temperature=around.surroundings_temperature, sky_temperature=around.sky_temperature,
-                  solar_irradiance=around.solar_irradiance, pressure=around.pressure,
-                  exact_properties=exact_properties, convection_factor=convection_factor,
-                  convection_coefficient=convection_coefficient)
+    common = outer_keywords(around, emissivity=emissivity, exact_properties=exact_properties,
+                            convection_factor=convection_factor, convection_coefficient=convection_coefficient)
 
     def solve(outer, layers, kind, inner_diameter, fixed):
         if not layers and not np.any(fixed > 0):

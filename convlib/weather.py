@@ -40,7 +40,7 @@ from .radiation import STEFAN_BOLTZMANN
 
 __all__ = ["HourlyWeather", "read_epw", "demo_weather_path", "to_bins", "hours_below", "condensation_hours",
            "synthetic_epw_text", "EPW_FIELDS", "jacket_condensation_hours",
-           "TracingEnergy", "tracing_energy"]
+           "insulated_pipe_by_hour", "TracingEnergy", "tracing_energy"]
 
 #: 0-based column of each field read, and the value at or above which the manual marks it missing.
 EPW_FIELDS = {
@@ -254,16 +254,37 @@ def jacket_condensation_hours(pipe_outer_diameter, fluid_temperature, layers, we
     >>> bool(h[0] > h[1])
     True
     """
+    r = insulated_pipe_by_hour(pipe_outer_diameter, fluid_temperature, layers, weather,
+                               jacket_emissivity=jacket_emissivity, sky_view_fraction=sky_view_fraction,
+                               sky_temperature=sky_temperature, solar_absorptivity=solar_absorptivity,
+                               convection_coefficient=convection_coefficient)
+    return condensation_hours(weather, r.surface_temperature, margin)
+
+
+def insulated_pipe_by_hour(pipe_outer_diameter, fluid_temperature, layers, weather: HourlyWeather, *,
+                           jacket_emissivity=0.9, sky_view_fraction=None, sky_temperature=None,
+                           solar_absorptivity=None, convection_coefficient=None):
+    """:func:`convlib.pipe.insulated_pipe` over lines x hours: per line (1-D or scalars) in each hour's air, wind
+    and pressure; the other keywords as there. Layer arrays per line need a trailing axis of 1 (the hours).
+
+    Examples
+    --------
+    >>> from convlib.pipe import Layer
+    >>> w = read_epw(demo_weather_path())
+    >>> r = insulated_pipe_by_hour([0.0603, 0.1143], 280.15, [Layer(0.05, 0.035)], w)
+    >>> r.surface_temperature.shape == (2, len(w))
+    True
+    """
     from .pipe import insulated_pipe
 
-    d = np.atleast_1d(np.asarray(pipe_outer_diameter, dtype=float))
-    tf = np.atleast_1d(np.asarray(fluid_temperature, dtype=float))
-    eps = np.atleast_1d(np.asarray(jacket_emissivity, dtype=float))
-    r = insulated_pipe(d[:, None], tf[:, None], layers, air_temperature=weather.air_temperature,
-                       wind_speed=weather.wind_speed, jacket_emissivity=eps[:, None],
-                       pressure=weather.pressure, sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature,
-                       solar_absorptivity=solar_absorptivity, convection_coefficient=convection_coefficient)
-    return condensation_hours(weather, r.surface_temperature, margin)
+    def per_line(value):
+        return np.atleast_1d(np.asarray(value, dtype=float))[:, None]
+
+    return insulated_pipe(per_line(pipe_outer_diameter), per_line(fluid_temperature), layers,
+                          air_temperature=weather.air_temperature, wind_speed=weather.wind_speed,
+                          pressure=weather.pressure, jacket_emissivity=per_line(jacket_emissivity),
+                          sky_view_fraction=sky_view_fraction, sky_temperature=sky_temperature,
+                          solar_absorptivity=solar_absorptivity, convection_coefficient=convection_coefficient)
 
 
 @dataclass(frozen=True)
@@ -314,7 +335,6 @@ def tracing_energy(pipe_outer_diameter, maintain_temperature, layers, weather: H
     >>> bool(0 < e.time_on[0] / 3600 < len(w)), bool(e.energy_per_length[0] > 0)
     (True, True)
     """
-    from .pipe import insulated_pipe
     from .validation import as_array
 
     d = np.atleast_1d(as_array("pipe_outer_diameter", pipe_outer_diameter, unit="m", low=0.0, low_inclusive=False))
@@ -325,10 +345,9 @@ def tracing_energy(pipe_outer_diameter, maintain_temperature, layers, weather: H
         as_array("switch_on_below", switch_on_below, unit="K", low=0.0, low_inclusive=False))
     sky = weather.sky_temperature
     sky = np.where(np.isnan(sky), weather.air_temperature, sky) if sky_view_fraction else None
-    r = insulated_pipe(d[:, None], tm[:, None], layers, air_temperature=weather.air_temperature,
-                       wind_speed=weather.wind_speed, pressure=weather.pressure, jacket_emissivity=eps[:, None],
-                       sky_view_fraction=sky_view_fraction, sky_temperature=sky, solar_absorptivity=solar_absorptivity,
-                       convection_coefficient=convection_coefficient)
+    r = insulated_pipe_by_hour(d, tm, layers, weather, jacket_emissivity=eps, sky_view_fraction=sky_view_fraction,
+                               sky_temperature=sky, solar_absorptivity=solar_absorptivity,
+                               convection_coefficient=convection_coefficient)
     on = weather.air_temperature < np.broadcast_to(on_below, r.q_per_length.shape[:-1])[..., None]
     duty = np.where(on, np.maximum(r.q_per_length, 0.0), 0.0)   # [W/m] hour by hour
     per_length = duty.sum(axis=-1) * 3600.0                      # one hour per row [J/m]
