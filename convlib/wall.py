@@ -25,6 +25,7 @@ import numpy as np
 
 from .errors import InputError
 from .flux import FluxSlope
+from .radiation import STEFAN_BOLTZMANN
 from .roots import find_root, newton_decreasing
 
 __all__ = ["FACE_KINDS", "FacePoints", "FaceSolution", "shell_drop", "layer_drops", "layered_flow", "solve_face"]
@@ -211,13 +212,17 @@ def solve_face(outer, fluid_temperature, layers=(), *, kind="cylinder", inner_di
 
 
 def _first_guess(points: FacePoints, layers, constant):
-    """Where the Newton iteration starts: the surface of a film of 10 W/m2/K in series with the wall."""
+    """Where the Newton iteration starts: the surface of a rough outer coefficient in series with the wall."""
     tf, ta = points.fluid_temperature, points.outer["air_temperature"]
     resistance = points.resistance
     if not constant:
         middle = 0.5 * (tf + ta)
         resistance = resistance + sum(d / layer.conductivity.at(middle) for d, layer in zip(points.drops, layers))
-    r_surface = 1.0 / (10.0 * points.area_factor)
+    # a rough outer coefficient [W/m2/K] (convection rising with the wind, linearised radiation at the air
+    # temperature): only where the iteration starts, it moves no result (common practice, no source)
+    wind, emissivity = points.outer["wind_speed"], points.outer["emissivity"]
+    h_guess = 5.0 + 6.0 * wind ** 0.6 + 4.0 * STEFAN_BOLTZMANN * emissivity * ta ** 3
+    r_surface = 1.0 / (h_guess * points.area_factor)
     with np.errstate(divide="ignore", invalid="ignore"):
         return ta + (tf - ta) * r_surface / (resistance + r_surface)
 
