@@ -129,9 +129,10 @@ def newton_decreasing(f, lo, hi, x0, args=(), *, xatol, maxiter=60) -> RootResul
     evaluation, else the bracket end the step passed (if it was never evaluated), else the bracket's
     midpoint. From the second evaluation on, the slope is the secant through the previous point where that
     falls (it corrects a slope that is off, e.g. one with the fluid properties held, and converges
-    superlinearly); the given slope serves the first step and wherever the secant does not fall. An element has converged when its Newton step is at most ``xatol`` (the root is then that
-    step away; with a slope within a factor of two of the true one the error after it is below the step)
-    or its evaluated bracket is narrower than ``2 xatol``.
+    superlinearly); the given slope serves the first step and wherever the secant does not fall. An element
+    has converged when its Newton step is at most ``xatol`` (the root is then that step away; with a slope
+    within a factor of two of the true one the error after it is below the step) or its evaluated bracket is
+    narrower than ``2 xatol``.
 
     Fails (``success`` False) where the value is not finite, where an end, once evaluated, shows the root
     lies beyond it, or after ``maxiter`` evaluations: a caller hands those to :func:`find_root`.
@@ -158,7 +159,6 @@ def newton_decreasing(f, lo, hi, x0, args=(), *, xatol, maxiter=60) -> RootResul
                 break
             value, slope = f(x, *active)
             value, slope = np.asarray(value, dtype=float), np.asarray(slope, dtype=float)
-            iterations[idx] = it
             above, below = value < 0, value > 0
             failed = ~np.isfinite(value) | (below & (x >= hi)) | (above & (x <= lo))
             lo, lo_known = np.where(below, x, lo), lo_known | below
@@ -175,18 +175,26 @@ def newton_decreasing(f, lo, hi, x0, args=(), *, xatol, maxiter=60) -> RootResul
             narrow = lo_known & hi_known & (hi - lo <= 2.0 * tol)
             root = value == 0
             done = ~failed & (root | close | narrow)
-            result = np.where(root, x, np.where(close, target, 0.5 * (lo + hi)))
-            out[idx[done]], success[idx[done]] = result[done], True
-            out[idx[failed]] = x[failed]
-            nxt = np.where(inside, target, 0.5 * (lo + hi))
-            nxt = np.where(newton & (target >= hi) & ~hi_known, hi, nxt)
-            nxt = np.where(newton & (target <= lo) & ~lo_known, lo, nxt)
-            keep = ~done & ~failed
+            middle = 0.5 * (lo + hi)
+            nxt = np.where(inside, target, middle)
+            passed = newton & ~inside  # a Newton step that left the bracket: to the end it passed, if not known
+            if passed.any():
+                nxt = np.where(passed & (target >= hi) & ~hi_known, hi, nxt)
+                nxt = np.where(passed & (target <= lo) & ~lo_known, lo, nxt)
             previous, x_previous = value, x
+            keep = ~(done | failed)
             if not keep.all():
+                leaving = idx[~keep]
+                iterations[leaving] = it
+                if done.any():
+                    result = np.where(root, x, np.where(close, target, middle))
+                    out[idx[done]], success[idx[done]] = result[done], True
+                if failed.any():
+                    out[idx[failed]] = x[failed]
                 idx, lo, hi, lo_known, hi_known, previous, x_previous, nxt = (
                     v[keep] for v in (idx, lo, hi, lo_known, hi_known, previous, x_previous, nxt))
                 active = tuple(a[keep] for a in active)
             x = nxt
+        iterations[idx] = maxiter
         out[idx] = x  # out of iterations: the last point, not converged
     return RootResult(x=out.reshape(shape), success=success.reshape(shape), iterations=iterations.reshape(shape))
