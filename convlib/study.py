@@ -19,7 +19,6 @@ from __future__ import annotations
 
 import json
 import math
-import warnings
 from typing import Callable, Literal
 
 import numpy as np
@@ -243,9 +242,13 @@ def _relative_spread(values: np.ndarray, ok: np.ndarray) -> tuple[list, list]:
     count = ok.sum(axis=0)
     high = np.where(ok, values, -np.inf).max(axis=0)
     low = np.where(ok, values, np.inf).min(axis=0)
-    with np.errstate(all="ignore"), warnings.catch_warnings():
-        warnings.simplefilter("ignore", RuntimeWarning)  # all-NaN columns: no applicable law there
-        median = np.nanmedian(np.where(ok, values, np.nan), axis=0)
+    # the median of the applicable values per column (NaN where none): the two middle ones of the sorted column
+    # (NaN sorts last), as numpy.nanmedian gives it, without its slow path for small arrays
+    ordered = np.sort(np.where(ok, values, np.nan), axis=0)
+    middle = [np.take_along_axis(ordered, np.maximum(index, 0)[None], axis=0)[0]
+              for index in ((count - 1) // 2, count // 2)]
+    with np.errstate(all="ignore"):
+        median = (middle[0] + middle[1]) / 2.0
         spread = (high - low) / np.abs(median)
     out = [float(x) if (c >= 2 and math.isfinite(x)) else None for x, c in zip(spread, count)]
     return out, count.astype(int).tolist()
