@@ -7,7 +7,7 @@ The public surface (names are stable; see DEVELOPERS.md):
 >>> round(float(r.q_per_length))
 245
 """
-__version__ = "0.2.0"  # the one place of the version: pyproject.toml reads it (tool.setuptools.dynamic)
+__version__ = "0.3.0"  # the one place of the version: pyproject.toml reads it (tool.setuptools.dynamic)
 
 import importlib  # noqa: E402
 import importlib.util  # noqa: E402
