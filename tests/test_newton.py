@@ -171,3 +171,16 @@ def test_a_linear_balance_is_solved_in_two_evaluations_to_rounding(monkeypatch):
     r = insulated_pipe(d, tm, [Layer(t, k)], air_temperature=ta, jacket_emissivity=0.0, convection_coefficient=h)
     np.testing.assert_allclose(r.q_per_length, (tm - ta) / resistance, rtol=1e-12)
     assert counted and np.all(counted[0] <= 2)
+
+
+@pytest.mark.parametrize("options", [dict(exact_properties=True), dict(pressure=np.array([60e3, 80e3, 101325.0])),
+                                     dict(fluid="Nitrogen"), dict(pressure=79500.0)])
+def test_lean_flux_off_the_shipped_table_is_still_the_exchange_flux(options):
+    # exact properties, several pressures (no single table: the general property path), another gas, another
+    # single pressure (a table built from CoolProp)
+    ts = np.array([250.0, 330.0, 480.0])
+    outer = OuterSurface.build("horizontal_cylinder", diameter=0.1, length=1.0, air_temperature=290.0,
+                               wind_speed=np.array([0.0, 1.5, 6.0]), emissivity=0.6, **options)
+    q, slope = FluxSlope(outer, outer.point_fields())(ts, outer.point_fields())
+    np.testing.assert_allclose(q, outer.exchange(ts, flux_only=True), rtol=1e-12)
+    assert np.all(slope > 0)
