@@ -210,8 +210,6 @@ def test_page_skips_front_end_extensions_it_does_not_use():
     assert json.loads(flag.split("=", 1)[1]) == ["jupyterlab-plotly", "jupyterlab_pygments"]
     # the widget bundle the plots load is still published (extra_labextensions_path, not an extension)
     assert any(c.startswith("--VoilaConfiguration.extra_labextensions_path=") for c in cmd)
-    template = (serve.TEMPLATE_ROOT / "voila" / "templates" / "convlib" / "index.html.j2").read_text()
-    assert f'rel="modulepreload" href="{{{{ resources.base_url }}}}{serve.BUNDLE_PATH}"' in template
 
 
 def test_first_figure_widget_does_not_compile_jsonschemas_iri_grammars():
