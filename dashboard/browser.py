@@ -56,11 +56,14 @@ class VoilaServer:
         Snapshot directory of the kernels (default: a fresh temporary directory).
     extra_args : sequence of str
         More options of ``python -m dashboard.serve`` (grace times, caps, culling).
+    notebook : path-like, optional
+        Another notebook to serve the same way (default: the dashboard).
     """
 
     def __init__(self, token: str | None = None, pool_size: int = 0, snapshot_dir=None, timeout: float = 120.0,
-                 log_path=None, extra_args=()):
+                 log_path=None, extra_args=(), notebook=None):
         self.token = token
+        self.notebook = notebook
         self.pool_size = pool_size
         self.port = free_port()
         self._tmp = None
@@ -92,6 +95,8 @@ class VoilaServer:
         else:
             cmd += ["--pool-size", str(self.pool_size)]
             env["VOILA_TOKEN"] = self.token
+        if self.notebook is not None:
+            cmd += ["--notebook", str(self.notebook)]
         cmd += self.extra_args  # later options win (e.g. --cull-idle-timeout)
         self._log = open(self.log_path, "wb")
         self.process = subprocess.Popen(cmd, stdout=self._log, stderr=subprocess.STDOUT, env=env,

@@ -19,7 +19,7 @@ from .display import Display, geometry_name, input_label, law_name, regime_text
 from .plotting import (BAND, GREY, STAR, TEMPLATE, VALIDATE, Plot, decade_ticks, empty_figure, hover_template,  # noqa: F401
                        law_traces, line_trace, method_name, one_two_five_ticks, split_by_validity, styled)
 
-__all__ = ["sweep_figure", "spread_figure", "regime_figure", "uncertainty_figure", "insulation_figure",
+__all__ = ["sweep_figure", "sweep_marker", "spread_figure", "regime_figure", "uncertainty_figure", "insulation_figure",
            "map_figure", "operation_profile_figure", "operation_sweep_figure", "split_by_validity", "empty_figure",
            "styled", "TEMPLATE", "VALIDATE", "vessel_figure"]
 
@@ -57,7 +57,7 @@ def sweep_figure(sweep, display: Display, current: float | None = None, log_x: b
         is_chosen = chosen is not None and m.method == chosen[0 if m.mode == "natural" else 1]
         law_traces(plot, x, q(m.values.q_per_length), m.in_range, method_name(m.mode, m.method, is_chosen),
                     settings.PALETTE[i % len(settings.PALETTE)], f"{m.mode}:{m.method}", hover=hover)
-    if current is not None:
+    if current is not None:  # first shape and first annotation: moved alone by sweep_marker
         plot.vline(float(display.value(current, name)), line=dict(color="#111111", width=1, dash="dot"),
                    text="this case")
     plot.hline(0.0, line=dict(color="#999999", width=1))
@@ -66,6 +66,17 @@ def sweep_figure(sweep, display: Display, current: float | None = None, log_x: b
     return plot.figure(f"Heat loss against {input_label(name).lower()}<br><sup>thin lines: total with each "
                        f"correlation (the other mode at its selected law); dotted: outside the law's validity range"
                        f"</sup>", legend=dict(font=dict(size=11), groupclick="togglegroup"))
+
+
+def sweep_marker(name: str, current: float, display: Display) -> dict:
+    """Where :func:`sweep_figure` marks the case (``current`` [SI] of input ``name``), as plotly relayout
+    properties: moving the marker alone is a redraw of one shape and one label in the browser, not of the plot.
+
+    >>> sweep_marker("wind_speed", 2.5, Display("SI"))
+    {'shapes[0].x0': 2.5, 'shapes[0].x1': 2.5, 'annotations[0].x': 2.5}
+    """
+    x = float(display.value(current, name))
+    return {"shapes[0].x0": x, "shapes[0].x1": x, "annotations[0].x": x}
 
 
 # ----------------------------------------------------------------------------- correlation spread

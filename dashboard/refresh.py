@@ -42,11 +42,17 @@ class Job:
     compute: Callable[[], Any]
     delay: float = 0.0               # seconds of quiet to wait for (debounce of the expensive parts)
     on_error: Callable | None = None  # ``on_error(exception)`` instead of the panel's "Could not compute" line
+    ready: bool = False              # ``compute`` only looks a result up: run at once on the loop, no worker
 
 
 def _sweep_jobs(store: Store, panel, cache) -> list[Job]:
     spec, axis = store.spec, store.axis()
-    return [] if axis is None else [Job("sweep", lambda: compute.sweep_only(spec, axis, cache))]
+    if axis is None:
+        return []
+    cached = cache.peek(spec, axis)  # the slider of the swept input itself: the sweep on screen still holds
+    if cached is not None:
+        return [Job("sweep", lambda: cached, ready=True)]
+    return [Job("sweep", lambda: compute.sweep_only(spec, axis, cache))]
 
 
 def _spread_jobs(store: Store, panel, cache) -> list[Job]:
@@ -263,7 +269,8 @@ class Refresher:
 
         if freeze and panel is not None:
             panel.freeze()
-        self.runner.submit(job.target or f"{view}_work", job.compute, apply, delay=job.delay, on_error=failed)
+        self.runner.submit(job.target or f"{view}_work", job.compute, apply, delay=job.delay, on_error=failed,
+                           at_once=job.ready)
         self._status()
 
     def run_monte_carlo(self, delay: float = 0.0) -> None:

@@ -56,7 +56,8 @@ class Runner:
         return bool(self._pending)
 
     def submit(self, key: str, compute: Callable[[], Any], apply: Callable[[Any], None], *,
-               delay: float = 0.0, on_error: Callable[[BaseException], None] | None = None) -> None:
+               delay: float = 0.0, on_error: Callable[[BaseException], None] | None = None,
+               at_once: bool = False) -> None:
         """Compute and apply a result for ``key``, superseding earlier jobs of that key.
 
         Parameters
@@ -71,12 +72,15 @@ class Runner:
             Seconds to wait for quiet before starting [s] (debounce).
         on_error : callable, optional
             ``on_error(exception)`` on the loop when ``compute`` raises.
+        at_once : bool
+            Compute and apply now in the caller's thread (for a look-up that costs less than a trip to the
+            worker); it still supersedes earlier jobs of ``key``.
         """
         token = object()
         with self._lock:
             self._latest[key] = token
             self._pending.add(key)
-        if self.synchronous:
+        if self.synchronous or at_once:
             self._finish(key, token, compute, apply, on_error)
             return
 

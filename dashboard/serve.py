@@ -24,6 +24,7 @@ Local mode (``--local``, used by ``make demo``): loopback only, no token, no poo
 from __future__ import annotations
 
 import argparse
+import json
 import os
 import secrets
 import sys
@@ -39,6 +40,10 @@ NOTEBOOK = Path(__file__).with_name("app.ipynb")
 #: Where voila publishes plotly's widget bundle (the directory of plotly's package data, served under
 #: /voila/labextensions/); the kernels learn the path from $CONVLIB_PLOTLY_BUNDLE.
 BUNDLE_PATH = "voila/labextensions/widgetbundle.js"
+#: Front-end extensions the page does not load: plotly's renderer of plot outputs (our plots are widgets, whose
+#: bundle is :data:`BUNDLE_PATH`; the renderer is another 4.8 MB of JavaScript) and code highlighting (sources
+#: are stripped).
+UNUSED_LABEXTENSIONS = ("jupyterlab-plotly", "jupyterlab_pygments")
 _SECRET_ENV = ("JUPYTER_TOKEN", "JUPYTER_TOKEN_FILE", "VOILA_TOKEN")
 _KM = "CappedKernelManager"
 
@@ -64,7 +69,8 @@ def build_command(*, host: str, port: int, pool_size: int, local: bool, max_kern
            f"--ConvlibVoila.max_kernels_per_client={max_kernels_per_client}",
            f"--ConvlibVoila.max_sockets_per_client={max_sockets_per_client}",
            f"--ConvlibVoila.max_connections_per_client={max_connections_per_client}",
-           f"--VoilaConfiguration.extra_labextensions_path={_plotly_package_data()}"]
+           f"--VoilaConfiguration.extra_labextensions_path={_plotly_package_data()}",
+           "--VoilaConfiguration.extension_denylist=" + json.dumps(list(UNUSED_LABEXTENSIONS), separators=(",", ":"))]
     if behind_proxy:
         cmd.append("--ConvlibVoila.behind_proxy=True")
     if pool_size > 0:
@@ -121,6 +127,8 @@ def _parser() -> argparse.ArgumentParser:
     p.add_argument("--snapshot-dir", default=None, help="where snapshots are saved (default "
                    "$CONVLIB_SNAPSHOT_DIR, else $CONVLIB_HOME/snapshots, else ~/.convlib/snapshots)")
     p.add_argument("--local", action="store_true", help="one engineer on this machine: loopback, no token, no pool")
+    p.add_argument("--notebook", default=str(NOTEBOOK), help="notebook to serve (default: the dashboard; the "
+                   "latency benchmark serves a minimal page the same way)")
     p.add_argument("--dry-run", action="store_true", help="print the command and exit")
     return p
 
@@ -144,7 +152,7 @@ def main(argv=None) -> int:
                         connect_grace=args.connect_grace, max_kernels_per_client=args.max_kernels_per_client,
                         max_sockets_per_client=args.max_sockets_per_client,
                         max_connections_per_client=args.max_connections_per_client,
-                        behind_proxy=args.behind_proxy)
+                        behind_proxy=args.behind_proxy, notebook=Path(args.notebook))
     shown_host = "localhost" if args.host in ("127.0.0.1", "0.0.0.0", "") else args.host
     url = f"http://{shown_host}:{args.port}/"
     for key in _SECRET_ENV:

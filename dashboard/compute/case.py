@@ -162,13 +162,21 @@ class SweepCache:
         self._items: collections.OrderedDict[str, SweepResult] = collections.OrderedDict()
         self._lock = threading.Lock()
 
-    def get(self, spec: StudySpec, axis: SweepAxis) -> SweepResult:
-        """The sweep of ``spec`` along ``axis`` (:func:`convlib.study.run_sweep`), from the cache when known."""
+    def peek(self, spec: StudySpec, axis: SweepAxis) -> SweepResult | None:
+        """The sweep of ``spec`` along ``axis`` when the cache holds it, else None (never computes)."""
         key = sweep_key(spec, axis)
         with self._lock:
             if key in self._items:
                 self._items.move_to_end(key)
                 return self._items[key]
+        return None
+
+    def get(self, spec: StudySpec, axis: SweepAxis) -> SweepResult:
+        """The sweep of ``spec`` along ``axis`` (:func:`convlib.study.run_sweep`), from the cache when known."""
+        cached = self.peek(spec, axis)
+        if cached is not None:
+            return cached
+        key = sweep_key(spec, axis)
         result = run_sweep(spec, axis)
         with self._lock:
             self._items[key] = result

@@ -105,13 +105,21 @@ def warm_up_pressure_default(case: CaseSpec) -> float:
     """Default steam pressure of the warm-up [Pa] absolute: saturated at the line's fluid temperature
     (:func:`convlib.steam.saturation_temperature` inverted on a grid), to 0.1 bar; the setting's pressure when
     the fluid is outside saturated steam at 1.1 to 40 bar."""
-    lo, hi = settings.OPERATION["warm_up_pressure_range"]
-    grid = np.geomspace(lo, hi, 400)
-    t_sat = np.asarray(saturation_temperature(grid), float)
+    grid, t_sat = _saturation_grid(*settings.OPERATION["warm_up_pressure_range"])
     if not t_sat[0] <= case.fluid_temperature <= t_sat[-1]:
         return float(settings.OPERATION["fluid_pressure"])
     pressure = float(np.exp(np.interp(case.fluid_temperature, t_sat, np.log(grid))))
     return round(pressure / 1e4) * 1e4
+
+
+@functools.lru_cache(maxsize=4)
+def _saturation_grid(lo: float, hi: float) -> tuple[np.ndarray, np.ndarray]:
+    """Pressures [Pa] from ``lo`` to ``hi`` and their saturation temperatures [K] (computed once: the
+    default follows the line on every change of the case)."""
+    grid = np.geomspace(lo, hi, 400)
+    t_sat = np.asarray(saturation_temperature(grid), float)
+    grid.flags.writeable = t_sat.flags.writeable = False
+    return grid, t_sat
 
 
 def pipe_wall_thickness(diameter: float, nps: float | None = None, schedule: str | None = None) -> float:

@@ -1,12 +1,8 @@
 """What every panel shares: units trait, freeze/unfreeze/reset, a message line, an in-place figure."""
 from __future__ import annotations
 
-import re
-
-import functools
 import html
-import json
-import os
+import re
 
 import ipywidgets as widgets
 import numpy as np
@@ -16,29 +12,12 @@ import traitlets
 from .. import settings
 from ..display import Display
 from ..figures import TEMPLATE
+from ..plotly_widget import figure_widget
 
 __all__ = ["Panel", "InputsPanel", "sync_figure", "message_html", "figure_widget", "BUNDLE_ENV", "card_html", "card_value_text"]
 
 BUNDLE_ENV = settings.BUNDLE_ENV
 
-_LOADER = """
-const config = document.getElementById("jupyter-config-data");
-const base = (config && JSON.parse(config.textContent).baseUrl) || "/";
-const bundle = await import(new URL(base.replace(/\\/*$/, "/") + %s, window.location.origin).href);
-export default bundle.default;
-"""
-
-
-@functools.lru_cache(maxsize=4)
-def _shared_bundle_class(path: str) -> type:
-    return type("SharedBundleFigureWidget", (go.FigureWidget,), {"_esm": _LOADER % json.dumps(path),
-                                                                  "__module__": __name__})
-
-
-def figure_widget(**kwargs) -> go.FigureWidget:
-    """A ``FigureWidget``; one that loads plotly's bundle from the server when :data:`BUNDLE_ENV` is set."""
-    path = os.environ.get(BUNDLE_ENV)
-    return (_shared_bundle_class(path) if path else go.FigureWidget)(**kwargs)
 
 _LEVEL_CLASS = {"info": "cl-msg-info", "warning": "cl-msg-warn", "caution": "cl-msg-caution",
                 "error": "cl-msg-error"}

@@ -5,7 +5,7 @@ import ipywidgets as widgets
 import traitlets
 from ..compute import SweepAxis, SweepResult
 from ..display import input_label
-from ..figures import sweep_figure
+from ..figures import sweep_figure, sweep_marker
 from .base import Panel
 from .controls import DESCRIPTION_STYLE
 
@@ -36,6 +36,7 @@ class SweepPanel(Panel):
     chosen = traitlets.Tuple((None, None))
 
     def __init__(self, **kwargs):
+        self._drawn: tuple | None = None  # (result, units, laws, log x, marked) of the figure on screen
         super().__init__(**kwargs)
         self.selector = widgets.Dropdown(description="Swept input", style=DESCRIPTION_STYLE,
                                          layout=widgets.Layout(width="420px"))
@@ -72,6 +73,13 @@ class SweepPanel(Panel):
             return
         sweep = self.result
         axis = next((a for a in self.axes if a.input == sweep.input), None)
-        fig = sweep_figure(sweep, self.display, current=self.current, log_x=bool(axis and axis.scale == "log"),
-                           chosen=self.chosen)
+        log_x = bool(axis and axis.scale == "log")
+        drawn = (self.units, self.chosen, log_x)
+        if (self.plot is not None and self.current is not None and self._drawn is not None
+                and self._drawn[0] is sweep and self._drawn[1:] == (*drawn, True)):
+            # the same sweep on screen (the cache returned it), only the case moved along it: move its marker
+            self.plot.plotly_relayout(sweep_marker(sweep.input, self.current, self.display))
+            return
+        fig = sweep_figure(sweep, self.display, current=self.current, log_x=log_x, chosen=self.chosen)
         self.show_figure(fig)
+        self._drawn = (sweep, *drawn, self.current is not None)

@@ -4,7 +4,10 @@ from __future__ import annotations
 import asyncio
 import doctest
 import importlib
+import json
 import os
+import subprocess
+import sys
 from pathlib import Path
 
 import plotly.graph_objects as go
@@ -198,3 +201,24 @@ def test_sync_figure_updates_traces_and_replaces_annotations():
     c = go.Figure([go.Bar(x=[1], y=[1], name="other")])
     sync_figure(widget, c)
     assert [t.type for t in widget.data] == ["bar"]
+
+
+def test_page_skips_front_end_extensions_it_does_not_use():
+    cmd = serve.build_command(host="127.0.0.1", port=1, pool_size=0, local=True, max_kernels=1,
+                              cull_idle_timeout=1, cull_interval=1)
+    (flag,) = [c for c in cmd if c.startswith("--VoilaConfiguration.extension_denylist=")]
+    assert json.loads(flag.split("=", 1)[1]) == ["jupyterlab-plotly", "jupyterlab_pygments"]
+    # the widget bundle the plots load is still published (extra_labextensions_path, not an extension)
+    assert any(c.startswith("--VoilaConfiguration.extra_labextensions_path=") for c in cmd)
+
+
+def test_first_figure_widget_does_not_compile_jsonschemas_iri_grammars():
+    # a fresh interpreter, as a new kernel: the widget class comes without rfc3987_syntax's grammars (lark),
+    # jsonschema still works, and the module stays importable for whoever asks for it
+    code = ("import sys\nfrom dashboard.plotly_widget import figure_widget\nw = figure_widget()\n"
+            "assert 'jsonschema' in sys.modules and 'lark' not in sys.modules, sorted(sys.modules)\n"
+            "import jsonschema\njsonschema.validate({'a': 1}, {'type': 'object'})\n"
+            "import rfc3987_syntax\nprint('ok')\n")
+    env = {**os.environ, "PYTHONPATH": str(Path(serve.__file__).resolve().parents[1])}
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, env=env, timeout=120)
+    assert out.returncode == 0 and out.stdout.strip() == "ok", out.stderr

@@ -118,3 +118,46 @@ def test_store_marks_views_stale_and_fresh(app):
     assert "regimes" in app.store.stale and "sweep" not in app.store.stale  # the visible view recomputed
     show(app, "regimes")
     assert "regimes" not in app.store.stale and not app.regimes.stale
+
+
+def test_moving_the_swept_input_moves_only_the_marker_and_plots_convlibs_numbers(app, monkeypatch):
+    # the wind slider with the wind sweep on screen: the cached sweep stays, only the case's marker moves
+    # (expected values: convlib.study.run_study called afresh on the new case, outside the dashboard's caches)
+    show(app, "sweep")
+    plot = app.sweep.plot
+    rebuilt = []
+    monkeypatch.setattr(app.sweep, "show_figure", lambda fig: rebuilt.append(fig))
+    sent = []
+    real_relayout = plot.plotly_relayout
+    monkeypatch.setattr(plot, "plotly_relayout", lambda data, **kw: (sent.append(dict(data)),
+                                                                     real_relayout(data, **kw)))
+    for wind in (4.0, 7.5):
+        app.line.controls["wind_speed"].widget.value = wind
+    assert rebuilt == [] and len(sent) == 2        # no figure rebuilt: two marker moves
+    assert set(sent[-1]) == {"shapes[0].x0", "shapes[0].x1", "annotations[0].x"}
+    axis = app.store.axis()
+    fresh = run_study(app.spec.model_copy(update={"sweeps": [axis], "maps": [], "tornado": [],
+                                                  "uncertainty": None}))
+    assert app.line.case.wind_speed == pytest.approx(7.5)
+    np.testing.assert_array_equal(trace(plot, "total (selected laws)").y, fresh.sweeps[0].default.q_per_length)
+    np.testing.assert_array_equal(trace(plot, "model-form band (stated accuracy)").y,
+                                  fresh.sweeps[0].band_high)
+    assert plot.layout.shapes[0].x0 == plot.layout.shapes[0].x1 == pytest.approx(7.5)
+    assert plot.layout.annotations[0].x == pytest.approx(7.5) and plot.layout.annotations[0].text == "this case"
+    # the cards follow the new case
+    assert app.summary.q_per_length == pytest.approx(float(fresh.base.q_per_length[0]), rel=1e-12)
+    # a change of another input redraws the whole figure (new sweep)
+    app.line.controls["air_temperature"].widget.value = 25.0
+    assert len(rebuilt) == 1
+
+
+def test_a_cached_sweep_is_applied_without_the_worker(app):
+    show(app, "sweep")
+    seen = []
+    real = app.runner.submit
+    app.runner.submit = lambda key, *a, **kw: (seen.append((key, kw.get("at_once"))), real(key, *a, **kw))
+    app.line.controls["wind_speed"].widget.value = 6.0     # the sweep of wind is in the cache
+    assert ("sweep", True) in seen
+    seen.clear()
+    app.line.controls["emissivity"].widget.value = 0.5    # a new sweep: computed in the worker
+    assert ("sweep", False) in seen
