@@ -32,7 +32,7 @@ ROWS = {
     "kernel_bare": ("bare_surface vs fused kernel, worst of 1e4-1e7 (throughput ratio)", "ratio", 1 / 3, True),
     "kernel_pipe": ("insulated_pipe vs fused kernel, worst of 1e2-1e7 (throughput ratio)", "ratio", 1 / 5, True),
     "single_point_pipe": ("single-point insulated_pipe call (best)", "ms", 0.5, False),
-    "memory_bare_1e7": ("peak memory, bare_surface at 1e7 incl. outputs", "MiB", 1536.0, False),
+    "memory_bare_1e7": ("peak memory, bare_surface at 1e7 incl. outputs (1.5 GB read as GiB)", "MiB", 1536.0, False),
 }
 
 
