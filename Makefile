@@ -57,7 +57,7 @@ bench: $(STAMP)
 	$(MAKE) bench-scale
 	$(PY) benchmarks/summary.py --record $(BENCH_RECORD)
 
-# the scale figure at 10^5 line-cases x 100 samples, 1 and 2 workers (about 45 minutes on 2 cores);
+# the scale figure at 10^5 line-cases x 100 samples, 1 and 2 workers (about 21 minutes on 2 cores);
 # `make bench SCALE_LINES=2000` (or `make bench-scale SCALE_LINES=2000`) for a run of a few minutes
 SCALE_LINES ?= 100000
 bench-scale: $(STAMP)
