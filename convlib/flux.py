@@ -37,16 +37,14 @@ RA_STEP = 1e-7
 
 
 class _Law:
-    """A registry record's function with its optional inputs settled: ``nusselt(**groups)``, non-finite -> 0,
-    the treatment of ``convlib.correlations.evaluate(..., check=False)``."""
+    """A registry record's :meth:`~convlib.correlations.registry.Correlation.nusselt`, non-finite -> 0: the
+    treatment of ``convlib.correlations.evaluate(..., check=False)``."""
 
     def __init__(self, record):
-        self.function, self.inputs = record.function, record.inputs
+        self.record = record
 
     def __call__(self, **groups):
-        args = {name: groups[name] for name in self.inputs if groups.get(name) is not None}
-        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-            nu = np.asarray(self.function(**args), dtype=float)
+        nu = self.record.nusselt(**groups)
         return np.where(np.isfinite(nu), nu, 0.0)
 
 

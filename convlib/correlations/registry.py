@@ -87,6 +87,13 @@ class Correlation:
         object.__setattr__(self, "extra_ranges", tuple(extra))
         object.__setattr__(self, "range_rounding", tuple(rounding))
 
+    def nusselt(self, **groups) -> np.ndarray:
+        """The law's Nusselt number from the groups it takes (others ignored, ``None`` for an optional one);
+        no checks, no flags (:func:`evaluate` adds them; solver loops call this directly)."""
+        args = {name: np.asarray(groups[name], dtype=float) for name in self.inputs if groups.get(name) is not None}
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            return np.asarray(self.function(**args), dtype=float)
+
     def tolerance(self, group: str) -> tuple[float, float]:
         """(below low, above high) tolerance of a group's range from the source's rounding; (0, 0) if exact."""
         return next(((lo, hi) for name, lo, hi in self.range_rounding if name == group), (0.0, 0.0))
@@ -314,9 +321,7 @@ def evaluate(geometry: str, method: str, *, check: bool = True, **groups) -> tup
     if missing:
         raise InputError(f"{geometry}/{method} needs {', '.join(missing)}; inputs are {', '.join(rec.inputs)}",
                          field=", ".join(missing), rule=f"given for {geometry}/{method}", value=None)
-    args = {name: np.asarray(groups[name], dtype=float) for name in rec.inputs if groups.get(name) is not None}
-    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        nu = np.asarray(rec.function(**args), dtype=float)
+    nu = rec.nusselt(**groups)
     shape = np.broadcast_shapes(nu.shape, *(np.shape(v) for v in groups.values() if v is not None))
     nu = np.broadcast_to(nu, shape)
     pr = groups.get("Pr")
